@@ -1,0 +1,52 @@
+// One vitest configuration with a project per kind of test. The api and e2e projects share one
+// PostgreSQL database, so their files run one at a time.
+import { fileURLToPath, URL } from 'node:url';
+import { defineConfig } from 'vitest/config';
+import vue from '@vitejs/plugin-vue';
+
+const alias = {
+  '@': fileURLToPath(new URL('./frontend/src', import.meta.url)),
+  '@domain': fileURLToPath(new URL('./backend/src/domain', import.meta.url)),
+  '@contracts': fileURLToPath(new URL('./backend/src/contracts', import.meta.url)),
+  '@backend': fileURLToPath(new URL('./backend/src', import.meta.url)),
+};
+
+export default defineConfig({
+  test: {
+    projects: [
+      {
+        resolve: { alias },
+        test: { name: 'unit', environment: 'node', include: ['tests/unit/**/*.test.ts'], exclude: ['tests/unit/frontend/**'] },
+      },
+      {
+        plugins: [vue()],
+        resolve: { alias },
+        test: { name: 'frontend', environment: 'happy-dom', include: ['tests/unit/frontend/**/*.test.ts'] },
+      },
+      {
+        resolve: { alias },
+        test: {
+          name: 'api',
+          environment: 'node',
+          include: ['tests/api/**/*.test.ts'],
+          fileParallelism: false,
+          globalSetup: ['tests/api/global-setup.ts'],
+          testTimeout: 20000,
+          hookTimeout: 60000,
+        },
+      },
+      {
+        resolve: { alias },
+        test: {
+          name: 'e2e',
+          environment: 'node',
+          include: ['tests/e2e/**/*.test.ts'],
+          fileParallelism: false,
+          globalSetup: ['tests/e2e/global-setup.ts'],
+          testTimeout: 60000,
+          hookTimeout: 120000,
+        },
+      },
+    ],
+  },
+});
