@@ -102,7 +102,7 @@ start() {
 
 ensure_database() {
   if [ "$(psql_admin -c "select 1 from pg_roles where rolname = '$db_user'")" != 1 ]; then
-    psql_admin -c "create role \"$db_user\" login password '$db_password'"
+    psql_admin -c "create role \"$db_user\" login createdb password '$db_password'"
   fi
   if [ "$(psql_admin -c "select 1 from pg_database where datname = '$db_name'")" != 1 ]; then
     psql_admin -c "create database \"$db_name\" owner \"$db_user\""
