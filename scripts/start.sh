@@ -1,0 +1,34 @@
+#!/usr/bin/env bash
+# npm start: from a fresh clone on a machine with Node.js to the running app at http://127.0.0.1:PORT.
+# Installs npm packages and PostgreSQL when missing, starts the durable private cluster (it keeps
+# running afterwards and is reused; `npm run db:stop` stops it), migrates, seeds the demo (idempotent),
+# builds the front end when its sources changed, then replaces itself with the server (Ctrl-C stops it).
+set -euo pipefail
+source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
+
+require_node
+step "Checking npm packages"
+ensure_node_modules
+
+# DATABASE_URL set by the caller means a database of their own: then no private cluster is started.
+if [ -z "${DATABASE_URL:-}" ]; then
+  step "Starting the database (private PostgreSQL cluster on 127.0.0.1:${CAGEWRIGHT_PG_PORT:-54320})"
+  scripts/pg.sh start
+  DATABASE_URL="$(scripts/pg.sh url)"
+  export DATABASE_URL
+else
+  step "Using the database in DATABASE_URL"
+fi
+
+step "Migrating the database"
+npx tsx --tsconfig tsconfig.json backend/src/db/migrate.ts
+
+step "Seeding the demo club (kept if already there)"
+npx tsx --tsconfig tsconfig.json backend/src/db/seed.ts
+
+step "Checking the front end"
+ensure_frontend_built
+
+export PORT="${PORT:-3000}"
+step "Serving Cagewright at http://127.0.0.1:$PORT (Ctrl-C stops it; the database keeps running)"
+exec node --import tsx backend/src/server.ts

@@ -1,0 +1,11 @@
+#!/usr/bin/env bash
+# Runs a command against the durable dev database: starts the private cluster when DATABASE_URL is not
+# set, exports DATABASE_URL, then replaces itself with the command. Used by the db:* npm scripts.
+set -euo pipefail
+source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
+if [ -z "${DATABASE_URL:-}" ]; then
+  scripts/pg.sh start
+  DATABASE_URL="$(scripts/pg.sh url)"
+  export DATABASE_URL
+fi
+exec npx "$@"
