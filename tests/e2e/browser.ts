@@ -1,0 +1,58 @@
+// Debian's Chromium driven by playwright-core, one fresh profile per browser, for the journeys in
+// tests/e2e. Screenshots land in .artifacts/screens/ so a person can look at what the tests saw.
+import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import { chromium, type BrowserContext, type Page } from 'playwright-core';
+
+const screensDir = fileURLToPath(new URL('../../.artifacts/screens', import.meta.url));
+
+// Without the networking flags Chromium keeps calling home, and this network is closed.
+const chromiumArgs = [
+  '--headless',
+  '--no-sandbox',
+  '--disable-gpu',
+  '--disable-quic',
+  '--no-first-run',
+  '--disable-background-networking',
+  '--disable-component-update',
+  '--disable-sync',
+];
+
+export interface BrowserSession {
+  context: BrowserContext;
+  page: Page;
+  /** Uncaught errors the page threw; a journey should end with none. */
+  pageErrors: Error[];
+  close(): Promise<void>;
+}
+
+export async function openBrowser(viewport = { width: 1280, height: 800 }): Promise<BrowserSession> {
+  const profileDir = mkdtempSync(join(tmpdir(), 'cagewright-e2e-'));
+  const context = await chromium.launchPersistentContext(profileDir, {
+    executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
+    args: chromiumArgs,
+    viewport,
+  });
+  const page = context.pages()[0] ?? (await context.newPage());
+  const pageErrors: Error[] = [];
+  page.on('pageerror', (err) => pageErrors.push(err));
+  return {
+    context,
+    page,
+    pageErrors,
+    async close() {
+      await context.close();
+      rmSync(profileDir, { recursive: true, force: true });
+    },
+  };
+}
+
+/** Saves a full-page PNG as .artifacts/screens/<name>.png and returns its path. */
+export async function screenshot(page: Page, name: string): Promise<string> {
+  mkdirSync(screensDir, { recursive: true });
+  const path = join(screensDir, `${name}.png`);
+  await page.screenshot({ path, fullPage: true });
+  return path;
+}

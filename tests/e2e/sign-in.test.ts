@@ -1,0 +1,57 @@
+// Journeys through signing in and out: each demo role sees the menu its roles allow, a wrong password
+// is refused with the API's message, and signing out lands on the sign-in page.
+import { afterEach, beforeEach, describe, expect, inject, test } from 'vitest';
+import { openBrowser, screenshot, type BrowserSession } from './browser';
+import { demoUsers, mainNavLabels, signIn, type DemoRole } from './demo';
+
+const baseUrl = inject('e2eBaseUrl');
+let browser: BrowserSession;
+
+beforeEach(async () => {
+  browser = await openBrowser();
+});
+afterEach(async () => {
+  await browser.close();
+});
+
+describe('signing in as each demo role', () => {
+  test.each<[DemoRole, string[]]>([
+    ['builder', ['Overview', 'Account']],
+    ['steward', ['Overview', 'Account']],
+    ['admin', ['Overview', 'Members', 'Account']],
+  ])('%s sees exactly the menu entries %j', async (role, expected) => {
+    const { page } = browser;
+    await signIn(page, baseUrl, demoUsers[role]);
+    expect(new URL(page.url()).pathname).toBe('/');
+    expect(await mainNavLabels(page)).toEqual(expected);
+    await screenshot(page, `overview-${role}`);
+    expect(browser.pageErrors.map((e) => e.message)).toEqual([]);
+  });
+});
+
+test('a wrong password is refused with a clear message and the user stays on the sign-in page', async () => {
+  const { page } = browser;
+  await page.goto(`${baseUrl}/sign-in`);
+  await page.getByLabel('E-mail').fill(demoUsers.builder);
+  await page.getByLabel('Password').fill('not-the-password');
+  await page.getByRole('button', { name: 'Sign in' }).click();
+  const alert = page.getByRole('alert');
+  await alert.waitFor();
+  expect(await alert.innerText()).toContain('E-mail or password is wrong.');
+  expect(new URL(page.url()).pathname).toBe('/sign-in');
+  expect(await page.getByRole('navigation', { name: 'Main' }).count()).toBe(0);
+  await screenshot(page, 'sign-in-wrong-password');
+});
+
+test('signing out lands on the sign-in page, and the app is closed until signing in again', async () => {
+  const { page } = browser;
+  await signIn(page, baseUrl, demoUsers.steward);
+  await page.getByRole('button', { name: 'Sign out' }).click();
+  await page.waitForURL((url) => url.pathname === '/sign-in');
+  await page.getByRole('button', { name: 'Sign in' }).waitFor();
+  await screenshot(page, 'signed-out');
+  // The session is gone on the server too: a signed-in page sends the user back to sign in.
+  await page.goto(`${baseUrl}/account`);
+  await page.waitForURL((url) => url.pathname === '/sign-in');
+  expect(browser.pageErrors.map((e) => e.message)).toEqual([]);
+});
