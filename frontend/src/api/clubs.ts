@@ -1,0 +1,47 @@
+// Club membership administration (club admins) and invitations (the invited person, signed out).
+import { http } from './http';
+import type { ClubMember, Role, SessionPayload } from './types';
+
+const membersPath = (clubId: string) => `/clubs/${encodeURIComponent(clubId)}/members`;
+
+export async function listMembers(clubId: string): Promise<ClubMember[]> {
+  const { members } = await http.get<{ members: ClubMember[] }>(membersPath(clubId));
+  return members;
+}
+
+export interface AddMemberResult {
+  member: ClubMember;
+  /** Present when the e-mail had no account: the admin passes this link on. */
+  invitationUrl?: string;
+}
+
+export function addMember(clubId: string, email: string, roles: Role[]): Promise<AddMemberResult> {
+  return http.post<AddMemberResult>(membersPath(clubId), { email, roles });
+}
+
+export async function updateMemberRoles(clubId: string, userId: string, roles: Role[]): Promise<ClubMember> {
+  const { member } = await http.patch<{ member: ClubMember }>(`${membersPath(clubId)}/${encodeURIComponent(userId)}`, { roles });
+  return member;
+}
+
+export function removeMember(clubId: string, userId: string): Promise<void> {
+  return http.delete(`${membersPath(clubId)}/${encodeURIComponent(userId)}`);
+}
+
+export interface InvitationSummary {
+  email: string;
+  clubName: string;
+}
+
+const invitationPath = (token: string) => `/invitations/${encodeURIComponent(token)}`;
+
+export function fetchInvitation(token: string): Promise<InvitationSummary> {
+  return http.get<InvitationSummary>(invitationPath(token), { allowUnauthenticated: true });
+}
+
+export async function acceptInvitation(token: string, password: string, displayName?: string): Promise<SessionPayload> {
+  const body = displayName ? { password, displayName } : { password };
+  const session = await http.post<SessionPayload>(`${invitationPath(token)}/accept`, body, { allowUnauthenticated: true });
+  http.resetCsrfToken();
+  return session;
+}

@@ -1,0 +1,39 @@
+// The main menu as data. Each entry names its route and, when it belongs to a club, the roles it needs in
+// the current club. Adding a page to the menu is one line here.
+import type { RouteLocationRaw } from 'vue-router';
+import type { Role } from '@/api/types';
+import type { RouteName } from '@/router/routes';
+
+export interface NavEntry {
+  label: string;
+  /** A PrimeIcons class. */
+  icon: string;
+  route: RouteName;
+  /** Shown only to holders of one of these roles in the current club; the route gets `clubId`. */
+  roles?: readonly Role[];
+}
+
+export const navEntries: readonly NavEntry[] = [
+  { label: 'Overview', icon: 'pi pi-gauge', route: 'home' },
+  { label: 'Members', icon: 'pi pi-users', route: 'club-members', roles: ['admin'] },
+  { label: 'Account', icon: 'pi pi-user', route: 'account' },
+];
+
+export interface NavLink {
+  label: string;
+  icon: string;
+  to: RouteLocationRaw;
+}
+
+/** The entries the current club's roles allow, with their links resolved for that club. */
+export function visibleNavLinks(
+  entries: readonly NavEntry[],
+  clubId: string | null,
+  roles: readonly Role[],
+): NavLink[] {
+  return entries.flatMap((entry) => {
+    if (!entry.roles) return [{ label: entry.label, icon: entry.icon, to: { name: entry.route } }];
+    if (clubId === null || !entry.roles.some((role) => roles.includes(role))) return [];
+    return [{ label: entry.label, icon: entry.icon, to: { name: entry.route, params: { clubId } } }];
+  });
+}

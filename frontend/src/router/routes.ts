@@ -1,0 +1,55 @@
+// The route table. Views load lazily so the first page stays small; the signed-in shell is the parent
+// route, and sign-in, invitation and not-found pages sit outside it.
+import type { RouteRecordRaw } from 'vue-router';
+import type { Role } from '@/api/types';
+
+/** Every route name; links and redirects use these, never raw paths. */
+export type RouteName = 'sign-in' | 'invitation' | 'home' | 'account' | 'club-members' | 'not-found';
+
+declare module 'vue-router' {
+  interface RouteMeta {
+    /** Reachable without signing in. */
+    public?: boolean;
+    /** Needs one of these roles in the club of `params.clubId` (or the current club when absent). */
+    roles?: readonly Role[];
+    /** Page title, shown in the browser tab. */
+    title?: string;
+  }
+}
+
+type NamedRoute = RouteRecordRaw & { name?: RouteName; children?: NamedRoute[] };
+
+export const routes: NamedRoute[] = [
+  {
+    path: '/sign-in',
+    name: 'sign-in',
+    component: () => import('@/views/SignInView.vue'),
+    meta: { public: true, title: 'Sign in' },
+  },
+  {
+    path: '/invitations/:token',
+    name: 'invitation',
+    component: () => import('@/views/InvitationView.vue'),
+    meta: { public: true, title: 'Invitation' },
+  },
+  {
+    path: '/',
+    component: () => import('@/layout/AppLayout.vue'),
+    children: [
+      { path: '', name: 'home', component: () => import('@/views/HomeView.vue'), meta: { title: 'Overview' } },
+      { path: 'account', name: 'account', component: () => import('@/views/AccountView.vue'), meta: { title: 'Account' } },
+      {
+        path: 'clubs/:clubId/members',
+        name: 'club-members',
+        component: () => import('@/views/ClubMembersView.vue'),
+        meta: { roles: ['admin'], title: 'Members' },
+      },
+    ],
+  },
+  {
+    path: '/:pathMatch(.*)*',
+    name: 'not-found',
+    component: () => import('@/views/NotFoundView.vue'),
+    meta: { public: true, title: 'Not found' },
+  },
+];

@@ -1,0 +1,74 @@
+// Cagewright's own PrimeVue preset: cool steel blue-grey surfaces with a signal-amber primary, squarer
+// corners than the base preset, and darker text tones so amber never carries body text on white.
+import { definePreset } from '@primeuix/themes';
+import Aura from '@primeuix/themes/aura';
+
+/** Signal amber: reads as "caution" on the garage floor; 500 is the fill, 700+ carry text. */
+const signalAmber = {
+  50: '#fff7ec',
+  100: '#ffecd0',
+  200: '#ffd59e',
+  300: '#ffb962',
+  400: '#fb9f33',
+  500: '#f5921e',
+  600: '#d9730b',
+  700: '#a9550b',
+  800: '#864310',
+  900: '#6c3811',
+  950: '#3b1a05',
+};
+
+/** Steel: a blue-grey with a little more blue than slate, like painted tube under shop lights. */
+const steel = {
+  0: '#ffffff',
+  50: '#f3f5f8',
+  100: '#e5e9ef',
+  200: '#cdd4de',
+  300: '#aab5c4',
+  400: '#8191a5',
+  500: '#63738a',
+  600: '#4e5c71',
+  700: '#3f4a5c',
+  800: '#313a48',
+  900: '#242b36',
+  950: '#161b22',
+};
+
+export const CagewrightPreset = definePreset(Aura, {
+  primitive: {
+    borderRadius: { none: '0', xs: '2px', sm: '3px', md: '4px', lg: '6px', xl: '8px' },
+  },
+  semantic: {
+    primary: signalAmber,
+    focusRing: { width: '2px', style: 'solid', color: '{primary.600}', offset: '2px' },
+    colorScheme: {
+      light: {
+        surface: steel,
+        primary: {
+          color: '{primary.500}',
+          contrastColor: '{surface.950}',
+          hoverColor: '{primary.400}',
+          activeColor: '{primary.600}',
+        },
+        highlight: {
+          background: '{primary.100}',
+          focusBackground: '{primary.200}',
+          color: '{primary.900}',
+          focusColor: '{primary.950}',
+        },
+        text: { color: '{surface.800}', hoverColor: '{surface.900}', mutedColor: '{surface.500}' },
+        formField: { color: '{surface.800}', borderColor: '{surface.300}' },
+      },
+    },
+  },
+  components: {
+    button: {
+      colorScheme: {
+        light: {
+          text: { primary: { color: '{primary.700}' } },
+          outlined: { primary: { color: '{primary.700}', borderColor: '{primary.400}' } },
+        },
+      },
+    },
+  },
+});
