@@ -1,0 +1,136 @@
+// createApp builds the Express application and never listens (server.ts does), so tests can drive
+// it with supertest. Order matters: security headers, health (no session, so it answers even when
+// the session store cannot), JSON body, session + passport, CSRF, the route tables, the JSON 404
+// for /api, the front-end build with its SPA fallback, and finally the one error handler.
+import { existsSync } from 'node:fs';
+import { join, resolve } from 'node:path';
+import express, { type Express } from 'express';
+import helmet from 'helmet';
+import type { DataSource } from 'typeorm';
+import { projectRoot, type Config } from './config';
+import { createLogger, type Logger } from './logger';
+import { requireCsrfToken } from './middleware/csrf';
+import { apiNotFound, createErrorHandler } from './middleware/error-handler';
+import { createFailureLimiter, createLoginLimiters, defaultLoginLimits, type LoginLimits } from './middleware/rate-limit';
+import { createPassport, createSessionMiddleware, type SessionSetup } from './middleware/session';
+import { createAccountRouter } from './routes/account.routes';
+import { createAuthRouter } from './routes/auth.routes';
+import { createHealthRouter } from './routes/health.routes';
+import { createInvitationsRouter } from './routes/invitations.routes';
+import { createMembersRouter } from './routes/members.routes';
+import { createServices, type Services } from './services';
+
+export interface CreateAppOptions {
+  /** An initialized DataSource (the session store shares its pool). */
+  dataSource: DataSource;
+  config: Config;
+  logger?: Logger;
+  /** Replace the services (tests); built from the DataSource by default. */
+  services?: Services;
+  loginLimits?: LoginLimits;
+  /** Prune expired sessions on a timer (default: on, except when NODE_ENV=test). */
+  pruneSessions?: boolean;
+  /** Folder of the production front-end build; null turns static serving off. */
+  frontendDist?: string | null;
+}
+
+export const jsonBodyLimit = '100kb';
+
+function securityHeaders(config: Config) {
+  const overTls = config.publicUrl.startsWith('https://');
+  return helmet({
+    contentSecurityPolicy: {
+      useDefaults: false,
+      directives: {
+        defaultSrc: ["'self'"],
+        scriptSrc: ["'self'"],
+        // PrimeVue sets inline styles at run time.
+        styleSrc: ["'self'", "'unsafe-inline'"],
+        fontSrc: ["'self'", 'data:'],
+        imgSrc: ["'self'", 'data:', 'blob:'],
+        connectSrc: ["'self'"],
+        workerSrc: ["'self'", 'blob:'],
+        objectSrc: ["'none'"],
+        baseUri: ["'self'"],
+        formAction: ["'self'"],
+        frameAncestors: ["'none'"],
+        ...(overTls ? { upgradeInsecureRequests: [] } : {}),
+      },
+    },
+    strictTransportSecurity: overTls ? { maxAge: 180 * 24 * 3600 } : false,
+  });
+}
+
+function serveFrontend(app: Express, dist: string): void {
+  const indexHtml = join(dist, 'index.html');
+  app.use(
+    express.static(dist, {
+      index: false,
+      setHeaders: (res, path) => {
+        // Vite fingerprints files under assets/, so they never change under the same name.
+        if (path.includes(`${join(dist, 'assets')}`)) res.setHeader('Cache-Control', 'public, max-age=31536000, immutable');
+      },
+    }),
+  );
+  app.get('/{*splat}', (req, res, next) => {
+    if (req.path === '/api' || req.path.startsWith('/api/')) return next();
+    res.setHeader('Cache-Control', 'no-cache');
+    res.sendFile(indexHtml, (err) => err && next(err));
+  });
+}
+
+export function createApp(options: CreateAppOptions): Express {
+  const { dataSource, config } = options;
+  const logger = options.logger ?? createLogger(config.logLevel);
+  const services = options.services ?? createServices(dataSource, { publicUrl: config.publicUrl });
+  const limits = options.loginLimits ?? defaultLoginLimits;
+
+  const app = express();
+  app.locals.services = services;
+  app.set('trust proxy', config.trustProxy);
+  app.disable('x-powered-by');
+  app.use(securityHeaders(config));
+
+  app.use('/api', createHealthRouter(dataSource));
+
+  const sessionSetup: SessionSetup = createSessionMiddleware({
+    dataSource,
+    secret: config.sessionSecret,
+    logger,
+    pruneSessions: options.pruneSessions ?? config.nodeEnv !== 'test',
+  });
+  app.locals.sessionStore = sessionSetup.store;
+  const passport = createPassport(services);
+  const { perIp, perEmail } = createLoginLimiters(limits);
+
+  const api = express.Router();
+  api.use(express.json({ limit: jsonBodyLimit }));
+  api.use(sessionSetup.middleware);
+  api.use(passport.session());
+  api.use(requireCsrfToken);
+  api.use(
+    createAuthRouter({
+      services,
+      passport,
+      loginLimiters: [perIp, perEmail],
+      passwordLimiter: createFailureLimiter(limits.windowMs, limits.perEmail),
+    }),
+  );
+  api.use(createAccountRouter({ services }));
+  api.use(createInvitationsRouter({ services }));
+  api.use(createMembersRouter({ services }));
+  api.use(apiNotFound);
+  app.use('/api', api);
+
+  const dist = options.frontendDist === undefined ? resolve(projectRoot, 'frontend/dist') : options.frontendDist;
+  if (dist && existsSync(join(dist, 'index.html'))) serveFrontend(app, dist);
+
+  app.use(createErrorHandler(logger));
+  return app;
+}
+
+/** Stops what createApp started (the session store's prune timer). The DataSource stays open. */
+export async function closeApp(app: Express): Promise<void> {
+  const store = app.locals.sessionStore as SessionSetup['store'] | undefined;
+  await store?.close();
+}

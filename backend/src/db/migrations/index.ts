@@ -1,0 +1,4 @@
+// Every migration in order, listed explicitly (no globs: tsx, tsc and vitest must all see the same set).
+import { Accounts1796083200000 } from './1796083200000-accounts';
+
+export const migrations = [Accounts1796083200000];

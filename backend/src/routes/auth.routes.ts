@@ -1,0 +1,75 @@
+// Sign-in, sign-out, the CSRF token, who am I, and password change (docs/api.md, "Authentication").
+import { Router, type RequestHandler } from 'express';
+import type { PassportStatic } from 'passport';
+import { changePasswordBodySchema, loginBodySchema } from '../contracts/auth';
+import { InvalidCredentialsError } from '../errors';
+import { csrfTokenFor } from '../middleware/csrf';
+import { publicRoute, requireSignedIn, signedInUserId } from '../middleware/guards';
+import { sessionCookieName } from '../middleware/session';
+import type { Services } from '../services';
+import { authenticateLocal, destroySession, logIn } from './promisified';
+import { mountRoutes, route } from './route-table';
+
+export function createAuthRouter(deps: {
+  services: Services;
+  passport: PassportStatic;
+  loginLimiters: RequestHandler[];
+  passwordLimiter: RequestHandler;
+}): Router {
+  const { accounts } = deps.services;
+  return mountRoutes(Router(), [
+    route({
+      method: 'get',
+      path: '/auth/csrf',
+      guards: [publicRoute],
+      handler: ({ req, res }) => {
+        res.set('Cache-Control', 'no-store');
+        res.json({ token: csrfTokenFor(req.session) });
+      },
+    }),
+    route({
+      method: 'post',
+      path: '/auth/login',
+      guards: [publicRoute],
+      before: deps.loginLimiters,
+      body: loginBodySchema,
+      handler: async ({ req, res, body }) => {
+        req.body = body; // the strategy reads the normalised e-mail
+        const user = await authenticateLocal(deps.passport, req, res);
+        if (!user) throw new InvalidCredentialsError();
+        await logIn(req, user);
+        res.json(await accounts.sessionView(user.id));
+      },
+    }),
+    route({
+      method: 'post',
+      path: '/auth/logout',
+      guards: [publicRoute],
+      handler: async ({ req, res }) => {
+        await destroySession(req);
+        res.clearCookie(sessionCookieName, { path: '/', httpOnly: true, sameSite: 'lax' });
+        res.status(204).end();
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/auth/me',
+      guards: [requireSignedIn],
+      handler: async ({ req, res }) => {
+        res.set('Cache-Control', 'no-store');
+        res.json(await accounts.sessionView(signedInUserId(req)));
+      },
+    }),
+    route({
+      method: 'post',
+      path: '/auth/password',
+      guards: [requireSignedIn],
+      before: [deps.passwordLimiter],
+      body: changePasswordBodySchema,
+      handler: async ({ req, res, body }) => {
+        await accounts.changePassword(signedInUserId(req), body.currentPassword, body.newPassword, req.sessionID);
+        res.status(204).end();
+      },
+    }),
+  ]);
+}

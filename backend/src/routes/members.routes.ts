@@ -1,0 +1,53 @@
+// A club's members, for that club's admins (docs/api.md, "Clubs and members").
+import { Router } from 'express';
+import { addMemberBodySchema, clubParamsSchema, memberParamsSchema, updateMemberBodySchema } from '../contracts/clubs';
+import { requireClubRole, signedInUserId } from '../middleware/guards';
+import type { Services } from '../services';
+import { mountRoutes, route } from './route-table';
+
+const adminOnly = requireClubRole(['admin']);
+
+export function createMembersRouter({ services }: { services: Services }): Router {
+  const { members } = services;
+  return mountRoutes(Router(), [
+    route({
+      method: 'get',
+      path: '/clubs/:clubId/members',
+      guards: [adminOnly],
+      params: clubParamsSchema,
+      handler: async ({ res, params }) => {
+        res.json({ members: await members.list(params.clubId) });
+      },
+    }),
+    route({
+      method: 'post',
+      path: '/clubs/:clubId/members',
+      guards: [adminOnly],
+      params: clubParamsSchema,
+      body: addMemberBodySchema,
+      handler: async ({ req, res, params, body }) => {
+        res.status(201).json(await members.add(params.clubId, signedInUserId(req), body));
+      },
+    }),
+    route({
+      method: 'patch',
+      path: '/clubs/:clubId/members/:userId',
+      guards: [adminOnly],
+      params: memberParamsSchema,
+      body: updateMemberBodySchema,
+      handler: async ({ res, params, body }) => {
+        res.json({ member: await members.updateRoles(params.clubId, params.userId, body.roles) });
+      },
+    }),
+    route({
+      method: 'delete',
+      path: '/clubs/:clubId/members/:userId',
+      guards: [adminOnly],
+      params: memberParamsSchema,
+      handler: async ({ res, params }) => {
+        await members.remove(params.clubId, params.userId);
+        res.status(204).end();
+      },
+    }),
+  ]);
+}

@@ -1,0 +1,82 @@
+// The process entry point:   node --import tsx backend/src/server.ts
+// Parses configuration, waits for PostgreSQL, runs pending migrations, then listens. SIGTERM and
+// SIGINT stop taking connections, let requests in flight finish, and close the database cleanly.
+import { createServer } from 'node:http';
+import type { DataSource } from 'typeorm';
+import { closeApp, createApp } from './app';
+import { ConfigError, loadConfig, type Config } from './config';
+import { createDataSource } from './db/data-source';
+import { migrate } from './db/migrate';
+import { createLogger, errorFields, type Logger } from './logger';
+
+function readConfig(): Config {
+  try {
+    return loadConfig();
+  } catch (err) {
+    if (err instanceof ConfigError) {
+      console.error(err.message);
+      process.exit(1);
+    }
+    throw err;
+  }
+}
+
+/** PostgreSQL may still be starting (a supervisor starting both at once): retry for about 30 s. */
+async function connect(ds: DataSource, logger: Logger, attempts = 30): Promise<void> {
+  for (let i = 1; ; i++) {
+    try {
+      await ds.initialize();
+      return;
+    } catch (err) {
+      if (i >= attempts) throw err;
+      logger.warn('database not reachable yet, retrying', { attempt: i, ...errorFields(err), stack: undefined });
+      await new Promise((r) => setTimeout(r, 1000));
+    }
+  }
+}
+
+const config = readConfig();
+const logger = createLogger(config.logLevel);
+process.on('unhandledRejection', (err) => logger.error('unhandled rejection', errorFields(err)));
+
+const dataSource = createDataSource({ databaseUrl: config.databaseUrl, logger });
+try {
+  await connect(dataSource, logger);
+  const ran = await migrate(dataSource);
+  logger.info(ran.length ? 'migrations ran' : 'schema up to date', { migrations: ran });
+} catch (err) {
+  logger.error('cannot start: database unavailable or migration failed', errorFields(err));
+  process.exit(1);
+}
+
+const app = createApp({ dataSource, config, logger });
+const server = createServer(app);
+server.keepAliveTimeout = 5000;
+server.on('error', (err) => {
+  logger.error('cannot listen', { host: config.host, port: config.port, ...errorFields(err) });
+  process.exit(1);
+});
+server.listen(config.port, config.host, () => {
+  logger.info('listening', { url: `http://${config.host}:${config.port}`, publicUrl: config.publicUrl, env: config.nodeEnv });
+});
+
+let stopping = false;
+async function shutdown(signal: string): Promise<void> {
+  if (stopping) {
+    logger.warn('second signal, exiting now', { signal });
+    process.exit(1);
+  }
+  stopping = true;
+  logger.info('shutting down', { signal });
+  // Idle keep-alive sockets would hold close() open; requests in flight get 10 s to finish.
+  server.closeIdleConnections();
+  const force = setTimeout(() => server.closeAllConnections(), 10_000);
+  force.unref();
+  await new Promise<void>((resolve) => server.close(() => resolve()));
+  await closeApp(app);
+  await dataSource.destroy();
+  logger.info('stopped');
+  process.exit(0);
+}
+process.on('SIGTERM', () => void shutdown('SIGTERM'));
+process.on('SIGINT', () => void shutdown('SIGINT'));
