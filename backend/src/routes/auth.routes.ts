@@ -7,7 +7,7 @@ import { csrfTokenFor } from '../middleware/csrf';
 import { publicRoute, requireSignedIn, signedInUserId } from '../middleware/guards';
 import { sessionCookieName } from '../middleware/session';
 import type { Services } from '../services';
-import { authenticateLocal, destroySession, logIn } from './promisified';
+import { authenticateLocal, destroySession, logIn, saveSession } from './promisified';
 import { mountRoutes, route } from './route-table';
 
 export function createAuthRouter(deps: {
@@ -22,9 +22,12 @@ export function createAuthRouter(deps: {
       method: 'get',
       path: '/auth/csrf',
       guards: [publicRoute],
-      handler: ({ req, res }) => {
+      handler: async ({ req, res }) => {
+        const token = csrfTokenFor(req.session);
+        // Anonymous sessions are only stored once they hold a token (saveUninitialized is off).
+        await saveSession(req);
         res.set('Cache-Control', 'no-store');
-        res.json({ token: csrfTokenFor(req.session) });
+        res.json({ token });
       },
     }),
     route({

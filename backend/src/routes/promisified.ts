@@ -23,3 +23,8 @@ export function destroySession(req: Request): Promise<void> {
     req.session.destroy((err: unknown) => (err ? reject(err) : resolve()));
   });
 }
+
+/** Saves the session now, so a store failure becomes this request's error, not a lost write. */
+export function saveSession(req: Request): Promise<void> {
+  return new Promise((resolve, reject) => req.session.save((err: unknown) => (err ? reject(err) : resolve())));
+}
