@@ -5,7 +5,11 @@ import { http } from './http';
 import type { SessionPayload } from './types';
 
 export async function signIn(email: string, password: string): Promise<SessionPayload> {
-  const session = await http.post<SessionPayload>('/auth/login', { email, password }, { allowUnauthenticated: true });
+  const session = await http.post<SessionPayload>(
+    '/auth/login',
+    { email, password },
+    { allowUnauthenticated: true },
+  );
   http.resetCsrfToken();
   return session;
 }

@@ -1,6 +1,6 @@
 // Club membership administration (club admins) and invitations (the invited person, signed out).
 import { http } from './http';
-import type { ClubMember, Role, SessionPayload } from './types';
+import type { AddMemberResult, ClubMember, InvitationSummary, Role, SessionPayload } from './types';
 
 const membersPath = (clubId: string) => `/clubs/${encodeURIComponent(clubId)}/members`;
 
@@ -9,28 +9,20 @@ export async function listMembers(clubId: string): Promise<ClubMember[]> {
   return members;
 }
 
-export interface AddMemberResult {
-  member: ClubMember;
-  /** Present when the e-mail had no account: the admin passes this link on. */
-  invitationUrl?: string;
-}
-
 export function addMember(clubId: string, email: string, roles: Role[]): Promise<AddMemberResult> {
   return http.post<AddMemberResult>(membersPath(clubId), { email, roles });
 }
 
 export async function updateMemberRoles(clubId: string, userId: string, roles: Role[]): Promise<ClubMember> {
-  const { member } = await http.patch<{ member: ClubMember }>(`${membersPath(clubId)}/${encodeURIComponent(userId)}`, { roles });
+  const { member } = await http.patch<{ member: ClubMember }>(
+    `${membersPath(clubId)}/${encodeURIComponent(userId)}`,
+    { roles },
+  );
   return member;
 }
 
 export function removeMember(clubId: string, userId: string): Promise<void> {
   return http.delete(`${membersPath(clubId)}/${encodeURIComponent(userId)}`);
-}
-
-export interface InvitationSummary {
-  email: string;
-  clubName: string;
 }
 
 const invitationPath = (token: string) => `/invitations/${encodeURIComponent(token)}`;
@@ -39,9 +31,15 @@ export function fetchInvitation(token: string): Promise<InvitationSummary> {
   return http.get<InvitationSummary>(invitationPath(token), { allowUnauthenticated: true });
 }
 
-export async function acceptInvitation(token: string, password: string, displayName?: string): Promise<SessionPayload> {
+export async function acceptInvitation(
+  token: string,
+  password: string,
+  displayName?: string,
+): Promise<SessionPayload> {
   const body = displayName ? { password, displayName } : { password };
-  const session = await http.post<SessionPayload>(`${invitationPath(token)}/accept`, body, { allowUnauthenticated: true });
+  const session = await http.post<SessionPayload>(`${invitationPath(token)}/accept`, body, {
+    allowUnauthenticated: true,
+  });
   http.resetCsrfToken();
   return session;
 }

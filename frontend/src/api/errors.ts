@@ -72,7 +72,8 @@ const fallbackMessages: Record<number, string> = {
 
 /** Turns any non-2xx response body into an ApiError, tolerating bodies that are not our shape. */
 export function apiErrorFromBody(status: number, body: unknown): ApiError {
-  const envelope = typeof body === 'object' && body !== null ? (body as { error?: unknown }).error : undefined;
+  const envelope =
+    typeof body === 'object' && body !== null ? (body as { error?: unknown }).error : undefined;
   if (typeof envelope === 'object' && envelope !== null) {
     const { code, message, details } = envelope as Record<string, unknown>;
     if (typeof code === 'string') {

@@ -51,12 +51,18 @@ export function createHttpClient(options: HttpClientOptions = {}) {
     try {
       return JSON.parse(text) as unknown;
     } catch {
-      if (response.ok) throw new ApiError(response.status, 'unexpected_response', 'The server sent an unreadable answer.');
+      if (response.ok)
+        throw new ApiError(response.status, 'unexpected_response', 'The server sent an unreadable answer.');
       return undefined;
     }
   }
 
-  async function request<T>(method: Method, path: string, body?: unknown, opts: RequestOptions = {}): Promise<T> {
+  async function request<T>(
+    method: Method,
+    path: string,
+    body?: unknown,
+    opts: RequestOptions = {},
+  ): Promise<T> {
     let response = await send(method, path, body, opts.signal);
     let parsed = await readBody(response);
     if (response.status === 403 && errorCode(parsed) === 'csrf_failed') {
@@ -85,7 +91,8 @@ export function createHttpClient(options: HttpClientOptions = {}) {
       const parsed = await readBody(response);
       if (!response.ok) throw apiErrorFromBody(response.status, parsed);
       const token = (parsed as { token?: unknown } | undefined)?.token;
-      if (typeof token !== 'string') throw new ApiError(response.status, 'unexpected_response', 'The server sent no CSRF token.');
+      if (typeof token !== 'string')
+        throw new ApiError(response.status, 'unexpected_response', 'The server sent no CSRF token.');
       return token;
     } catch (error) {
       csrfToken = null; // never cache a failure
@@ -112,7 +119,8 @@ export function createHttpClient(options: HttpClientOptions = {}) {
 }
 
 function errorCode(body: unknown): string | undefined {
-  const envelope = typeof body === 'object' && body !== null ? (body as { error?: { code?: unknown } }).error : undefined;
+  const envelope =
+    typeof body === 'object' && body !== null ? (body as { error?: { code?: unknown } }).error : undefined;
   return typeof envelope?.code === 'string' ? envelope.code : undefined;
 }
 

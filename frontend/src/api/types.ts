@@ -1,36 +1,22 @@
-// Wire types the front end reads, as docs/api.md describes them. Ids are opaque strings to the client.
+// Wire types the front end reads. They come from the server's own contracts (backend/src/contracts), so
+// a change to the wire breaks the front end's type-check instead of the running app.
+import type { ClubRoleWire } from '@contracts/common';
 
-export const ROLES = ['builder', 'steward', 'admin'] as const;
-export type Role = (typeof ROLES)[number];
+export type {
+  UserWire as User,
+  MembershipWire as Membership,
+  SessionWire as SessionPayload,
+} from '@contracts/auth';
+export type { InvitationWire as InvitationSummary } from '@contracts/auth';
+export type { MemberWire as ClubMember, AddMemberWire as AddMemberResult } from '@contracts/clubs';
+
+export type Role = ClubRoleWire;
+export const ROLES: readonly Role[] = ['builder', 'steward', 'admin'];
 
 export type PreferredUnits = 'imperial' | 'metric';
-
-export interface User {
-  id: string;
-  email: string;
-  displayName: string;
-  preferredUnits: PreferredUnits;
-}
 
 export interface Club {
   id: string;
   slug: string;
   name: string;
-}
-
-export interface Membership {
-  club: Club;
-  roles: Role[];
-}
-
-/** What `/auth/me`, sign-in and accepting an invitation all return. */
-export interface SessionPayload {
-  user: User;
-  memberships: Membership[];
-}
-
-export interface ClubMember {
-  user: { id: string; email: string; displayName: string };
-  roles: Role[];
-  invitationPending: boolean;
 }

@@ -3,7 +3,7 @@
 import { ref, watch, type Ref } from 'vue';
 import * as clubsApi from '@/api/clubs';
 import { errorMessage } from '@/api/errors';
-import type { ClubMember, Role } from '@/api/types';
+import type { AddMemberResult, ClubMember, Role } from '@/api/types';
 
 export function useClubMembers(clubId: Ref<string>) {
   const members = ref<ClubMember[]>([]);
@@ -23,7 +23,7 @@ export function useClubMembers(clubId: Ref<string>) {
     }
   }
 
-  async function add(email: string, roles: Role[]): Promise<clubsApi.AddMemberResult> {
+  async function add(email: string, roles: Role[]): Promise<AddMemberResult> {
     const result = await clubsApi.addMember(clubId.value, email, roles);
     members.value = [...members.value.filter((m) => m.user.id !== result.member.user.id), result.member];
     return result;

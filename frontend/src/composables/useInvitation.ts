@@ -2,10 +2,10 @@
 import { ref } from 'vue';
 import * as clubsApi from '@/api/clubs';
 import { ApiError, errorMessage } from '@/api/errors';
-import type { SessionPayload } from '@/api/types';
+import type { InvitationSummary, SessionPayload } from '@/api/types';
 
 export function useInvitation(token: string) {
-  const invitation = ref<clubsApi.InvitationSummary | null>(null);
+  const invitation = ref<InvitationSummary | null>(null);
   const loading = ref(true);
   const loadError = ref<string | null>(null);
 

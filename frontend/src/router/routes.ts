@@ -36,8 +36,18 @@ export const routes: NamedRoute[] = [
     path: '/',
     component: () => import('@/layout/AppLayout.vue'),
     children: [
-      { path: '', name: 'home', component: () => import('@/views/HomeView.vue'), meta: { title: 'Overview' } },
-      { path: 'account', name: 'account', component: () => import('@/views/AccountView.vue'), meta: { title: 'Account' } },
+      {
+        path: '',
+        name: 'home',
+        component: () => import('@/views/HomeView.vue'),
+        meta: { title: 'Overview' },
+      },
+      {
+        path: 'account',
+        name: 'account',
+        component: () => import('@/views/AccountView.vue'),
+        meta: { title: 'Account' },
+      },
       {
         path: 'clubs/:clubId/members',
         name: 'club-members',

@@ -1,5 +1,5 @@
 // How each club role is named on screen and what it lets a person do in Cagewright.
-import type { Role } from '@/api/types';
+import { ROLES, type Role } from '@/api/types';
 
 export const roleLabels: Record<Role, string> = {
   builder: 'Builder',
@@ -8,9 +8,10 @@ export const roleLabels: Record<Role, string> = {
 };
 
 export const roleDuties: Record<Role, string> = {
-  builder: "Keeps build sheets for their cars and pre-checks a cage against the club's rules before tech inspection.",
+  builder:
+    "Keeps build sheets for their cars and pre-checks a cage against the club's rules before tech inspection.",
   steward: 'Reviews the pre-check reports builders send in and issues cage records for the club.',
   admin: "Decides who belongs to the club and with which roles, and keeps the club's cage rulebooks.",
 };
 
-export const roleOptions = (['builder', 'steward', 'admin'] as const).map((role) => ({ label: roleLabels[role], value: role }));
+export const roleOptions = ROLES.map((role) => ({ label: roleLabels[role], value: role }));

@@ -1,0 +1,49 @@
+// The main menu follows the roles held in the current club.
+import { describe, expect, test } from 'vitest';
+import { navEntries, visibleNavLinks, type NavEntry } from '@/layout/navigation';
+import type { Role } from '@/api/types';
+
+const clubId = 'club-1';
+const labels = (roles: Role[], club: string | null = clubId) =>
+  visibleNavLinks(navEntries, club, roles).map((l) => l.label);
+
+describe('the app menu', () => {
+  test.each<[Role[], string[]]>([
+    [[], ['Overview', 'Account']],
+    [['builder'], ['Overview', 'Account']],
+    [['steward'], ['Overview', 'Account']],
+    [['admin'], ['Overview', 'Members', 'Account']],
+    [
+      ['builder', 'steward', 'admin'],
+      ['Overview', 'Members', 'Account'],
+    ],
+  ])('roles %j in the current club show %j', (roles, expected) => {
+    expect(labels(roles)).toEqual(expected);
+  });
+
+  test('a club-scoped entry links to the current club', () => {
+    const members = visibleNavLinks(navEntries, clubId, ['admin']).find((l) => l.label === 'Members');
+    expect(members?.to).toEqual({ name: 'club-members', params: { clubId } });
+  });
+
+  test('without a current club, club-scoped entries are hidden even if roles are passed', () => {
+    expect(labels(['admin'], null)).toEqual(['Overview', 'Account']);
+  });
+});
+
+describe('the filter itself', () => {
+  // A menu that a later page would add, to show that one line with its roles is all an entry needs.
+  const withLater: NavEntry[] = [
+    ...navEntries,
+    { label: 'Steward page', icon: 'pi pi-check', route: 'home', roles: ['steward', 'admin'] },
+  ];
+
+  test.each<[Role[], boolean]>([
+    [['builder'], false],
+    [['steward'], true],
+    [['admin'], true],
+  ])('an entry for steward or admin with roles %j is shown: %s', (roles, shown) => {
+    const visible = visibleNavLinks(withLater, clubId, roles).map((l) => l.label);
+    expect(visible.includes('Steward page')).toBe(shown);
+  });
+});
