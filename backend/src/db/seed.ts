@@ -2,7 +2,7 @@
 //   npx tsx backend/src/db/seed.ts
 // Idempotent and respectful: rows are inserted only when missing (people by e-mail, the club by
 // slug, memberships by user + club), so a re-seed never overwrites what someone changed since.
-import type { DataSource } from 'typeorm';
+import type { DataSource, InsertResult } from 'typeorm';
 import { loadConfig } from '../config';
 import { Club, Membership, User } from '../entities';
 import { hashPassword } from '../services/passwords';
@@ -35,6 +35,11 @@ export interface SeedSummary {
   steps: string[];
 }
 
+/** Rows an INSERT … ON CONFLICT DO NOTHING actually wrote (PostgreSQL returns one row per insert). */
+function insertedRows(res: InsertResult): number {
+  return Array.isArray(res.raw) ? res.raw.length : 0;
+}
+
 export async function seedDemo(ds: DataSource, steps: SeedStep[] = demoSeedSteps): Promise<SeedSummary> {
   const summary: SeedSummary = { created: { clubs: 0, users: 0, memberships: 0 }, steps: [] };
   const ctx = await ds.transaction(async (tx) => {
@@ -44,7 +49,7 @@ export async function seedDemo(ds: DataSource, steps: SeedStep[] = demoSeedSteps
 
     // ON CONFLICT DO NOTHING keeps two seeds running at once from failing on the unique keys.
     const clubInsert = await clubs.createQueryBuilder().insert().values(demoClub).orIgnore().execute();
-    summary.created.clubs += clubInsert.identifiers.filter(Boolean).length;
+    summary.created.clubs += insertedRows(clubInsert);
     const club = await clubs.findOneByOrFail({ slug: demoClub.slug });
 
     const usersByEmail = new Map<string, User>();
@@ -58,7 +63,7 @@ export async function seedDemo(ds: DataSource, steps: SeedStep[] = demoSeedSteps
           .values({ email: person.email, displayName: person.displayName, passwordHash, preferredUnits: 'imperial' })
           .orIgnore()
           .execute();
-        summary.created.users += res.identifiers.filter(Boolean).length;
+        summary.created.users += insertedRows(res);
         user = await users.findOneByOrFail({ email: person.email });
       }
       usersByEmail.set(person.email, user);
@@ -68,7 +73,7 @@ export async function seedDemo(ds: DataSource, steps: SeedStep[] = demoSeedSteps
         .values({ userId: user.id, clubId: club.id, roles: person.roles })
         .orIgnore()
         .execute();
-      summary.created.memberships += res.identifiers.filter(Boolean).length;
+      summary.created.memberships += insertedRows(res);
     }
     return { club, usersByEmail };
   });
