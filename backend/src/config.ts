@@ -63,6 +63,8 @@ function developmentSecret(file: string): string {
   return secret;
 }
 
+const productionSecretLine = '  SESSION_SECRET: required in production (at least 32 characters)';
+
 export interface LoadConfigOptions {
   /** Override the secret file (tests). */
   secretFile?: string;
@@ -75,13 +77,14 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, options: LoadCo
   const parsed = envSchema.safeParse(cleaned);
   if (!parsed.success) {
     const lines = parsed.error.issues.map((i) => `  ${i.path.join('.') || '(env)'}: ${i.message}`);
+    if (cleaned.NODE_ENV === 'production' && !cleaned.SESSION_SECRET) lines.push(productionSecretLine);
     throw new ConfigError(`Invalid configuration:\n${lines.join('\n')}`);
   }
   const e = parsed.data;
   let sessionSecret = e.SESSION_SECRET;
   if (!sessionSecret) {
     if (e.NODE_ENV === 'production') {
-      throw new ConfigError('Invalid configuration:\n  SESSION_SECRET: required in production (at least 32 characters)');
+      throw new ConfigError(`Invalid configuration:\n${productionSecretLine}`);
     }
     // Tests get a throw-away secret; development keeps one on disk.
     sessionSecret =

@@ -8,7 +8,10 @@ export function createErrorHandler(logger: Logger): ErrorRequestHandler {
   return (err, req, res, next) => {
     const appError = toAppError(err);
     if (appError.status >= 500) {
-      logger[appError.status === 503 ? 'warn' : 'error'](appError.code, { method: req.method, path: req.path, ...errorFields(err) });
+      // An outage is expected and logged briefly; a 500 is a bug and keeps its stack.
+      const fields = { method: req.method, path: req.path, ...errorFields(err) };
+      if (appError.status === 503) logger.warn(appError.code, { ...fields, stack: undefined });
+      else logger.error(appError.code, fields);
     }
     if (res.headersSent) return next(err);
     res.status(appError.status).json(errorBody(appError));
