@@ -34,6 +34,16 @@ describe('sign-in', () => {
     expect(res.body.user).not.toHaveProperty('passwordHash');
   });
 
+  it('marks the cookie Secure behind a trusted TLS proxy, and only then', async () => {
+    const behindProxy = makeTestApp(db.ds, { config: testConfig({ TRUST_PROXY: '1' }) });
+    const tls = await request(behindProxy).get('/api/auth/csrf').set('X-Forwarded-Proto', 'https').expect(200);
+    expect(tls.headers['set-cookie']?.[0]).toMatch(/^cw\.sid=.*; Secure/);
+    // Without trust proxy the header is ignored: a client cannot talk its way into TLS.
+    const spoofed = await request(makeTestApp(db.ds)).get('/api/auth/csrf').set('X-Forwarded-Proto', 'https').expect(200);
+    expect(spoofed.headers['set-cookie']?.[0]).toMatch(/^cw\.sid=/);
+    expect(spoofed.headers['set-cookie']?.[0]).not.toMatch(/Secure/);
+  });
+
   it('gives the same 401 for a wrong password and an unknown e-mail', async () => {
     const agent = agentFor(makeTestApp(db.ds));
     const token = await csrfToken(agent);
