@@ -93,8 +93,19 @@ start() {
     if [ "$purpose" = test ]; then
       opts="$opts -c fsync=off -c synchronous_commit=off -c full_page_writes=off"
     fi
+    # Another process on the port (say, the cluster of another checkout) would only show as
+    # "could not start server"; name the cause and the way out instead.
+    if (exec 3<>"/dev/tcp/127.0.0.1/$port") 2>/dev/null; then
+      log "127.0.0.1:$port is already taken by another process (another checkout's cluster?)."
+      log "Stop it, or choose a free port with $([ "$purpose" = test ] && echo CAGEWRIGHT_TEST_PG_PORT || echo CAGEWRIGHT_PG_PORT)=<port>."
+      exit 1
+    fi
     touch "$logfile"; [ "$(id -u)" = 0 ] && chown postgres:postgres "$logfile"
-    as_owner "$bin/pg_ctl" -D "$data" -l "$logfile" -w -t 60 -o "$opts" start >/dev/null
+    if ! as_owner "$bin/pg_ctl" -D "$data" -l "$logfile" -w -t 60 -o "$opts" start >/dev/null; then
+      log "PostgreSQL did not start; the end of $logfile says:"
+      tail -n 5 "$logfile" >&2
+      exit 1
+    fi
     log "started on 127.0.0.1:$port"
   fi
   ensure_database
