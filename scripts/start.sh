@@ -30,5 +30,7 @@ step "Checking the front end"
 ensure_frontend_built
 
 export PORT="${PORT:-3000}"
+# Invitation links are built from PUBLIC_URL; follow the port unless the caller says otherwise.
+export PUBLIC_URL="${PUBLIC_URL:-http://127.0.0.1:$PORT}"
 step "Serving Cagewright at http://127.0.0.1:$PORT (Ctrl-C stops it; the database keeps running)"
 exec node --import tsx backend/src/server.ts
