@@ -27,7 +27,6 @@ scripts/pg.sh start --test
 # The suite never touches a database named by the caller's environment: always the test cluster's.
 DATABASE_URL="$(scripts/pg.sh url --test)"
 export DATABASE_URL
-export NODE_ENV=test
 set +e
 
 mkdir -p .artifacts
@@ -54,6 +53,10 @@ started=$SECONDS
 npx vitest run --reporter=default --reporter=json --outputFile.json="$results_file"
 vitest_code=$?
 info "vitest exited $vitest_code in $((SECONDS - started)) s"
+
+# Stop the cluster now (if ours) so that its message does not follow the closing line.
+cleanup
+started_cluster=""
 
 step "Summary"
 node scripts/test-summary.mjs "$results_file" "$vitest_code" "${steps[@]}"
