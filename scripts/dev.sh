@@ -16,6 +16,8 @@ npx tsx --tsconfig tsconfig.json backend/src/db/seed.ts
 
 # vite.config.ts proxies /api to port 3000, so the API keeps that port here.
 export PORT=3000
+# People use the Vite address in development, so invitation links point there.
+export PUBLIC_URL="${PUBLIC_URL:-http://127.0.0.1:5173}"
 step "API on http://127.0.0.1:3000 (tsx watch), app on http://127.0.0.1:5173 (vite)"
 node node_modules/tsx/dist/cli.mjs watch --tsconfig tsconfig.json --clear-screen=false backend/src/server.ts &
 api_pid=$!
