@@ -1,0 +1,28 @@
+// The trade's closed vocabularies, shared by the specification, the ruleset format and the fact
+// catalogue. Kept in the domain (not the contracts) so domain code never imports wire schemas.
+
+export const MEMBER_KINDS = [
+  'main_hoop', 'front_hoop', 'halo_hoop', 'lateral_hoop', 'rear_brace', 'harness_bar', 'door_bar',
+  'diagonal', 'roof_bar', 'a_pillar', 'dash_bar', 'gusset', 'other',
+] as const;
+export type MemberKind = (typeof MEMBER_KINDS)[number];
+
+export const MEMBER_KIND_LABELS: Readonly<Record<MemberKind, string>> = {
+  main_hoop: 'main hoop', front_hoop: 'front hoop', halo_hoop: 'halo hoop', lateral_hoop: 'lateral hoop',
+  rear_brace: 'rear brace (backstay)', harness_bar: 'harness bar', door_bar: 'door bar', diagonal: 'diagonal',
+  roof_bar: 'roof bar', a_pillar: 'A-pillar bar', dash_bar: 'dash bar', gusset: 'gusset', other: 'other member',
+};
+
+export const MATERIALS = ['mild_steel', 'chromoly_4130', 'other'] as const;
+export const PROCESSES = ['dom', 'erw', 'seamless', 'cds', 'other'] as const;
+export const JOINT_KINDS = ['welded', 'bolted', 'removable'] as const;
+export const CHASSIS_TYPES = ['unibody', 'tube_frame'] as const;
+export const COCKPIT_TYPES = ['open', 'closed'] as const;
+export const FUELS = ['petrol', 'diesel', 'ethanol', 'methanol', 'electric', 'other'] as const;
+export const PLATE_FIXINGS = ['welded', 'bolted'] as const;
+export const PLATE_LOCATIONS = ['main_hoop_foot', 'front_hoop_foot', 'rear_brace_foot', 'lateral_hoop_foot', 'other'] as const;
+export const WELDING_PROCESSES = ['tig', 'mig', 'stick', 'gas', 'other'] as const;
+export const PADDING_STANDARDS = ['sfi_45_1', 'fia_8857_2001', 'non_homologated', 'none'] as const;
+export const WALL_METHODS = ['ultrasonic', 'inspection_hole'] as const;
+
+export type PlateLocation = (typeof PLATE_LOCATIONS)[number];
