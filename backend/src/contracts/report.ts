@@ -1,0 +1,104 @@
+// The check report on the wire: one finding per requirement and subject (vehicle, member or
+// plate), measured and required values as canonical quantities with their dimension so any client
+// formats them in its user's units (domain/units.ts formatQuantity). Deterministic and JSON-safe.
+import { z } from 'zod';
+import { DIMENSIONS } from '../domain/units.js';
+import { MEMBER_KINDS, PLATE_LOCATIONS } from '../domain/vocabulary.js';
+import { AREAS } from './ruleset.js';
+
+export const VERDICTS = ['pass', 'fail', 'not_applicable', 'needs_information'] as const;
+export type FindingVerdict = (typeof VERDICTS)[number];
+
+const dimension = z.enum(DIMENSIONS).nullable();
+const scalar = z.union([z.number(), z.string(), z.boolean()]);
+
+export const measuredValueSchema = z.object({
+  fact: z.string(),
+  label: z.string(),
+  path: z.string().optional(),
+  value: scalar,
+  dimension,
+});
+
+export const requiredValueSchema = z.object({
+  fact: z.string(),
+  label: z.string(),
+  path: z.string().optional(),
+  operator: z.enum(['atLeast', 'atMost', 'above', 'below', 'equals', 'notEquals', 'oneOf', 'noneOf', 'includes', 'excludes']),
+  value: z.union([scalar, z.array(z.string()), z.object({ fact: z.string() })]),
+  dimension,
+});
+
+export const missingFactSchema = z.object({ fact: z.string(), label: z.string(), dimension });
+
+export const findingSchema = z.object({
+  requirementId: z.string(),
+  title: z.string(),
+  citation: z.object({ publisher: z.string(), rulebookTitle: z.string(), edition: z.string(), section: z.string() }),
+  verdict: z.enum(VERDICTS),
+  severity: z.enum(['mandatory', 'advisory']),
+  area: z.enum(AREAS),
+  member: z.object({ id: z.string(), kind: z.enum(MEMBER_KINDS), index: z.number().int() }).nullable(),
+  plate: z.object({ id: z.string(), location: z.enum(PLATE_LOCATIONS), index: z.number().int() }).nullable(),
+  measured: z.array(measuredValueSchema),
+  required: z.array(requiredValueSchema),
+  missing: z.array(missingFactSchema),
+  /** Why the verdict: which alternative matched, which was nearest, what is missing. */
+  reason: z.string(),
+  explanation: z.string(),
+});
+
+export const memberTubeDataSchema = z.object({
+  memberId: z.string(),
+  kind: z.enum(MEMBER_KINDS),
+  index: z.number().int(),
+  odMm: z.number(),
+  wallMm: z.number(),
+  areaMm2: z.number(),
+  secondMomentMm4: z.number(),
+  sectionModulusMm3: z.number(),
+  radiusOfGyrationMm: z.number(),
+  torsionalConstantMm4: z.number(),
+  massPerMetreKg: z.number(),
+  lengthMm: z.number().nullable(),
+  massKg: z.number().nullable(),
+  densityAssumed: z.boolean(),
+});
+
+export const checkReportSchema = z.object({
+  reportFormat: z.literal(1),
+  rulebook: z.object({ publisher: z.string(), title: z.string(), edition: z.string(), effectiveDate: z.string(), url: z.string().optional() }),
+  classId: z.string(),
+  className: z.string(),
+  verdict: z.enum(['pass', 'fail', 'needs_information']),
+  summary: z.object({
+    pass: z.number().int(), fail: z.number().int(), notApplicable: z.number().int(), needsInformation: z.number().int(),
+    advisoryFail: z.number().int(),
+  }),
+  findings: z.array(findingSchema),
+  /** What to measure next: missing facts of mandatory findings, with the members they concern. */
+  measureNext: z.array(missingFactSchema.extend({ memberIds: z.array(z.string()), requirementIds: z.array(z.string()) })),
+  tubes: z.object({
+    members: z.array(memberTubeDataSchema),
+    /** Sum of the members with a length; complete only when every member has one. */
+    estimatedTubeMassKg: z.number(),
+    massComplete: z.boolean(),
+    membersWithoutLength: z.array(z.string()),
+  }),
+  policy: z.object({
+    acceptPrintedEquivalents: z.boolean(),
+    /** Canonical units per dimension. */
+    measurementTolerance: z.record(z.string(), z.number()),
+  }),
+  disclaimer: z.string(),
+});
+
+export type MeasuredValue = z.infer<typeof measuredValueSchema>;
+export type RequiredValue = z.infer<typeof requiredValueSchema>;
+export type MissingFact = z.infer<typeof missingFactSchema>;
+export type Finding = z.infer<typeof findingSchema>;
+export type CheckReport = z.infer<typeof checkReportSchema>;
+
+export const PRE_CHECK_DISCLAIMER =
+  'This is a pre-check, not an approval. The sanctioning body’s inspector decides whether the cage complies. ' +
+  'Welding and fabrication belong to qualified people working under local rules.';
