@@ -6,11 +6,7 @@ source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
 
 require_node
 ensure_node_modules
-if [ -z "${DATABASE_URL:-}" ]; then
-  scripts/pg.sh start
-  DATABASE_URL="$(scripts/pg.sh url)"
-  export DATABASE_URL
-fi
+use_dev_database
 npx tsx --tsconfig tsconfig.json backend/src/db/migrate.ts
 npx tsx --tsconfig tsconfig.json backend/src/db/seed.ts
 

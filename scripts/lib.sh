@@ -27,6 +27,18 @@ ensure_node_modules() {
   fi
 }
 
+# The durable dev database: DATABASE_URL set by the caller means a database of their own, and then no
+# private cluster is started; otherwise the private cluster is started (idempotent) and named.
+use_dev_database() {
+  if [ -n "${DATABASE_URL:-}" ]; then
+    info "using the database in DATABASE_URL"
+    return 0
+  fi
+  scripts/pg.sh start
+  DATABASE_URL="$(scripts/pg.sh url)"
+  export DATABASE_URL
+}
+
 # Debian packages by name, installed only when their command is missing. apt-get update runs at most
 # once per script run. Usage: ensure_debian_package COMMAND PACKAGE
 apt_updated=""

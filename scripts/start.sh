@@ -10,15 +10,8 @@ require_node
 step "Checking npm packages"
 ensure_node_modules
 
-# DATABASE_URL set by the caller means a database of their own: then no private cluster is started.
-if [ -z "${DATABASE_URL:-}" ]; then
-  step "Starting the database (private PostgreSQL cluster on 127.0.0.1:${CAGEWRIGHT_PG_PORT:-54320})"
-  scripts/pg.sh start
-  DATABASE_URL="$(scripts/pg.sh url)"
-  export DATABASE_URL
-else
-  step "Using the database in DATABASE_URL"
-fi
+step "Starting the database (private PostgreSQL cluster on 127.0.0.1:${CAGEWRIGHT_PG_PORT:-54320} unless DATABASE_URL is set)"
+use_dev_database
 
 step "Migrating the database"
 npx tsx --tsconfig tsconfig.json backend/src/db/migrate.ts

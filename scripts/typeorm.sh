@@ -10,9 +10,5 @@ command="${1:?usage: scripts/typeorm.sh migration:generate|migration:run|migrati
 shift
 extra=()
 [ "$command" = migration:generate ] && extra=(--pretty)
-if [ -z "${DATABASE_URL:-}" ]; then
-  scripts/pg.sh start
-  DATABASE_URL="$(scripts/pg.sh url)"
-  export DATABASE_URL
-fi
+use_dev_database
 exec node --import tsx node_modules/typeorm/cli.js "$command" -d scripts/typeorm-data-source.ts "${extra[@]}" "$@"

@@ -3,9 +3,5 @@
 # set, exports DATABASE_URL, then replaces itself with the command. Used by the db:* npm scripts.
 set -euo pipefail
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
-if [ -z "${DATABASE_URL:-}" ]; then
-  scripts/pg.sh start
-  DATABASE_URL="$(scripts/pg.sh url)"
-  export DATABASE_URL
-fi
+use_dev_database
 exec npx "$@"

@@ -1,19 +1,11 @@
 // Journey through the account page: a builder opens it from the menu, switches the units shown on
 // screen, saves, and finds the choice kept after reloading (it is stored on the server, not the tab).
-import { afterEach, beforeEach, expect, inject, test } from 'vitest';
+import { expect, inject } from 'vitest';
 import type { Page } from 'playwright-core';
-import { openBrowser, screenshot, type BrowserSession } from './browser';
+import { browserTest as test, screenshot } from './browser';
 import { demoUsers, signIn } from './demo';
 
 const baseUrl = inject('e2eBaseUrl');
-let browser: BrowserSession;
-
-beforeEach(async () => {
-  browser = await openBrowser();
-});
-afterEach(async () => {
-  await browser.close();
-});
 
 const unitLabels = { imperial: 'Inches / pounds', metric: 'Millimetres / kilograms' } as const;
 
@@ -35,7 +27,7 @@ async function selectedUnits(page: Page): Promise<keyof typeof unitLabels> {
   return imperialPressed === 'true' ? 'imperial' : 'metric';
 }
 
-test('a builder changes the units shown on screen and the choice is kept', async () => {
+test('a builder changes the units shown on screen and the choice is kept', async ({ browser }) => {
   const { page } = browser;
   await signIn(page, baseUrl, demoUsers.builder);
   await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Account' }).click();

@@ -5,6 +5,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
+import { test } from 'vitest';
 
 const screensDir = fileURLToPath(new URL('../../.artifacts/screens', import.meta.url));
 
@@ -56,3 +57,17 @@ export async function screenshot(page: Page, name: string): Promise<string> {
   await page.screenshot({ path, fullPage: true });
   return path;
 }
+
+/** `test` with a fresh browser per test (`async ({ browser }) => …`), closed afterwards. */
+export const browserTest = test.extend<{ browser: BrowserSession }>({
+  // vitest reads the fixtures a fixture needs from this first parameter's pattern; this one needs none.
+  // eslint-disable-next-line no-empty-pattern
+  browser: async ({}, use) => {
+    const session = await openBrowser();
+    try {
+      await use(session);
+    } finally {
+      await session.close();
+    }
+  },
+});

@@ -1,18 +1,10 @@
 // An address that leads nowhere shows the app's not-found page, not a blank screen or a server error.
-import { afterEach, beforeEach, expect, inject, test } from 'vitest';
-import { openBrowser, screenshot, type BrowserSession } from './browser';
+import { expect, inject } from 'vitest';
+import { browserTest as test, screenshot } from './browser';
 
 const baseUrl = inject('e2eBaseUrl');
-let browser: BrowserSession;
 
-beforeEach(async () => {
-  browser = await openBrowser();
-});
-afterEach(async () => {
-  await browser.close();
-});
-
-test('an unknown URL shows the not-found page with a way back', async () => {
+test('an unknown URL shows the not-found page with a way back', async ({ browser }) => {
   const { page } = browser;
   const response = await page.goto(`${baseUrl}/no/such/page`);
   // The server hands every unknown page address to the single-page app, which shows its own 404.

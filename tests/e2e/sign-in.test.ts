@@ -1,35 +1,27 @@
 // Journeys through signing in and out: each demo role sees the menu its roles allow, a wrong password
 // is refused with the API's message, and signing out lands on the sign-in page.
-import { afterEach, beforeEach, describe, expect, inject, test } from 'vitest';
-import { openBrowser, screenshot, type BrowserSession } from './browser';
+import { expect, inject } from 'vitest';
+import { browserTest as test, screenshot } from './browser';
 import { demoUsers, mainNavLabels, signIn, type DemoRole } from './demo';
 
 const baseUrl = inject('e2eBaseUrl');
-let browser: BrowserSession;
 
-beforeEach(async () => {
-  browser = await openBrowser();
-});
-afterEach(async () => {
-  await browser.close();
-});
-
-describe('signing in as each demo role', () => {
-  test.each<[DemoRole, string[]]>([
-    ['builder', ['Overview', 'Account']],
-    ['steward', ['Overview', 'Account']],
-    ['admin', ['Overview', 'Members', 'Account']],
-  ])('%s sees exactly the menu entries %j', async (role, expected) => {
-    const { page } = browser;
-    await signIn(page, baseUrl, demoUsers[role]);
-    expect(new URL(page.url()).pathname).toBe('/');
-    expect(await mainNavLabels(page)).toEqual(expected);
-    await screenshot(page, `overview-${role}`);
-    expect(browser.pageErrors.map((e) => e.message)).toEqual([]);
-  });
+test.for<[DemoRole, string[]]>([
+  ['builder', ['Overview', 'Account']],
+  ['steward', ['Overview', 'Account']],
+  ['admin', ['Overview', 'Members', 'Account']],
+])('signed in as the demo %s, the menu shows exactly %j', async ([role, expected], { browser }) => {
+  const { page } = browser;
+  await signIn(page, baseUrl, demoUsers[role]);
+  expect(new URL(page.url()).pathname).toBe('/');
+  expect(await mainNavLabels(page)).toEqual(expected);
+  await screenshot(page, `overview-${role}`);
+  expect(browser.pageErrors.map((e) => e.message)).toEqual([]);
 });
 
-test('a wrong password is refused with a clear message and the user stays on the sign-in page', async () => {
+test('a wrong password is refused with a clear message and the user stays on the sign-in page', async ({
+  browser,
+}) => {
   const { page } = browser;
   await page.goto(`${baseUrl}/sign-in`);
   await page.getByLabel('E-mail').fill(demoUsers.builder);
@@ -43,7 +35,9 @@ test('a wrong password is refused with a clear message and the user stays on the
   await screenshot(page, 'sign-in-wrong-password');
 });
 
-test('signing out lands on the sign-in page, and the app is closed until signing in again', async () => {
+test('signing out lands on the sign-in page, and the app is closed until signing in again', async ({
+  browser,
+}) => {
   const { page } = browser;
   await signIn(page, baseUrl, demoUsers.steward);
   await page.getByRole('button', { name: 'Sign out' }).click();
