@@ -3,9 +3,8 @@
 # Installs what is missing (npm packages, Chromium, poppler), starts the throw-away test cluster,
 # then lint, type-checks, the front-end build and every vitest project. It keeps going after a failed
 # step so one run shows everything, prints `N passed, N failed` last and exits non-zero on any failure.
-set -uo pipefail
+set -euo pipefail
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
-set -e
 
 require_node
 step "Checking npm packages"
@@ -27,6 +26,7 @@ scripts/pg.sh start --test
 # The suite never touches a database named by the caller's environment: always the test cluster's.
 DATABASE_URL="$(scripts/pg.sh url --test)"
 export DATABASE_URL
+# From here on a failed step is counted, not fatal.
 set +e
 
 mkdir -p .artifacts
