@@ -62,6 +62,16 @@ export const CagewrightPreset = definePreset(Aura, {
     },
   },
   components: {
+    // Chosen toggles (roles, units) fill with amber so "on" reads at a glance, not just a lighter chip.
+    togglebutton: {
+      colorScheme: {
+        light: {
+          root: { color: '{surface.600}', checkedColor: '{surface.950}', hoverColor: '{surface.900}' },
+          content: { checkedBackground: '{primary.400}' },
+          icon: { checkedColor: '{surface.950}' },
+        },
+      },
+    },
     button: {
       colorScheme: {
         light: {
