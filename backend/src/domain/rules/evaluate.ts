@@ -1,0 +1,450 @@
+// evaluateSpecification: runs a compiled ruleset against one specification for one class and
+// builds the CheckReport. Member-scoped requirements run once per member, and each member only
+// through the requirements for its kind; vehicle-scoped ones run once. One json-rules-engine
+// Engine per check and scope group (never shared between checks: an Engine keeps run state on
+// itself), property-walk path resolution, derived facts precomputed in plain code.
+import { Engine } from 'json-rules-engine';
+import type { Almanac, RuleProperties } from 'json-rules-engine';
+import type { Specification } from '../../contracts/specification.js';
+import type { CheckReport, Finding, MeasuredValue, MissingFact, RequiredValue } from '../../contracts/report.js';
+import { PRE_CHECK_DISCLAIMER } from '../../contracts/report.js';
+import { FACTS_BY_NAME, memberFacts, memberTubeData, plateFacts, vehicleFacts } from '../facts.js';
+import type { FactSet, MemberTubeData } from '../facts.js';
+import { formatQuantity } from '../units.js';
+import type { Dimension, UnitSystem } from '../units.js';
+import { MEMBER_KIND_LABELS } from '../vocabulary.js';
+import type { MemberKind, PlateLocation } from '../vocabulary.js';
+import { customOperators } from './operators.js';
+import type { CompiledRequirement, CompiledRuleset, CompiledVariant, LeafMeta } from './types.js';
+import { leavesOf, namedPart, triState } from './verdict.js';
+import type { ResultNode, Tri } from './verdict.js';
+
+export interface EvaluateOptions {
+  /** Units for the human-readable `reason` texts; default: the ruleset document's own. */
+  unitSystem?: UnitSystem;
+}
+
+export class UnknownClassError extends Error {
+  constructor(readonly classId: string, readonly known: readonly string[]) {
+    super(`Unknown class "${classId}". This ruleset has: ${known.join(', ')}.`);
+    this.name = 'UnknownClassError';
+  }
+}
+
+/** Plain property walk ("a.b.c"); replaces the engine's default JSONPath resolver, its main cost. */
+export function walkPath(value: object, path: string): unknown {
+  let cur: unknown = value;
+  for (const key of path.split('.')) {
+    if (cur === null || typeof cur !== 'object' || !Object.prototype.hasOwnProperty.call(cur, key)) return undefined;
+    cur = (cur as Record<string, unknown>)[key];
+  }
+  return cur;
+}
+
+const OPERATORS = customOperators();
+
+function newEngine(rules: RuleProperties[]): Engine {
+  const engine = new Engine(rules, { allowUndefinedFacts: true, pathResolver: walkPath });
+  for (const op of OPERATORS) engine.addOperator(op);
+  engine.addFact('member.odMarginOverTableMinimumMm', async (params: Record<string, unknown>, almanac: Almanac) => {
+    const od = await almanac.factValue<number | undefined>('member.odMm');
+    return typeof od === 'number' ? od - Number(params.tableMinimumOdMm) : undefined;
+  });
+  engine.addFact('vehicle.memberCountOfKinds', async (params: Record<string, unknown>, almanac: Almanac) => {
+    const counts = await almanac.factValue<Record<string, number>>('vehicle.memberCounts');
+    return (params.kinds as string[]).reduce((s, k) => s + (counts[k] ?? 0), 0);
+  });
+  return engine;
+}
+
+interface ClassPlan {
+  vehicle: CompiledRequirement[];
+  member: CompiledRequirement[];
+  plate: CompiledRequirement[];
+  byKind: Map<MemberKind, CompiledRequirement[]>;
+  byLocation: Map<PlateLocation, CompiledRequirement[]>;
+}
+
+// Memoised per compiled ruleset object: a pure function of it, so safe to share between checks.
+const plans = new WeakMap<CompiledRuleset, Map<string, ClassPlan>>();
+
+function planFor(compiled: CompiledRuleset, classId: string): ClassPlan {
+  let perClass = plans.get(compiled);
+  if (!perClass) plans.set(compiled, (perClass = new Map()));
+  const cached = perClass.get(classId);
+  if (cached) return cached;
+  const applicable = compiled.requirements.filter((r) => r.classes === null || r.classes.includes(classId));
+  const plan: ClassPlan = { vehicle: [], member: [], plate: [], byKind: new Map(), byLocation: new Map() };
+  for (const r of applicable) {
+    if (r.scope.kind === 'vehicle') plan.vehicle.push(r);
+    else if (r.scope.kind === 'member') {
+      plan.member.push(r);
+      for (const k of r.scope.memberKinds) plan.byKind.set(k, [...(plan.byKind.get(k) ?? []), r]);
+    } else {
+      plan.plate.push(r);
+      for (const l of r.scope.locations) plan.byLocation.set(l, [...(plan.byLocation.get(l) ?? []), r]);
+    }
+  }
+  perClass.set(classId, plan);
+  return plan;
+}
+
+type Subject =
+  | { kind: 'vehicle' }
+  | { kind: 'member'; id: string; memberKind: MemberKind; index: number }
+  | { kind: 'plate'; id: string; location: PlateLocation; index: number };
+
+type VariantChoice = { variant: CompiledVariant } | { missingWeight: true } | { outsideTable: true };
+
+function chooseVariant(req: CompiledRequirement, weightKg: number | undefined): VariantChoice {
+  if (req.variants.length === 1 && req.variants[0].aboveKg === null && req.variants[0].upToKg === null) return { variant: req.variants[0] };
+  if (weightKg === undefined) return { missingWeight: true };
+  const v = req.variants.find((x) => (x.aboveKg === null || weightKg > x.aboveKg + 1e-9) && (x.upToKg === null || weightKg <= x.upToKg + 1e-9));
+  return v ? { variant: v } : { outsideTable: true };
+}
+
+/** Only the facts a group's rules read, so each run builds fewer engine facts. */
+function pickFacts(all: FactSet, names: ReadonlySet<string>): Record<string, unknown> {
+  const out: Record<string, unknown> = {};
+  for (const n of names) {
+    const v = all[n];
+    if (v !== undefined) out[n] = v;
+  }
+  return out;
+}
+
+function factsNeeded(reqs: readonly CompiledRequirement[]): Set<string> {
+  const names = new Set<string>();
+  for (const r of reqs) for (const f of r.factsUsed) names.add(f);
+  if (names.has('member.odMarginOverTableMinimumMm')) names.add('member.odMm');
+  if (names.has('vehicle.memberCountOfKinds')) names.add('vehicle.memberCounts');
+  names.delete('member.odMarginOverTableMinimumMm');
+  names.delete('vehicle.memberCountOfKinds');
+  return names;
+}
+
+interface Ctx {
+  compiled: CompiledRuleset;
+  system: UnitSystem;
+  weightKg: number | undefined;
+}
+
+export async function evaluateSpecification(
+  compiled: CompiledRuleset,
+  classId: string,
+  spec: Specification,
+  options: EvaluateOptions = {},
+): Promise<CheckReport> {
+  const cls = compiled.classes[classId];
+  if (!cls) throw new UnknownClassError(classId, Object.keys(compiled.classes));
+  const doc = compiled.document;
+  const plan = planFor(compiled, classId);
+  const tubes = spec.members.map((m, i) => memberTubeData(m, i));
+  const vfacts = vehicleFacts(spec, cls, tubes);
+  const ctx: Ctx = { compiled, system: options.unitSystem ?? doc.unitSystem, weightKg: vfacts['vehicle.weightKg'] as number | undefined };
+  const findings: { order: [number, number]; finding: Finding }[] = [];
+
+  // Runs one engine over several subjects of the same group, one after another (never concurrently).
+  const runGroup = async (reqs: readonly CompiledRequirement[], subjects: { subject: Subject; facts: FactSet }[]) => {
+    if (reqs.length === 0 || subjects.length === 0) return;
+    const rules: RuleProperties[] = [];
+    const direct: { req: CompiledRequirement; choice: VariantChoice }[] = [];
+    const chosen = new Map<string, CompiledVariant>();
+    for (const req of reqs) {
+      const choice = chooseVariant(req, ctx.weightKg);
+      if ('variant' in choice) {
+        rules.push(choice.variant.rule);
+        chosen.set(req.id, choice.variant);
+      } else direct.push({ req, choice });
+    }
+    const engine = rules.length > 0 ? newEngine(rules) : undefined;
+    const needed = factsNeeded(reqs);
+    for (const { subject, facts } of subjects) {
+      const order = subject.kind === 'vehicle' ? 0 : subject.index;
+      for (const { req, choice } of direct) findings.push({ order: [req.index, order], finding: bandFinding(ctx, req, subject, choice) });
+      if (!engine) continue;
+      const { results, failureResults } = await engine.run(pickFacts(facts, needed));
+      const trees = new Map<string, ResultNode>();
+      for (const r of [...results, ...failureResults]) trees.set(r.name, r.conditions as unknown as ResultNode);
+      for (const req of reqs) {
+        const tree = trees.get(req.id);
+        const variant = chosen.get(req.id);
+        if (!tree || !variant) continue;
+        findings.push({ order: [req.index, order], finding: buildFinding(ctx, req, variant, subject, tree, facts) });
+      }
+    }
+  };
+
+  await runGroup(plan.vehicle, [{ subject: { kind: 'vehicle' }, facts: vfacts }]);
+
+  const membersByKind = new Map<MemberKind, { subject: Subject; facts: FactSet }[]>();
+  spec.members.forEach((m, index) => {
+    if (!plan.byKind.has(m.kind)) return;
+    const list = membersByKind.get(m.kind) ?? [];
+    list.push({ subject: { kind: 'member', id: m.id, memberKind: m.kind, index }, facts: { ...vfacts, ...memberFacts(spec, m, tubes[index]) } });
+    membersByKind.set(m.kind, list);
+  });
+  for (const [kind, subjects] of membersByKind) await runGroup(plan.byKind.get(kind) ?? [], subjects);
+
+  const platesByLocation = new Map<PlateLocation, { subject: Subject; facts: FactSet }[]>();
+  (spec.plates ?? []).forEach((p, index) => {
+    if (!plan.byLocation.has(p.location)) return;
+    const list = platesByLocation.get(p.location) ?? [];
+    list.push({ subject: { kind: 'plate', id: p.id, location: p.location, index }, facts: { ...vfacts, ...plateFacts(spec, p) } });
+    platesByLocation.set(p.location, list);
+  });
+  for (const [loc, subjects] of platesByLocation) await runGroup(plan.byLocation.get(loc) ?? [], subjects);
+
+  // A scoped requirement with nothing to check still shows in the report, as not applicable.
+  for (const req of [...plan.member, ...plan.plate]) {
+    const covered = req.scope.kind === 'member'
+      ? spec.members.some((m) => req.scope.kind === 'member' && req.scope.memberKinds.includes(m.kind))
+      : (spec.plates ?? []).some((p) => req.scope.kind === 'plate' && req.scope.locations.includes(p.location));
+    if (covered) continue;
+    const what = req.scope.kind === 'member'
+      ? `No ${req.scope.memberKinds.map((k) => MEMBER_KIND_LABELS[k]).join(' / ')} in this specification.`
+      : `No mounting plate at ${req.scope.kind === 'plate' ? req.scope.locations.map((l) => l.replace(/_/g, ' ')).join(' / ') : ''} in this specification.`;
+    findings.push({ order: [req.index, -1], finding: baseFinding(ctx, req, { kind: 'vehicle' }, 'not_applicable', what) });
+  }
+
+  findings.sort((a, b) => a.order[0] - b.order[0] || a.order[1] - b.order[1]);
+  const list = findings.map((f) => f.finding);
+  return assembleReport(ctx, cls.id, cls.name, list, tubes);
+}
+
+function baseFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, verdict: Finding['verdict'], reason: string): Finding {
+  const rb = ctx.compiled.document.rulebook;
+  return {
+    requirementId: req.id,
+    title: req.title,
+    citation: { publisher: rb.publisher, rulebookTitle: rb.title, edition: rb.edition, section: req.section },
+    verdict,
+    severity: req.severity,
+    area: req.area,
+    member: subject.kind === 'member' ? { id: subject.id, kind: subject.memberKind, index: subject.index } : null,
+    plate: subject.kind === 'plate' ? { id: subject.id, location: subject.location, index: subject.index } : null,
+    measured: [],
+    required: [],
+    missing: [],
+    reason,
+    explanation: req.explanation,
+  };
+}
+
+function missingList(names: Iterable<string>): MissingFact[] {
+  return [...new Set(names)].sort().map((fact) => {
+    const def = FACTS_BY_NAME.get(fact);
+    return { fact, label: def?.label ?? fact, dimension: def?.dimension ?? null };
+  });
+}
+
+function bandFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, choice: VariantChoice): Finding {
+  if ('missingWeight' in choice) {
+    const f = baseFinding(ctx, req, subject, 'needs_information', 'The tube sizes depend on the vehicle weight, which is not given (on this class’s basis).');
+    f.missing = missingList(['vehicle.weightKg']);
+    return f;
+  }
+  const w = ctx.weightKg ?? 0;
+  const f = baseFinding(ctx, req, subject, 'fail', `The table lists no tube size for a vehicle weight of ${formatQuantity(w, 'mass', ctx.system).text}.`);
+  f.measured = [{ fact: 'vehicle.weightKg', label: FACTS_BY_NAME.get('vehicle.weightKg')!.label, value: w, dimension: 'mass' }];
+  return f;
+}
+
+function display(value: unknown, dimension: Dimension | null, system: UnitSystem): string {
+  if (typeof value === 'number' && dimension) return formatQuantity(value, dimension, system).text;
+  if (Array.isArray(value)) return value.join(', ');
+  if (typeof value === 'object' && value !== null && 'fact' in value) return FACTS_BY_NAME.get(String((value as { fact: string }).fact))?.label ?? String(value);
+  return String(value);
+}
+
+const OP_WORDS: Record<string, string> = {
+  atLeast: 'at least', atMost: 'at most', above: 'more than', below: 'less than', equals: 'equal to', notEquals: 'not', oneOf: 'one of',
+  noneOf: 'none of', includes: 'including', excludes: 'without',
+};
+
+function factValueOf(facts: FactSet, leaf: ResultNode, meta: LeafMeta): unknown {
+  if (meta.path) {
+    const v = facts[meta.fact];
+    return v && typeof v === 'object' && !Array.isArray(v) ? (v as Record<string, number>)[meta.path] : undefined;
+  }
+  if (meta.fact in facts) return facts[meta.fact];
+  return leaf.factResult;
+}
+
+function measuredAndRequired(req: CompiledRequirement, leaves: ResultNode[], facts: FactSet): { measured: MeasuredValue[]; required: RequiredValue[] } {
+  const measured: MeasuredValue[] = [];
+  const required: RequiredValue[] = [];
+  const seenM = new Set<string>();
+  const seenR = new Set<string>();
+  for (const leaf of leaves) {
+    const meta = req.leaves[String(leaf.name)];
+    if (!meta) continue;
+    const key = `${meta.fact}|${meta.path ?? ''}`;
+    const value = factValueOf(facts, leaf, meta);
+    if (!seenM.has(key) && (typeof value === 'number' || typeof value === 'string' || typeof value === 'boolean')) {
+      seenM.add(key);
+      measured.push({ fact: meta.fact, label: meta.label, ...(meta.path ? { path: meta.path } : {}), value, dimension: meta.dimension });
+    }
+    const rkey = `${key}|${meta.operator}|${JSON.stringify(meta.value)}`;
+    if (!seenR.has(rkey)) {
+      seenR.add(rkey);
+      required.push({ fact: meta.fact, label: meta.label, ...(meta.path ? { path: meta.path } : {}), operator: meta.operator, value: meta.value as RequiredValue['value'], dimension: meta.dimension });
+    }
+  }
+  return { measured, required };
+}
+
+function buildFinding(ctx: Ctx, req: CompiledRequirement, variant: CompiledVariant, subject: Subject, tree: ResultNode, facts: FactSet): Finding {
+  const when = namedPart(tree, 'when');
+  const requires = namedPart(tree, 'requires');
+  if (!requires) throw new Error(`Rule ${req.id} has no "requires" part`);
+  if (when) {
+    const whenMissing = new Set<string>();
+    const w = triState(when, facts, whenMissing);
+    if (w === false) return baseFinding(ctx, req, subject, 'not_applicable', 'Does not apply to this vehicle or member (its condition is not met).');
+    if (w === 'unknown') {
+      const f = baseFinding(ctx, req, subject, 'needs_information', `Whether this applies depends on: ${missingList(whenMissing).map((m) => m.label).join(', ')}.`);
+      f.missing = missingList(whenMissing);
+      return f;
+    }
+  }
+  const missing = new Set<string>();
+  const verdict: Tri = triState(requires, facts, missing);
+  if (req.template === 'tube_table') return tubeTableFinding(ctx, req, variant, subject, requires, facts, verdict, missing);
+  const leaves = leavesOf(requires);
+  const { measured, required } = measuredAndRequired(req, leaves, facts);
+  const v: Finding['verdict'] = verdict === 'unknown' ? 'needs_information' : verdict ? 'pass' : 'fail';
+  const describe = (l: ResultNode): string => {
+    const meta = req.leaves[String(l.name)];
+    return `${meta.label} ${display(factValueOf(facts, l, meta), meta.dimension, ctx.system)} (required ${OP_WORDS[meta.operator]} ${display(meta.value, meta.dimension, ctx.system)})`;
+  };
+  const known = leaves.filter((l) => req.leaves[String(l.name)] && factPresentFor(facts, l));
+  let reason: string;
+  if (v === 'pass') {
+    const passing = known.filter((l) => l.result === true);
+    reason = passing.length > 0 ? `Meets it: ${passing.map(describe).join('; ')}.` : 'Meets the requirement.';
+  } else if (v === 'needs_information') reason = `Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')}.`;
+  else {
+    const failing = known.filter((l) => l.result === false);
+    reason = failing.length > 0 ? `Does not meet it: ${failing.map(describe).join('; ')}.` : 'Does not meet the requirement.';
+    if (missing.size > 0) reason += ` Also not given: ${missingList(missing).map((m) => m.label).join(', ')}.`;
+  }
+  const f = baseFinding(ctx, req, subject, v, reason);
+  f.measured = measured;
+  f.required = required;
+  if (v === 'needs_information') f.missing = missingList(missing);
+  return f;
+}
+
+function factPresentFor(facts: FactSet, leaf: ResultNode): boolean {
+  const m = new Set<string>();
+  triState({ ...leaf, result: true }, facts, m);
+  return m.size === 0;
+}
+
+function bandText(ctx: Ctx, v: CompiledVariant): string {
+  if (v.bandLabel) return v.bandLabel;
+  const m = (kg: number) => formatQuantity(kg, 'mass', ctx.system).text;
+  if (v.aboveKg === null && v.upToKg === null) return 'all weights';
+  if (v.aboveKg === null) return `up to ${m(v.upToKg!)}`;
+  if (v.upToKg === null) return `over ${m(v.aboveKg)}`;
+  return `over ${m(v.aboveKg)} up to ${m(v.upToKg)}`;
+}
+
+function tubeTableFinding(
+  ctx: Ctx, req: CompiledRequirement, variant: CompiledVariant, subject: Subject, requires: ResultNode, facts: FactSet, verdict: Tri, missing: Set<string>,
+): Finding {
+  const alts = (requires.any ?? []).filter((n) => typeof n.name === 'string' && req.alternatives[n.name]);
+  const od = facts['member.odMm'] as number;
+  const wall = facts['member.wallMm'] as number;
+  const material = facts['member.material'] as string | undefined;
+  const process = facts['member.process'] as string | undefined;
+  const measured: MeasuredValue[] = [
+    { fact: 'member.odMm', label: 'outside diameter', value: od, dimension: 'length' },
+    { fact: 'member.wallMm', label: 'wall thickness', value: wall, dimension: 'length' },
+  ];
+  if (material !== undefined) measured.push({ fact: 'member.material', label: 'material', value: material, dimension: null });
+  if (process !== undefined) measured.push({ fact: 'member.process', label: 'tube process', value: process, dimension: null });
+  const band = bandText(ctx, variant);
+  const forBand = band === 'all weights' ? '' : ` for ${band}`;
+  const matched = alts.find((a) => triState(a, facts, new Set()) === true);
+  // Nearest: the smallest relative shortfall in OD plus wall, with a wrong material or process
+  // counting as a full miss; ties go to the first listed.
+  const score = (name: string): number => {
+    const a = req.alternatives[name];
+    const leafWall = leavesOf(alts.find((n) => n.name === name)!).find((l) => req.leaves[String(l.name)]?.fact === 'member.wallMm');
+    const wallReq = leafWall ? (req.leaves[String(leafWall.name)].value as number) : a.wallMm;
+    let s = Math.max(0, a.odMm - od) / a.odMm + Math.max(0, wallReq - wall) / wallReq;
+    if (a.materials && material !== undefined && !a.materials.includes(material)) s += 1;
+    if (a.processes && process !== undefined && !a.processes.includes(process)) s += 1;
+    return s;
+  };
+  const pick = matched ?? [...alts].sort((x, y) => score(String(x.name)) - score(String(y.name)))[0];
+  const pickMeta = pick ? req.alternatives[String(pick.name)] : undefined;
+  const required: RequiredValue[] = pick ? measuredAndRequired(req, leavesOf(pick), facts).required : [];
+  const v: Finding['verdict'] = verdict === 'unknown' ? 'needs_information' : verdict ? 'pass' : 'fail';
+  const restrictions = (a: typeof pickMeta) =>
+    a ? [a.materials ? ` in ${a.materials.join(' or ')}` : '', a.processes ? ` (${a.processes.join(', ')})` : ''].join('') : '';
+  let reason: string;
+  if (v === 'pass' && pickMeta) reason = `Matches ${pickMeta.label}${restrictions(pickMeta)}${forBand}.`;
+  else if (v === 'needs_information') reason = `Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')} ${band === 'all weights' ? '' : ` (band ${band})`}.`;
+  else if (pickMeta) {
+    const gaps: string[] = [];
+    const wallReq = required.find((r) => r.fact === 'member.wallMm');
+    if (od < pickMeta.odMm - 1e-9) gaps.push(`OD ${display(od, 'length', ctx.system)} is under ${display(pickMeta.odMm, 'length', ctx.system)}`);
+    if (wallReq && typeof wallReq.value === 'number' && wall < wallReq.value - 1e-9) gaps.push(`wall ${display(wall, 'length', ctx.system)} is under ${display(wallReq.value, 'length', ctx.system)}`);
+    if (pickMeta.materials && material !== undefined && !pickMeta.materials.includes(material)) gaps.push(`material ${material} is not ${pickMeta.materials.join(' or ')}`);
+    if (pickMeta.processes && process !== undefined && !pickMeta.processes.includes(process)) gaps.push(`process ${process} is not ${pickMeta.processes.join(' or ')}`);
+    reason = `No listed size fits${forBand}. Nearest: ${pickMeta.label}${restrictions(pickMeta)}${gaps.length ? ` (${gaps.join('; ')})` : ''}.`;
+  } else reason = `No listed size fits${forBand}.`;
+  const f = baseFinding(ctx, req, subject, v, reason);
+  f.measured = measured;
+  f.required = required;
+  if (v === 'needs_information') f.missing = missingList(missing);
+  return f;
+}
+
+function assembleReport(ctx: Ctx, classId: string, className: string, findings: Finding[], tubes: MemberTubeData[]): CheckReport {
+  const mandatory = findings.filter((f) => f.severity === 'mandatory');
+  const verdict: CheckReport['verdict'] = mandatory.some((f) => f.verdict === 'fail')
+    ? 'fail'
+    : mandatory.some((f) => f.verdict === 'needs_information')
+      ? 'needs_information'
+      : 'pass';
+  const next = new Map<string, { m: MissingFact; members: Set<string>; reqs: Set<string> }>();
+  for (const f of mandatory) {
+    if (f.verdict !== 'needs_information') continue;
+    for (const m of f.missing) {
+      const entry = next.get(m.fact) ?? { m, members: new Set<string>(), reqs: new Set<string>() };
+      if (f.member) entry.members.add(f.member.id);
+      entry.reqs.add(f.requirementId);
+      next.set(m.fact, entry);
+    }
+  }
+  const count = (v: Finding['verdict']) => findings.filter((f) => f.verdict === v).length;
+  const withLength = tubes.filter((t) => t.massKg !== null);
+  const doc = ctx.compiled.document;
+  return {
+    reportFormat: 1,
+    rulebook: { ...doc.rulebook },
+    classId,
+    className,
+    verdict,
+    summary: {
+      pass: count('pass'), fail: count('fail'), notApplicable: count('not_applicable'), needsInformation: count('needs_information'),
+      advisoryFail: findings.filter((f) => f.severity === 'advisory' && f.verdict === 'fail').length,
+    },
+    findings,
+    measureNext: [...next.values()]
+      .sort((a, b) => (a.m.fact < b.m.fact ? -1 : a.m.fact > b.m.fact ? 1 : 0))
+      .map((e) => ({ ...e.m, memberIds: [...e.members].sort(), requirementIds: [...e.reqs].sort() })),
+    tubes: {
+      members: tubes.map((t) => ({ ...t })),
+      estimatedTubeMassKg: withLength.reduce((s, t) => s + (t.massKg ?? 0), 0),
+      massComplete: withLength.length === tubes.length,
+      membersWithoutLength: tubes.filter((t) => t.massKg === null).map((t) => t.memberId),
+    },
+    policy: { acceptPrintedEquivalents: ctx.compiled.policy.acceptPrintedEquivalents, measurementTolerance: { ...ctx.compiled.policy.tolerance } },
+    disclaimer: PRE_CHECK_DISCLAIMER,
+  };
+}

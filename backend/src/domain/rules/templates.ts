@@ -1,0 +1,190 @@
+// Compiles the typed requirement templates (tube_table, required_members, limit, allowed_values,
+// conditions) into json-rules-engine condition trees, converting values to canonical units once.
+import type { Requirement, TubeTable } from '../../contracts/ruleset.js';
+import { toCanonical } from '../units.js';
+import { tubeSizeProblems } from '../tube.js';
+import { MEMBER_KIND_LABELS } from '../vocabulary.js';
+import { compileConditionTree, compileLeaf, resolveUnit } from './conditions.js';
+import type { CompileContext, EngineNode, Path, Problems } from './conditions.js';
+import { ENGINE_FROM_LIMIT } from './operators.js';
+import type { AlternativeMeta } from './types.js';
+
+export interface CanonicalEquivalent {
+  size: { odMm: number; wallMm: number };
+  printedAs: { odMm: number; wallMm: number; label: string };
+  note?: string;
+}
+
+export interface TemplateContext extends CompileContext {
+  alternatives: Record<string, AlternativeMeta>;
+  nextAlternative: () => string;
+  acceptPrintedEquivalents: boolean;
+  equivalents: readonly CanonicalEquivalent[];
+}
+
+export interface CompiledRequires {
+  /** One node per weight band for tube tables; a single entry otherwise. */
+  variants: { aboveKg: number | null; upToKg: number | null; bandLabel?: string; node: EngineNode }[];
+}
+
+/** Rewrites the engine-level path segments compileLeaf reports onto the template's own field names. */
+function renamedProblems(problems: Problems, rename: Record<string, string>): Problems {
+  return { add: (path, message) => problems.add(path.map((p) => (typeof p === 'string' && rename[p] ? rename[p] : p)), message) };
+}
+
+const sameSize = (a: { odMm: number; wallMm: number }, b: { odMm: number; wallMm: number }) =>
+  Math.abs(a.odMm - b.odMm) < 1e-6 && Math.abs(a.wallMm - b.wallMm) < 1e-6;
+
+export function sizeLabel(odMm: number, wallMm: number, system: 'imperial' | 'metric'): string {
+  if (system === 'imperial') return `${(odMm / 25.4).toFixed(3)} × ${(wallMm / 25.4).toFixed(3)} in`;
+  const f = (x: number) => String(Math.round(x * 100) / 100);
+  return `${f(odMm)} × ${f(wallMm)} mm`;
+}
+
+export function lengthLabel(mm: number, system: 'imperial' | 'metric'): string {
+  return system === 'imperial' ? `${(mm / 25.4).toFixed(3)} in` : `${Math.round(mm * 100) / 100} mm`;
+}
+
+function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): CompiledRequires | undefined {
+  let ok = true;
+  const massUnit = resolveUnit('mass', t.weightUnit, [...path, 'weightUnit'], ctx);
+  const wallAllowanceUnit = resolveUnit('length', t.allowances?.wallAllowance?.unit, [...path, 'allowances', 'wallAllowance', 'unit'], ctx);
+  const thin = t.allowances?.thinWallWhenOdExceedsMinimum;
+  const thinUnit = resolveUnit('length', thin?.unit, [...path, 'allowances', 'thinWallWhenOdExceedsMinimum', 'unit'], ctx);
+  if (!massUnit || !wallAllowanceUnit || !thinUnit) return undefined;
+  const wallAllowanceMm = t.allowances?.wallAllowance ? toCanonical(t.allowances.wallAllowance.value, wallAllowanceUnit) : 0;
+
+  let previousUpTo: number | null = null;
+  const variants: CompiledRequires['variants'] = [];
+  t.bands.forEach((band, b) => {
+    const bandPath = [...path, 'bands', b];
+    const isLast = b === t.bands.length - 1;
+    if (band.upTo === undefined && !isLast) {
+      ctx.problems.add([...bandPath, 'upTo'], 'Every band but the last needs an upper weight ("upTo").');
+      ok = false;
+    }
+    const upToKg = band.upTo === undefined ? null : toCanonical(band.upTo, massUnit);
+    if (upToKg !== null && previousUpTo !== null && upToKg <= previousUpTo) {
+      ctx.problems.add([...bandPath, 'upTo'], 'Bands must be in order of increasing weight.');
+      ok = false;
+    }
+    const alternatives: EngineNode[] = [];
+    band.rows.forEach((row, r) => {
+      const rowPath = [...bandPath, 'rows', r];
+      const sizes: { odMm: number; wallMm: number; label?: string }[] = [];
+      row.alternatives.forEach((alt, a) => {
+        const altPath = [...rowPath, 'alternatives', a];
+        const unit = resolveUnit('length', alt.unit, [...altPath, 'unit'], ctx);
+        if (!unit) { ok = false; return; }
+        const size = { odMm: toCanonical(alt.od, unit), wallMm: toCanonical(alt.wall, unit), label: alt.label };
+        for (const p of tubeSizeProblems(size)) {
+          ctx.problems.add([...altPath, p.field === 'odMm' ? 'od' : 'wall'], p.message);
+          ok = false;
+        }
+        sizes.push(size);
+      });
+      if (!ok || sizes.length === 0) return;
+      const restrictions = (): EngineNode[] => {
+        const out: EngineNode[] = [];
+        if (row.materials) {
+          const leaf = compileLeaf({ fact: 'member.material', operator: 'in', value: row.materials }, [...rowPath, 'materials'], ctx);
+          if (leaf) out.push(leaf);
+        }
+        if (row.processes) {
+          const leaf = compileLeaf({ fact: 'member.process', operator: 'in', value: row.processes }, [...rowPath, 'processes'], ctx);
+          if (leaf) out.push(leaf);
+        }
+        return out;
+      };
+      const sizeNode = (odMm: number, wallMm: number, meta: Omit<AlternativeMeta, 'materials' | 'processes'>): EngineNode => {
+        const name = ctx.nextAlternative();
+        ctx.alternatives[name] = { ...meta, ...(row.materials ? { materials: row.materials } : {}), ...(row.processes ? { processes: row.processes } : {}) };
+        const od = compileLeaf({ fact: 'member.odMm', operator: 'greaterThanInclusive', value: odMm, unit: 'mm' }, rowPath, ctx);
+        const wall = compileLeaf({ fact: 'member.wallMm', operator: 'greaterThanInclusive', value: Math.max(wallMm - wallAllowanceMm, 0), unit: 'mm' }, rowPath, ctx);
+        return { all: [...restrictions(), od, wall], name };
+      };
+      for (const s of sizes) {
+        const label = s.label ?? sizeLabel(s.odMm, s.wallMm, ctx.system);
+        alternatives.push(sizeNode(s.odMm, s.wallMm, { label, odMm: s.odMm, wallMm: s.wallMm, source: 'table' }));
+        if (ctx.acceptPrintedEquivalents) {
+          for (const eq of ctx.equivalents) {
+            if (!sameSize(eq.size, s) || sameSize(eq.printedAs, s)) continue;
+            alternatives.push(
+              sizeNode(eq.printedAs.odMm, eq.printedAs.wallMm, {
+                label: `${eq.printedAs.label} (printed equivalent of ${label})`, odMm: eq.printedAs.odMm, wallMm: eq.printedAs.wallMm,
+                source: 'printed_equivalent', ...(eq.note ? { note: eq.note } : {}),
+              }),
+            );
+          }
+        }
+      }
+      if (thin && thinUnit) {
+        const minOd = Math.min(...sizes.map((s) => s.odMm));
+        const marginMm = toCanonical(thin.odMargin, thinUnit);
+        const minWallMm = toCanonical(thin.minWall, thinUnit);
+        const name = ctx.nextAlternative();
+        const label = `${lengthLabel(minOd + marginMm, ctx.system)} OD or larger with ${lengthLabel(minWallMm, ctx.system)} wall (thin-wall allowance)`;
+        ctx.alternatives[name] = {
+          label, odMm: minOd + marginMm, wallMm: minWallMm, source: 'allowance',
+          ...(row.materials ? { materials: row.materials } : {}), ...(row.processes ? { processes: row.processes } : {}),
+        };
+        const margin = compileLeaf(
+          { fact: 'member.odMarginOverTableMinimumMm', operator: 'greaterThanInclusive', value: marginMm, unit: 'mm', params: { tableMinimumOdMm: minOd } },
+          [...path, 'allowances', 'thinWallWhenOdExceedsMinimum'], ctx,
+        );
+        const wall = compileLeaf({ fact: 'member.wallMm', operator: 'greaterThanInclusive', value: Math.max(minWallMm - wallAllowanceMm, 0), unit: 'mm' }, [...path, 'allowances'], ctx);
+        alternatives.push({ all: [...restrictions(), margin, wall], name });
+      }
+    });
+    variants.push({ aboveKg: previousUpTo, upToKg, ...(band.label ? { bandLabel: band.label } : {}), node: { any: alternatives } });
+    if (upToKg !== null) previousUpTo = upToKg;
+  });
+  if (!ok) return undefined;
+  return { variants };
+}
+
+export function compileRequires(req: Requirement, path: Path, ctx: TemplateContext): CompiledRequires | undefined {
+  const r = req.requires;
+  const single = (node: EngineNode | undefined): CompiledRequires | undefined => (node ? { variants: [{ aboveKg: null, upToKg: null, node }] } : undefined);
+  switch (r.template) {
+    case 'tube_table':
+      if (req.scope.kind !== 'member') {
+        ctx.problems.add([...path.slice(0, -1), 'scope'], 'A tube table applies to members: scope it to member kinds.');
+        return undefined;
+      }
+      return compileTubeTable(r, path, ctx);
+    case 'required_members': {
+      if (req.scope.kind !== 'vehicle') {
+        ctx.problems.add([...path.slice(0, -1), 'scope'], 'Required members are counted for the whole vehicle: use scope "vehicle".');
+        return undefined;
+      }
+      const leaves: (EngineNode | undefined)[] = [];
+      r.members.forEach((entry, i) => {
+        const p = [...path, 'members', i];
+        const kinds = [...new Set(entry.kinds)];
+        const label = entry.label ?? `number of ${kinds.map((k) => MEMBER_KIND_LABELS[k]).join(' / ')}`;
+        const addressing = kinds.length === 1 ? { fact: 'vehicle.memberCounts', path: kinds[0] } : { fact: 'vehicle.memberCountOfKinds', params: { kinds } };
+        leaves.push(compileLeaf({ ...addressing, operator: 'greaterThanInclusive', value: entry.min }, p, ctx, label));
+        if (entry.max !== undefined) {
+          if (entry.max < entry.min) ctx.problems.add([...p, 'max'], 'The maximum must not be below the minimum.');
+          leaves.push(compileLeaf({ ...addressing, operator: 'lessThanInclusive', value: entry.max }, p, ctx, label));
+        }
+      });
+      return leaves.every((l) => l) ? single({ all: leaves }) : undefined;
+    }
+    case 'limit': {
+      const leaves = r.checks.map((c, i) =>
+        compileLeaf({ fact: c.fact, operator: ENGINE_FROM_LIMIT[c.operator], value: c.value, unit: c.unit, path: c.path, params: c.params }, [...path, 'checks', i], ctx, c.label),
+      );
+      return leaves.every((l) => l) ? single({ all: leaves }) : undefined;
+    }
+    case 'allowed_values': {
+      const renamed = { ...ctx, problems: renamedProblems(ctx.problems, { value: 'values', operator: 'fact' }) };
+      const leaf = compileLeaf({ fact: r.fact, operator: r.mode === 'forbidden' ? 'notIn' : 'in', value: r.values }, path, renamed);
+      ctx.leafCount = renamed.leafCount;
+      return single(leaf ? { all: [leaf] } : undefined);
+    }
+    case 'conditions':
+      return single(compileConditionTree(r.conditions, [...path, 'conditions'], ctx));
+  }
+}

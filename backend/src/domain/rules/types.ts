@@ -1,0 +1,67 @@
+// Types of a compiled ruleset: json-rules-engine rules plus the metadata that turns an engine
+// result back into a finding (labels, nominal required values, tube-table alternatives).
+import type { RuleProperties } from 'json-rules-engine';
+import type { RequirementArea, RequirementScope, RulesetClass, RulesetDocument } from '../../contracts/ruleset.js';
+import type { Dimension } from '../units.js';
+import type { FriendlyOperator } from './operators.js';
+
+export type LeafValue = number | string | boolean | readonly string[] | { fact: string };
+
+export interface LeafMeta {
+  fact: string;
+  label: string;
+  dimension: Dimension | null;
+  operator: FriendlyOperator;
+  /** Nominal required value, canonical units (before tolerance). */
+  value: LeafValue;
+  path?: string;
+}
+
+export interface AlternativeMeta {
+  label: string;
+  odMm: number;
+  wallMm: number;
+  materials?: readonly string[];
+  processes?: readonly string[];
+  source: 'table' | 'allowance' | 'printed_equivalent';
+  note?: string;
+}
+
+export interface CompiledVariant {
+  /** Weight band (canonical kg) the variant serves; null bounds are open. */
+  aboveKg: number | null;
+  upToKg: number | null;
+  bandLabel?: string;
+  rule: RuleProperties;
+}
+
+export interface CompiledRequirement {
+  id: string;
+  index: number;
+  title: string;
+  section: string;
+  severity: 'mandatory' | 'advisory';
+  area: RequirementArea;
+  scope: RequirementScope;
+  template: string;
+  classes: readonly string[] | null;
+  explanation: string;
+  /** One per weight band for a banded tube table, else exactly one. */
+  variants: CompiledVariant[];
+  leaves: Readonly<Record<string, LeafMeta>>;
+  alternatives: Readonly<Record<string, AlternativeMeta>>;
+  factsUsed: readonly string[];
+}
+
+export interface CompiledPolicy {
+  acceptPrintedEquivalents: boolean;
+  /** Canonical units per dimension. */
+  tolerance: Partial<Record<Dimension, number>>;
+}
+
+export interface CompiledRuleset {
+  document: RulesetDocument;
+  classes: Readonly<Record<string, RulesetClass>>;
+  requirements: readonly CompiledRequirement[];
+  policy: CompiledPolicy;
+}
