@@ -3,9 +3,15 @@ import { Club } from './club.entity';
 import { Invitation } from './invitation.entity';
 import { Membership } from './membership.entity';
 import { User } from './user.entity';
+import { Rulebook } from './rulebook.entity';
+import { RulesetVersion } from './ruleset-version.entity';
+import { CheckRun } from './check-run.entity';
 
 export { Club, Invitation, Membership, User };
 export { clubRoles, type ClubRole } from './membership.entity';
 export { unitSystems, type UnitSystem } from './user.entity';
+export { Rulebook, RulesetVersion, CheckRun };
+export { allowedStatusMoves, immutableRowSqlState, rulesetStatuses, type RulesetStatus } from './ruleset-version.entity';
+export { overallVerdicts, type OverallVerdict } from './check-run.entity';
 
-export const entities = [User, Club, Membership, Invitation];
+export const entities = [User, Club, Membership, Invitation, Rulebook, RulesetVersion, CheckRun];
