@@ -6,6 +6,10 @@ import { User } from './user.entity';
 import { Rulebook } from './rulebook.entity';
 import { RulesetVersion } from './ruleset-version.entity';
 import { CheckRun } from './check-run.entity';
+import { Car } from './car.entity';
+import { BuildSheet } from './build-sheet.entity';
+import { BuildSheetRevision } from './build-sheet-revision.entity';
+import { Photo } from './photo.entity';
 
 export { Club, Invitation, Membership, User };
 export { clubRoles, type ClubRole } from './membership.entity';
@@ -13,5 +17,7 @@ export { unitSystems, type UnitSystem } from './user.entity';
 export { Rulebook, RulesetVersion, CheckRun };
 export { allowedStatusMoves, immutableRowSqlState, rulesetStatuses, type RulesetStatus } from './ruleset-version.entity';
 export { overallVerdicts, type OverallVerdict } from './check-run.entity';
+export { Car, BuildSheet, BuildSheetRevision, Photo };
+export type { ChassisType } from './car.entity';
 
-export const entities = [User, Club, Membership, Invitation, Rulebook, RulesetVersion, CheckRun];
+export const entities = [User, Club, Membership, Invitation, Rulebook, RulesetVersion, CheckRun, Car, BuildSheet, BuildSheetRevision, Photo];
