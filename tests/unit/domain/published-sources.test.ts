@@ -1,0 +1,263 @@
+// Verdicts of the FACTS.md candidate test cases against fixture rulesets that encode the
+// published (or quoted) sources. Each case names its fact id and source.
+import { describe, expect, test } from 'vitest';
+import { IN, LB, check, compileFile, finding } from './helpers';
+
+const msuk = compileFile('tests/fixtures/rulesets/msuk-ncr-2026.json');
+const scca = compileFile('tests/fixtures/rulesets/scca-gcr-quoted.json');
+const nhra = compileFile('tests/fixtures/rulesets/nhra-quoted.json');
+const fia = compileFile('tests/fixtures/rulesets/fia-art253-quoted.json');
+
+const member = (id: string, kind: string, odMm: number, wallMm: number, extra: Record<string, unknown> = {}) => ({ id, kind, odMm, wallMm, ...extra });
+const cds = { material: 'mild_steel', process: 'cds', yieldMpa: 350 };
+
+describe('SCCA GCR 2008+ tube table (F-SCCA-T1, quoted secondhand: improvedtouring.com / GCR 2023 p. 100)', () => {
+  const hoop = async (lb: number, od: number, wall: number) =>
+    finding(await check(scca, { vehicle: { classId: 'gcr_2008', weightWithDriverKg: lb * LB }, members: [member('mh', 'main_hoop', od * IN, wall * IN, { process: 'dom' })] }), 'scca-t1-tubes', 'mh');
+  test.each([
+    ['TC-01', 2400, 1.5, 0.095, 'pass'],
+    ['TC-02', 2400, 1.375, 0.095, 'fail'],
+    ['TC-03', 2400, 1.625, 0.08, 'pass'],
+    ['TC-04 band "up to 1,700" inclusive', 1700, 1.375, 0.08, 'pass'],
+    ['TC-05', 1701, 1.375, 0.08, 'fail'],
+    ['TC-07 thin-wall allowance (OD ≥ min + 0.250)', 2750, 2.0, 0.08, 'pass'],
+  ])('%s: %d lb, %d × %d in → %s', async (_tc, lb, od, wall, verdict) => {
+    expect((await hoop(lb, od, wall)).verdict).toBe(verdict);
+  });
+  test('TC-07 under either reading: 1.875 OD clears 1.625 + 0.250 but not 1.750 + 0.250', async () => {
+    expect((await hoop(2750, 1.875, 0.08)).verdict).toBe('pass');
+    expect((await hoop(2750, 1.8, 0.08)).verdict).toBe('fail');
+  });
+  test('TC-05 reason names the nearest listed alternative', async () => {
+    const f = await hoop(1701, 1.375, 0.08);
+    expect(f.reason).toMatch(/Nearest: 1\.(500 × 0\.095|625 × 0\.080) in/);
+    expect(f.required.map((r) => r.fact)).toEqual(['member.odMm', 'member.wallMm']);
+  });
+  test('TC-01 reason names the matched alternative and band', async () => {
+    expect((await hoop(2400, 1.5, 0.095)).reason).toBe('Matches 1.500 × 0.095 in for 1,701 – 2,699 lb.');
+  });
+  test('missing weight → needs_information naming vehicle.weightKg, never pass', async () => {
+    const r = await check(scca, { vehicle: { classId: 'gcr_2008', weightWithoutDriverKg: 1000 }, members: [member('mh', 'main_hoop', 1.75 * IN, 0.12 * IN)] });
+    const f = finding(r, 'scca-t1-tubes', 'mh');
+    expect(f.verdict).toBe('needs_information');
+    expect(f.missing).toEqual([{ fact: 'vehicle.weightKg', label: 'vehicle weight (class basis)', dimension: 'mass' }]);
+  });
+});
+
+describe('SCCA older table by material (F-SCCA-T2, quoted secondhand: Alfa Digest archive)', () => {
+  test.each([
+    ['chromoly_4130', 'pass'],
+    ['mild_steel', 'fail'],
+  ])('TC-08: 2,600 lb without driver, %s 1.50 × 0.095 → %s', async (material, verdict) => {
+    const r = await check(scca, { vehicle: { classId: 'gcr_pre1994', weightWithoutDriverKg: 2600 * LB }, members: [member('mh', 'main_hoop', 1.5 * IN, 0.095 * IN, { material })] });
+    expect(finding(r, 'scca-t2-tubes', 'mh').verdict).toBe(verdict);
+  });
+  test('material not stated → needs_information (material decides the row)', async () => {
+    const r = await check(scca, { vehicle: { classId: 'gcr_pre1994', weightWithoutDriverKg: 2600 * LB }, members: [member('mh', 'main_hoop', 1.5 * IN, 0.095 * IN)] });
+    const f = finding(r, 'scca-t2-tubes', 'mh');
+    expect(f.verdict).toBe('needs_information');
+    expect(f.missing.map((m) => m.fact)).toEqual(['member.material']);
+  });
+});
+
+describe('Motorsport UK NCR 2026 Ch. 7 App. 3 (F-MSUK-*, source: ebooks.motorsportuk.org p. 251–256)', () => {
+  const hoopFindings = async (od: number, wall: number, extra: Record<string, unknown> = cds, kind = 'main_hoop') =>
+    check(msuk, { vehicle: { classId: 'new_cage' }, members: [member('m', kind, od, wall, extra)] });
+  test.each([
+    ['TC-09', 45, 2.5, 'pass'],
+    ['TC-09', 45, 2.0, 'fail'],
+    ['TC-09', 50, 2.0, 'pass'],
+    ['TC-10 legacy size on a new cage', 40, 2.0, 'fail'],
+  ])('%s (F-MSUK-2/3): main hoop %d × %d mm → %s', async (_tc, od, wall, verdict) => {
+    expect(finding(await hoopFindings(od, wall), 'msuk-mandatory-size', 'm').verdict).toBe(verdict);
+  });
+  test('TC-09 (F-MSUK-1): CDS 45 × 2.5 at 350 MPa passes material, process and yield', async () => {
+    const r = await hoopFindings(45, 2.5);
+    expect(['msuk-material', 'msuk-process', 'msuk-yield'].map((id) => finding(r, id, 'm').verdict)).toEqual(['pass', 'pass', 'pass']);
+  });
+  test('TC-10 (F-MSUK-4): 40 × 2.0 mm as a door bar (optional member) → pass', async () => {
+    expect(finding(await hoopFindings(40, 2.0, cds, 'door_bar'), 'msuk-optional-size', 'm').verdict).toBe('pass');
+  });
+  test('TC-12 (F-MSUK-1, F-MAT-6): 4130 chromoly 45 × 2.5 → material fail', async () => {
+    const r = await hoopFindings(45, 2.5, { ...cds, material: 'chromoly_4130' });
+    expect(finding(r, 'msuk-material', 'm').verdict).toBe('fail');
+    expect(r.verdict).toBe('fail');
+  });
+  test.each([
+    ['1020 DOM, min yield 414 MPa', { material: 'mild_steel', process: 'cds', yieldMpa: 414 }, 'pass', 'pass'],
+    ['1020 as-welded ERW, 262 MPa', { material: 'mild_steel', process: 'erw', yieldMpa: 262 }, 'fail', 'fail'],
+  ])('TC-30 (F-MAT-1, F-MSUK-1): %s → yield %s, process %s', async (_n, extra, yieldVerdict, processVerdict) => {
+    const r = await hoopFindings(45, 2.5, extra);
+    expect(finding(r, 'msuk-yield', 'm').verdict).toBe(yieldVerdict);
+    expect(finding(r, 'msuk-process', 'm').verdict).toBe(processVerdict);
+  });
+  test.each([
+    [135, 'pass'],
+    [120, 'fail'],
+  ])('TC-13 (F-MSUK-G4): 45 mm tube, CLR %d mm → %s', async (clrMm, verdict) => {
+    const r = await hoopFindings(45, 2.5, { ...cds, bends: [{ clrMm }] });
+    expect(finding(r, 'msuk-bend-radius', 'm').verdict).toBe(verdict);
+  });
+  test('F-MSUK-G4 ovality: 0.9 passes, 0.88 fails, unmeasured is needs_information', async () => {
+    const ov = async (bends: unknown) => finding(await hoopFindings(45, 2.5, { ...cds, bends }), 'msuk-ovality', 'm').verdict;
+    expect(await ov([{ clrMm: 140, minOdMm: 40.5, maxOdMm: 45 }])).toBe('pass');
+    expect(await ov([{ clrMm: 140, minOdMm: 39.6, maxOdMm: 45 }])).toBe('fail');
+    expect(await ov([{ clrMm: 140 }])).toBe('needs_information');
+    expect(await ov([])).toBe('not_applicable');
+  });
+  test.each([
+    [35, 'pass'],
+    [25, 'fail'],
+  ])('TC-15 (F-MSUK-G1): backstays at %d° from vertical → %s', async (deg, verdict) => {
+    const r = await check(msuk, {
+      vehicle: { classId: 'new_cage' }, geometry: { rearBraceAngleFromVerticalDeg: deg },
+      members: [member('l', 'rear_brace', 45, 2.5, cds), member('r', 'rear_brace', 45, 2.5, cds)],
+    });
+    expect(finding(r, 'msuk-backstays').verdict).toBe(verdict);
+  });
+  test.each([
+    [55, 'fail'],
+    [60, 'pass'],
+  ])('TC-20 (F-MSUK-M1): backstay plate %d cm² → %s', async (cm2, verdict) => {
+    const r = await check(msuk, {
+      vehicle: { classId: 'new_cage' }, members: [member('rb', 'rear_brace', 45, 2.5, cds)],
+      plates: [{ id: 'p1', location: 'rear_brace_foot', memberId: 'rb', sidesMm: [100, cm2], thicknessMm: 3 }],
+    });
+    expect(finding(r, 'msuk-backstay-plates', 'p1').verdict).toBe(verdict);
+  });
+  test('TC-31 (F-MSUK-P1): bare tube 120 mm from the helmet → advisory fail, overall verdict unaffected', async () => {
+    const r = await check(msuk, { vehicle: { classId: 'new_cage' }, geometry: { nearestTubeToHelmetMm: 120 }, padding: { nearHelmet: false }, members: [] });
+    const f = finding(r, 'msuk-padding');
+    expect(f.verdict).toBe('fail');
+    expect(f.severity).toBe('advisory');
+    expect(r.summary.advisoryFail).toBe(1);
+  });
+  test('F-MSUK-W2: a removable joint in the main hoop fails', async () => {
+    const r = await hoopFindings(45, 2.5, { ...cds, joints: [{ kind: 'removable', jointType: 'double lug' }] });
+    expect(finding(r, 'msuk-no-demountable-hoops', 'm').verdict).toBe('fail');
+  });
+});
+
+describe('TC-11 printed equivalence policy (F-MSUK-2, F-UNIT-2, F-ENG-5)', () => {
+  const spec = { vehicle: { classId: 'new_cage' }, members: [member('mh', 'main_hoop', 1.75 * IN, 0.095 * IN, cds)] };
+  test('strict metric (acceptPrintedEquivalents false): 1.75 × 0.095 in main hoop fails', async () => {
+    const r = await check(msuk, spec);
+    expect(finding(r, 'msuk-mandatory-size', 'mh').verdict).toBe('fail');
+    expect(r.policy.acceptPrintedEquivalents).toBe(false);
+  });
+  test('honouring the printed equivalent: the same hoop passes, and the report says so', async () => {
+    const lenient = compileFile('tests/fixtures/rulesets/msuk-ncr-2026.json', { acceptPrintedEquivalents: true });
+    const r = await check(lenient, spec);
+    const f = finding(r, 'msuk-mandatory-size', 'mh');
+    expect(f.verdict).toBe('pass');
+    expect(f.reason).toMatch(/printed equivalent of 45 × 2\.5 mm/);
+    expect(r.policy.acceptPrintedEquivalents).toBe(true);
+  });
+  test('the equivalence is only for the printed size: 1.75 × 0.083 in still fails under either policy', async () => {
+    const lenient = compileFile('tests/fixtures/rulesets/msuk-ncr-2026.json', { acceptPrintedEquivalents: true });
+    const s = { vehicle: { classId: 'new_cage' }, members: [member('mh', 'main_hoop', 1.75 * IN, 0.083 * IN, cds)] };
+    expect(finding(await check(lenient, s), 'msuk-mandatory-size', 'mh').verdict).toBe('fail');
+  });
+});
+
+describe('SCCA bends, helmet and plates (F-SCCA-G3, F-SCCA-G2, F-SCCA-M1; quoted secondhand)', () => {
+  test.each([
+    [5.25, 'pass'],
+    [5.0, 'fail'],
+  ])('TC-13 (F-SCCA-G3): 1.75 in tube, CLR %d in → %s', async (clr, verdict) => {
+    const r = await check(scca, { vehicle: { classId: 'gcr_2008', weightWithDriverKg: 1200 }, members: [member('mh', 'main_hoop', 1.75 * IN, 0.12 * IN, { bends: [{ clrMm: clr * IN }] })] });
+    expect(finding(r, 'scca-bends', 'mh').verdict).toBe(verdict);
+  });
+  test.each([
+    ['helmet 1.5 in below the main hoop top', { hoopAboveHelmetMm: 1.5 * IN, helmetBelowHoopLineMm: 1 * IN }, 'fail'],
+    ['helmet above the main-to-front-hoop line', { hoopAboveHelmetMm: 3 * IN, helmetBelowHoopLineMm: -0.5 * IN }, 'fail'],
+    ['2 in below and under the line', { hoopAboveHelmetMm: 2 * IN, helmetBelowHoopLineMm: 0.5 * IN }, 'pass'],
+  ])('TC-32 (F-SCCA-G2): %s → %s', async (_n, geometry, verdict) => {
+    const r = await check(scca, { vehicle: { classId: 'gcr_2008', weightWithDriverKg: 1200 }, geometry, members: [] });
+    expect(finding(r, 'scca-helmet').verdict).toBe(verdict);
+  });
+  test.each([
+    ['12 × 12 × 0.25 in (144 in²)', [12, 12], 0.25, 'pass'],
+    ['13 × 12 in (156 in²)', [13, 12], 0.25, 'fail'],
+    ['16 × 8 in (128 in², side 16)', [16, 8], 0.25, 'fail'],
+    ['0.060 in thick', [12, 12], 0.06, 'fail'],
+  ])('TC-23 (F-SCCA-M1): welded plate %s → %s', async (_n, sides, t, verdict) => {
+    const r = await check(scca, {
+      vehicle: { classId: 'gcr_2008', weightWithDriverKg: 1200 }, members: [],
+      plates: [{ id: 'p', location: 'main_hoop_foot', fixing: 'welded', sidesMm: [sides[0] * IN, sides[1] * IN], thicknessMm: t * IN }],
+    });
+    expect(finding(r, 'scca-welded-plates', 'p').verdict).toBe(verdict);
+  });
+});
+
+describe('NHRA (F-NHRA-1, F-NHRA-G1, F-NHRA-M1, F-NHRA-W1; quoted secondhand)', () => {
+  test.each([
+    [1.625, 0.118, 'mild_steel', 'pass'],
+    [1.625, 0.095, 'mild_steel', 'fail'],
+    [1.625, 0.083, 'chromoly_4130', 'pass'],
+    [1.5, 0.118, 'mild_steel', 'fail'],
+  ])('TC-19 (F-NHRA-1): %d × %d in %s → %s', async (od, wall, material, verdict) => {
+    const r = await check(nhra, { vehicle: { classId: 'roll_cage' }, members: [member('mh', 'main_hoop', od * IN, wall * IN, { material })] });
+    expect(finding(r, 'nhra-cage-tubing', 'mh').verdict).toBe(verdict);
+  });
+  test.each([
+    ['rear braces 5.5 in below the top', { rearBraceAttachBelowTopMm: 5.5 * IN, hoopAboveHelmetMm: 4 * IN, hoopBehindHelmetMm: 4 * IN }],
+    ['hoop 2.5 in above the helmet', { rearBraceAttachBelowTopMm: 4 * IN, hoopAboveHelmetMm: 2.5 * IN, hoopBehindHelmetMm: 4 * IN }],
+    ['hoop 7 in behind the head', { rearBraceAttachBelowTopMm: 4 * IN, hoopAboveHelmetMm: 4 * IN, hoopBehindHelmetMm: 7 * IN }],
+  ])('TC-18 (F-NHRA-G1): %s → fail', async (_n, geometry) => {
+    const r = await check(nhra, { vehicle: { classId: 'roll_bar' }, geometry, members: [] });
+    expect(finding(r, 'nhra-geometry').verdict).toBe('fail');
+  });
+  test('TC-18 control: all within limits → pass', async () => {
+    const r = await check(nhra, { vehicle: { classId: 'roll_bar' }, geometry: { rearBraceAttachBelowTopMm: 5 * IN, hoopAboveHelmetMm: 3 * IN, hoopBehindHelmetMm: 6 * IN }, members: [] });
+    expect(finding(r, 'nhra-geometry').verdict).toBe('pass');
+  });
+  test.each([
+    [4, 'pass'],
+    [3, 'fail'],
+  ])('TC-25 (F-NHRA-M1): unibody, 6 × 6 × 0.125 in plates both sides, %d × 3/8 in bolts → %s', async (bolts, verdict) => {
+    const r = await check(nhra, {
+      vehicle: { classId: 'roll_bar', chassis: 'unibody' }, members: [],
+      plates: [{ id: 'p', location: 'main_hoop_foot', fixing: 'bolted', sidesMm: [6 * IN, 6 * IN], thicknessMm: 0.125 * IN, backingPlate: true, boltCount: bolts, boltDiameterMm: 0.375 * IN }],
+    });
+    expect(finding(r, 'nhra-unibody-plates', 'p').verdict).toBe(verdict);
+  });
+  test('F-NHRA-G1 harness bar: above the shoulders fails, 3 in below passes', async () => {
+    const hb = async (below: number) => finding(await check(nhra, { vehicle: { classId: 'roll_cage' }, geometry: { harnessBarBelowShouldersMm: below * IN }, members: [] }), 'nhra-harness-bar').verdict;
+    expect(await hb(-0.5)).toBe('fail');
+    expect(await hb(3)).toBe('pass');
+    expect(await hb(4.5)).toBe('fail');
+  });
+  test('F-NHRA-W1: a 4130 cage MIG welded fails; mild steel MIG is not subject to it', async () => {
+    const w = async (material: string) =>
+      finding(await check(nhra, { vehicle: { classId: 'roll_cage' }, welding: { process: 'mig' }, members: [member('mh', 'main_hoop', 1.625 * IN, 0.118 * IN, { material })] }), 'nhra-4130-tig').verdict;
+    expect(await w('chromoly_4130')).toBe('fail');
+    expect(await w('mild_steel')).toBe('not_applicable');
+  });
+});
+
+describe('FIA Art. 253 (F-FIA-M1, F-FIA-P1; quoted secondhand)', () => {
+  test.each([
+    ['3 bolts, 3 mm, 120 cm²', 3, 3, 'pass'],
+    ['plate 2.5 mm', 3, 2.5, 'fail'],
+    ['2 bolts', 2, 3, 'fail'],
+  ])('TC-21: hoop foot %s → %s', async (_n, boltCount, thicknessMm, verdict) => {
+    const r = await check(fia, { vehicle: { classId: 'group_n' }, members: [], plates: [{ id: 'p', location: 'main_hoop_foot', boltCount, thicknessMm, sidesMm: [120, 100] }] });
+    expect(finding(r, 'fia-hoop-feet', 'p').verdict).toBe(verdict);
+  });
+  test('TC-31 (F-FIA-P1): roof reinforcement unpadded → mandatory fail', async () => {
+    const r = await check(fia, { vehicle: { classId: 'group_n' }, padding: { nearHelmet: false }, members: [member('rf', 'roof_bar', 40, 2, {})] });
+    expect(finding(r, 'fia-roof-padding').verdict).toBe('fail');
+    expect(r.verdict).toBe('fail');
+  });
+  test('F-FIA-P1: roof bar padded to 8857-2001 → pass; no roof bar → pass without padding data', async () => {
+    const padded = await check(fia, { vehicle: { classId: 'group_n' }, padding: { nearHelmet: true, standard: 'fia_8857_2001' }, members: [member('rf', 'roof_bar', 40, 2, {})] });
+    expect(finding(padded, 'fia-roof-padding').verdict).toBe('pass');
+    const none = await check(fia, { vehicle: { classId: 'group_n' }, members: [] });
+    expect(finding(none, 'fia-roof-padding').verdict).toBe('pass');
+  });
+  test('F-FIA-P1: roof bar with padding unknown → needs_information', async () => {
+    const r = await check(fia, { vehicle: { classId: 'group_n' }, members: [member('rf', 'roof_bar', 40, 2, {})] });
+    expect(finding(r, 'fia-roof-padding').verdict).toBe('needs_information');
+  });
+});
