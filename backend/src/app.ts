@@ -15,9 +15,11 @@ import { createFailureLimiter, createLoginLimiters, defaultLoginLimits, type Log
 import { createPassport, createSessionMiddleware, type SessionSetup } from './middleware/session';
 import { createAccountRouter } from './routes/account.routes';
 import { createAuthRouter } from './routes/auth.routes';
+import { createChecksRouter } from './routes/checks.routes';
 import { createHealthRouter } from './routes/health.routes';
 import { createInvitationsRouter } from './routes/invitations.routes';
 import { createMembersRouter } from './routes/members.routes';
+import { createRulebooksRouter } from './routes/rulebooks.routes';
 import { createServices, type Services } from './services';
 
 export interface CreateAppOptions {
@@ -119,6 +121,8 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(createAccountRouter({ services }));
   api.use(createInvitationsRouter({ services }));
   api.use(createMembersRouter({ services }));
+  api.use(createRulebooksRouter({ services }));
+  api.use(createChecksRouter({ services }));
   api.use(apiNotFound);
   app.use('/api', api);
 

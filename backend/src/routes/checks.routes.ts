@@ -1,0 +1,33 @@
+// Dry-run checks and saved check runs (docs/api.md, "Rulesets and checks"). Saved runs are made
+// from build sheets (their routes call services.checks.saveRun); here they are only read.
+import { Router } from 'express';
+import { checkRunParamsSchema, dryRunBodySchema } from '../contracts/checks';
+import { requireSignedIn, signedInUserId } from '../middleware/guards';
+import type { Services } from '../services';
+import { mountRoutes, route } from './route-table';
+
+export function createChecksRouter({ services }: { services: Services }): Router {
+  const { checks } = services;
+  return mountRoutes(Router(), [
+    route({
+      method: 'post',
+      path: '/checks',
+      // The version's club is known only after loading it, so the service checks membership.
+      guards: [requireSignedIn],
+      body: dryRunBodySchema,
+      handler: async ({ req, res, body }) => {
+        const report = await checks.dryRun({ ...body, userId: signedInUserId(req) });
+        res.json({ report });
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/check-runs/:id',
+      guards: [requireSignedIn],
+      params: checkRunParamsSchema,
+      handler: async ({ req, res, params }) => {
+        res.json({ checkRun: await checks.getRun(params.id, signedInUserId(req)) });
+      },
+    }),
+  ]);
+}

@@ -1,0 +1,150 @@
+// Checks: a specification against a ruleset version for one class. A dry run answers with the
+// report and stores nothing; a saved run stores the specification as checked and its report as an
+// immutable record with a verification code. Who may check: a member of the club that owns the
+// version (builder, steward or admin; drafts only its admins). Anyone else gets the same 404 as
+// for a version that does not exist.
+import { randomBytes } from 'node:crypto';
+import type { DataSource, EntityManager } from 'typeorm';
+import type { CheckRunWire } from '../contracts/checks';
+import type { CheckReport } from '../contracts/report';
+import { issuesToProblems, specificationSchema, type Specification } from '../contracts/specification';
+import { evaluateSpecification, UnknownClassError, type CompiledRuleset } from '../domain';
+import type { UnitSystem } from '../domain/units';
+import { CheckRun, User, type ClubRole } from '../entities';
+import { ConflictError, NotFoundError, ValidationError } from '../errors';
+import { canSeeVersion, type RulesetService } from './rulesets.service';
+
+export interface CheckInput {
+  rulesetVersionId: string;
+  classId: string;
+  /** Untrusted: parsed here with the shared specification schema. */
+  specification: unknown;
+  /** Who checks; must be a member of the version's club. */
+  userId: string;
+  /** Units for the report's reason texts (default: the rulebook's own). */
+  unitSystem?: UnitSystem;
+}
+
+export interface SaveRunInput extends CheckInput {
+  /** The build sheet revision the specification came from, when there is one. */
+  buildSheetRevisionId?: string | null;
+  /** Save inside the caller's transaction (say, with the build sheet revision it belongs to). */
+  manager?: EntityManager;
+}
+
+const checkerRoles: readonly ClubRole[] = ['builder', 'steward', 'admin'];
+const reviewerRoles: readonly ClubRole[] = ['steward', 'admin'];
+
+// Crockford's base32: no I, L, O or U, so a code read aloud or typed from paper is unambiguous.
+const base32Alphabet = '0123456789ABCDEFGHJKMNPQRSTVWXYZ';
+
+/** 120 random bits as 24 base32 characters. */
+export function newVerificationCode(): string {
+  const bytes = randomBytes(15);
+  let bits = 0;
+  let value = 0;
+  let out = '';
+  for (const byte of bytes) {
+    value = (value << 8) | byte;
+    bits += 8;
+    while (bits >= 5) {
+      out += base32Alphabet[(value >>> (bits - 5)) & 31];
+      bits -= 5;
+    }
+    value &= (1 << bits) - 1;
+  }
+  return out;
+}
+
+/** The specification, or a 400 naming every invalid field as `specification.<path>`. */
+export function parseSpecificationOrThrow(json: unknown, classId: string): Specification {
+  const result = specificationSchema.safeParse(json);
+  if (!result.success) {
+    throw new ValidationError(issuesToProblems(result.error.issues).map((p) => ({ path: p.path ? `specification.${p.path}` : 'specification', message: p.message })));
+  }
+  if (result.data.vehicle.classId !== classId) {
+    throw new ValidationError([{ path: 'specification.vehicle.classId', message: `Must be the class being checked ("${classId}")` }]);
+  }
+  return result.data;
+}
+
+function runView(run: CheckRun, creator: User | null): CheckRunWire {
+  return {
+    id: run.id,
+    rulesetVersionId: run.rulesetVersionId,
+    classId: run.classId,
+    specification: run.specification,
+    report: run.report,
+    overallVerdict: run.overallVerdict,
+    createdBy: creator ? { id: creator.id, displayName: creator.displayName } : null,
+    createdAt: run.createdAt.toISOString(),
+    buildSheetRevisionId: run.buildSheetRevisionId,
+    verificationCode: run.verificationCode,
+  };
+}
+
+export type CheckService = ReturnType<typeof createCheckService>;
+
+export function createCheckService(ds: DataSource, rulesets: RulesetService) {
+  /** Parses, checks access and state, and runs the engine; shared by dry and saved runs. */
+  async function check(input: CheckInput): Promise<{ specification: Specification; report: CheckReport }> {
+    const specification = parseSpecificationOrThrow(input.specification, input.classId);
+    const access = await rulesets.access(input.rulesetVersionId, input.userId);
+    if (!access || !canSeeVersion(access) || !access.roles!.some((r) => checkerRoles.includes(r))) {
+      throw new NotFoundError('Ruleset version not found.');
+    }
+    if (access.status === 'retired') {
+      const currentVersionId = await rulesets.currentVersionOf(access.id);
+      throw new ConflictError(
+        'This ruleset version is retired: checks against it are no longer possible. Check against the rulebook’s current version.',
+        currentVersionId ? { currentVersionId } : undefined,
+      );
+    }
+    const compiled: CompiledRuleset = await rulesets.loadCompiled(access.id, access);
+    try {
+      const report = await evaluateSpecification(compiled, input.classId, specification, input.unitSystem ? { unitSystem: input.unitSystem } : {});
+      return { specification, report };
+    } catch (err) {
+      if (err instanceof UnknownClassError) throw new NotFoundError(err.message);
+      throw err;
+    }
+  }
+
+  return {
+    /** A check whose report is returned and nothing is stored. */
+    async dryRun(input: CheckInput): Promise<CheckReport> {
+      return (await check(input)).report;
+    },
+
+    /** A check stored as an immutable record; the stored specification is the parsed one. */
+    async saveRun(input: SaveRunInput): Promise<CheckRunWire> {
+      const { specification, report } = await check(input);
+      const manager = input.manager ?? ds.manager;
+      const run = await manager.getRepository(CheckRun).save(
+        manager.getRepository(CheckRun).create({
+          rulesetVersionId: input.rulesetVersionId,
+          classId: input.classId,
+          specification,
+          report,
+          overallVerdict: report.verdict,
+          createdById: input.userId,
+          buildSheetRevisionId: input.buildSheetRevisionId ?? null,
+          verificationCode: newVerificationCode(),
+        }),
+      );
+      const creator = await manager.getRepository(User).findOneBy({ id: input.userId });
+      return runView(run, creator);
+    },
+
+    /** A saved run, for its creator and the stewards and admins of the version's club; else 404. */
+    async getRun(runId: string, viewerUserId: string): Promise<CheckRunWire> {
+      const run = await ds.getRepository(CheckRun).findOne({ where: { id: runId }, relations: { createdBy: true } });
+      if (!run) throw new NotFoundError('Check run not found.');
+      if (run.createdById !== viewerUserId) {
+        const access = await rulesets.access(run.rulesetVersionId, viewerUserId);
+        if (!access?.roles?.some((r) => reviewerRoles.includes(r))) throw new NotFoundError('Check run not found.');
+      }
+      return runView(run, run.createdBy ?? null);
+    },
+  };
+}
