@@ -22,7 +22,14 @@ export async function signIn(
   await page.getByLabel('E-mail').fill(email);
   await page.getByLabel('Password').fill(password);
   await page.getByRole('button', { name: 'Sign in' }).click();
-  await page.getByRole('navigation', { name: 'Main' }).waitFor();
+  try {
+    await page.getByRole('navigation', { name: 'Main' }).waitFor({ timeout: 15_000 });
+  } catch (err) {
+    // Say what the page said instead of only "timeout".
+    const alert = page.getByRole('alert');
+    const shown = (await alert.count()) ? await alert.first().innerText() : 'no message on the page';
+    throw new Error(`signing in as ${email} did not reach the app (${shown})`, { cause: err });
+  }
 }
 
 /** The link texts of the main navigation, in order. */

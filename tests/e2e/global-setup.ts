@@ -55,6 +55,15 @@ function runBackendScript(script: string, env: NodeJS.ProcessEnv): void {
   });
 }
 
+async function answers(url: string): Promise<boolean> {
+  try {
+    await fetch(url);
+    return true;
+  } catch {
+    return false;
+  }
+}
+
 async function waitForHealth(server: ChildProcess, output: () => string, timeoutMs: number): Promise<void> {
   const deadline = Date.now() + timeoutMs;
   while (Date.now() < deadline) {
@@ -85,6 +94,13 @@ function stopServer(server: ChildProcess): Promise<void> {
 
 export default async function setup(project: TestProject): Promise<() => Promise<void>> {
   // npm test starts the cluster; a bare `npx vitest --project e2e` may not have, so start (and later stop) it.
+  // A server already on the port (another run of these tests, say) would answer for ours: stop before
+  // touching its database.
+  if (await answers(`${baseUrl}/api/health`)) {
+    throw new Error(
+      `${baseUrl} is already in use (another e2e run?); stop it or set E2E_PORT to a free port.`,
+    );
+  }
   const startedCluster = !clusterRunning();
   if (startedCluster) pgScript('start', '--test');
   const testUrl = pgScript('url', '--test');
