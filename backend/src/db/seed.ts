@@ -8,6 +8,7 @@ import { Club, Membership, User } from '../entities';
 import { hashPassword } from '../services/passwords';
 import { createDataSource } from './data-source';
 import { isMainModule } from './main-module';
+import { rulesetSeedStep } from './seed-rulesets';
 import { demoClub, demoPassword, demoPeople } from './seed-data';
 
 export interface SeedContext {
@@ -28,7 +29,7 @@ export interface SeedStep {
  * The extension point for further demo data. The ruleset seed adds its step here, e.g.
  * `demoSeedSteps.push({ name: 'rulesets', run: seedDemoRulesets })`, or passes it to seedDemo.
  */
-export const demoSeedSteps: SeedStep[] = [];
+export const demoSeedSteps: SeedStep[] = [rulesetSeedStep];
 
 export interface SeedSummary {
   created: { clubs: number; users: number; memberships: number };
