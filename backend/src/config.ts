@@ -30,6 +30,13 @@ const envSchema = z.object({
   UPLOAD_DIR: z.string().min(1).default('.data/uploads'),
   PUBLIC_URL: z.url({ protocol: /^https?$/ }).default('http://127.0.0.1:3000').transform((v) => v.replace(/\/+$/, '')),
   LOG_LEVEL: z.enum(logLevels).optional(),
+  // Outgoing mail (docs/mail-and-jobs.md). SMTP_URL defaults to the local fake outside production.
+  SMTP_URL: z.url({ protocol: /^smtps?$/, error: 'must be an smtp:// or smtps:// URL' }).optional(),
+  MAIL_FROM: z
+    .string()
+    .regex(/^([^<>]*<[^\s<>@]+@[^\s<>@]+>|[^\s<>@]+@[^\s<>@]+)$/, 'must be an address, e.g. Name <no-reply@example.org>')
+    .default('Cagewright <no-reply@cagewright.example>'),
+  FAKE_SMTP: z.enum(['true', 'false', '1', '0'], 'must be true or false').optional(),
 });
 
 export interface Config {
@@ -43,6 +50,11 @@ export interface Config {
   uploadDir: string;
   publicUrl: string;
   logLevel: LogLevel;
+  /** Where the outbox sends; null (production without SMTP_URL) keeps mail waiting in the outbox. */
+  smtpUrl: string | null;
+  mailFrom: string;
+  /** Run the local fake SMTP server and the mailbox page (development and test by default). */
+  fakeSmtp: boolean;
 }
 
 export class ConfigError extends Error {
@@ -61,6 +73,21 @@ function developmentSecret(file: string): string {
   mkdirSync(dirname(file), { recursive: true });
   writeFileSync(file, secret + '\n', { mode: 0o600 });
   return secret;
+}
+
+export const fakeSmtpDefaultUrl = 'smtp://127.0.0.1:2525';
+
+function mailSettings(e: z.infer<typeof envSchema>): Pick<Config, 'smtpUrl' | 'mailFrom' | 'fakeSmtp'> {
+  const fakeSmtp = e.FAKE_SMTP === undefined ? e.NODE_ENV !== 'production' : e.FAKE_SMTP === 'true' || e.FAKE_SMTP === '1';
+  const smtpUrl = e.SMTP_URL ?? (fakeSmtp || e.NODE_ENV !== 'production' ? fakeSmtpDefaultUrl : null);
+  if (fakeSmtp && smtpUrl) {
+    // The fake listens on loopback only, so the outbox must be pointed at it there.
+    const url = new URL(smtpUrl);
+    if (!['127.0.0.1', 'localhost'].includes(url.hostname) || !url.port || url.protocol !== 'smtp:') {
+      throw new ConfigError('Invalid configuration:\n  SMTP_URL: with FAKE_SMTP on it must be smtp://127.0.0.1:<port>');
+    }
+  }
+  return { smtpUrl, mailFrom: e.MAIL_FROM, fakeSmtp };
 }
 
 const productionSecretLine = '  SESSION_SECRET: required in production (at least 32 characters)';
@@ -100,5 +127,6 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, options: LoadCo
     uploadDir: isAbsolute(e.UPLOAD_DIR) ? e.UPLOAD_DIR : resolve(projectRoot, e.UPLOAD_DIR),
     publicUrl: e.PUBLIC_URL,
     logLevel: e.LOG_LEVEL ?? (e.NODE_ENV === 'test' ? 'silent' : 'info'),
+    ...mailSettings(e),
   };
 }

@@ -10,6 +10,8 @@ import { Car } from './car.entity';
 import { BuildSheet } from './build-sheet.entity';
 import { BuildSheetRevision } from './build-sheet-revision.entity';
 import { Photo } from './photo.entity';
+import { OutboxMessage } from './outbox-message.entity';
+import { AuditEntry } from './audit-entry.entity';
 
 export { Club, Invitation, Membership, User };
 export { clubRoles, type ClubRole } from './membership.entity';
@@ -19,5 +21,7 @@ export { allowedStatusMoves, immutableRowSqlState, rulesetStatuses, type Ruleset
 export { overallVerdicts, type OverallVerdict } from './check-run.entity';
 export { Car, BuildSheet, BuildSheetRevision, Photo };
 export type { ChassisType } from './car.entity';
+export { OutboxMessage, AuditEntry };
+export { outboxStatuses, type OutboxStatus } from './outbox-message.entity';
 
-export const entities = [User, Club, Membership, Invitation, Rulebook, RulesetVersion, CheckRun, Car, BuildSheet, BuildSheetRevision, Photo];
+export const entities = [User, Club, Membership, Invitation, Rulebook, RulesetVersion, CheckRun, Car, BuildSheet, BuildSheetRevision, Photo, OutboxMessage, AuditEntry];
