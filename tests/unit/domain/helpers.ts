@@ -1,10 +1,10 @@
 // Test helpers: load a fixture or demo ruleset, compile it, and check a small specification.
 import { readFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';
-import { compileRuleset, evaluateSpecification, validateRulesetDocument } from '@domain/index';
-import type { CompiledRuleset } from '@domain/index';
-import { parseSpecification } from '@contracts/specification';
-import type { CheckReport, Finding } from '@contracts/report';
+import { compileRuleset, evaluateSpecification, validateRulesetDocument } from '@backend/domain/index';
+import type { CompiledRuleset } from '@backend/domain/index';
+import { parseSpecification } from '@backend/contracts/specification';
+import type { CheckReport, Finding } from '@backend/contracts/report';
 
 const root = fileURLToPath(new URL('../../../', import.meta.url));
 

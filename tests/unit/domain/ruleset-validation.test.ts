@@ -1,6 +1,6 @@
 // validateRulesetDocument: each kind of bad document is rejected with the JSON path of the problem.
 import { describe, expect, test } from 'vitest';
-import { validateRulesetDocument, compileRuleset, RulesetInvalidError } from '@domain/index';
+import { validateRulesetDocument, compileRuleset, RulesetInvalidError } from '@backend/domain/index';
 import { loadJson } from './helpers';
 
 const base = () => structuredClone(loadJson('tests/fixtures/rulesets/msuk-ncr-2026.json')) as Record<string, any>; // eslint-disable-line @typescript-eslint/no-explicit-any -- test documents are mutated freely

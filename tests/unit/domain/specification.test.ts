@@ -1,6 +1,6 @@
 // parseSpecification: every invalid field with its path, including cross-field checks.
 import { describe, expect, test } from 'vitest';
-import { parseSpecification, SPEC_LIMITS } from '@contracts/specification';
+import { parseSpecification, SPEC_LIMITS } from '@backend/contracts/specification';
 
 const good = () => ({
   vehicle: { classId: 'club-saloon', weightWithDriverKg: 1100 },

@@ -2,8 +2,8 @@
 // with monotonicity properties and validation of absurd sizes.
 import { describe, expect, test } from 'vitest';
 import fc from 'fast-check';
-import { bendRadiusRatio, odMarginOverMinimum, ovalityRatio, plateArea, plateLeastSide, tubeSectionProperties, tubeSizeProblems } from '@domain/tube';
-import { fromCanonical, inToMm } from '@domain/units';
+import { bendRadiusRatio, odMarginOverMinimum, ovalityRatio, plateArea, plateLeastSide, tubeSectionProperties, tubeSizeProblems } from '@backend/domain/tube';
+import { fromCanonical, inToMm } from '@backend/domain/units';
 
 describe('F-ENG-4: imperial worked examples (derived from F-ENG-1/F-ENG-2)', () => {
   test.each([

@@ -4,7 +4,7 @@ import fc from 'fast-check';
 import {
   DIMENSIONS, DEFAULT_UNIT, UNITS, atLeast, atMost, formatQuantity, fromCanonical, inToMm, kgToLb, lbToKg, mmToIn, nearlyEqual,
   parseNumber, parseQuantity, toCanonical,
-} from '@domain/units';
+} from '@backend/domain/units';
 
 describe('exact conversions', () => {
   test.each([

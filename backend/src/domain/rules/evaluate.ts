@@ -157,15 +157,33 @@ export async function evaluateSpecification(
         chosen.set(req.id, choice.variant);
       } else direct.push({ req, choice });
     }
-    const engine = rules.length > 0 ? newEngine(rules) : undefined;
+    // One engine rule per subject whose tree holds every requirement as a named branch: the
+    // branches share one priority, so the engine evaluates all of them (no short-circuit across
+    // requirements) and the per-rule overhead (result cloning, events) is paid once per run.
+    const bundle: RuleProperties = {
+      name: 'group',
+      event: { type: 'group' },
+      conditions: { all: rules.map((r) => ({ ...(r.conditions as object), name: r.name })) } as unknown as RuleProperties['conditions'],
+    };
+    const engine = rules.length > 0 ? newEngine([bundle]) : undefined;
     const needed = factsNeeded(reqs);
+    const seen = new Map<string, Map<string, ResultNode>>();
     for (const { subject, facts } of subjects) {
       const order = subject.kind === 'vehicle' ? 0 : subject.index;
       for (const { req, choice } of direct) findings.push({ order: [req.index, order], finding: bandFinding(ctx, req, subject, choice) });
       if (!engine) continue;
-      const { results, failureResults } = await engine.run(pickFacts(facts, needed));
-      const trees = new Map<string, ResultNode>();
-      for (const r of [...results, ...failureResults]) trees.set(r.name, r.conditions as unknown as ResultNode);
+      // Left/right pairs and repeated bars often have identical facts: run the engine once for
+      // them (the result trees are only read, never changed).
+      const runFacts = pickFacts(facts, needed);
+      const key = JSON.stringify(runFacts);
+      let trees = seen.get(key);
+      if (!trees) {
+        const { results, failureResults } = await engine.run(runFacts);
+        trees = new Map<string, ResultNode>();
+        const root = [...results, ...failureResults][0].conditions as unknown as ResultNode;
+        for (const branch of root.all ?? []) trees.set(String(branch.name), branch);
+        seen.set(key, trees);
+      }
       for (const req of reqs) {
         const tree = trees.get(req.id);
         const variant = chosen.get(req.id);
@@ -271,27 +289,56 @@ function factValueOf(facts: FactSet, leaf: ResultNode, meta: LeafMeta): unknown 
   return leaf.factResult;
 }
 
-function measuredAndRequired(req: CompiledRequirement, leaves: ResultNode[], facts: FactSet): { measured: MeasuredValue[]; required: RequiredValue[] } {
-  const measured: MeasuredValue[] = [];
+interface LeafSummary {
+  required: RequiredValue[];
+  /** Unique facts to report as measured, in leaf order. */
+  measured: { name: string; meta: LeafMeta }[];
+}
+
+// The required side of a subtree is static per compiled requirement; cache it so a check only
+// looks up measured values.
+const summaries = new WeakMap<CompiledRequirement, Map<string, LeafSummary>>();
+
+function summarise(req: CompiledRequirement, leaves: ResultNode[]): LeafSummary {
+  let perReq = summaries.get(req);
+  if (!perReq) summaries.set(req, (perReq = new Map()));
+  const key = leaves.map((l) => l.name).join(',');
+  const cached = perReq.get(key);
+  if (cached) return cached;
   const required: RequiredValue[] = [];
+  const measured: LeafSummary['measured'] = [];
   const seenM = new Set<string>();
   const seenR = new Set<string>();
   for (const leaf of leaves) {
     const meta = req.leaves[String(leaf.name)];
     if (!meta) continue;
-    const key = `${meta.fact}|${meta.path ?? ''}`;
-    const value = factValueOf(facts, leaf, meta);
-    if (!seenM.has(key) && (typeof value === 'number' || typeof value === 'string' || typeof value === 'boolean')) {
-      seenM.add(key);
-      measured.push({ fact: meta.fact, label: meta.label, ...(meta.path ? { path: meta.path } : {}), value, dimension: meta.dimension });
+    const key2 = `${meta.fact}|${meta.path ?? ''}`;
+    if (!seenM.has(key2)) {
+      seenM.add(key2);
+      measured.push({ name: String(leaf.name), meta });
     }
-    const rkey = `${key}|${meta.operator}|${JSON.stringify(meta.value)}`;
+    const rkey = `${key2}|${meta.operator}|${JSON.stringify(meta.value)}`;
     if (!seenR.has(rkey)) {
       seenR.add(rkey);
       required.push({ fact: meta.fact, label: meta.label, ...(meta.path ? { path: meta.path } : {}), operator: meta.operator, value: meta.value as RequiredValue['value'], dimension: meta.dimension });
     }
   }
-  return { measured, required };
+  const summary = { required, measured };
+  perReq.set(key, summary);
+  return summary;
+}
+
+function measuredAndRequired(req: CompiledRequirement, leaves: ResultNode[], facts: FactSet): { measured: MeasuredValue[]; required: RequiredValue[] } {
+  const summary = summarise(req, leaves);
+  const measured: MeasuredValue[] = [];
+  const byName = new Map(leaves.map((l) => [String(l.name), l]));
+  for (const { name, meta } of summary.measured) {
+    const value = factValueOf(facts, byName.get(name)!, meta);
+    if (typeof value === 'number' || typeof value === 'string' || typeof value === 'boolean')
+      measured.push({ fact: meta.fact, label: meta.label, ...(meta.path ? { path: meta.path } : {}), value, dimension: meta.dimension });
+  }
+  // Copies, so a caller editing a report never changes the cache.
+  return { measured, required: summary.required.map((r) => ({ ...r })) };
 }
 
 function buildFinding(ctx: Ctx, req: CompiledRequirement, variant: CompiledVariant, subject: Subject, tree: ResultNode, facts: FactSet): Finding {
@@ -372,8 +419,7 @@ function tubeTableFinding(
   // counting as a full miss; ties go to the first listed.
   const score = (name: string): number => {
     const a = req.alternatives[name];
-    const leafWall = leavesOf(alts.find((n) => n.name === name)!).find((l) => req.leaves[String(l.name)]?.fact === 'member.wallMm');
-    const wallReq = leafWall ? (req.leaves[String(leafWall.name)].value as number) : a.wallMm;
+    const wallReq = a.requiredWallMm;
     let s = Math.max(0, a.odMm - od) / a.odMm + Math.max(0, wallReq - wall) / wallReq;
     if (a.materials && material !== undefined && !a.materials.includes(material)) s += 1;
     if (a.processes && process !== undefined && !a.processes.includes(process)) s += 1;
@@ -381,7 +427,7 @@ function tubeTableFinding(
   };
   const pick = matched ?? [...alts].sort((x, y) => score(String(x.name)) - score(String(y.name)))[0];
   const pickMeta = pick ? req.alternatives[String(pick.name)] : undefined;
-  const required: RequiredValue[] = pick ? measuredAndRequired(req, leavesOf(pick), facts).required : [];
+  const required: RequiredValue[] = pick ? summarise(req, leavesOf(pick)).required.map((r) => ({ ...r })) : [];
   const v: Finding['verdict'] = verdict === 'unknown' ? 'needs_information' : verdict ? 'pass' : 'fail';
   const restrictions = (a: typeof pickMeta) =>
     a ? [a.materials ? ` in ${a.materials.join(' or ')}` : '', a.processes ? ` (${a.processes.join(', ')})` : ''].join('') : '';

@@ -96,9 +96,9 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
         }
         return out;
       };
-      const sizeNode = (odMm: number, wallMm: number, meta: Omit<AlternativeMeta, 'materials' | 'processes'>): EngineNode => {
+      const sizeNode = (odMm: number, wallMm: number, meta: Omit<AlternativeMeta, 'materials' | 'processes' | 'requiredWallMm'>): EngineNode => {
         const name = ctx.nextAlternative();
-        ctx.alternatives[name] = { ...meta, ...(row.materials ? { materials: row.materials } : {}), ...(row.processes ? { processes: row.processes } : {}) };
+        ctx.alternatives[name] = { ...meta, requiredWallMm: Math.max(wallMm - wallAllowanceMm, 0), ...(row.materials ? { materials: row.materials } : {}), ...(row.processes ? { processes: row.processes } : {}) };
         const od = compileLeaf({ fact: 'member.odMm', operator: 'greaterThanInclusive', value: odMm, unit: 'mm' }, rowPath, ctx);
         const wall = compileLeaf({ fact: 'member.wallMm', operator: 'greaterThanInclusive', value: Math.max(wallMm - wallAllowanceMm, 0), unit: 'mm' }, rowPath, ctx);
         return { all: [...restrictions(), od, wall], name };
@@ -125,7 +125,7 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
         const name = ctx.nextAlternative();
         const label = `${lengthLabel(minOd + marginMm, ctx.system)} OD or larger with ${lengthLabel(minWallMm, ctx.system)} wall (thin-wall allowance)`;
         ctx.alternatives[name] = {
-          label, odMm: minOd + marginMm, wallMm: minWallMm, source: 'allowance',
+          label, odMm: minOd + marginMm, wallMm: minWallMm, requiredWallMm: Math.max(minWallMm - wallAllowanceMm, 0), source: 'allowance',
           ...(row.materials ? { materials: row.materials } : {}), ...(row.processes ? { processes: row.processes } : {}),
         };
         const margin = compileLeaf(
@@ -136,6 +136,9 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
         alternatives.push({ all: [...restrictions(), margin, wall], name });
       }
     });
+    // Descending priorities make the engine try alternatives one at a time and stop at the first
+    // that fits, instead of evaluating every alternative of the band.
+    alternatives.forEach((alt, i) => (alt.priority = alternatives.length - i));
     variants.push({ aboveKg: previousUpTo, upToKg, ...(band.label ? { bandLabel: band.label } : {}), node: { any: alternatives } });
     if (upToKg !== null) previousUpTo = upToKg;
   });

@@ -21,6 +21,8 @@ export interface AlternativeMeta {
   label: string;
   odMm: number;
   wallMm: number;
+  /** Wall the engine compares with, after any wall allowance (canonical mm). */
+  requiredWallMm: number;
   materials?: readonly string[];
   processes?: readonly string[];
   source: 'table' | 'allowance' | 'printed_equivalent';
