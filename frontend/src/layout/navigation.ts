@@ -15,6 +15,7 @@ export interface NavEntry {
 
 export const navEntries: readonly NavEntry[] = [
   { label: 'Overview', icon: 'pi pi-gauge', route: 'home' },
+  { label: 'Garage', icon: 'pi pi-car', route: 'garage', roles: ['builder'] },
   { label: 'Members', icon: 'pi pi-users', route: 'club-members', roles: ['admin'] },
   { label: 'Account', icon: 'pi pi-user', route: 'account' },
 ];

@@ -4,7 +4,8 @@ import type { RouteRecordRaw } from 'vue-router';
 import type { Role } from '@/api/types';
 
 /** Every route name; links and redirects use these, never raw paths. */
-export type RouteName = 'sign-in' | 'invitation' | 'home' | 'account' | 'club-members' | 'not-found';
+export type RouteName = 'sign-in' | 'invitation' | 'home' | 'account' | 'club-members' | 'not-found'
+  | 'garage' | 'car' | 'build-sheet' | 'check-run';
 
 declare module 'vue-router' {
   interface RouteMeta {
@@ -54,6 +55,10 @@ export const routes: NamedRoute[] = [
         component: () => import('@/views/ClubMembersView.vue'),
         meta: { roles: ['admin'], title: 'Members' },
       },
+      { path: 'garage', name: 'garage', component: () => import('@/views/GarageView.vue'), meta: { title: 'Garage' } },
+      { path: 'cars/:carId', name: 'car', component: () => import('@/views/CarView.vue'), meta: { title: 'Car' } },
+      { path: 'build-sheets/:sheetId', name: 'build-sheet', component: () => import('@/views/BuildSheetView.vue'), meta: { title: 'Build sheet' } },
+      { path: 'check-runs/:checkRunId', name: 'check-run', component: () => import('@/views/CheckRunView.vue'), meta: { title: 'Check run' } },
     ],
   },
   {

@@ -1,0 +1,70 @@
+// Plain trade words for every closed list the specification uses, for selects and for findings.
+import {
+  CHASSIS_TYPES, COCKPIT_TYPES, FUELS, MATERIALS, MEMBER_KINDS, MEMBER_KIND_LABELS, PADDING_STANDARDS, PLATE_FIXINGS,
+  PLATE_LOCATIONS, PROCESSES, WALL_METHODS, WELDING_PROCESSES,
+} from '@domain/index';
+
+const WORDS: Record<string, string> = {
+  mild_steel: 'Mild steel',
+  chromoly_4130: '4130 chromoly',
+  other: 'Other',
+  dom: 'DOM',
+  erw: 'ERW',
+  seamless: 'Seamless',
+  cds: 'CDS',
+  unibody: 'Unibody (bodyshell)',
+  tube_frame: 'Tube frame',
+  open: 'Open',
+  closed: 'Closed',
+  petrol: 'Petrol',
+  diesel: 'Diesel',
+  ethanol: 'Ethanol',
+  methanol: 'Methanol',
+  electric: 'Electric',
+  welded: 'Welded',
+  bolted: 'Bolted',
+  main_hoop_foot: 'Main hoop foot',
+  front_hoop_foot: 'Front hoop foot',
+  rear_brace_foot: 'Rear brace foot',
+  lateral_hoop_foot: 'Lateral hoop foot',
+  tig: 'TIG',
+  mig: 'MIG',
+  stick: 'Stick',
+  gas: 'Gas',
+  sfi_45_1: 'SFI 45.1',
+  fia_8857_2001: 'FIA 8857-2001',
+  non_homologated: 'Not to a standard',
+  none: 'No padding',
+  ultrasonic: 'Ultrasonic gauge',
+  inspection_hole: 'Inspection hole',
+};
+
+const kindLabel = (k: string) => MEMBER_KIND_LABELS[k as keyof typeof MEMBER_KIND_LABELS];
+
+/** A value from any closed list in words ("chromoly_4130" → "4130 chromoly", "main_hoop" → "Main hoop"). */
+export function valueLabel(value: string): string {
+  const kind = kindLabel(value);
+  if (kind) return kind.charAt(0).toUpperCase() + kind.slice(1);
+  return WORDS[value] ?? value.replace(/_/g, ' ');
+}
+
+export interface Option {
+  label: string;
+  value: string;
+}
+
+const options = (values: readonly string[]): Option[] => values.map((value) => ({ label: valueLabel(value), value }));
+
+export const OPTIONS = {
+  kind: options(MEMBER_KINDS),
+  material: options(MATERIALS),
+  process: options(PROCESSES),
+  chassis: options(CHASSIS_TYPES),
+  cockpit: options(COCKPIT_TYPES),
+  fuel: options(FUELS),
+  fixing: options(PLATE_FIXINGS),
+  location: options(PLATE_LOCATIONS),
+  welding: options(WELDING_PROCESSES),
+  padding: options(PADDING_STANDARDS),
+  wallMethod: options(WALL_METHODS),
+} as const;

@@ -1,0 +1,56 @@
+// What the sheet's inputs share with the editor around them: the draft itself, the units on screen, messages per input
+// path (the draft's own checks, the server's field errors), live findings marks, and the parse errors
+// of text that is not a number yet, which block a save because the draft cannot see that text.
+import { computed, inject, provide, reactive, ref, type ComputedRef, type InjectionKey, type Ref } from 'vue';
+import type { UnitSystem } from '@domain/index';
+import type { InputMark } from '@/components/findings/findingMarks';
+import { emptyDraft, type SheetDraft } from './useBuildSheetDraft';
+
+export interface SheetInputs {
+  /** The draft the sections edit in place (shared, not passed down as a prop to mutate). */
+  draft: Ref<SheetDraft>;
+  units: ComputedRef<UnitSystem>;
+  /** Messages by path (`members.0.wallMm`): the draft's checks and the server's field errors. */
+  errors: ComputedRef<Record<string, string>>;
+  marks: ComputedRef<Record<string, InputMark>>;
+  parseErrors: Record<string, string>;
+  setParseError(path: string, message: string | null): void;
+}
+
+const KEY: InjectionKey<SheetInputs> = Symbol('sheet-inputs');
+
+export function provideSheetInputs(
+  draft: Ref<SheetDraft>,
+  units: ComputedRef<UnitSystem>,
+  errors: ComputedRef<Record<string, string>>,
+  marks: ComputedRef<Record<string, InputMark>>,
+): SheetInputs {
+  const parseErrors = reactive<Record<string, string>>({});
+  const inputs: SheetInputs = {
+    draft,
+    units,
+    errors,
+    marks,
+    parseErrors,
+    setParseError(path, message) {
+      if (message === null) delete parseErrors[path];
+      else parseErrors[path] = message;
+    },
+  };
+  provide(KEY, inputs);
+  return inputs;
+}
+
+/** Inputs used outside an editor (a dialog, a test) get metric, no messages and no marks. */
+export function useSheetInputs(): SheetInputs {
+  return (
+    inject(KEY, null) ?? {
+      draft: ref(emptyDraft('none')),
+      units: computed(() => 'metric' as const),
+      errors: computed(() => ({})),
+      marks: computed(() => ({})),
+      parseErrors: {},
+      setParseError: () => undefined,
+    }
+  );
+}
