@@ -5,7 +5,8 @@ import type { Dimension } from '../domain/units.js';
 import type { MemberKind } from '../domain/vocabulary.js';
 import { CHASSIS_TYPES } from '../domain/vocabulary.js';
 import { uuidSchema } from './common.js';
-import type { CheckReport, memberTubeDataSchema } from './report.js';
+import type { CheckRunWire } from './checks.js';
+import type { memberTubeDataSchema } from './report.js';
 import { specificationSchema } from './specification.js';
 
 export const PHOTO_AREAS = ['tubes', 'members', 'geometry', 'mounting', 'padding', 'welding', 'general'] as const;
@@ -270,9 +271,8 @@ export interface CheckRunSummaryWire {
   createdAt: string;
 }
 
-export interface CheckRunWire extends CheckRunSummaryWire {
-  report: CheckReport;
-}
+/** A saved check run of a sheet (the checks contract's run, plus where it came from). */
+export type SheetCheckRunWire = CheckRunWire & { buildSheetId: string; revisionNumber: number };
 
 export type MemberTubeDataWire = z.infer<typeof memberTubeDataSchema>;
 export type { MemberKind };

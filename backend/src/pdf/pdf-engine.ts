@@ -1,5 +1,6 @@
 // The one place the server renders PDFs. Fonts are read from disk once per process into pdfmake's
-// virtual file system, and documents may neither fetch URLs nor read local files.
+// virtual file system, and documents may neither fetch URLs nor read local files. The parsed fonts
+// are kept too (see reuseParsedFonts), since parsing Noto Sans anew was most of a report's cost.
 import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { dirname, join } from 'node:path';
@@ -21,6 +22,39 @@ const virtualFs = (pdfmake as unknown as { virtualfs: { writeFileSync(name: stri
 
 let ready = false;
 
+interface FontkitFormat {
+  probe(buffer: Uint8Array): boolean;
+}
+interface FontkitModule {
+  create(buffer: Uint8Array): { constructor: FontkitFormat };
+  registerFormat(format: unknown): void;
+}
+
+/**
+ * pdfmake hands pdfkit the font bytes for every document, and pdfkit has fontkit parse them again
+ * each time (tables, then the large GSUB/GPOS lookups on first layout). A parsed fontkit font is
+ * read-only once built (each document makes its own subset from it), so the same object can serve
+ * every document. fontkit picks the first registered format whose probe accepts the bytes; for our
+ * own font buffers the TrueType format steps aside and a format that returns the parsed font takes
+ * over (a constructor may return another object). Every other font is parsed as before.
+ */
+function reuseParsedFonts(buffers: Buffer[]): void {
+  const fontkit = require('fontkit') as FontkitModule;
+  const parsed = new Map<Uint8Array, unknown>(buffers.map((b) => [b, fontkit.create(b)]));
+  const trueType = (parsed.values().next().value as { constructor: FontkitFormat }).constructor;
+  const probe = trueType.probe.bind(trueType);
+  trueType.probe = (buffer) => !parsed.has(buffer) && probe(buffer);
+  class ParsedFont {
+    static probe(buffer: Uint8Array): boolean {
+      return parsed.has(buffer);
+    }
+    constructor(stream: { buffer: Uint8Array }) {
+      return parsed.get(stream.buffer) as ParsedFont;
+    }
+  }
+  fontkit.registerFormat(ParsedFont);
+}
+
 function fontFolder(): string {
   // The package's entry sits at its root; each weight lives in a folder named after it.
   return dirname(require.resolve('@expo-google-fonts/noto-sans/package.json'));
@@ -30,10 +64,14 @@ function fontFolder(): string {
 export function preparePdfEngine(): void {
   if (ready) return;
   const root = fontFolder();
+  const buffers: Buffer[] = [];
   for (const file of Object.values(FONT_FILES)) {
     const weightFolder = file.replace(/^NotoSans_/, '').replace(/\.ttf$/, '');
-    virtualFs.writeFileSync(file, readFileSync(join(root, weightFolder, file)));
+    const bytes = readFileSync(join(root, weightFolder, file));
+    virtualFs.writeFileSync(file, bytes);
+    buffers.push(bytes);
   }
+  reuseParsedFonts(buffers);
   pdfmake.setFonts({ NotoSans: { ...FONT_FILES } });
   pdfmake.setUrlAccessPolicy(() => false);
   pdfmake.setLocalAccessPolicy(() => false);

@@ -1,0 +1,374 @@
+// The pre-check report as a pdfmake document definition, built by a pure function from a saved
+// check run and what the garage knows about the car (rendering is pdf-engine's job). Every number
+// is formatted from canonical units with the domain's formatQuantity in the reader's units. Noto
+// Sans has no "≥", "≤" or "→" glyphs, so text passes through pdfSafe before it reaches the page.
+import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interfaces';
+import type { CutListRowWire, TubeDataWire } from '../contracts/garage';
+import type { CheckReport, Finding, MeasuredValue, RequiredValue } from '../contracts/report';
+import { AREAS } from '../contracts/ruleset';
+import { FACTS_BY_NAME } from '../domain/facts';
+import { formatQuantity, type Dimension, type UnitSystem } from '../domain/units';
+import { MEMBER_KIND_LABELS } from '../domain/vocabulary';
+
+export const REPORT_TITLE = 'Cagewright pre-check report';
+export const SAFETY_CAUTION =
+  'Cagewright gives a pre-check only. The sanctioning body’s inspector decides whether a cage passes. ' +
+  'Welding and fabrication belong to qualified people working under local rules.';
+
+export interface ReportPhoto {
+  /** JPEG bytes of the thumbnail. */
+  thumbnail: Buffer;
+  caption: string;
+  /** "main hoop mh", "mounting" */
+  label: string;
+}
+
+export interface ReportDocumentInput {
+  report: CheckReport;
+  units: UnitSystem;
+  car: { name: string; raceNumber: string | null; make: string | null; model: string | null; year: number | null } | null;
+  builderName: string | null;
+  sheetName: string | null;
+  revisionNumber: number | null;
+  verificationCode: string;
+  checkedAt: Date;
+  /** Tube data with the cut list, computed from the specification that was checked. */
+  tubeData: TubeDataWire;
+  photos: ReportPhoto[];
+}
+
+const COLOURS = { ink: '#1d2327', muted: '#5b6670', rule: '#c9d0d6', band: '#eef1f3', pass: '#1f6f43', fail: '#a3261d', info: '#8a5a00', na: '#5b6670' };
+
+const VERDICT_WORDS: Readonly<Record<Finding['verdict'], string>> = {
+  pass: 'Pass', fail: 'Fail', needs_information: 'Needs information', not_applicable: 'Not applicable',
+};
+const VERDICT_COLOURS: Readonly<Record<Finding['verdict'], string>> = {
+  pass: COLOURS.pass, fail: COLOURS.fail, needs_information: COLOURS.info, not_applicable: COLOURS.na,
+};
+const OVERALL_WORDS: Readonly<Record<CheckReport['verdict'], string>> = {
+  pass: 'PASSES THE PRE-CHECK', fail: 'DOES NOT PASS THE PRE-CHECK', needs_information: 'NEEDS MORE INFORMATION',
+};
+const AREA_TITLES: Readonly<Record<(typeof AREAS)[number], string>> = {
+  tubes: 'Tubes', members: 'Members', geometry: 'Geometry', mounting: 'Mounting', padding: 'Padding', welding: 'Welding', material: 'Material',
+};
+const OPERATOR_WORDS: Readonly<Record<RequiredValue['operator'], string>> = {
+  atLeast: 'at least', atMost: 'at most', above: 'more than', below: 'less than', equals: 'exactly', notEquals: 'not',
+  oneOf: 'one of', noneOf: 'none of', includes: 'includes', excludes: 'does not include',
+};
+
+/** Replaces characters Noto Sans cannot draw with words, so nothing silently vanishes from the page. */
+export function pdfSafe(text: string): string {
+  return text
+    .replace(/\s*≥\s*/g, ' at least ')
+    .replace(/\s*≤\s*/g, ' at most ')
+    .replace(/\s*→\s*/g, ' to ')
+    .replace(/\s*≠\s*/g, ' not ')
+    // Vocabulary words that slip into generated sentences (mild_steel) read better as words.
+    .replace(/\b[a-z0-9]+(?:_[a-z0-9]+)+\b/g, (w) => w.replace(/_/g, ' '))
+    .replace(/ {2,}/g, ' ')
+    .trim();
+}
+
+// Vocabulary words as the trade writes them; anything else just loses its underscores.
+const WORDS: Readonly<Record<string, string>> = {
+  dom: 'DOM', erw: 'ERW', cds: 'CDS', tig: 'TIG', mig: 'MIG', chromoly_4130: '4130 chromoly', sfi_45_1: 'SFI 45.1',
+  fia_8857_2001: 'FIA 8857-2001', non_homologated: 'non-homologated',
+};
+const humanize = (s: string) => WORDS[s] ?? s.replace(/_/g, ' ');
+
+function quantity(value: number, dimension: Dimension | null, units: UnitSystem): string {
+  return dimension ? formatQuantity(value, dimension, units).text : String(value);
+}
+
+function scalarText(value: number | string | boolean, dimension: Dimension | null, units: UnitSystem): string {
+  if (typeof value === 'number') return quantity(value, dimension, units);
+  if (typeof value === 'boolean') return value ? 'yes' : 'no';
+  return humanize(value);
+}
+
+export function measuredText(m: MeasuredValue, units: UnitSystem): string {
+  return pdfSafe(`${m.label}: ${scalarText(m.value, m.dimension, units)}`);
+}
+
+export function requiredText(r: RequiredValue, units: UnitSystem): string {
+  const v = r.value;
+  const value = Array.isArray(v)
+    ? v.map(humanize).join(', ')
+    : typeof v === 'object'
+      ? `the ${FACTS_BY_NAME.get(v.fact)?.label ?? humanize(v.fact)}`
+      : scalarText(v, r.dimension, units);
+  return pdfSafe(`${r.label}: ${OPERATOR_WORDS[r.operator]} ${value}`);
+}
+
+function subjectText(f: Finding): string {
+  if (f.member) return `${MEMBER_KIND_LABELS[f.member.kind]} "${f.member.id}"`;
+  if (f.plate) return `plate "${f.plate.id}" (${humanize(f.plate.location)})`;
+  return 'whole car';
+}
+
+export function tubeSizeText(odMm: number, wallMm: number, units: UnitSystem): string {
+  const od = formatQuantity(odMm, 'length', units);
+  const wall = formatQuantity(wallMm, 'length', units);
+  return `${od.value.toFixed(od.decimals)} × ${wall.text}`;
+}
+
+/** Findings grouped by area, in the ruleset format's area order; empty areas are left out. */
+export function findingsByArea(findings: readonly Finding[]): { area: (typeof AREAS)[number]; title: string; findings: Finding[] }[] {
+  return AREAS.map((area) => ({ area, title: AREA_TITLES[area], findings: findings.filter((f) => f.area === area) })).filter((g) => g.findings.length > 0);
+}
+
+function labelValueTable(rows: [string, string][]): Content {
+  return {
+    table: { widths: [110, '*'], body: rows.map(([k, v]) => [{ text: k, color: COLOURS.muted }, { text: pdfSafe(v) }]) },
+    layout: 'noBorders',
+    margin: [0, 0, 0, 4],
+  };
+}
+
+/** Findings of one requirement, in report order: the rule is cited once, then one row per subject. */
+export function findingsByRequirement(findings: readonly Finding[]): Finding[][] {
+  const groups = new Map<string, Finding[]>();
+  for (const f of findings) {
+    const list = groups.get(f.requirementId) ?? [];
+    list.push(f);
+    groups.set(f.requirementId, list);
+  }
+  return [...groups.values()];
+}
+
+function requirementBlock(findings: readonly Finding[], units: UnitSystem): Content {
+  const first = findings[0]!;
+  const rows: TableCell[][] = findings.map((f) => {
+    const details: Content[] = [];
+    if (f.measured.length) details.push({ text: [{ text: 'Measured ', color: COLOURS.muted }, f.measured.map((m) => measuredText(m, units)).join('; ')] });
+    if (f.required.length) details.push({ text: [{ text: 'Required ', color: COLOURS.muted }, f.required.map((r) => requiredText(r, units)).join('; ')] });
+    if (f.missing.length) details.push({ text: [{ text: 'Missing ', color: COLOURS.muted }, f.missing.map((m) => pdfSafe(m.label)).join('; ')] });
+    if (f.reason) details.push({ text: pdfSafe(f.reason) });
+    return [
+      { text: VERDICT_WORDS[f.verdict], bold: true, color: VERDICT_COLOURS[f.verdict] },
+      { text: subjectText(f) },
+      { stack: details },
+    ];
+  });
+  const parts: Content[] = [
+    {
+      columns: [
+        { text: [{ text: pdfSafe(first.title), bold: true }, ...(first.severity === 'advisory' ? [{ text: '  advisory', color: COLOURS.muted }] : [])], width: '*' },
+        { text: `Section ${pdfSafe(first.citation.section)}`, bold: true, width: 'auto', alignment: 'right' },
+      ],
+      margin: [0, 4, 0, 1],
+    },
+    ...(first.explanation ? [{ text: pdfSafe(first.explanation), color: COLOURS.muted, fontSize: 8, margin: [0, 0, 0, 2] } as Content] : []),
+    {
+      table: { widths: [62, 92, '*'], body: rows, dontBreakRows: true },
+      layout: { hLineWidth: (i: number) => (i === 0 ? 0 : 0.4), vLineWidth: () => 0, hLineColor: () => COLOURS.rule, paddingLeft: (i: number) => (i === 0 ? 0 : 4), paddingTop: () => 2, paddingBottom: () => 2 },
+      fontSize: 8.5,
+      margin: [0, 0, 0, 4],
+    },
+  ];
+  // A short rule stays on one page with its heading; a long one may break between subjects.
+  return { stack: parts, unbreakable: findings.length <= 4 };
+}
+
+const headerCell = (text: string, alignment: 'left' | 'right' = 'left'): TableCell => ({ text, bold: true, fillColor: COLOURS.band, alignment, fontSize: 8.5 });
+const numberCell = (text: string): TableCell => ({ text, alignment: 'right', fontSize: 8.5 });
+
+function tubeTable(data: TubeDataWire, units: UnitSystem): Content {
+  const q = (v: number, d: Dimension) => formatQuantity(v, d, units).text;
+  const body: TableCell[][] = [
+    ['Member', 'Size (OD × wall)', 'Area A', 'I', 'Z', 'Mass per length', 'Length', 'Mass'].map((h, i) => headerCell(h, i < 2 ? 'left' : 'right')),
+    ...data.members.map((m) => [
+      { text: `${m.memberId}\n${MEMBER_KIND_LABELS[m.kind]}`, fontSize: 8.5 },
+      { text: tubeSizeText(m.odMm, m.wallMm, units), fontSize: 8.5 },
+      numberCell(q(m.areaMm2, 'area')),
+      numberCell(q(m.secondMomentMm4, 'second_moment')),
+      numberCell(q(m.sectionModulusMm3, 'section_modulus')),
+      numberCell(q(m.massPerMetreKg, 'mass_per_length')),
+      numberCell(m.lengthMm === null ? 'not given' : q(m.lengthMm, 'length')),
+      numberCell(m.massKg === null ? '' : q(m.massKg, 'mass')),
+    ]),
+  ];
+  // Fixed widths (515 pt of A4 between the margins) so wide imperial numbers never push past the edge.
+  return { table: { headerRows: 1, dontBreakRows: true, widths: ['*', 70, 40, 48, 48, 52, 50, 40], body }, layout: 'lightHorizontalLines', fontSize: 8.5, margin: [0, 0, 0, 6] };
+}
+
+function cutListTable(rows: readonly CutListRowWire[], units: UnitSystem): Content {
+  const q = (v: number, d: Dimension) => formatQuantity(v, d, units).text;
+  const body: TableCell[][] = [
+    ['Tube size (OD × wall)', 'Material', 'Members', 'Total length', 'Mass'].map((h, i) => headerCell(h, i < 3 ? 'left' : 'right')),
+    ...rows.map((r) => [
+      { text: tubeSizeText(r.odMm, r.wallMm, units), fontSize: 8.5 },
+      { text: humanize(r.material), fontSize: 8.5 },
+      { text: r.memberIds.join(', ') + (r.membersWithoutLength.length ? `\nno length: ${r.membersWithoutLength.join(', ')}` : ''), fontSize: 8.5 },
+      numberCell(q(r.totalLengthMm, 'length')),
+      numberCell(q(r.massKg, 'mass')),
+    ]),
+  ];
+  return { table: { headerRows: 1, dontBreakRows: true, widths: [90, 64, '*', 60, 44], body }, layout: 'lightHorizontalLines', fontSize: 8.5, margin: [0, 0, 0, 6] };
+}
+
+function photoGrid(photos: readonly ReportPhoto[]): Content {
+  const perRow = 3;
+  const cells: Content[] = photos.map((p) => ({
+    stack: [
+      { image: `data:image/jpeg;base64,${p.thumbnail.toString('base64')}`, fit: [160, 120], margin: [0, 0, 0, 2] },
+      { text: pdfSafe(p.label), bold: true, fontSize: 8 },
+      ...(p.caption ? [{ text: pdfSafe(p.caption), fontSize: 8, color: COLOURS.muted }] : []),
+    ],
+    margin: [0, 0, 0, 8],
+    unbreakable: true,
+  }));
+  const rows: Content[][] = [];
+  for (let i = 0; i < cells.length; i += perRow) {
+    const row = cells.slice(i, i + perRow);
+    while (row.length < perRow) row.push({ text: '' });
+    rows.push(row);
+  }
+  return { table: { widths: ['*', '*', '*'], body: rows }, layout: 'noBorders' };
+}
+
+const heading = (text: string): Content => ({ text, style: 'h2' });
+
+export function buildReportDocument(input: ReportDocumentInput): TDocumentDefinitions {
+  const { report, units, car } = input;
+  const q = (v: number, d: Dimension) => formatQuantity(v, d, units).text;
+  const overallColour = report.verdict === 'pass' ? COLOURS.pass : report.verdict === 'fail' ? COLOURS.fail : COLOURS.info;
+  const s = report.summary;
+  const dateText = input.checkedAt.toISOString().slice(0, 10);
+  const makeModel = [car?.make, car?.model].filter(Boolean).join(' ');
+
+  const content: Content[] = [
+    { text: REPORT_TITLE, style: 'title' },
+    { text: pdfSafe(`${report.rulebook.title}, ${report.rulebook.edition}`), color: COLOURS.muted, margin: [0, 0, 0, 10] },
+    {
+      columns: [
+        {
+          width: '*',
+          stack: [
+            heading('Car'),
+            labelValueTable([
+              ['Car', car?.name ?? 'not from a build sheet'],
+              ['Race number', car?.raceNumber ?? 'none'],
+              ['Make and model', makeModel || 'not given'],
+              ['Year', car?.year ? String(car.year) : 'not given'],
+              ['Build sheet', input.sheetName ? `${input.sheetName}${input.revisionNumber ? `, revision ${input.revisionNumber}` : ''}` : 'none'],
+              ['Builder', input.builderName ?? 'unknown'],
+            ]),
+          ],
+        },
+        {
+          width: '*',
+          stack: [
+            heading('Rules'),
+            labelValueTable([
+              ['Rulebook', report.rulebook.title],
+              ['Edition', report.rulebook.edition],
+              ['Publisher', report.rulebook.publisher],
+              ['Effective from', report.rulebook.effectiveDate],
+              ['Class', `${report.className} (${report.classId})`],
+            ]),
+          ],
+        },
+      ],
+      columnGap: 16,
+    },
+    {
+      table: {
+        widths: ['*'],
+        body: [[{
+          stack: [
+            { text: OVERALL_WORDS[report.verdict], fontSize: 24, bold: true, color: '#ffffff' },
+            { text: `${s.pass} pass · ${s.fail} fail · ${s.needsInformation} need information · ${s.notApplicable} not applicable${s.advisoryFail ? ` · ${s.advisoryFail} advisory not met` : ''}`, color: '#ffffff', margin: [0, 2, 0, 0] },
+          ],
+          fillColor: overallColour,
+          margin: [10, 8, 10, 8],
+        }]],
+      },
+      layout: 'noBorders',
+      margin: [0, 6, 0, 6],
+    },
+    labelValueTable([
+      ['Verification code', input.verificationCode],
+      ['Checked on', dateText],
+      ['Units', units === 'metric' ? 'metric (mm, kg)' : 'imperial (in, lb)'],
+    ]),
+    { text: SAFETY_CAUTION, bold: true, margin: [0, 2, 0, 2] },
+    { text: pdfSafe(report.disclaimer), color: COLOURS.muted, fontSize: 8.5, margin: [0, 0, 0, 10] },
+  ];
+
+  const notMet = report.findings.filter((f) => f.verdict === 'fail' || (f.verdict === 'needs_information' && f.severity === 'mandatory'));
+  if (notMet.length) {
+    content.push(heading('Not met yet'), {
+      table: {
+        widths: [100, '*', 'auto'],
+        body: notMet.map((f) => [
+          { text: VERDICT_WORDS[f.verdict], bold: true, color: VERDICT_COLOURS[f.verdict] },
+          { text: `${pdfSafe(f.title)}, ${subjectText(f)}` },
+          { text: `Section ${pdfSafe(f.citation.section)}`, alignment: 'right' as const },
+        ]),
+      },
+      layout: 'lightHorizontalLines',
+      fontSize: 8.5,
+      margin: [0, 0, 0, 6],
+    });
+  }
+
+  if (report.measureNext.length) {
+    content.push(heading('Measure next'), {
+      ul: report.measureNext.map((m) => pdfSafe(`${m.label}${m.memberIds.length ? ` (${m.memberIds.join(', ')})` : ''}`)),
+      margin: [0, 0, 0, 8],
+    });
+  }
+
+  // The first page is the summary a steward reads first; the findings follow from page 2.
+  content.push({ text: 'Findings', style: 'h2', pageBreak: 'before' });
+  if (report.findings.length === 0) content.push({ text: 'This ruleset has no requirements for this class.', color: COLOURS.muted });
+  for (const group of findingsByArea(report.findings)) {
+    content.push({ text: group.title, style: 'h3' });
+    for (const reqFindings of findingsByRequirement(group.findings)) content.push(requirementBlock(reqFindings, units));
+  }
+
+  content.push(heading('Tube data'));
+  if (input.tubeData.members.length === 0) content.push({ text: 'The specification lists no members.', color: COLOURS.muted });
+  else {
+    content.push(tubeTable(input.tubeData, units));
+    const mass = q(input.tubeData.estimatedTubeMassKg, 'mass');
+    content.push({
+      text: input.tubeData.massComplete
+        ? `Estimated tube mass of the cage: ${mass}.`
+        : `Estimated tube mass of the cage: ${mass}, without ${input.tubeData.membersWithoutLength.join(', ')} (no length given).`,
+      margin: [0, 0, 0, 4],
+    });
+    if (input.tubeData.members.some((m) => m.densityAssumed)) {
+      content.push({ text: 'Masses assume steel at 7.85 g/cm³ where no material is given.', color: COLOURS.muted, fontSize: 8.5 });
+    }
+    content.push({ text: 'Cut list', style: 'h3' }, cutListTable(input.tubeData.cutList, units));
+  }
+
+  content.push(heading('Photos'));
+  content.push(input.photos.length ? photoGrid(input.photos) : { text: 'No photos were added to this build sheet.', color: COLOURS.muted });
+
+  return {
+    info: { title: `${REPORT_TITLE} ${input.verificationCode}`, author: 'Cagewright', subject: pdfSafe(report.rulebook.title), creator: 'Cagewright' },
+    pageSize: 'A4',
+    pageMargins: [40, 48, 40, 62],
+    header: (page: number) =>
+      page === 1
+        ? { text: '' }
+        : { text: `${REPORT_TITLE} · ${pdfSafe(car?.name ?? '')} · ${input.verificationCode}`, fontSize: 8, color: COLOURS.muted, margin: [40, 22, 40, 0] },
+    footer: (page: number, pages: number) => ({
+      columns: [
+        { text: SAFETY_CAUTION, fontSize: 7.5, color: COLOURS.muted, width: '*' },
+        { text: `Page ${page} of ${pages}`, fontSize: 7.5, color: COLOURS.muted, width: 60, alignment: 'right' },
+      ],
+      margin: [40, 14, 40, 0],
+    }),
+    content,
+    styles: {
+      title: { fontSize: 20, bold: true, color: COLOURS.ink },
+      h2: { fontSize: 12.5, bold: true, color: COLOURS.ink, margin: [0, 8, 0, 4] },
+      h3: { fontSize: 10.5, bold: true, color: COLOURS.ink, margin: [0, 6, 0, 3] },
+    },
+    defaultStyle: { color: COLOURS.ink, lineHeight: 1.15 },
+  };
+}

@@ -1,0 +1,153 @@
+// The builder's cars, and the one place that decides who may see or change a build sheet: its car's
+// owner edits; the stewards and admins of the sheet's club read. Everyone else gets the same 404 as
+// for a sheet that does not exist, so nobody learns which ids are in use.
+import type { DataSource, EntityManager } from 'typeorm';
+import type { CarWire, CreateCarBody, ListQuery, SheetAccess, SheetSummaryWire, UpdateCarBody } from '../contracts/garage';
+import { BuildSheet, Car, Membership, type ClubRole } from '../entities';
+import { ConflictError, ForbiddenError, NotFoundError } from '../errors';
+
+const reviewerRoles: readonly ClubRole[] = ['steward', 'admin'];
+
+export interface SheetAccessResult {
+  sheet: BuildSheet;
+  car: Car;
+  access: SheetAccess;
+}
+
+const iso = (d: Date | null) => (d ? d.toISOString() : null);
+
+export function sheetSummaryView(s: BuildSheet): SheetSummaryWire {
+  if (!s.club) throw new Error('sheetSummaryView needs the club relation loaded');
+  return {
+    id: s.id,
+    name: s.name,
+    club: { id: s.club.id, name: s.club.name },
+    classId: s.classId,
+    currentRevision: s.currentRevision,
+    archivedAt: iso(s.archivedAt),
+    latestCheckRunId: s.latestCheckRunId,
+    latestVerdict: s.latestVerdict,
+    latestCheckedRevision: s.latestCheckedRevision,
+    updatedAt: s.updatedAt.toISOString(),
+  };
+}
+
+export function carView(c: Car, sheets: BuildSheet[]): CarWire {
+  return {
+    id: c.id,
+    name: c.name,
+    make: c.make,
+    model: c.model,
+    year: c.year,
+    chassisType: c.chassisType,
+    raceNumber: c.raceNumber,
+    archivedAt: iso(c.archivedAt),
+    createdAt: c.createdAt.toISOString(),
+    updatedAt: c.updatedAt.toISOString(),
+    buildSheets: sheets.map(sheetSummaryView),
+  };
+}
+
+/**
+ * Loads a sheet for `userId` or throws: 404 when they may not see it, 403 when they may see it but
+ * `need` is edit. `lock` takes a row lock on the sheet (inside a transaction) so saves serialise.
+ */
+export async function sheetFor(
+  em: EntityManager, sheetId: string, userId: string, need: 'read' | 'edit', lock = false,
+): Promise<SheetAccessResult> {
+  const sheet = await em.getRepository(BuildSheet).findOne({ where: { id: sheetId }, ...(lock ? { lock: { mode: 'pessimistic_write' as const } } : {}) });
+  const car = sheet ? await em.getRepository(Car).findOneBy({ id: sheet.carId }) : null;
+  if (!sheet || !car) throw new NotFoundError('Build sheet not found.');
+  if (car.ownerId === userId) return { sheet, car, access: 'owner' };
+  const membership = await em.getRepository(Membership).findOneBy({ userId, clubId: sheet.clubId });
+  if (!membership || !membership.roles.some((r) => reviewerRoles.includes(r))) throw new NotFoundError('Build sheet not found.');
+  if (need === 'edit') throw new ForbiddenError('Only the builder who owns this car can change its build sheets.');
+  return { sheet, car, access: 'reviewer' };
+}
+
+export type GarageService = ReturnType<typeof createGarageService>;
+
+export function createGarageService(ds: DataSource) {
+  async function ownCar(em: EntityManager, carId: string, userId: string, lock = false): Promise<Car> {
+    const car = await em.getRepository(Car).findOne({ where: { id: carId }, ...(lock ? { lock: { mode: 'pessimistic_write' as const } } : {}) });
+    // Another builder's car is not found, never forbidden.
+    if (!car || car.ownerId !== userId) throw new NotFoundError('Car not found.');
+    return car;
+  }
+
+  async function sheetsOf(em: EntityManager, carIds: string[], show: ListQuery['show'] = 'all'): Promise<Map<string, BuildSheet[]>> {
+    const byCar = new Map<string, BuildSheet[]>(carIds.map((id) => [id, []]));
+    if (carIds.length === 0) return byCar;
+    const qb = em.getRepository(BuildSheet).createQueryBuilder('s').leftJoinAndSelect('s.club', 'club').where('s.car_id IN (:...carIds)', { carIds });
+    if (show === 'active') qb.andWhere('s.archived_at IS NULL');
+    if (show === 'archived') qb.andWhere('s.archived_at IS NOT NULL');
+    for (const s of await qb.orderBy('s.created_at', 'ASC').addOrderBy('s.id', 'ASC').getMany()) byCar.get(s.carId)?.push(s);
+    return byCar;
+  }
+
+  async function view(em: EntityManager, car: Car): Promise<CarWire> {
+    return carView(car, (await sheetsOf(em, [car.id])).get(car.id) ?? []);
+  }
+
+  return {
+    ownCar: (carId: string, userId: string) => ownCar(ds.manager, carId, userId),
+
+    /** The caller's cars, each with its sheets and their latest verdicts. Archived sheets show with `show=all`. */
+    async list(userId: string, query: ListQuery): Promise<CarWire[]> {
+      const qb = ds.getRepository(Car).createQueryBuilder('c').where('c.owner_id = :userId', { userId });
+      if (query.show === 'active') qb.andWhere('c.archived_at IS NULL');
+      if (query.show === 'archived') qb.andWhere('c.archived_at IS NOT NULL');
+      const cars = await qb.orderBy('lower(c.name)', 'ASC').addOrderBy('c.created_at', 'ASC').getMany();
+      const sheets = await sheetsOf(ds.manager, cars.map((c) => c.id), query.show === 'active' ? 'active' : 'all');
+      return cars.map((c) => carView(c, sheets.get(c.id) ?? []));
+    },
+
+    async get(carId: string, userId: string): Promise<CarWire> {
+      return view(ds.manager, await ownCar(ds.manager, carId, userId));
+    },
+
+    async create(userId: string, body: CreateCarBody): Promise<CarWire> {
+      const repo = ds.getRepository(Car);
+      const car = await repo.save(
+        repo.create({
+          ownerId: userId, name: body.name, make: body.make ?? null, model: body.model ?? null, year: body.year ?? null,
+          chassisType: body.chassisType, raceNumber: body.raceNumber ?? null, archivedAt: null,
+        }),
+      );
+      return carView(car, []);
+    },
+
+    async update(carId: string, userId: string, body: UpdateCarBody): Promise<CarWire> {
+      return ds.transaction(async (tx) => {
+        const car = await ownCar(tx, carId, userId, true);
+        const changes = Object.fromEntries(Object.entries(body).filter(([, v]) => v !== undefined));
+        Object.assign(car, changes);
+        await tx.getRepository(Car).save(car);
+        return view(tx, car);
+      });
+    },
+
+    async setArchived(carId: string, userId: string, archived: boolean): Promise<CarWire> {
+      return ds.transaction(async (tx) => {
+        const car = await ownCar(tx, carId, userId, true);
+        // Archiving twice keeps the first date: it says when the car left the garage.
+        if (archived && !car.archivedAt) car.archivedAt = new Date();
+        if (!archived) car.archivedAt = null;
+        await tx.getRepository(Car).save(car);
+        return view(tx, car);
+      });
+    },
+
+    /** Only a car without build sheets may be deleted; one with sheets is archived instead. */
+    async remove(carId: string, userId: string): Promise<void> {
+      await ds.transaction(async (tx) => {
+        const car = await ownCar(tx, carId, userId, true);
+        const sheets = await tx.getRepository(BuildSheet).countBy({ carId: car.id });
+        if (sheets > 0) {
+          throw new ConflictError(`This car has ${sheets} build sheet${sheets === 1 ? '' : 's'}, so it cannot be deleted. Archive it instead.`, { buildSheets: sheets });
+        }
+        await tx.getRepository(Car).delete({ id: car.id });
+      });
+    },
+  };
+}
