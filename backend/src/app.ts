@@ -19,6 +19,10 @@ import { createChecksRouter } from './routes/checks.routes';
 import { createHealthRouter } from './routes/health.routes';
 import { createInvitationsRouter } from './routes/invitations.routes';
 import { createMembersRouter } from './routes/members.routes';
+import { createAuditRouter } from './routes/audit.routes';
+import { createJobsRouter } from './routes/jobs.routes';
+import { createMailboxRouter } from './routes/mailbox.routes';
+import { createMetaRouter } from './routes/meta.routes';
 import { createRulebooksRouter } from './routes/rulebooks.routes';
 import { createServices, type Services } from './services';
 
@@ -123,6 +127,11 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(createMembersRouter({ services }));
   api.use(createRulebooksRouter({ services }));
   api.use(createChecksRouter({ services }));
+  api.use(createMetaRouter({ mailboxEnabled: config.fakeSmtp }));
+  api.use(createAuditRouter({ services }));
+  api.use(createJobsRouter({ services }));
+  // The development mailbox exists only while the fake SMTP server does; otherwise its routes are 404.
+  if (config.fakeSmtp) api.use(createMailboxRouter({ services }));
   api.use(apiNotFound);
   app.use('/api', api);
 

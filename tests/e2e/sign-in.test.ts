@@ -7,7 +7,7 @@ import { demoUsers, mainNavLabels, signIn, type DemoRole } from './demo';
 const baseUrl = inject('e2eBaseUrl');
 
 test.for<[DemoRole, string[]]>([
-  ['builder', ['Overview', 'Account']],
+  ['builder', ['Overview', 'Garage', 'Account']],
   ['steward', ['Overview', 'Account']],
   ['admin', ['Overview', 'Members', 'Account']],
 ])('signed in as the demo %s, the menu shows exactly %j', async ([role, expected], { browser }) => {

@@ -6,6 +6,7 @@ import * as garageApi from '@/api/garage';
 import { ApiError, errorMessage } from '@/api/errors';
 import type { BuildSheetDetail } from '@/api/garage';
 import type { Specification } from '@contracts/specification';
+import type { UnitSystem } from '@domain/index';
 import { checkDraft, draftFromSpecification, emptyDraft, problemsByPath, type SheetDraft } from './useBuildSheetDraft';
 
 export interface SaveConflict {
@@ -18,7 +19,7 @@ function currentRevisionOf(error: ApiError): number | null {
   return typeof details?.currentRevision === 'number' ? details.currentRevision : null;
 }
 
-export function useBuildSheet(sheetId: Ref<string>) {
+export function useBuildSheet(sheetId: Ref<string>, units: Ref<UnitSystem>) {
   const detail = shallowRef<BuildSheetDetail | null>(null);
   const draft = ref<SheetDraft>(emptyDraft('none'));
   const classId = ref<string | null>(null);
@@ -64,7 +65,7 @@ export function useBuildSheet(sheetId: Ref<string>) {
   async function save(blocking: Record<string, string> = {}): Promise<boolean> {
     saveError.value = null;
     if (!detail.value || !classId.value) return false;
-    const checked = checkDraft({ ...draft.value, vehicle: { ...draft.value.vehicle, classId: classId.value } });
+    const checked = checkDraft({ ...draft.value, vehicle: { ...draft.value.vehicle, classId: classId.value } }, units.value);
     const problemCount = Object.keys(blocking).length + checked.problems.length;
     if (!checked.ok || problemCount > 0) {
       saveError.value = `Nothing was saved: ${problemCount} input${problemCount === 1 ? ' needs' : 's need'} correcting first (marked in red).`;

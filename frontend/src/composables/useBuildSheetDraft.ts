@@ -3,7 +3,8 @@
 // with the server's own schema, so the messages and paths (`members.0.wallMm`) match what the API says.
 import { specificationSchema, issuesToProblems } from '@contracts/specification';
 import type { FieldProblem, Specification, SpecMember, SpecPlate } from '@contracts/specification';
-import type { MemberKind } from '@domain/index';
+import { formatQuantity } from '@domain/index';
+import type { MemberKind, UnitSystem } from '@domain/index';
 
 export type MemberDraft = Omit<SpecMember, 'odMm' | 'wallMm'> & { odMm?: number; wallMm?: number };
 export type PlateDraft = SpecPlate;
@@ -79,11 +80,19 @@ function prune<T>(value: T): T {
 export type DraftCheck = { ok: true; specification: Specification; problems: [] } | { ok: false; problems: FieldProblem[] };
 
 /** The draft as a specification, or every problem with the path of the input it belongs to. */
-export function checkDraft(draft: SheetDraft): DraftCheck {
+export function checkDraft(draft: SheetDraft, units: UnitSystem = 'metric'): DraftCheck {
   const problems: FieldProblem[] = [];
+  const len = (mm: number) => formatQuantity(mm, 'length', units).text;
   draft.members.forEach((m, i) => {
     if (m.odMm === undefined) problems.push({ path: `members.${i}.odMm`, message: 'Enter the outside diameter.' });
     if (m.wallMm === undefined) problems.push({ path: `members.${i}.wallMm`, message: 'Enter the wall thickness.' });
+    // Said here in the builder's units; the schema says the same in millimetres.
+    if (m.odMm !== undefined && m.wallMm !== undefined && m.odMm > 0 && m.wallMm >= m.odMm / 2)
+      problems.push({ path: `members.${i}.wallMm`, message: `A wall of ${len(m.wallMm)} is half the OD (${len(m.odMm)}) or more: that is a solid bar, not a tube.` });
+  });
+  draft.plates.forEach((p, i) => {
+    if (p.sidesMm && (p.sidesMm[0] === undefined || p.sidesMm[1] === undefined))
+      problems.push({ path: `plates.${i}.sidesMm`, message: 'Enter both sides, or neither.' });
   });
   const candidate = prune({
     vehicle: draft.vehicle,

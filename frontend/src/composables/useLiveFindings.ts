@@ -50,7 +50,7 @@ export function useLiveFindings(
     const mine = ++run;
     const current = draft.value;
     if (!current || !versionId.value || !classId.value) return;
-    const outcome = checkDraft({ ...current, vehicle: { ...current.vehicle, classId: classId.value } });
+    const outcome = checkDraft({ ...current, vehicle: { ...current.vehicle, classId: classId.value } }, units.value);
     if (!outcome.ok) {
       problems.value = outcome.problems;
       status.value = 'invalid';

@@ -6,7 +6,7 @@ import { DEFAULT_UNIT, UNITS, formatQuantity, parseQuantity, roundTo } from '@do
 import type { Dimension, UnitSystem } from '@domain/index';
 
 /** Extra decimals an input may show so a stored value survives being shown (45 mm = 1.7717 in). */
-const MAX_INPUT_DECIMALS: Record<string, number> = { in: 4, mm: 3, kg: 2, lb: 1, deg: 1, ratio: 3, count: 0, cm2: 2 };
+const MAX_INPUT_DECIMALS: Record<string, number> = { in: 4, mm: 3, kg: 1, lb: 0, deg: 1, ratio: 3, count: 0, cm2: 2 };
 
 export function inputUnit(dimension: Dimension, system: UnitSystem): string {
   return DEFAULT_UNIT[system][dimension];
@@ -38,6 +38,8 @@ export interface InputRules {
   /** Zero or below is refused (most lengths and weights). */
   positive?: boolean;
   integer?: boolean;
+  /** Said after "Over <max>" when a value is implausibly large, e.g. "not a cage tube; check the units". */
+  maxHint?: string;
 }
 
 export type InputParse = { ok: true; value: number | undefined } | { ok: false; message: string };
@@ -52,7 +54,8 @@ export function parseInput(text: string, dimension: Dimension, system: UnitSyste
   if (rules.positive !== false && rules.min === undefined && value <= 0) return { ok: false, message: 'Must be more than zero.' };
   if (rules.min !== undefined && value < rules.min - 1e-9)
     return { ok: false, message: rules.min === 0 ? 'Must not be negative.' : `Must be at least ${shown(rules.min)}.` };
-  if (rules.max !== undefined && value > rules.max + 1e-9) return { ok: false, message: `Must be at most ${shown(rules.max)}.` };
+  if (rules.max !== undefined && value > rules.max + 1e-9)
+    return { ok: false, message: rules.maxHint ? `Over ${shown(rules.max)}: ${rules.maxHint}.` : `Must be at most ${shown(rules.max)}.` };
   if (rules.integer && !Number.isInteger(value)) return { ok: false, message: 'Must be a whole number.' };
   return { ok: true, value };
 }

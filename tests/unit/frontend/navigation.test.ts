@@ -10,12 +10,12 @@ const labels = (roles: Role[], club: string | null = clubId) =>
 describe('the app menu', () => {
   test.each<[Role[], string[]]>([
     [[], ['Overview', 'Account']],
-    [['builder'], ['Overview', 'Account']],
+    [['builder'], ['Overview', 'Garage', 'Account']],
     [['steward'], ['Overview', 'Account']],
     [['admin'], ['Overview', 'Members', 'Account']],
     [
       ['builder', 'steward', 'admin'],
-      ['Overview', 'Members', 'Account'],
+      ['Overview', 'Garage', 'Members', 'Account'],
     ],
   ])('roles %j in the current club show %j', (roles, expected) => {
     expect(labels(roles)).toEqual(expected);

@@ -34,6 +34,8 @@ const PLATE_FACTS: Record<string, string[]> = {
   attachedOdMm: [],
 };
 
+const DIRECT_VEHICLE_FACTS = new Set(['weightWithDriverKg', 'weightWithoutDriverKg', 'chassis', 'cockpit', 'fuel']);
+
 /** The input paths a fact was typed into, for a finding about a member, a plate or the vehicle. */
 export function inputPathsForFact(fact: string, finding: Pick<Finding, 'member' | 'plate'>): string[] {
   const [scope, name] = fact.split('.', 2) as [string, string];
@@ -44,7 +46,9 @@ export function inputPathsForFact(fact: string, finding: Pick<Finding, 'member' 
     return (PLATE_FACTS[name] ?? [name]).map((n) => `plates.${finding.plate!.index}.${n}`);
   }
   if (fact === 'vehicle.weightKg') return ['vehicle.weightWithDriverKg', 'vehicle.weightWithoutDriverKg'];
-  if (['vehicle', 'geometry', 'padding', 'welding'].includes(scope)) return [fact];
+  // Counts, kinds present and estimated mass are worked out from the members, not typed anywhere.
+  if (scope === 'vehicle') return DIRECT_VEHICLE_FACTS.has(name) ? [fact] : [];
+  if (['geometry', 'padding', 'welding'].includes(scope)) return [fact];
   return [];
 }
 
