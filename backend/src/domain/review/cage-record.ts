@@ -25,9 +25,12 @@ export const REVOKE_REASON_MIN = 10;
 /** "tv", 2027, 42 → "TV-2027-0042". Throws on a prefix, year or sequence the format cannot hold. */
 export function formatRecordNumber(prefix: string, year: number, sequence: number): string {
   const p = prefix.trim().toUpperCase();
-  if (!RECORD_PREFIX_PATTERN.test(p)) throw new RangeError(`Record prefix "${prefix}" must be 2–6 letters or digits, starting with a letter.`);
-  if (!Number.isInteger(year) || year < 2000 || year > 9999) throw new RangeError(`Record year ${year} is out of range.`);
-  if (!Number.isInteger(sequence) || sequence < 1) throw new RangeError(`Record sequence ${sequence} must be a whole number from 1.`);
+  if (!RECORD_PREFIX_PATTERN.test(p))
+    throw new RangeError(`Record prefix "${prefix}" must be 2–6 letters or digits, starting with a letter.`);
+  if (!Number.isInteger(year) || year < 2000 || year > 9999)
+    throw new RangeError(`Record year ${year} is out of range.`);
+  if (!Number.isInteger(sequence) || sequence < 1)
+    throw new RangeError(`Record sequence ${sequence} must be a whole number from 1.`);
   return `${p}-${year}-${String(sequence).padStart(4, '0')}`;
 }
 
@@ -35,7 +38,9 @@ export function parseRecordNumber(text: string): { prefix: string; year: number;
   const m = NUMBER_PATTERN.exec(text.trim().toUpperCase());
   if (!m) return null;
   const sequence = Number(m[3]);
-  return sequence >= 1 && Number.isSafeInteger(sequence) ? { prefix: m[1], year: Number(m[2]), sequence } : null;
+  return sequence >= 1 && Number.isSafeInteger(sequence)
+    ? { prefix: m[1], year: Number(m[2]), sequence }
+    : null;
 }
 
 /**
@@ -47,7 +52,17 @@ export function addMonthsUtc(from: Date, months: number): Date {
   const m = from.getUTCMonth() + months;
   const lastDay = new Date(Date.UTC(y, m + 1, 0)).getUTCDate();
   const day = Math.min(from.getUTCDate(), lastDay);
-  return new Date(Date.UTC(y, m, day, from.getUTCHours(), from.getUTCMinutes(), from.getUTCSeconds(), from.getUTCMilliseconds()));
+  return new Date(
+    Date.UTC(
+      y,
+      m,
+      day,
+      from.getUTCHours(),
+      from.getUTCMinutes(),
+      from.getUTCSeconds(),
+      from.getUTCMilliseconds(),
+    ),
+  );
 }
 
 export interface IssueInput {
@@ -61,13 +76,26 @@ export interface IssueInput {
 }
 
 export function issueCageRecord(input: IssueInput): CageRecord {
-  if (!Number.isInteger(input.validityMonths) || input.validityMonths < 1 || input.validityMonths > VALIDITY_MONTHS_MAX) {
-    throw new RangeError(`A validity period is 1 to ${VALIDITY_MONTHS_MAX} whole months; got ${input.validityMonths}.`);
+  if (
+    !Number.isInteger(input.validityMonths) ||
+    input.validityMonths < 1 ||
+    input.validityMonths > VALIDITY_MONTHS_MAX
+  ) {
+    throw new RangeError(
+      `A validity period is 1 to ${VALIDITY_MONTHS_MAX} whole months; got ${input.validityMonths}.`,
+    );
   }
   return {
-    id: input.id, number: input.number, submissionId: input.submissionId, verificationCode: input.verificationCode,
-    issuedAt: input.issuedAt, expiresAt: addMonthsUtc(input.issuedAt, input.validityMonths),
-    revokedAt: null, revokedReason: null, supersededById: null, supersededAt: null,
+    id: input.id,
+    number: input.number,
+    submissionId: input.submissionId,
+    verificationCode: input.verificationCode,
+    issuedAt: input.issuedAt,
+    expiresAt: addMonthsUtc(input.issuedAt, input.validityMonths),
+    revokedAt: null,
+    revokedReason: null,
+    supersededById: null,
+    supersededAt: null,
   };
 }
 
@@ -78,24 +106,54 @@ export function issueCageRecord(input: IssueInput): CageRecord {
 export function recordStatus(record: CageRecord, now: Date): RecordStatus {
   const t = now.getTime();
   if (record.revokedAt && record.revokedAt.getTime() <= t) return 'revoked';
-  if (record.supersededById && (!record.supersededAt || record.supersededAt.getTime() <= t)) return 'superseded';
+  if (record.supersededById && (!record.supersededAt || record.supersededAt.getTime() <= t))
+    return 'superseded';
   if (t >= record.expiresAt.getTime()) return 'expired';
   return 'valid';
 }
 
-export type RecordRefusal = { ok: false; code: 'reason_required' | 'already_revoked' | 'already_superseded' | 'same_record'; message: string };
+export type RecordRefusal = {
+  ok: false;
+  code: 'reason_required' | 'already_revoked' | 'already_superseded' | 'same_record';
+  message: string;
+};
 
-export function revokeRecord(record: CageRecord, reason: string, at: Date): { ok: true; record: CageRecord } | RecordRefusal {
-  if (record.revokedAt) return { ok: false, code: 'already_revoked', message: `Record ${record.number} is already revoked.` };
+export function revokeRecord(
+  record: CageRecord,
+  reason: string,
+  at: Date,
+): { ok: true; record: CageRecord } | RecordRefusal {
+  if (record.revokedAt)
+    return { ok: false, code: 'already_revoked', message: `Record ${record.number} is already revoked.` };
   const r = reason.trim();
-  if (r.length < REVOKE_REASON_MIN) return { ok: false, code: 'reason_required', message: `Give the reason for revoking record ${record.number} (at least ${REVOKE_REASON_MIN} characters).` };
+  if (r.length < REVOKE_REASON_MIN)
+    return {
+      ok: false,
+      code: 'reason_required',
+      message: `Give the reason for revoking record ${record.number} (at least ${REVOKE_REASON_MIN} characters).`,
+    };
   return { ok: true, record: { ...record, revokedAt: at, revokedReason: r } };
 }
 
 /** A newer record (a re-inspection) replaces this one. A revoked record stays revoked. */
-export function supersedeRecord(record: CageRecord, newRecordId: string, at: Date): { ok: true; record: CageRecord } | RecordRefusal {
-  if (newRecordId === record.id) return { ok: false, code: 'same_record', message: 'A record cannot supersede itself.' };
-  if (record.revokedAt) return { ok: false, code: 'already_revoked', message: `Record ${record.number} is revoked; it cannot be superseded.` };
-  if (record.supersededById) return { ok: false, code: 'already_superseded', message: `Record ${record.number} is already superseded.` };
+export function supersedeRecord(
+  record: CageRecord,
+  newRecordId: string,
+  at: Date,
+): { ok: true; record: CageRecord } | RecordRefusal {
+  if (newRecordId === record.id)
+    return { ok: false, code: 'same_record', message: 'A record cannot supersede itself.' };
+  if (record.revokedAt)
+    return {
+      ok: false,
+      code: 'already_revoked',
+      message: `Record ${record.number} is revoked; it cannot be superseded.`,
+    };
+  if (record.supersededById)
+    return {
+      ok: false,
+      code: 'already_superseded',
+      message: `Record ${record.number} is already superseded.`,
+    };
   return { ok: true, record: { ...record, supersededById: newRecordId, supersededAt: at } };
 }

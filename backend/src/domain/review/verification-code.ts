@@ -32,7 +32,10 @@ function group(code: string): string {
 
 /** A new code from at least CODE_RANDOM_BYTES random bytes, e.g. "7K2Q-MX9D-…" (7 groups of 4). */
 export function newVerificationCode(randomBytes: Uint8Array): string {
-  if (randomBytes.length < CODE_RANDOM_BYTES) throw new RangeError(`A verification code needs ${CODE_RANDOM_BYTES} random bytes; got ${randomBytes.length}.`);
+  if (randomBytes.length < CODE_RANDOM_BYTES)
+    throw new RangeError(
+      `A verification code needs ${CODE_RANDOM_BYTES} random bytes; got ${randomBytes.length}.`,
+    );
   let bits = 0;
   let buffer = 0;
   let data = '';
@@ -60,7 +63,8 @@ export function normaliseVerificationCode(input: string): string {
     .replace(/[\s\-_.–—]/g, '')
     .replace(/O/g, '0')
     .replace(/[IL]/g, '1');
-  const complete = cleaned.length === CODE_LENGTH && [...cleaned].every((c) => CROCKFORD_ALPHABET.includes(c));
+  const complete =
+    cleaned.length === CODE_LENGTH && [...cleaned].every((c) => CROCKFORD_ALPHABET.includes(c));
   return complete ? group(cleaned) : cleaned;
 }
 

@@ -32,7 +32,13 @@ export type OverallReviewVerdict = 'pass' | 'pass_with_waivers' | 'fail' | 'need
 export interface VerdictWithWaivers {
   verdict: OverallReviewVerdict;
   /** Each finding with the verdict to show: a waived finding shows as waived. */
-  findings: { key: string; verdict: FindingVerdict; shown: ShownVerdict; severity: Finding['severity']; waiver?: Waiver }[];
+  findings: {
+    key: string;
+    verdict: FindingVerdict;
+    shown: ShownVerdict;
+    severity: Finding['severity'];
+    waiver?: Waiver;
+  }[];
   /** Mandatory findings still blocking: failed, or lacking information, and not waived. */
   blocking: string[];
   waivedCount: number;
@@ -40,20 +46,36 @@ export interface VerdictWithWaivers {
   unusedWaivers: Waiver[];
 }
 
-export function overallWithWaivers(findings: readonly ReviewFinding[], waivers: readonly Waiver[]): VerdictWithWaivers {
+export function overallWithWaivers(
+  findings: readonly ReviewFinding[],
+  waivers: readonly Waiver[],
+): VerdictWithWaivers {
   const byKey = new Map(waivers.map((w) => [w.findingKey, w]));
   const used = new Set<string>();
   const rows = findings.map((f) => {
     const key = findingKey(f);
     const waiver = WAIVABLE_VERDICTS.includes(f.verdict) ? byKey.get(key) : undefined;
     if (waiver) used.add(key);
-    return { key, verdict: f.verdict, shown: waiver ? ('waived' as const) : f.verdict, severity: f.severity, ...(waiver ? { waiver } : {}) };
+    return {
+      key,
+      verdict: f.verdict,
+      shown: waiver ? ('waived' as const) : f.verdict,
+      severity: f.severity,
+      ...(waiver ? { waiver } : {}),
+    };
   });
   const mandatory = rows.filter((r) => r.severity === 'mandatory');
   const blockingFail = mandatory.filter((r) => r.shown === 'fail').map((r) => r.key);
   const blockingInfo = mandatory.filter((r) => r.shown === 'needs_information').map((r) => r.key);
   const waivedMandatory = mandatory.some((r) => r.shown === 'waived');
-  const verdict: OverallReviewVerdict = blockingFail.length > 0 ? 'fail' : blockingInfo.length > 0 ? 'needs_information' : waivedMandatory ? 'pass_with_waivers' : 'pass';
+  const verdict: OverallReviewVerdict =
+    blockingFail.length > 0
+      ? 'fail'
+      : blockingInfo.length > 0
+        ? 'needs_information'
+        : waivedMandatory
+          ? 'pass_with_waivers'
+          : 'pass';
   return {
     verdict,
     findings: rows,

@@ -2,12 +2,30 @@
 // approved | changes_requested | rejected, or withdrawn by the builder. Pure: each action returns
 // the new submission and the audit event to store, or a typed refusal saying why not. Every action
 // carries the state and version the client last saw, so two stewards deciding at once cannot both win.
-import { overallWithWaivers, WAIVABLE_VERDICTS, WAIVER_REASON_MAX, WAIVER_REASON_MIN, findingKey } from './waivers.js';
+import {
+  overallWithWaivers,
+  WAIVABLE_VERDICTS,
+  WAIVER_REASON_MAX,
+  WAIVER_REASON_MIN,
+  findingKey,
+} from './waivers.js';
 import type { ReviewFinding, Waiver } from './waivers.js';
 
-export const SUBMISSION_STATES = ['pending', 'in_review', 'approved', 'changes_requested', 'rejected', 'withdrawn'] as const;
+export const SUBMISSION_STATES = [
+  'pending',
+  'in_review',
+  'approved',
+  'changes_requested',
+  'rejected',
+  'withdrawn',
+] as const;
 export type SubmissionState = (typeof SUBMISSION_STATES)[number];
-export const FINAL_STATES: readonly SubmissionState[] = ['approved', 'changes_requested', 'rejected', 'withdrawn'];
+export const FINAL_STATES: readonly SubmissionState[] = [
+  'approved',
+  'changes_requested',
+  'rejected',
+  'withdrawn',
+];
 
 export type ClubRole = 'builder' | 'steward' | 'admin';
 export interface ReviewActor {
@@ -59,9 +77,22 @@ export interface AuditEvent {
 }
 
 export type ReviewRefusalCode =
-  | 'forbidden_role' | 'not_builder' | 'own_submission' | 'not_assigned_steward' | 'conflict' | 'wrong_state'
-  | 'already_claimed' | 'withdrawn' | 'note_required' | 'reason_required' | 'unresolved_findings'
-  | 'unknown_finding' | 'not_waivable' | 'waiver_reason_required' | 'unknown_waiver' | 'already_resubmitted';
+  | 'forbidden_role'
+  | 'not_builder'
+  | 'own_submission'
+  | 'not_assigned_steward'
+  | 'conflict'
+  | 'wrong_state'
+  | 'already_claimed'
+  | 'withdrawn'
+  | 'note_required'
+  | 'reason_required'
+  | 'unresolved_findings'
+  | 'unknown_finding'
+  | 'not_waivable'
+  | 'waiver_reason_required'
+  | 'unknown_waiver'
+  | 'already_resubmitted';
 
 export interface ReviewRefusal {
   ok: false;
@@ -81,17 +112,37 @@ export const NOTE_MIN = 10;
 export const NOTE_MAX = 4000;
 
 const STATE_WORDS: Readonly<Record<SubmissionState, string>> = {
-  pending: 'waiting for a steward', in_review: 'in review', approved: 'approved', changes_requested: 'returned for changes',
-  rejected: 'rejected', withdrawn: 'withdrawn',
+  pending: 'waiting for a steward',
+  in_review: 'in review',
+  approved: 'approved',
+  changes_requested: 'returned for changes',
+  rejected: 'rejected',
+  withdrawn: 'withdrawn',
 };
 
-const refuse = (code: ReviewRefusalCode, message: string, details?: ReviewRefusal['details']): ReviewRefusal =>
-  details ? { ok: false, code, message, details } : { ok: false, code, message };
+const refuse = (
+  code: ReviewRefusalCode,
+  message: string,
+  details?: ReviewRefusal['details'],
+): ReviewRefusal => (details ? { ok: false, code, message, details } : { ok: false, code, message });
 
-const STEWARD_ACTIONS: ReadonlySet<ReviewAction['type']> = new Set(['claim', 'waive', 'remove_waiver', 'approve', 'request_changes', 'reject']);
+const STEWARD_ACTIONS: ReadonlySet<ReviewAction['type']> = new Set([
+  'claim',
+  'waive',
+  'remove_waiver',
+  'approve',
+  'request_changes',
+  'reject',
+]);
 
 /** A written note of sensible length; undefined when it is fine, else the refusal. */
-function noteProblem(text: string | undefined, code: 'note_required' | 'reason_required' | 'waiver_reason_required', what: string, min = NOTE_MIN, max = NOTE_MAX): ReviewRefusal | undefined {
+function noteProblem(
+  text: string | undefined,
+  code: 'note_required' | 'reason_required' | 'waiver_reason_required',
+  what: string,
+  min = NOTE_MIN,
+  max = NOTE_MAX,
+): ReviewRefusal | undefined {
   const t = (text ?? '').trim();
   if (t.length < min) return refuse(code, `${what} (at least ${min} characters).`);
   if (t.length > max) return refuse(code, `${what}, in at most ${max} characters.`);
@@ -103,21 +154,33 @@ const optionalNote = (text: string | undefined): string | null => {
   return t === '' ? null : t.slice(0, NOTE_MAX);
 };
 
-export function applyReviewAction(submission: Submission, action: ReviewAction, actor: ReviewActor): ReviewResult | ReviewRefusal {
+export function applyReviewAction(
+  submission: Submission,
+  action: ReviewAction,
+  actor: ReviewActor,
+): ReviewResult | ReviewRefusal {
   const s = submission;
   const isSteward = actor.roles.includes('steward');
   // Who may act at all comes first: it does not depend on what happened meanwhile.
   if (STEWARD_ACTIONS.has(action.type)) {
     if (!isSteward) return refuse('forbidden_role', 'Only a steward of this club can do that.');
-    if (actor.id === s.builderId) return refuse('own_submission', 'A steward cannot review their own submission; another steward must.');
+    if (actor.id === s.builderId)
+      return refuse('own_submission', 'A steward cannot review their own submission; another steward must.');
   }
-  if (action.type === 'release' && !isSteward && !actor.roles.includes('admin')) return refuse('forbidden_role', 'Only a steward or a club admin can release a claim.');
-  if (action.type === 'withdraw' && actor.id !== s.builderId) return refuse('not_builder', 'Only the builder who submitted it can withdraw a submission.');
+  if (action.type === 'release' && !isSteward && !actor.roles.includes('admin'))
+    return refuse('forbidden_role', 'Only a steward or a club admin can release a claim.');
+  if (action.type === 'withdraw' && actor.id !== s.builderId)
+    return refuse('not_builder', 'Only the builder who submitted it can withdraw a submission.');
 
   if (action.expected.version !== s.version || action.expected.state !== s.state) {
-    return refuse('conflict', `The submission changed meanwhile: it is now ${STATE_WORDS[s.state]}. Reload it and decide again.`, { state: s.state, version: s.version });
+    return refuse(
+      'conflict',
+      `The submission changed meanwhile: it is now ${STATE_WORDS[s.state]}. Reload it and decide again.`,
+      { state: s.state, version: s.version },
+    );
   }
-  if (s.state === 'withdrawn') return refuse('withdrawn', 'The builder withdrew this submission; there is nothing left to decide.');
+  if (s.state === 'withdrawn')
+    return refuse('withdrawn', 'The builder withdrew this submission; there is nothing left to decide.');
 
   const next = (to: SubmissionState, patch: Partial<Submission>, note: string | null): ReviewResult => ({
     ok: true,
@@ -126,38 +189,74 @@ export function applyReviewAction(submission: Submission, action: ReviewAction, 
   });
   const mustBeInReviewBy = (): ReviewRefusal | undefined => {
     if (s.state === 'pending') return refuse('wrong_state', 'Claim the submission before deciding on it.');
-    if (s.state !== 'in_review') return refuse('wrong_state', `The submission is already ${STATE_WORDS[s.state]}.`);
-    if (s.assignedStewardId !== actor.id) return refuse('not_assigned_steward', 'Another steward has claimed this submission; only they can decide on it.');
+    if (s.state !== 'in_review')
+      return refuse('wrong_state', `The submission is already ${STATE_WORDS[s.state]}.`);
+    if (s.assignedStewardId !== actor.id)
+      return refuse(
+        'not_assigned_steward',
+        'Another steward has claimed this submission; only they can decide on it.',
+      );
     return undefined;
   };
 
   switch (action.type) {
     case 'claim':
-      if (s.state === 'in_review') return refuse('already_claimed', s.assignedStewardId === actor.id ? 'You have already claimed this submission.' : 'Another steward has already claimed this submission.');
-      if (s.state !== 'pending') return refuse('wrong_state', `The submission is already ${STATE_WORDS[s.state]}.`);
+      if (s.state === 'in_review')
+        return refuse(
+          'already_claimed',
+          s.assignedStewardId === actor.id
+            ? 'You have already claimed this submission.'
+            : 'Another steward has already claimed this submission.',
+        );
+      if (s.state !== 'pending')
+        return refuse('wrong_state', `The submission is already ${STATE_WORDS[s.state]}.`);
       return next('in_review', { assignedStewardId: actor.id }, null);
     case 'release':
-      if (s.state !== 'in_review') return refuse('wrong_state', `Only a claimed submission can be released; this one is ${STATE_WORDS[s.state]}.`);
+      if (s.state !== 'in_review')
+        return refuse(
+          'wrong_state',
+          `Only a claimed submission can be released; this one is ${STATE_WORDS[s.state]}.`,
+        );
       // An admin may free a claim its steward left behind; a steward only their own.
-      if (s.assignedStewardId !== actor.id && !actor.roles.includes('admin')) return refuse('not_assigned_steward', 'Only the steward who claimed it (or a club admin) can release it.');
+      if (s.assignedStewardId !== actor.id && !actor.roles.includes('admin'))
+        return refuse(
+          'not_assigned_steward',
+          'Only the steward who claimed it (or a club admin) can release it.',
+        );
       return next('pending', { assignedStewardId: null }, optionalNote(action.note));
     case 'waive': {
       const problem = mustBeInReviewBy();
       if (problem) return problem;
       const finding = s.findings.find((f) => findingKey(f) === action.findingKey);
       if (!finding) return refuse('unknown_finding', 'That finding is not in this submission’s report.');
-      if (!WAIVABLE_VERDICTS.includes(finding.verdict)) return refuse('not_waivable', 'Only a finding that failed or lacks information can be waived.');
-      const bad = noteProblem(action.reason, 'waiver_reason_required', 'Give the reason for the waiver', WAIVER_REASON_MIN, WAIVER_REASON_MAX);
+      if (!WAIVABLE_VERDICTS.includes(finding.verdict))
+        return refuse('not_waivable', 'Only a finding that failed or lacks information can be waived.');
+      const bad = noteProblem(
+        action.reason,
+        'waiver_reason_required',
+        'Give the reason for the waiver',
+        WAIVER_REASON_MIN,
+        WAIVER_REASON_MAX,
+      );
       if (bad) return bad;
-      const waiver: Waiver = { findingKey: action.findingKey, reason: action.reason.trim(), stewardId: actor.id };
+      const waiver: Waiver = {
+        findingKey: action.findingKey,
+        reason: action.reason.trim(),
+        stewardId: actor.id,
+      };
       const waivers = [...s.waivers.filter((w) => w.findingKey !== action.findingKey), waiver];
       return next('in_review', { waivers }, `Waived ${action.findingKey}: ${waiver.reason}`);
     }
     case 'remove_waiver': {
       const problem = mustBeInReviewBy();
       if (problem) return problem;
-      if (!s.waivers.some((w) => w.findingKey === action.findingKey)) return refuse('unknown_waiver', 'There is no waiver on that finding.');
-      return next('in_review', { waivers: s.waivers.filter((w) => w.findingKey !== action.findingKey) }, `Waiver removed from ${action.findingKey}`);
+      if (!s.waivers.some((w) => w.findingKey === action.findingKey))
+        return refuse('unknown_waiver', 'There is no waiver on that finding.');
+      return next(
+        'in_review',
+        { waivers: s.waivers.filter((w) => w.findingKey !== action.findingKey) },
+        `Waiver removed from ${action.findingKey}`,
+      );
     }
     case 'approve': {
       const problem = mustBeInReviewBy();
@@ -165,23 +264,34 @@ export function applyReviewAction(submission: Submission, action: ReviewAction, 
       const overall = overallWithWaivers(s.findings, s.waivers);
       if (overall.verdict === 'fail' || overall.verdict === 'needs_information') {
         const n = overall.blocking.length;
-        return refuse('unresolved_findings', `${n} mandatory finding${n === 1 ? '' : 's'} did not pass and ${n === 1 ? 'is' : 'are'} not waived: waive ${n === 1 ? 'it' : 'them'} with a reason, or request changes.`, { findingKeys: overall.blocking });
+        return refuse(
+          'unresolved_findings',
+          `${n} mandatory finding${n === 1 ? '' : 's'} did not pass and ${n === 1 ? 'is' : 'are'} not waived: waive ${n === 1 ? 'it' : 'them'} with a reason, or request changes.`,
+          { findingKeys: overall.blocking },
+        );
       }
       const note = optionalNote(action.note);
       return next('approved', { decisionNote: note }, note);
     }
     case 'request_changes': {
-      const problem = mustBeInReviewBy() ?? noteProblem(action.note, 'note_required', 'Say what the builder should change');
+      const problem =
+        mustBeInReviewBy() ?? noteProblem(action.note, 'note_required', 'Say what the builder should change');
       if (problem) return problem;
       return next('changes_requested', { decisionNote: action.note.trim() }, action.note.trim());
     }
     case 'reject': {
-      const problem = mustBeInReviewBy() ?? noteProblem(action.reason, 'reason_required', 'Give the reason for the rejection');
+      const problem =
+        mustBeInReviewBy() ??
+        noteProblem(action.reason, 'reason_required', 'Give the reason for the rejection');
       if (problem) return problem;
       return next('rejected', { decisionNote: action.reason.trim() }, action.reason.trim());
     }
     case 'withdraw':
-      if (s.state !== 'pending' && s.state !== 'in_review') return refuse('wrong_state', `A submission that is ${STATE_WORDS[s.state]} can no longer be withdrawn.`);
+      if (s.state !== 'pending' && s.state !== 'in_review')
+        return refuse(
+          'wrong_state',
+          `A submission that is ${STATE_WORDS[s.state]} can no longer be withdrawn.`,
+        );
       return next('withdrawn', {}, optionalNote(action.note));
   }
 }
@@ -196,15 +306,34 @@ export interface NewSubmissionInput {
 
 /** A builder submits one of their saved check runs for review. */
 export function submitForReview(input: NewSubmissionInput, actor: ReviewActor): ReviewResult | ReviewRefusal {
-  if (!actor.roles.includes('builder')) return refuse('forbidden_role', 'Only a builder of this club can submit a check for review.');
-  if (input.checkRunOwnerId !== actor.id) return refuse('not_builder', 'Only the builder who saved this check can submit it.');
-  return { ok: true, submission: fresh(input, actor.id, null), event: { from: null, to: 'pending', action: 'submit', actorId: actor.id, note: null } };
+  if (!actor.roles.includes('builder'))
+    return refuse('forbidden_role', 'Only a builder of this club can submit a check for review.');
+  if (input.checkRunOwnerId !== actor.id)
+    return refuse('not_builder', 'Only the builder who saved this check can submit it.');
+  return {
+    ok: true,
+    submission: fresh(input, actor.id, null),
+    event: { from: null, to: 'pending', action: 'submit', actorId: actor.id, note: null },
+  };
 }
 
-function fresh(input: NewSubmissionInput, builderId: string, previousSubmissionId: string | null): Submission {
+function fresh(
+  input: NewSubmissionInput,
+  builderId: string,
+  previousSubmissionId: string | null,
+): Submission {
   return {
-    id: input.id, state: 'pending', version: 1, builderId, checkRunId: input.checkRunId, assignedStewardId: null,
-    previousSubmissionId, resubmittedAsId: null, findings: input.findings, waivers: [], decisionNote: null,
+    id: input.id,
+    state: 'pending',
+    version: 1,
+    builderId,
+    checkRunId: input.checkRunId,
+    assignedStewardId: null,
+    previousSubmissionId,
+    resubmittedAsId: null,
+    findings: input.findings,
+    waivers: [],
+    decisionNote: null,
   };
 }
 
@@ -220,22 +349,52 @@ export interface ResubmitResult {
  * After changes were requested the builder submits a new check run as a new submission linked to
  * the old one. Waivers are not carried over: the new report is a new set of findings.
  */
-export function resubmit(previous: Submission, input: NewSubmissionInput, actor: ReviewActor, expected: Expected): ResubmitResult | ReviewRefusal {
-  if (actor.id !== previous.builderId) return refuse('not_builder', 'Only the builder who submitted it can resubmit.');
-  if (input.checkRunOwnerId !== actor.id) return refuse('not_builder', 'Only the builder who saved this check can submit it.');
+export function resubmit(
+  previous: Submission,
+  input: NewSubmissionInput,
+  actor: ReviewActor,
+  expected: Expected,
+): ResubmitResult | ReviewRefusal {
+  if (actor.id !== previous.builderId)
+    return refuse('not_builder', 'Only the builder who submitted it can resubmit.');
+  if (input.checkRunOwnerId !== actor.id)
+    return refuse('not_builder', 'Only the builder who saved this check can submit it.');
   if (expected.version !== previous.version || expected.state !== previous.state) {
-    return refuse('conflict', `The submission changed meanwhile: it is now ${STATE_WORDS[previous.state]}.`, { state: previous.state, version: previous.version });
+    return refuse('conflict', `The submission changed meanwhile: it is now ${STATE_WORDS[previous.state]}.`, {
+      state: previous.state,
+      version: previous.version,
+    });
   }
-  if (previous.state !== 'changes_requested') return refuse('wrong_state', `Only a submission returned for changes can be resubmitted; this one is ${STATE_WORDS[previous.state]}.`);
-  if (previous.resubmittedAsId) return refuse('already_resubmitted', 'This submission has already been resubmitted; follow the newer one.');
+  if (previous.state !== 'changes_requested')
+    return refuse(
+      'wrong_state',
+      `Only a submission returned for changes can be resubmitted; this one is ${STATE_WORDS[previous.state]}.`,
+    );
+  if (previous.resubmittedAsId)
+    return refuse(
+      'already_resubmitted',
+      'This submission has already been resubmitted; follow the newer one.',
+    );
   const submission = fresh(input, actor.id, previous.id);
   return {
     ok: true,
     previous: { ...previous, resubmittedAsId: input.id, version: previous.version + 1 },
     submission,
     events: {
-      previous: { from: 'changes_requested', to: 'changes_requested', action: 'resubmit', actorId: actor.id, note: `Resubmitted as ${input.id}` },
-      submission: { from: null, to: 'pending', action: 'resubmit', actorId: actor.id, note: `Resubmission of ${previous.id}` },
+      previous: {
+        from: 'changes_requested',
+        to: 'changes_requested',
+        action: 'resubmit',
+        actorId: actor.id,
+        note: `Resubmitted as ${input.id}`,
+      },
+      submission: {
+        from: null,
+        to: 'pending',
+        action: 'resubmit',
+        actorId: actor.id,
+        note: `Resubmission of ${previous.id}`,
+      },
     },
   };
 }

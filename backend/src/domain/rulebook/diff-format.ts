@@ -13,11 +13,19 @@ export interface Side {
 
 /** "2200 lb" → "2,200 lb": rulebooks print weights with a thousands separator. */
 export function groupThousands(text: string): string {
-  return text.replace(/^(-?)(\d{4,})/, (_m, sign: string, digits: string) => sign + digits.replace(/\B(?=(\d{3})+(?!\d))/g, ','));
+  return text.replace(
+    /^(-?)(\d{4,})/,
+    (_m, sign: string, digits: string) => sign + digits.replace(/\B(?=(\d{3})+(?!\d))/g, ','),
+  );
 }
 
 /** A document value in canonical units, or undefined when its unit is unknown (a broken draft). */
-export function canonical(value: number, dimension: Dimension, side: Side, unit?: string): number | undefined {
+export function canonical(
+  value: number,
+  dimension: Dimension,
+  side: Side,
+  unit?: string,
+): number | undefined {
   try {
     return documentValueToCanonical(value, dimension, side.system, unit);
   } catch {
@@ -73,8 +81,17 @@ export function sizeText(s: SizeDoc, side: Side): string {
 }
 
 const VALUE_WORDS: Readonly<Record<string, string>> = {
-  mild_steel: 'mild steel', chromoly_4130: '4130 chromoly', dom: 'DOM', erw: 'ERW', cds: 'CDS', tig: 'TIG', mig: 'MIG',
-  sfi_45_1: 'SFI 45.1', fia_8857_2001: 'FIA 8857-2001', non_homologated: 'non-homologated', tube_frame: 'tube frame',
+  mild_steel: 'mild steel',
+  chromoly_4130: '4130 chromoly',
+  dom: 'DOM',
+  erw: 'ERW',
+  cds: 'CDS',
+  tig: 'TIG',
+  mig: 'MIG',
+  sfi_45_1: 'SFI 45.1',
+  fia_8857_2001: 'FIA 8857-2001',
+  non_homologated: 'non-homologated',
+  tube_frame: 'tube frame',
 };
 
 /** A vocabulary value as a reader would write it ("chromoly_4130" → "4130 chromoly"). */
@@ -84,7 +101,13 @@ export function valueWord(value: string): string {
 
 /** Values joined for reading; member kinds by their trade names ("rear brace (backstay)"). */
 export function kindsText(kinds: readonly string[], joiner = ' or '): string {
-  return kinds.map((k) => (Object.prototype.hasOwnProperty.call(MEMBER_KIND_LABELS, k) ? MEMBER_KIND_LABELS[k as MemberKind] : valueWord(k))).join(joiner);
+  return kinds
+    .map((k) =>
+      Object.prototype.hasOwnProperty.call(MEMBER_KIND_LABELS, k)
+        ? MEMBER_KIND_LABELS[k as MemberKind]
+        : valueWord(k),
+    )
+    .join(joiner);
 }
 
 export const quoted = (text: string): string => `'${text}'`;
@@ -105,7 +128,8 @@ export function changedJsonPaths(a: unknown, b: unknown, prefix = ''): string[] 
     }
     return out;
   }
-  const isObj = (x: unknown): x is Record<string, unknown> => typeof x === 'object' && x !== null && !Array.isArray(x);
+  const isObj = (x: unknown): x is Record<string, unknown> =>
+    typeof x === 'object' && x !== null && !Array.isArray(x);
   if (isObj(a) && isObj(b)) {
     const keys = [...Object.keys(a), ...Object.keys(b).filter((k) => !(k in a))];
     return keys.flatMap((k) => (k in a && k in b ? changedJsonPaths(a[k], b[k], join(k)) : [join(k)]));

@@ -4,29 +4,54 @@
 import type { LimitCheck, Requires, TubeTable } from '../../contracts/ruleset.js';
 import { FACTS_BY_NAME } from '../facts.js';
 import {
-  canonical, changedJsonPaths, kindsText, pathsText, quantity, quantityNumber, quoted, sameNumber, sameSize, sizeText, valueWord,
+  canonical,
+  changedJsonPaths,
+  kindsText,
+  pathsText,
+  quantity,
+  quantityNumber,
+  quoted,
+  sameNumber,
+  sameSize,
+  sizeText,
+  valueWord,
 } from './diff-format.js';
 import type { Side, SizeDoc } from './diff-format.js';
 
 export type ChangeKind = 'added' | 'removed' | 'changed';
 
 /** Receives one change of this requirement; `head` ("Club Saloon: C4.2.2") is prepended by the caller. */
-export type Emit = (kind: ChangeKind, detail: string, values?: { before?: string; after?: string; paths?: string[] }) => void;
+export type Emit = (
+  kind: ChangeKind,
+  detail: string,
+  values?: { before?: string; after?: string; paths?: string[] },
+) => void;
 
 export const TEMPLATE_WORDS: Readonly<Record<Requires['template'], string>> = {
-  tube_table: 'tube table', required_members: 'required members', limit: 'limits', allowed_values: 'allowed values', conditions: 'conditions',
+  tube_table: 'tube table',
+  required_members: 'required members',
+  limit: 'limits',
+  allowed_values: 'allowed values',
+  conditions: 'conditions',
 };
 
 export function describeRequiresChanges(a: Requires, sa: Side, b: Requires, sb: Side, emit: Emit): void {
   if (a.template !== b.template) {
-    emit('changed', `rule rewritten: ${TEMPLATE_WORDS[a.template]} → ${TEMPLATE_WORDS[b.template]}`, { before: TEMPLATE_WORDS[a.template], after: TEMPLATE_WORDS[b.template] });
+    emit('changed', `rule rewritten: ${TEMPLATE_WORDS[a.template]} → ${TEMPLATE_WORDS[b.template]}`, {
+      before: TEMPLATE_WORDS[a.template],
+      after: TEMPLATE_WORDS[b.template],
+    });
     return;
   }
   switch (a.template) {
-    case 'tube_table': return tubeTable(a, sa, b as TubeTable, sb, emit);
-    case 'required_members': return requiredMembers(a, b as typeof a, emit);
-    case 'limit': return limits(a.checks, sa, (b as typeof a).checks, sb, emit);
-    case 'allowed_values': return allowedValues(a, b as typeof a, emit);
+    case 'tube_table':
+      return tubeTable(a, sa, b as TubeTable, sb, emit);
+    case 'required_members':
+      return requiredMembers(a, b as typeof a, emit);
+    case 'limit':
+      return limits(a.checks, sa, (b as typeof a).checks, sb, emit);
+    case 'allowed_values':
+      return allowedValues(a, b as typeof a, emit);
     case 'conditions': {
       const paths = changedJsonPaths(a.conditions, (b as typeof a).conditions);
       if (paths.length > 0) emit('changed', `conditions changed (${pathsText(paths)})`, { paths });
@@ -44,14 +69,20 @@ function bandName(bands: readonly Band[], i: number, side: Side, unit?: string):
   if (band.label) return `band ${band.label}`;
   if (bands.length === 1) return 'all weights';
   const prev = i > 0 ? bands[i - 1].upTo : undefined;
-  if (band.upTo === undefined) return prev === undefined ? `band ${i + 1}` : `band over ${quantity(prev, 'mass', side, unit)}`;
-  return prev === undefined ? `band up to ${quantity(band.upTo, 'mass', side, unit)}` : `band over ${quantityNumber(prev, 'mass', side, unit)} up to ${quantity(band.upTo, 'mass', side, unit)}`;
+  if (band.upTo === undefined)
+    return prev === undefined ? `band ${i + 1}` : `band over ${quantity(prev, 'mass', side, unit)}`;
+  return prev === undefined
+    ? `band up to ${quantity(band.upTo, 'mass', side, unit)}`
+    : `band over ${quantityNumber(prev, 'mass', side, unit)} up to ${quantity(band.upTo, 'mass', side, unit)}`;
 }
 
-const rowKey = (r: Row): string => `${[...(r.materials ?? [])].sort().join('+')}|${[...(r.processes ?? [])].sort().join('+')}`;
+const rowKey = (r: Row): string =>
+  `${[...(r.materials ?? [])].sort().join('+')}|${[...(r.processes ?? [])].sort().join('+')}`;
 
 function rowName(r: Row): string {
-  const materials = r.materials ? r.materials.map((m) => (m === 'other' ? 'other material' : valueWord(m))).join(' or ') : 'any material';
+  const materials = r.materials
+    ? r.materials.map((m) => (m === 'other' ? 'other material' : valueWord(m))).join(' or ')
+    : 'any material';
   return r.processes ? `${materials} (${r.processes.map(valueWord).join(', ')})` : materials;
 }
 
@@ -63,7 +94,10 @@ function tubeTable(a: TubeTable, sa: Side, b: TubeTable, sb: Side, emit: Emit): 
     const ba = a.bands[i];
     const bb = b.bands[i];
     if (!ba) {
-      emit('added', `${bandName(b.bands, i, sb, b.weightUnit)} added (${bb.rows.map((r) => `${rowName(r)}: ${sizesText(r, sb)}`).join('; ')})`);
+      emit(
+        'added',
+        `${bandName(b.bands, i, sb, b.weightUnit)} added (${bb.rows.map((r) => `${rowName(r)}: ${sizesText(r, sb)}`).join('; ')})`,
+      );
       continue;
     }
     if (!bb) {
@@ -79,7 +113,10 @@ function tubeTable(a: TubeTable, sa: Side, b: TubeTable, sb: Side, emit: Emit): 
       emit('changed', `band ${i + 1} upper weight ${was} → ${now}`, { before: was, after: now });
     }
     if ((ba.label ?? '') !== (bb.label ?? '')) {
-      emit('changed', `band ${i + 1} label ${quoted(ba.label ?? '')} → ${quoted(bb.label ?? '')}`, { before: ba.label, after: bb.label });
+      emit('changed', `band ${i + 1} label ${quoted(ba.label ?? '')} → ${quoted(bb.label ?? '')}`, {
+        before: ba.label,
+        after: bb.label,
+      });
     }
     rows(ba.rows, sa, bb.rows, sb, name, emit);
   }
@@ -104,7 +141,14 @@ function rows(ra: readonly Row[], sa: Side, rb: readonly Row[], sb: Side, band: 
 
 type Alt = Row['alternatives'][number];
 
-function alternatives(aa: readonly Alt[], sa: Side, ab: readonly Alt[], sb: Side, where: string, emit: Emit): void {
+function alternatives(
+  aa: readonly Alt[],
+  sa: Side,
+  ab: readonly Alt[],
+  sb: Side,
+  where: string,
+  emit: Emit,
+): void {
   const keptA = new Set<number>();
   const added: Alt[] = [];
   for (const alt of ab) {
@@ -115,7 +159,11 @@ function alternatives(aa: readonly Alt[], sa: Side, ab: readonly Alt[], sb: Side
     }
     keptA.add(j);
     if ((aa[j].label ?? '') !== (alt.label ?? '')) {
-      emit('changed', `${where}: label of ${sizeText(alt, sb)} ${quoted(aa[j].label ?? '')} → ${quoted(alt.label ?? '')}`, { before: aa[j].label, after: alt.label });
+      emit(
+        'changed',
+        `${where}: label of ${sizeText(alt, sb)} ${quoted(aa[j].label ?? '')} → ${quoted(alt.label ?? '')}`,
+        { before: aa[j].label, after: alt.label },
+      );
     }
   }
   const removed = aa.filter((_x, k) => !keptA.has(k));
@@ -126,12 +174,17 @@ function alternatives(aa: readonly Alt[], sa: Side, ab: readonly Alt[], sb: Side
       const [old] = removed.splice(r, 1);
       const before = quantityNumber(old.wall, 'length', sa, old.unit);
       const after = quantity(alt.wall, 'length', sb, alt.unit);
-      emit('changed', `${where}: minimum wall for ${quantity(alt.od, 'length', sb, alt.unit)} OD ${before} → ${after}`, { before: sizeText(old, sa), after: sizeText(alt, sb) });
+      emit(
+        'changed',
+        `${where}: minimum wall for ${quantity(alt.od, 'length', sb, alt.unit)} OD ${before} → ${after}`,
+        { before: sizeText(old, sa), after: sizeText(alt, sb) },
+      );
     } else {
       emit('added', `${where}: alternative ${sizeText(alt, sb)} added`, { after: sizeText(alt, sb) });
     }
   }
-  for (const old of removed) emit('removed', `${where}: alternative ${sizeText(old, sa)} removed`, { before: sizeText(old, sa) });
+  for (const old of removed)
+    emit('removed', `${where}: alternative ${sizeText(old, sa)} removed`, { before: sizeText(old, sa) });
 }
 
 function sameOd(a: SizeDoc, sa: Side, b: SizeDoc, sb: Side): boolean {
@@ -144,13 +197,17 @@ function allowances(a: TubeTable, sa: Side, b: TubeTable, sb: Side, emit: Emit):
   const thinText = (t: NonNullable<typeof ta>, s: Side) =>
     `an OD ${quantity(t.odMargin, 'length', s, t.unit)} over the band minimum may use ${quantity(t.minWall, 'length', s, t.unit)} wall`;
   if (!ta && tb) emit('added', `thin-wall allowance added: ${thinText(tb, sb)}`, { after: thinText(tb, sb) });
-  else if (ta && !tb) emit('removed', `thin-wall allowance removed (${thinText(ta, sa)})`, { before: thinText(ta, sa) });
+  else if (ta && !tb)
+    emit('removed', `thin-wall allowance removed (${thinText(ta, sa)})`, { before: thinText(ta, sa) });
   else if (ta && tb) {
     const field = (word: string, x: number, y: number) => {
       if (sameNumber(canonical(x, 'length', sa, ta.unit), canonical(y, 'length', sb, tb.unit))) return;
       const before = quantity(x, 'length', sa, ta.unit);
       const after = quantity(y, 'length', sb, tb.unit);
-      emit('changed', `thin-wall allowance ${word} ${quantityNumber(x, 'length', sa, ta.unit)} → ${after}`, { before, after });
+      emit('changed', `thin-wall allowance ${word} ${quantityNumber(x, 'length', sa, ta.unit)} → ${after}`, {
+        before,
+        after,
+      });
     };
     field('OD margin', ta.odMargin, tb.odMargin);
     field('wall', ta.minWall, tb.minWall);
@@ -159,9 +216,18 @@ function allowances(a: TubeTable, sa: Side, b: TubeTable, sb: Side, emit: Emit):
   const wb = b.allowances?.wallAllowance;
   const wallText = (w: NonNullable<typeof wa>, s: Side) => quantity(w.value, 'length', s, w.unit);
   if (!wa && wb) emit('added', `wall allowance of ${wallText(wb, sb)} added`, { after: wallText(wb, sb) });
-  else if (wa && !wb) emit('removed', `wall allowance of ${wallText(wa, sa)} removed`, { before: wallText(wa, sa) });
-  else if (wa && wb && !sameNumber(canonical(wa.value, 'length', sa, wa.unit), canonical(wb.value, 'length', sb, wb.unit))) {
-    emit('changed', `wall allowance ${quantityNumber(wa.value, 'length', sa, wa.unit)} → ${wallText(wb, sb)}`, { before: wallText(wa, sa), after: wallText(wb, sb) });
+  else if (wa && !wb)
+    emit('removed', `wall allowance of ${wallText(wa, sa)} removed`, { before: wallText(wa, sa) });
+  else if (
+    wa &&
+    wb &&
+    !sameNumber(canonical(wa.value, 'length', sa, wa.unit), canonical(wb.value, 'length', sb, wb.unit))
+  ) {
+    emit(
+      'changed',
+      `wall allowance ${quantityNumber(wa.value, 'length', sa, wa.unit)} → ${wallText(wb, sb)}`,
+      { before: wallText(wa, sa), after: wallText(wb, sb) },
+    );
   }
 }
 
@@ -169,9 +235,20 @@ function allowances(a: TubeTable, sa: Side, b: TubeTable, sb: Side, emit: Emit):
 
 type MemberEntry = Extract<Requires, { template: 'required_members' }>['members'][number];
 const entryKey = (e: MemberEntry) => [...new Set(e.kinds)].sort().join('+');
-const countText = (e: MemberEntry) => (e.max === undefined ? `at least ${e.min}` : e.min === e.max ? `exactly ${e.min}` : e.min === 0 ? `at most ${e.max}` : `${e.min} to ${e.max}`);
+const countText = (e: MemberEntry) =>
+  e.max === undefined
+    ? `at least ${e.min}`
+    : e.min === e.max
+      ? `exactly ${e.min}`
+      : e.min === 0
+        ? `at most ${e.max}`
+        : `${e.min} to ${e.max}`;
 
-function requiredMembers(a: Extract<Requires, { template: 'required_members' }>, b: typeof a, emit: Emit): void {
+function requiredMembers(
+  a: Extract<Requires, { template: 'required_members' }>,
+  b: typeof a,
+  emit: Emit,
+): void {
   const used = new Set<number>();
   for (const e of b.members) {
     const j = a.members.findIndex((x, k) => !used.has(k) && entryKey(x) === entryKey(e));
@@ -183,22 +260,49 @@ function requiredMembers(a: Extract<Requires, { template: 'required_members' }>,
     }
     used.add(j);
     const old = a.members[j];
-    if (old.min === 0 && e.min > 0) emit('changed', `${kinds} now required (${countText(e)})`, { before: countText(old), after: countText(e) });
-    else if (old.min > 0 && e.min === 0) emit('changed', `${kinds} no longer required (${countText(e)})`, { before: countText(old), after: countText(e) });
-    else if (old.min !== e.min || old.max !== e.max) emit('changed', `${kinds}: ${countText(old)} → ${countText(e)}`, { before: countText(old), after: countText(e) });
-    if ((old.label ?? '') !== (e.label ?? '')) emit('changed', `${kinds}: label ${quoted(old.label ?? '')} → ${quoted(e.label ?? '')}`, { before: old.label, after: e.label });
+    if (old.min === 0 && e.min > 0)
+      emit('changed', `${kinds} now required (${countText(e)})`, {
+        before: countText(old),
+        after: countText(e),
+      });
+    else if (old.min > 0 && e.min === 0)
+      emit('changed', `${kinds} no longer required (${countText(e)})`, {
+        before: countText(old),
+        after: countText(e),
+      });
+    else if (old.min !== e.min || old.max !== e.max)
+      emit('changed', `${kinds}: ${countText(old)} → ${countText(e)}`, {
+        before: countText(old),
+        after: countText(e),
+      });
+    if ((old.label ?? '') !== (e.label ?? ''))
+      emit('changed', `${kinds}: label ${quoted(old.label ?? '')} → ${quoted(e.label ?? '')}`, {
+        before: old.label,
+        after: e.label,
+      });
   }
   a.members.forEach((e, k) => {
     if (used.has(k)) return;
     const kinds = kindsText(e.kinds);
-    emit('removed', e.min > 0 ? `${kinds} no longer required (was ${countText(e)})` : `limit on ${kinds} removed (was ${countText(e)})`, { before: countText(e) });
+    emit(
+      'removed',
+      e.min > 0
+        ? `${kinds} no longer required (was ${countText(e)})`
+        : `limit on ${kinds} removed (was ${countText(e)})`,
+      { before: countText(e) },
+    );
   });
 }
 
 // Limits ----------------------------------------------------------------------------------------
 
 const OPERATOR_WORDS: Readonly<Record<LimitCheck['operator'], string>> = {
-  atLeast: 'at least', atMost: 'at most', above: 'more than', below: 'less than', equals: 'must be', notEquals: 'must not be',
+  atLeast: 'at least',
+  atMost: 'at most',
+  above: 'more than',
+  below: 'less than',
+  equals: 'must be',
+  notEquals: 'must not be',
 };
 
 const checkKey = (c: LimitCheck) => `${c.fact}|${c.path ?? ''}|${JSON.stringify(c.params ?? {})}`;
@@ -214,7 +318,10 @@ function checkValue(c: LimitCheck, side: Side): { value: string; canonical?: num
   if (typeof c.value === 'boolean') return { value: c.value ? 'yes' : 'no' };
   const dimension = FACTS_BY_NAME.get(c.fact)?.dimension;
   if (!dimension) return { value: String(c.value), canonical: c.value };
-  return { value: quantity(c.value, dimension, side, c.unit), canonical: canonical(c.value, dimension, side, c.unit) };
+  return {
+    value: quantity(c.value, dimension, side, c.unit),
+    canonical: canonical(c.value, dimension, side, c.unit),
+  };
 }
 
 const checkText = (c: LimitCheck, side: Side) => `${OPERATOR_WORDS[c.operator]} ${checkValue(c, side).value}`;
@@ -236,16 +343,27 @@ function limits(ca: readonly LimitCheck[], sa: Side, cb: readonly LimitCheck[], 
     }
     const va = checkValue(old, sa);
     const vb = checkValue(c, sb);
-    const sameValue = typeof old.value === 'boolean' || typeof c.value === 'boolean' ? old.value === c.value : sameNumber(va.canonical, vb.canonical);
+    const sameValue =
+      typeof old.value === 'boolean' || typeof c.value === 'boolean'
+        ? old.value === c.value
+        : sameNumber(va.canonical, vb.canonical);
     if (old.operator !== c.operator || !sameValue) {
-      emit('changed', `${subject} ${checkText(old, sa)} → ${old.operator === c.operator ? vb.value : checkText(c, sb)}`, { before: checkText(old, sa), after: checkText(c, sb) });
+      emit(
+        'changed',
+        `${subject} ${checkText(old, sa)} → ${old.operator === c.operator ? vb.value : checkText(c, sb)}`,
+        { before: checkText(old, sa), after: checkText(c, sb) },
+      );
     }
     if ((old.label ?? '') !== (c.label ?? '')) {
-      emit('changed', `limit label ${quoted(old.label ?? '')} → ${quoted(c.label ?? '')}`, { before: old.label, after: c.label });
+      emit('changed', `limit label ${quoted(old.label ?? '')} → ${quoted(c.label ?? '')}`, {
+        before: old.label,
+        after: c.label,
+      });
     }
   }
   ca.forEach((c, k) => {
-    if (!used.has(k)) emit('removed', `limit removed: ${checkSubject(c)} ${checkText(c, sa)}`, { before: checkText(c, sa) });
+    if (!used.has(k))
+      emit('removed', `limit removed: ${checkSubject(c)} ${checkText(c, sa)}`, { before: checkText(c, sa) });
   });
 }
 
@@ -253,17 +371,28 @@ function limits(ca: readonly LimitCheck[], sa: Side, cb: readonly LimitCheck[], 
 
 function allowedValues(a: Extract<Requires, { template: 'allowed_values' }>, b: typeof a, emit: Emit): void {
   const label = (fact: string) => FACTS_BY_NAME.get(fact)?.label ?? fact;
-  const list = (x: typeof a) => `${x.mode === 'forbidden' ? 'forbidden' : 'allowed'}: ${x.values.map(valueWord).join(', ')}`;
+  const list = (x: typeof a) =>
+    `${x.mode === 'forbidden' ? 'forbidden' : 'allowed'}: ${x.values.map(valueWord).join(', ')}`;
   if (a.fact !== b.fact) {
-    emit('changed', `now checks ${label(b.fact)} (was ${label(a.fact)}); ${list(b)}`, { before: `${label(a.fact)} ${list(a)}`, after: `${label(b.fact)} ${list(b)}` });
+    emit('changed', `now checks ${label(b.fact)} (was ${label(a.fact)}); ${list(b)}`, {
+      before: `${label(a.fact)} ${list(a)}`,
+      after: `${label(b.fact)} ${list(b)}`,
+    });
     return;
   }
   const subject = label(b.fact);
   if (a.mode !== b.mode) {
-    emit('changed', `${subject}: the list now names ${b.mode} values (was ${a.mode}); ${list(b)}`, { before: list(a), after: list(b) });
+    emit('changed', `${subject}: the list now names ${b.mode} values (was ${a.mode}); ${list(b)}`, {
+      before: list(a),
+      after: list(b),
+    });
     return;
   }
   const word = b.mode === 'forbidden' ? 'forbidden' : 'allowed';
-  for (const v of b.values) if (!a.values.includes(v)) emit('added', `${subject}: ${valueWord(v)} now ${word}`, { after: valueWord(v) });
-  for (const v of a.values) if (!b.values.includes(v)) emit('removed', `${subject}: ${valueWord(v)} no longer ${word}`, { before: valueWord(v) });
+  for (const v of b.values)
+    if (!a.values.includes(v))
+      emit('added', `${subject}: ${valueWord(v)} now ${word}`, { after: valueWord(v) });
+  for (const v of a.values)
+    if (!b.values.includes(v))
+      emit('removed', `${subject}: ${valueWord(v)} no longer ${word}`, { before: valueWord(v) });
 }

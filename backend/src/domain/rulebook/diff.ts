@@ -6,7 +6,18 @@
 import type { RequirementArea, Requirement, RulesetClass, RulesetDocument } from '../../contracts/ruleset.js';
 import type { Dimension, UnitSystem } from '../units.js';
 import { FACTS_BY_NAME } from '../facts.js';
-import { changedJsonPaths, kindsText, valueWord, pathsText, quantity, quoted, canonical, sameNumber, sameSize, sizeText } from './diff-format.js';
+import {
+  changedJsonPaths,
+  kindsText,
+  valueWord,
+  pathsText,
+  quantity,
+  quoted,
+  canonical,
+  sameNumber,
+  sameSize,
+  sizeText,
+} from './diff-format.js';
 import type { Side } from './diff-format.js';
 import { describeRequiresChanges } from './diff-requires.js';
 import type { ChangeKind } from './diff-requires.js';
@@ -36,14 +47,19 @@ export interface DescribeOptions {
 
 type Extra = Pick<RulesetChange, 'before' | 'after' | 'paths' | 'classId' | 'classIds' | 'requirementId'>;
 
-export function describeRulesetChanges(before: RulesetDocument, after: RulesetDocument, options: DescribeOptions = {}): RulesetChange[] {
+export function describeRulesetChanges(
+  before: RulesetDocument,
+  after: RulesetDocument,
+  options: DescribeOptions = {},
+): RulesetChange[] {
   const display = options.unitSystem ?? after.unitSystem;
   const sa: Side = { system: before.unitSystem, display };
   const sb: Side = { system: after.unitSystem, display };
   const out: RulesetChange[] = [];
   const push = (area: ChangeArea, kind: ChangeKind, text: string, extra: Extra = {}) => {
     const item: RulesetChange = { area, kind, text };
-    for (const [k, v] of Object.entries(extra)) if (v !== undefined) (item as unknown as Record<string, unknown>)[k] = v;
+    for (const [k, v] of Object.entries(extra))
+      if (v !== undefined) (item as unknown as Record<string, unknown>)[k] = v;
     out.push(item);
   };
   identity(before, after, push);
@@ -58,33 +74,82 @@ type Push = (area: ChangeArea, kind: ChangeKind, text: string, extra?: Extra) =>
 function identity(a: RulesetDocument, b: RulesetDocument, push: Push): void {
   const ra = a.rulebook;
   const rb = b.rulebook;
-  if (ra.edition !== rb.edition) push('rulebook', 'changed', `Rulebook edition ${ra.edition} → ${rb.edition}`, { before: ra.edition, after: rb.edition });
-  if (ra.title !== rb.title) push('rulebook', 'changed', `Rulebook title ${quoted(ra.title)} → ${quoted(rb.title)}`, { before: ra.title, after: rb.title });
-  if (ra.publisher !== rb.publisher) push('rulebook', 'changed', `Publisher ${quoted(ra.publisher)} → ${quoted(rb.publisher)}`, { before: ra.publisher, after: rb.publisher });
-  if (ra.effectiveDate !== rb.effectiveDate) push('rulebook', 'changed', `Effective date ${ra.effectiveDate} → ${rb.effectiveDate}`, { before: ra.effectiveDate, after: rb.effectiveDate });
-  if (!ra.url && rb.url) push('rulebook', 'added', `Link to the rulebook added: ${rb.url}`, { after: rb.url });
+  if (ra.edition !== rb.edition)
+    push('rulebook', 'changed', `Rulebook edition ${ra.edition} → ${rb.edition}`, {
+      before: ra.edition,
+      after: rb.edition,
+    });
+  if (ra.title !== rb.title)
+    push('rulebook', 'changed', `Rulebook title ${quoted(ra.title)} → ${quoted(rb.title)}`, {
+      before: ra.title,
+      after: rb.title,
+    });
+  if (ra.publisher !== rb.publisher)
+    push('rulebook', 'changed', `Publisher ${quoted(ra.publisher)} → ${quoted(rb.publisher)}`, {
+      before: ra.publisher,
+      after: rb.publisher,
+    });
+  if (ra.effectiveDate !== rb.effectiveDate)
+    push('rulebook', 'changed', `Effective date ${ra.effectiveDate} → ${rb.effectiveDate}`, {
+      before: ra.effectiveDate,
+      after: rb.effectiveDate,
+    });
+  if (!ra.url && rb.url)
+    push('rulebook', 'added', `Link to the rulebook added: ${rb.url}`, { after: rb.url });
   else if (ra.url && !rb.url) push('rulebook', 'removed', 'Link to the rulebook removed', { before: ra.url });
-  else if (ra.url !== rb.url) push('rulebook', 'changed', `Link to the rulebook changed to ${rb.url}`, { before: ra.url, after: rb.url });
-  if (a.unitSystem !== b.unitSystem) push('rulebook', 'changed', `Rulebook units ${a.unitSystem} → ${b.unitSystem}`, { before: a.unitSystem, after: b.unitSystem });
+  else if (ra.url !== rb.url)
+    push('rulebook', 'changed', `Link to the rulebook changed to ${rb.url}`, {
+      before: ra.url,
+      after: rb.url,
+    });
+  if (a.unitSystem !== b.unitSystem)
+    push('rulebook', 'changed', `Rulebook units ${a.unitSystem} → ${b.unitSystem}`, {
+      before: a.unitSystem,
+      after: b.unitSystem,
+    });
 }
 
-const TOLERANCE_DIMENSIONS = ['length', 'angle', 'mass', 'area', 'stress', 'ratio'] as const satisfies readonly Dimension[];
+const TOLERANCE_DIMENSIONS = [
+  'length',
+  'angle',
+  'mass',
+  'area',
+  'stress',
+  'ratio',
+] as const satisfies readonly Dimension[];
 
 function policy(a: RulesetDocument, sa: Side, b: RulesetDocument, sb: Side, push: Push): void {
   for (const dim of TOLERANCE_DIMENSIONS) {
     const x = a.measurementTolerance?.[dim];
     const y = b.measurementTolerance?.[dim];
     const word = `Measurement tolerance for ${dim}`;
-    if (x === undefined && y !== undefined) push('policy', 'added', `${word} ${quantity(y, dim, sb)} added`, { after: quantity(y, dim, sb) });
-    else if (x !== undefined && y === undefined) push('policy', 'removed', `${word} ${quantity(x, dim, sa)} removed`, { before: quantity(x, dim, sa) });
-    else if (x !== undefined && y !== undefined && !sameNumber(canonical(x, dim, sa), canonical(y, dim, sb))) {
-      push('policy', 'changed', `${word} ${quantity(x, dim, sa)} → ${quantity(y, dim, sb)}`, { before: quantity(x, dim, sa), after: quantity(y, dim, sb) });
+    if (x === undefined && y !== undefined)
+      push('policy', 'added', `${word} ${quantity(y, dim, sb)} added`, { after: quantity(y, dim, sb) });
+    else if (x !== undefined && y === undefined)
+      push('policy', 'removed', `${word} ${quantity(x, dim, sa)} removed`, { before: quantity(x, dim, sa) });
+    else if (
+      x !== undefined &&
+      y !== undefined &&
+      !sameNumber(canonical(x, dim, sa), canonical(y, dim, sb))
+    ) {
+      push('policy', 'changed', `${word} ${quantity(x, dim, sa)} → ${quantity(y, dim, sb)}`, {
+        before: quantity(x, dim, sa),
+        after: quantity(y, dim, sb),
+      });
     }
   }
   if (a.acceptPrintedEquivalents !== b.acceptPrintedEquivalents) {
-    push('policy', 'changed', b.acceptPrintedEquivalents ? 'Printed equivalent sizes now accepted' : 'Printed equivalent sizes no longer accepted', {
-      before: a.acceptPrintedEquivalents ? 'accepted' : 'not accepted', after: b.acceptPrintedEquivalents ? 'accepted' : 'not accepted',
-    });
+    push(
+      'policy',
+      'changed',
+      b.acceptPrintedEquivalents
+        ? 'Printed equivalent sizes now accepted'
+        : 'Printed equivalent sizes no longer accepted',
+      {
+        before: a.acceptPrintedEquivalents ? 'accepted' : 'not accepted',
+        after: b.acceptPrintedEquivalents ? 'accepted' : 'not accepted',
+      },
+    );
   }
   const ea = a.printedEquivalents ?? [];
   const eb = b.printedEquivalents ?? [];
@@ -93,18 +158,33 @@ function policy(a: RulesetDocument, sa: Side, b: RulesetDocument, sb: Side, push
     const j = ea.findIndex((x, k) => !used.has(k) && sameSize(x.size, sa, e.size, sb));
     const of = `Printed equivalent for ${sizeText(e.size, sb)}`;
     if (j < 0) {
-      push('policy', 'added', `${of} added: ${sizeText(e.printedAs, sb)}`, { after: sizeText(e.printedAs, sb) });
+      push('policy', 'added', `${of} added: ${sizeText(e.printedAs, sb)}`, {
+        after: sizeText(e.printedAs, sb),
+      });
       continue;
     }
     used.add(j);
     const old = ea[j];
     if (!sameSize(old.printedAs, sa, e.printedAs, sb)) {
-      push('policy', 'changed', `${of}: ${sizeText(old.printedAs, sa)} → ${sizeText(e.printedAs, sb)}`, { before: sizeText(old.printedAs, sa), after: sizeText(e.printedAs, sb) });
+      push('policy', 'changed', `${of}: ${sizeText(old.printedAs, sa)} → ${sizeText(e.printedAs, sb)}`, {
+        before: sizeText(old.printedAs, sa),
+        after: sizeText(e.printedAs, sb),
+      });
     }
-    if ((old.note ?? '') !== (e.note ?? '')) push('policy', 'changed', `Note on the ${of.charAt(0).toLowerCase()}${of.slice(1)} changed`, { before: old.note, after: e.note });
+    if ((old.note ?? '') !== (e.note ?? ''))
+      push('policy', 'changed', `Note on the ${of.charAt(0).toLowerCase()}${of.slice(1)} changed`, {
+        before: old.note,
+        after: e.note,
+      });
   }
   ea.forEach((e, k) => {
-    if (!used.has(k)) push('policy', 'removed', `Printed equivalent for ${sizeText(e.size, sa)} removed (was ${sizeText(e.printedAs, sa)})`, { before: sizeText(e.printedAs, sa) });
+    if (!used.has(k))
+      push(
+        'policy',
+        'removed',
+        `Printed equivalent for ${sizeText(e.size, sa)} removed (was ${sizeText(e.printedAs, sa)})`,
+        { before: sizeText(e.printedAs, sa) },
+      );
   });
 }
 
@@ -114,16 +194,39 @@ function classes(ca: readonly RulesetClass[], cb: readonly RulesetClass[], push:
   const pairs = pairUp(ca, cb, [(x, y) => x.id === y.id, (x, y) => x.name === y.name]);
   for (const [x, y] of pairs) {
     if (!x && y) push('class', 'added', `Class ${quoted(y.name)} added`, { classId: y.id, after: y.name });
-    else if (x && !y) push('class', 'removed', `Class ${quoted(x.name)} removed`, { classId: x.id, before: x.name });
+    else if (x && !y)
+      push('class', 'removed', `Class ${quoted(x.name)} removed`, { classId: x.id, before: x.name });
     else if (x && y) {
-      if (x.id !== y.id) push('class', 'changed', `Class ${quoted(y.name)} id ${x.id} → ${y.id}`, { classId: y.id, before: x.id, after: y.id });
-      if (x.name !== y.name) push('class', 'changed', `Class ${quoted(x.name)} renamed ${quoted(y.name)}`, { classId: y.id, before: x.name, after: y.name });
-      if (x.weightBasis !== y.weightBasis) {
-        push('class', 'changed', `Class ${quoted(y.name)} now weighed ${BASIS_WORDS[y.weightBasis]} (was ${BASIS_WORDS[x.weightBasis]})`, {
-          classId: y.id, before: BASIS_WORDS[x.weightBasis], after: BASIS_WORDS[y.weightBasis],
+      if (x.id !== y.id)
+        push('class', 'changed', `Class ${quoted(y.name)} id ${x.id} → ${y.id}`, {
+          classId: y.id,
+          before: x.id,
+          after: y.id,
         });
+      if (x.name !== y.name)
+        push('class', 'changed', `Class ${quoted(x.name)} renamed ${quoted(y.name)}`, {
+          classId: y.id,
+          before: x.name,
+          after: y.name,
+        });
+      if (x.weightBasis !== y.weightBasis) {
+        push(
+          'class',
+          'changed',
+          `Class ${quoted(y.name)} now weighed ${BASIS_WORDS[y.weightBasis]} (was ${BASIS_WORDS[x.weightBasis]})`,
+          {
+            classId: y.id,
+            before: BASIS_WORDS[x.weightBasis],
+            after: BASIS_WORDS[y.weightBasis],
+          },
+        );
       }
-      if ((x.description ?? '') !== (y.description ?? '')) push('class', 'changed', `Description of class ${quoted(y.name)} changed`, { classId: y.id, before: x.description, after: y.description });
+      if ((x.description ?? '') !== (y.description ?? ''))
+        push('class', 'changed', `Description of class ${quoted(y.name)} changed`, {
+          classId: y.id,
+          before: x.description,
+          after: y.description,
+        });
     }
   }
 }
@@ -132,26 +235,41 @@ function classes(ca: readonly RulesetClass[], cb: readonly RulesetClass[], push:
  * Pairs the items of two lists by the first test that matches (id, then a fallback), in the new
  * list's order; unpaired old items come last in their own order.
  */
-function pairUp<T>(a: readonly T[], b: readonly T[], tests: ((x: T, y: T) => boolean)[]): [T | undefined, T | undefined][] {
+function pairUp<T>(
+  a: readonly T[],
+  b: readonly T[],
+  tests: ((x: T, y: T) => boolean)[],
+): [T | undefined, T | undefined][] {
   const match = new Map<number, number>();
   const usedA = new Set<number>();
   for (const test of tests) {
     b.forEach((y, i) => {
       if (match.has(i)) return;
       const j = a.findIndex((x, k) => !usedA.has(k) && test(x, y));
-      if (j >= 0) { match.set(i, j); usedA.add(j); }
+      if (j >= 0) {
+        match.set(i, j);
+        usedA.add(j);
+      }
     });
   }
-  const pairs: [T | undefined, T | undefined][] = b.map((y, i) => [match.has(i) ? a[match.get(i) as number] : undefined, y]);
-  a.forEach((x, k) => { if (!usedA.has(k)) pairs.push([x, undefined]); });
+  const pairs: [T | undefined, T | undefined][] = b.map((y, i) => [
+    match.has(i) ? a[match.get(i) as number] : undefined,
+    y,
+  ]);
+  a.forEach((x, k) => {
+    if (!usedA.has(k)) pairs.push([x, undefined]);
+  });
   return pairs;
 }
 
 function scopeText(r: Requirement): string {
   switch (r.scope.kind) {
-    case 'vehicle': return 'the vehicle';
-    case 'member': return `each ${kindsText(r.scope.memberKinds)}`;
-    case 'plate': return `each plate at the ${r.scope.locations.map(valueWord).join(' or ')}`;
+    case 'vehicle':
+      return 'the vehicle';
+    case 'member':
+      return `each ${kindsText(r.scope.memberKinds)}`;
+    case 'plate':
+      return `each plate at the ${r.scope.locations.map(valueWord).join(' or ')}`;
   }
 }
 
@@ -162,41 +280,83 @@ function classesText(ids: readonly string[] | undefined, names: ReadonlyMap<stri
 function requirements(a: RulesetDocument, sa: Side, b: RulesetDocument, sb: Side, push: Push): void {
   const names = new Map<string, string>([...a.classes, ...b.classes].map((c) => [c.id, c.name]));
   for (const c of b.classes) names.set(c.id, c.name);
-  const pairs = pairUp(a.requirements, b.requirements, [(x, y) => x.id === y.id, (x, y) => x.section === y.section, (x, y) => x.title === y.title]);
+  const pairs = pairUp(a.requirements, b.requirements, [
+    (x, y) => x.id === y.id,
+    (x, y) => x.section === y.section,
+    (x, y) => x.title === y.title,
+  ]);
   for (const [x, y] of pairs) {
     const r = (y ?? x) as Requirement;
     const ids = r.appliesTo?.classes;
-    const who: Extra = { requirementId: r.id, ...(ids ? { classIds: [...ids] } : {}), ...(ids?.length === 1 ? { classId: ids[0] } : {}) };
+    const who: Extra = {
+      requirementId: r.id,
+      ...(ids ? { classIds: [...ids] } : {}),
+      ...(ids?.length === 1 ? { classId: ids[0] } : {}),
+    };
     const named = `${r.section} ${quoted(r.title)}`;
     const forClasses = ids ? ` (${classesText(ids, names)})` : '';
-    if (!x) { push(r.area, 'added', `Requirement ${named} added${forClasses}`, who); continue; }
-    if (!y) { push(r.area, 'removed', `Requirement ${named} removed${forClasses}`, who); continue; }
+    if (!x) {
+      push(r.area, 'added', `Requirement ${named} added${forClasses}`, who);
+      continue;
+    }
+    if (!y) {
+      push(r.area, 'removed', `Requirement ${named} removed${forClasses}`, who);
+      continue;
+    }
     const head = `${ids ? `${classesText(ids, names)}: ` : ''}${y.section}`;
-    const at = (kind: ChangeKind, text: string, extra: Extra = {}) => push(y.area, kind, text, { ...who, ...extra });
+    const at = (kind: ChangeKind, text: string, extra: Extra = {}) =>
+      push(y.area, kind, text, { ...who, ...extra });
     if (x.id !== y.id) at('changed', `${y.section} id ${x.id} → ${y.id}`, { before: x.id, after: y.id });
-    if (x.section !== y.section) at('changed', `Requirement ${quoted(y.title)} renumbered ${x.section} → ${y.section}`, { before: x.section, after: y.section });
-    if (x.title !== y.title) at('changed', `${y.section} title ${quoted(x.title)} → ${quoted(y.title)}`, { before: x.title, after: y.title });
-    if (x.severity !== y.severity) at('changed', `${y.section} is now ${y.severity} (was ${x.severity})`, { before: x.severity, after: y.severity });
-    if (x.area !== y.area) at('changed', `${y.section} moved from ${x.area} to ${y.area}`, { before: x.area, after: y.area });
-    if (scopeText(x) !== scopeText(y)) at('changed', `${y.section} now checks ${scopeText(y)} (was ${scopeText(x)})`, { before: scopeText(x), after: scopeText(y) });
+    if (x.section !== y.section)
+      at('changed', `Requirement ${quoted(y.title)} renumbered ${x.section} → ${y.section}`, {
+        before: x.section,
+        after: y.section,
+      });
+    if (x.title !== y.title)
+      at('changed', `${y.section} title ${quoted(x.title)} → ${quoted(y.title)}`, {
+        before: x.title,
+        after: y.title,
+      });
+    if (x.severity !== y.severity)
+      at('changed', `${y.section} is now ${y.severity} (was ${x.severity})`, {
+        before: x.severity,
+        after: y.severity,
+      });
+    if (x.area !== y.area)
+      at('changed', `${y.section} moved from ${x.area} to ${y.area}`, { before: x.area, after: y.area });
+    if (scopeText(x) !== scopeText(y))
+      at('changed', `${y.section} now checks ${scopeText(y)} (was ${scopeText(x)})`, {
+        before: scopeText(x),
+        after: scopeText(y),
+      });
     const ca = classesText(x.appliesTo?.classes, names);
     const cb = classesText(y.appliesTo?.classes, names);
     if (ca !== cb) at('changed', `${y.section} now applies to ${cb} (was ${ca})`, { before: ca, after: cb });
     whenChanges(x, y, at);
     if (sa.system !== sb.system) unitsOfRawConditions(x, y, sb.system, at);
-    describeRequiresChanges(x.requires, sa, y.requires, sb, (kind, detail, values = {}) => at(kind, `${head} ${detail}`, values));
-    if (x.explanation !== y.explanation) at('changed', `Explanation of ${y.section} changed`, { before: x.explanation, after: y.explanation });
+    describeRequiresChanges(x.requires, sa, y.requires, sb, (kind, detail, values = {}) =>
+      at(kind, `${head} ${detail}`, values),
+    );
+    if (x.explanation !== y.explanation)
+      at('changed', `Explanation of ${y.section} changed`, { before: x.explanation, after: y.explanation });
   }
 }
 
-function whenChanges(x: Requirement, y: Requirement, at: (kind: ChangeKind, text: string, extra?: Extra) => void): void {
+function whenChanges(
+  x: Requirement,
+  y: Requirement,
+  at: (kind: ChangeKind, text: string, extra?: Extra) => void,
+): void {
   const wa = x.appliesTo?.when;
   const wb = y.appliesTo?.when;
-  if (wa === undefined && wb !== undefined) at('added', `${y.section} now applies only when its conditions hold`);
-  else if (wa !== undefined && wb === undefined) at('removed', `${y.section} no longer has conditions on when it applies`);
+  if (wa === undefined && wb !== undefined)
+    at('added', `${y.section} now applies only when its conditions hold`);
+  else if (wa !== undefined && wb === undefined)
+    at('removed', `${y.section} no longer has conditions on when it applies`);
   else {
     const paths = changedJsonPaths(wa, wb);
-    if (paths.length > 0) at('changed', `${y.section} conditions on when it applies changed (${pathsText(paths)})`, { paths });
+    if (paths.length > 0)
+      at('changed', `${y.section} conditions on when it applies changed (${pathsText(paths)})`, { paths });
   }
 }
 
@@ -204,22 +364,39 @@ function whenChanges(x: Requirement, y: Requirement, at: (kind: ChangeKind, text
 function readsDocumentUnits(node: unknown): boolean {
   if (typeof node !== 'object' || node === null) return false;
   const n = node as Record<string, unknown>;
-  for (const key of ['all', 'any']) if (Array.isArray(n[key]) && (n[key] as unknown[]).some(readsDocumentUnits)) return true;
+  for (const key of ['all', 'any'])
+    if (Array.isArray(n[key]) && (n[key] as unknown[]).some(readsDocumentUnits)) return true;
   if (n.not !== undefined) return readsDocumentUnits(n.not);
   const dimension = typeof n.fact === 'string' ? FACTS_BY_NAME.get(n.fact)?.dimension : undefined;
-  return typeof n.value === 'number' && n.unit === undefined && dimension !== undefined && dimension !== 'count' && dimension !== 'ratio';
+  return (
+    typeof n.value === 'number' &&
+    n.unit === undefined &&
+    dimension !== undefined &&
+    dimension !== 'count' &&
+    dimension !== 'ratio'
+  );
 }
 
 /**
  * Raw conditions keep their numbers as written, in the document's units, so a change of unit
  * system changes what they mean even when the JSON is identical. Say so rather than stay silent.
  */
-function unitsOfRawConditions(x: Requirement, y: Requirement, system: UnitSystem, at: (kind: ChangeKind, text: string, extra?: Extra) => void): void {
-  const parts: [unknown, unknown, string][] = [[x.appliesTo?.when, y.appliesTo?.when, 'conditions on when it applies']];
-  if (x.requires.template === 'conditions' && y.requires.template === 'conditions') parts.push([x.requires.conditions, y.requires.conditions, 'conditions']);
+function unitsOfRawConditions(
+  x: Requirement,
+  y: Requirement,
+  system: UnitSystem,
+  at: (kind: ChangeKind, text: string, extra?: Extra) => void,
+): void {
+  const parts: [unknown, unknown, string][] = [
+    [x.appliesTo?.when, y.appliesTo?.when, 'conditions on when it applies'],
+  ];
+  if (x.requires.template === 'conditions' && y.requires.template === 'conditions')
+    parts.push([x.requires.conditions, y.requires.conditions, 'conditions']);
   for (const [a, b, word] of parts) {
     if (readsDocumentUnits(b) && changedJsonPaths(a, b).length === 0) {
-      at('changed', `${y.section} ${word} now read in ${system} units (numbers unchanged)`, { after: system });
+      at('changed', `${y.section} ${word} now read in ${system} units (numbers unchanged)`, {
+        after: system,
+      });
     }
   }
 }

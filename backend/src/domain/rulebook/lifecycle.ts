@@ -84,11 +84,17 @@ export interface TransitionResult {
   changes: StateChange[];
 }
 
-const refuse = (code: LifecycleRefusalCode, message: string, problems?: DocumentProblem[]): LifecycleRefusal =>
-  problems ? { ok: false, code, message, problems } : { ok: false, code, message };
+const refuse = (
+  code: LifecycleRefusalCode,
+  message: string,
+  problems?: DocumentProblem[],
+): LifecycleRefusal => (problems ? { ok: false, code, message, problems } : { ok: false, code, message });
 
 const STATE_WORDS: Readonly<Record<VersionState, string>> = {
-  draft: 'a draft', published: 'published', superseded: 'superseded by a newer version', retired: 'retired',
+  draft: 'a draft',
+  published: 'published',
+  superseded: 'superseded by a newer version',
+  retired: 'retired',
 };
 
 /** A real calendar date written YYYY-MM-DD (2027-02-30 is refused). */
@@ -108,63 +114,119 @@ function editionOf(document: unknown): string | undefined {
   return typeof edition === 'string' && edition.trim() !== '' ? edition.trim() : undefined;
 }
 
-export function transitionVersion(version: RulebookVersion, action: VersionAction, context: TransitionContext): TransitionResult | LifecycleRefusal {
+export function transitionVersion(
+  version: RulebookVersion,
+  action: VersionAction,
+  context: TransitionContext,
+): TransitionResult | LifecycleRefusal {
   const siblings = context.siblings.filter((s) => s.id !== version.id);
   if (siblings.some((s) => s.rulebookId !== version.rulebookId)) {
     return refuse('other_rulebook', 'The versions given belong to another rulebook.');
   }
   switch (action.type) {
     case 'edit':
-      if (version.state !== 'draft') return refuse('not_a_draft', `Version ${version.versionNumber} is ${STATE_WORDS[version.state]}; only a draft can be edited. Start a new draft from it instead.`);
+      if (version.state !== 'draft')
+        return refuse(
+          'not_a_draft',
+          `Version ${version.versionNumber} is ${STATE_WORDS[version.state]}; only a draft can be edited. Start a new draft from it instead.`,
+        );
       if (typeof action.effectiveDate === 'string' && !isCalendarDate(action.effectiveDate)) {
-        return refuse('invalid_effective_date', `"${action.effectiveDate}" is not a date written YYYY-MM-DD.`);
+        return refuse(
+          'invalid_effective_date',
+          `"${action.effectiveDate}" is not a date written YYYY-MM-DD.`,
+        );
       }
       {
         // Drafts may be saved incomplete; validity is demanded when publishing.
         const document = action.document === undefined ? version.document : action.document;
-        const effectiveDate = action.effectiveDate === undefined ? version.effectiveDate : action.effectiveDate;
-        return { ok: true, version: { ...version, document, effectiveDate, edition: editionOf(document) ?? version.edition }, changes: [] };
+        const effectiveDate =
+          action.effectiveDate === undefined ? version.effectiveDate : action.effectiveDate;
+        return {
+          ok: true,
+          version: { ...version, document, effectiveDate, edition: editionOf(document) ?? version.edition },
+          changes: [],
+        };
       }
     case 'delete':
-      if (version.state !== 'draft') return refuse('not_a_draft', `Version ${version.versionNumber} is ${STATE_WORDS[version.state]}; only a draft can be deleted. Retire it instead.`);
+      if (version.state !== 'draft')
+        return refuse(
+          'not_a_draft',
+          `Version ${version.versionNumber} is ${STATE_WORDS[version.state]}; only a draft can be deleted. Retire it instead.`,
+        );
       return { ok: true, version: null, changes: [{ versionId: version.id, from: 'draft', to: 'deleted' }] };
     case 'publish':
       return publish(version, action.effectiveDate, siblings, context.now);
     case 'retire':
       if (!canTransition(version.state, 'retired')) {
-        return refuse(version.state === 'draft' ? 'not_a_draft' : 'invalid_transition',
-          version.state === 'draft' ? `Version ${version.versionNumber} is a draft; delete it instead of retiring it.` : `Version ${version.versionNumber} is already retired.`);
+        return refuse(
+          version.state === 'draft' ? 'not_a_draft' : 'invalid_transition',
+          version.state === 'draft'
+            ? `Version ${version.versionNumber} is a draft; delete it instead of retiring it.`
+            : `Version ${version.versionNumber} is already retired.`,
+        );
       }
-      return { ok: true, version: { ...version, state: 'retired' }, changes: [{ versionId: version.id, from: version.state, to: 'retired' }] };
+      return {
+        ok: true,
+        version: { ...version, state: 'retired' },
+        changes: [{ versionId: version.id, from: version.state, to: 'retired' }],
+      };
   }
 }
 
-function publish(version: RulebookVersion, requestedDate: string | undefined, siblings: readonly RulebookVersion[], now: string): TransitionResult | LifecycleRefusal {
-  if (version.state !== 'draft') return refuse('not_a_draft', `Version ${version.versionNumber} is ${STATE_WORDS[version.state]}; only a draft can be published.`);
+function publish(
+  version: RulebookVersion,
+  requestedDate: string | undefined,
+  siblings: readonly RulebookVersion[],
+  now: string,
+): TransitionResult | LifecycleRefusal {
+  if (version.state !== 'draft')
+    return refuse(
+      'not_a_draft',
+      `Version ${version.versionNumber} is ${STATE_WORDS[version.state]}; only a draft can be published.`,
+    );
   const effectiveDate = requestedDate ?? version.effectiveDate;
-  if (!effectiveDate) return refuse('effective_date_required', 'Give the date this version takes effect before publishing it.');
-  if (!isCalendarDate(effectiveDate)) return refuse('invalid_effective_date', `"${effectiveDate}" is not a date written YYYY-MM-DD.`);
+  if (!effectiveDate)
+    return refuse('effective_date_required', 'Give the date this version takes effect before publishing it.');
+  if (!isCalendarDate(effectiveDate))
+    return refuse('invalid_effective_date', `"${effectiveDate}" is not a date written YYYY-MM-DD.`);
   const newer = siblings.find((s) => s.state !== 'draft' && s.versionNumber > version.versionNumber);
   if (newer) {
-    return refuse('newer_version_published', `Version ${newer.versionNumber} was published after this draft was started; start a new draft from it instead.`);
+    return refuse(
+      'newer_version_published',
+      `Version ${newer.versionNumber} was published after this draft was started; start a new draft from it instead.`,
+    );
   }
   const current = siblings.find((s) => s.state === 'published');
   if (current?.effectiveDate && effectiveDate < current.effectiveDate) {
-    return refuse('effective_date_before_current', `The effective date ${effectiveDate} is before ${current.effectiveDate}, when the current version ${current.versionNumber} took effect.`);
+    return refuse(
+      'effective_date_before_current',
+      `The effective date ${effectiveDate} is before ${current.effectiveDate}, when the current version ${current.versionNumber} took effect.`,
+    );
   }
   // The published document states the date it took effect, so the two can never disagree.
   const withDate = withRulebookField(version.document, 'effectiveDate', effectiveDate);
   const validation = validateRulesetDocument(withDate);
   if (!validation.ok) {
     const n = validation.problems.length;
-    return refuse('invalid_document', `The document has ${n} problem${n === 1 ? '' : 's'} to fix before it can be published.`, validation.problems);
+    return refuse(
+      'invalid_document',
+      `The document has ${n} problem${n === 1 ? '' : 's'} to fix before it can be published.`,
+      validation.problems,
+    );
   }
   const document: RulesetDocument = validation.document;
   const changes: StateChange[] = [{ versionId: version.id, from: 'draft', to: 'published' }];
   if (current) changes.push({ versionId: current.id, from: 'published', to: 'superseded' });
   return {
     ok: true,
-    version: { ...version, state: 'published', document, edition: document.rulebook.edition, effectiveDate, publishedAt: now },
+    version: {
+      ...version,
+      state: 'published',
+      document,
+      edition: document.rulebook.edition,
+      effectiveDate,
+      publishedAt: now,
+    },
     changes,
   };
 }
@@ -172,14 +234,27 @@ function publish(version: RulebookVersion, requestedDate: string | undefined, si
 function withRulebookField(document: unknown, field: string, value: string): unknown {
   if (typeof document !== 'object' || document === null || Array.isArray(document)) return document;
   const d = document as Record<string, unknown>;
-  const rulebook = typeof d.rulebook === 'object' && d.rulebook !== null && !Array.isArray(d.rulebook) ? (d.rulebook as Record<string, unknown>) : {};
+  const rulebook =
+    typeof d.rulebook === 'object' && d.rulebook !== null && !Array.isArray(d.rulebook)
+      ? (d.rulebook as Record<string, unknown>)
+      : {};
   return { ...d, rulebook: { ...rulebook, [field]: value } };
 }
 
 /** Whether a builder may start a new check against this version. */
-export function canUseForNewCheck(version: Pick<RulebookVersion, 'state' | 'versionNumber'>): { ok: true; superseded: boolean } | LifecycleRefusal {
-  if (version.state === 'retired') return refuse('version_retired', `Version ${version.versionNumber} is retired and cannot be used for new checks.`);
-  if (version.state === 'draft') return refuse('version_unpublished', `Version ${version.versionNumber} is a draft; checks use published versions.`);
+export function canUseForNewCheck(
+  version: Pick<RulebookVersion, 'state' | 'versionNumber'>,
+): { ok: true; superseded: boolean } | LifecycleRefusal {
+  if (version.state === 'retired')
+    return refuse(
+      'version_retired',
+      `Version ${version.versionNumber} is retired and cannot be used for new checks.`,
+    );
+  if (version.state === 'draft')
+    return refuse(
+      'version_unpublished',
+      `Version ${version.versionNumber} is a draft; checks use published versions.`,
+    );
   return { ok: true, superseded: version.state === 'superseded' };
 }
 
@@ -211,11 +286,19 @@ export interface NewDraft {
  * A new draft as a copy of `latest` (the newest published or superseded version, normally). The
  * effective date is cleared on purpose: a copied date would be published unnoticed.
  */
-export function startDraftFrom(latest: RulebookVersion, siblings: readonly RulebookVersion[] = []): NewDraft | LifecycleRefusal {
+export function startDraftFrom(
+  latest: RulebookVersion,
+  siblings: readonly RulebookVersion[] = [],
+): NewDraft | LifecycleRefusal {
   const all = [latest, ...siblings.filter((s) => s.id !== latest.id)];
-  if (all.some((s) => s.rulebookId !== latest.rulebookId)) return refuse('other_rulebook', 'The versions given belong to another rulebook.');
+  if (all.some((s) => s.rulebookId !== latest.rulebookId))
+    return refuse('other_rulebook', 'The versions given belong to another rulebook.');
   const openDraft = all.find((s) => s.state === 'draft');
-  if (openDraft) return refuse('draft_exists', `Version ${openDraft.versionNumber} is already a draft; edit it or delete it first.`);
+  if (openDraft)
+    return refuse(
+      'draft_exists',
+      `Version ${openDraft.versionNumber} is already a draft; edit it or delete it first.`,
+    );
   const edition = suggestNextEdition(latest.edition);
   // A JSON round trip: the document is JSON by contract, and the copy must share nothing with it.
   const copy = JSON.parse(JSON.stringify(latest.document ?? null)) as unknown;

@@ -1,14 +1,27 @@
 // Cage records: numbers, expiry by calendar months, status precedence and boundary instants.
 import { describe, expect, test } from 'vitest';
 import {
-  addMonthsUtc, formatRecordNumber, issueCageRecord, parseRecordNumber, recordStatus, revokeRecord, supersedeRecord,
+  addMonthsUtc,
+  formatRecordNumber,
+  issueCageRecord,
+  parseRecordNumber,
+  recordStatus,
+  revokeRecord,
+  supersedeRecord,
 } from '@backend/domain/review/cage-record';
 import type { CageRecord } from '@backend/domain/review/cage-record';
 
 const at = (iso: string) => new Date(iso);
 const ISSUED = '2026-12-01T14:30:00.000Z';
 const record = (over: Partial<CageRecord> = {}): CageRecord => ({
-  ...issueCageRecord({ id: 'r1', number: 'TV-2026-0042', submissionId: 's1', verificationCode: 'X', issuedAt: at(ISSUED), validityMonths: 12 }),
+  ...issueCageRecord({
+    id: 'r1',
+    number: 'TV-2026-0042',
+    submissionId: 's1',
+    verificationCode: 'X',
+    issuedAt: at(ISSUED),
+    validityMonths: 12,
+  }),
   ...over,
 });
 
@@ -25,14 +38,24 @@ describe('record numbers', () => {
   });
 
   test.each<[string, number, number]>([
-    ['T', 2027, 1], ['2V', 2027, 1], ['TV-1', 2027, 1], ['TOOLONGX', 2027, 1], ['TV', 1999, 1], ['TV', 2027, 0], ['TV', 2027, 1.5], ['TV', 2027.5, 1],
+    ['T', 2027, 1],
+    ['2V', 2027, 1],
+    ['TV-1', 2027, 1],
+    ['TOOLONGX', 2027, 1],
+    ['TV', 1999, 1],
+    ['TV', 2027, 0],
+    ['TV', 2027, 1.5],
+    ['TV', 2027.5, 1],
   ])('formatRecordNumber(%j, %d, %d) throws', (prefix, year, seq) => {
     expect(() => formatRecordNumber(prefix, year, seq)).toThrow(RangeError);
   });
 
-  test.each(['TV-2027-042', 'TV2027-0042', 'TV-27-0042', 'TV-2027-0000', '', 'TV-2027-00x2'])('parseRecordNumber(%j) = null', (text) => {
-    expect(parseRecordNumber(text)).toBeNull();
-  });
+  test.each(['TV-2027-042', 'TV2027-0042', 'TV-27-0042', 'TV-2027-0000', '', 'TV-2027-00x2'])(
+    'parseRecordNumber(%j) = null',
+    (text) => {
+      expect(parseRecordNumber(text)).toBeNull();
+    },
+  );
 
   test('parsing is lenient about case and surrounding space', () => {
     expect(parseRecordNumber(' tv-2027-0042 ')).toEqual({ prefix: 'TV', year: 2027, sequence: 42 });
@@ -54,16 +77,32 @@ describe('addMonthsUtc', () => {
 
 describe('issueCageRecord', () => {
   test('expiry from the validity period, nothing revoked or superseded', () => {
-    expect(record()).toMatchObject({ expiresAt: at('2027-12-01T14:30:00.000Z'), revokedAt: null, supersededById: null });
+    expect(record()).toMatchObject({
+      expiresAt: at('2027-12-01T14:30:00.000Z'),
+      revokedAt: null,
+      supersededById: null,
+    });
   });
 
   test.each([0, -1, 1.5, 121])('validity of %d months is refused', (months) => {
-    expect(() => issueCageRecord({ id: 'r', number: 'TV-2026-0001', submissionId: 's', verificationCode: 'X', issuedAt: at(ISSUED), validityMonths: months })).toThrow(RangeError);
+    expect(() =>
+      issueCageRecord({
+        id: 'r',
+        number: 'TV-2026-0001',
+        submissionId: 's',
+        verificationCode: 'X',
+        issuedAt: at(ISSUED),
+        validityMonths: months,
+      }),
+    ).toThrow(RangeError);
   });
 });
 
 describe('recordStatus', () => {
-  const revoked = { revokedAt: at('2027-06-01T00:00:00.000Z'), revokedReason: 'Main hoop cracked at the foot.' };
+  const revoked = {
+    revokedAt: at('2027-06-01T00:00:00.000Z'),
+    revokedReason: 'Main hoop cracked at the foot.',
+  };
   const superseded = { supersededById: 'r2', supersededAt: at('2027-03-01T00:00:00.000Z') };
   test.each<[string, Partial<CageRecord>, string, string]>([
     ['at the moment of issue', {}, ISSUED, 'valid'],
@@ -76,7 +115,12 @@ describe('recordStatus', () => {
     ['before it was superseded', superseded, '2027-02-28T23:59:59.999Z', 'valid'],
     ['superseded', superseded, '2027-03-01T00:00:00.000Z', 'superseded'],
     ['superseded and expired: superseded wins', superseded, '2028-06-01T00:00:00.000Z', 'superseded'],
-    ['superseded and revoked: revoked wins', { ...superseded, ...revoked }, '2027-07-01T00:00:00.000Z', 'revoked'],
+    [
+      'superseded and revoked: revoked wins',
+      { ...superseded, ...revoked },
+      '2027-07-01T00:00:00.000Z',
+      'revoked',
+    ],
     ['superseded without a time counts at once', { supersededById: 'r2' }, ISSUED, 'superseded'],
   ])('%s', (_n, over, now, status) => {
     expect(recordStatus(record(over), at(now))).toBe(status);
@@ -87,14 +131,19 @@ describe('revoke and supersede', () => {
   const when = at('2027-05-01T08:00:00.000Z');
   test('revoke with a reason', () => {
     const r = revokeRecord(record(), '  Main hoop cracked at the foot.  ', when);
-    expect(r.ok && r.record).toMatchObject({ revokedAt: when, revokedReason: 'Main hoop cracked at the foot.' });
+    expect(r.ok && r.record).toMatchObject({
+      revokedAt: when,
+      revokedReason: 'Main hoop cracked at the foot.',
+    });
   });
 
   test.each<[string, CageRecord, string]>([
     ['without a reason', record(), 'reason_required'],
     ['twice', record({ revokedAt: when, revokedReason: 'Cracked foot plate.' }), 'already_revoked'],
   ])('revoke refused %s', (_n, rec, code) => {
-    expect(revokeRecord(rec, _n === 'without a reason' ? '  ' : 'A second reason given.', when)).toMatchObject({ ok: false, code });
+    expect(
+      revokeRecord(rec, _n === 'without a reason' ? '  ' : 'A second reason given.', when),
+    ).toMatchObject({ ok: false, code });
   });
 
   test('supersede by a newer record', () => {
@@ -104,7 +153,12 @@ describe('revoke and supersede', () => {
 
   test.each<[string, CageRecord, string, string]>([
     ['by itself', record(), 'r1', 'same_record'],
-    ['when revoked', record({ revokedAt: when, revokedReason: 'Cracked foot plate.' }), 'r2', 'already_revoked'],
+    [
+      'when revoked',
+      record({ revokedAt: when, revokedReason: 'Cracked foot plate.' }),
+      'r2',
+      'already_revoked',
+    ],
     ['twice', record({ supersededById: 'r2', supersededAt: when }), 'r3', 'already_superseded'],
   ])('supersede refused %s', (_n, rec, id, code) => {
     expect(supersedeRecord(rec, id, when)).toMatchObject({ ok: false, code });

@@ -3,7 +3,13 @@
 import { describe, expect, test } from 'vitest';
 import { randomBytes } from 'node:crypto';
 import {
-  CODE_LENGTH, CODE_RANDOM_BITS, CODE_RANDOM_BYTES, CROCKFORD_ALPHABET, isWellFormedVerificationCode, newVerificationCode, normaliseVerificationCode,
+  CODE_LENGTH,
+  CODE_RANDOM_BITS,
+  CODE_RANDOM_BYTES,
+  CROCKFORD_ALPHABET,
+  isWellFormedVerificationCode,
+  newVerificationCode,
+  normaliseVerificationCode,
 } from '@backend/domain/review/verification-code';
 
 const bytes = (...xs: number[]) => Uint8Array.from(xs);
@@ -27,7 +33,9 @@ describe('newVerificationCode', () => {
 
   test('the bits are read most significant first, five at a time', () => {
     // 0b00001 00010 00011 ... : bytes 0x08 0x86 … give 1, 2, 3 …
-    const code = newVerificationCode(Uint8Array.from([0x08, 0x86, 0x42, 0x98, 0xe8, ...new Array(12).fill(0)])).replace(/-/g, '');
+    const code = newVerificationCode(
+      Uint8Array.from([0x08, 0x86, 0x42, 0x98, 0xe8, ...new Array(12).fill(0)]),
+    ).replace(/-/g, '');
     expect(code.slice(0, 8)).toBe('12345678');
   });
 
@@ -67,7 +75,9 @@ describe('normalise and check what people type', () => {
   });
 
   test('confusable letters read as digits in a known code', () => {
-    expect(normaliseVerificationCode('oooo-oooo-oooo-oooo-oooo-oooo-oooo')).toBe('0000-0000-0000-0000-0000-0000-0000');
+    expect(normaliseVerificationCode('oooo-oooo-oooo-oooo-oooo-oooo-oooo')).toBe(
+      '0000-0000-0000-0000-0000-0000-0000',
+    );
     expect(isWellFormedVerificationCode('OOOO OOOO OOOO OOOO OOOO OOOO OOOO')).toBe(true);
     expect(normaliseVerificationCode('1Il1')).toBe('1111');
   });
@@ -76,7 +86,10 @@ describe('normalise and check what people type', () => {
     for (let i = 0; i < CODE_LENGTH; i++) {
       const c = plain[i];
       const other = CROCKFORD_ALPHABET[(CROCKFORD_ALPHABET.indexOf(c) + 1) % 32];
-      expect(isWellFormedVerificationCode(plain.slice(0, i) + other + plain.slice(i + 1)), `position ${i}`).toBe(false);
+      expect(
+        isWellFormedVerificationCode(plain.slice(0, i) + other + plain.slice(i + 1)),
+        `position ${i}`,
+      ).toBe(false);
     }
   });
 
@@ -86,7 +99,8 @@ describe('normalise and check what people type', () => {
     for (let i = 0; i < CODE_LENGTH - 1; i++) {
       if (plain[i] === plain[i + 1]) continue;
       swaps++;
-      if (!isWellFormedVerificationCode(plain.slice(0, i) + plain[i + 1] + plain[i] + plain.slice(i + 2))) caught++;
+      if (!isWellFormedVerificationCode(plain.slice(0, i) + plain[i + 1] + plain[i] + plain.slice(i + 2)))
+        caught++;
     }
     // Luhn mod N misses a few transpositions (pairs whose weighted sums coincide); nearly all are caught.
     expect(caught).toBeGreaterThanOrEqual(swaps - 2);
