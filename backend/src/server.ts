@@ -1,13 +1,18 @@
 // The process entry point:   node --import tsx backend/src/server.ts
 // Parses configuration, waits for PostgreSQL, runs pending migrations, then listens. SIGTERM and
 // SIGINT stop taking connections, let requests in flight finish, and close the database cleanly.
+// Background work runs here too (docs/mail-and-jobs.md): the fake SMTP server when FAKE_SMTP is on, the
+// outbox dispatcher when SMTP_URL is known, and the pg-boss job workers.
 import { createServer } from 'node:http';
 import type { DataSource } from 'typeorm';
 import { closeApp, createApp } from './app';
 import { ConfigError, loadConfig, type Config } from './config';
 import { createDataSource } from './db/data-source';
 import { migrate } from './db/migrate';
+import { startFakeSmtp, type FakeSmtp } from './dev/fake-smtp';
 import { createLogger, errorFields, type Logger } from './logger';
+import { createMailboxService, createSmtpTransport, startOutboxDispatcher, type OutboxDispatcher } from './services/mail';
+import { createJobs } from './services/jobs';
 
 function readConfig(): Config {
   try {
@@ -49,6 +54,30 @@ try {
   process.exit(1);
 }
 
+let fakeSmtp: FakeSmtp | null = null;
+if (config.fakeSmtp && config.smtpUrl) {
+  const port = Number(new URL(config.smtpUrl).port);
+  try {
+    fakeSmtp = await startFakeSmtp({ store: createMailboxService(dataSource).store, port, logger });
+  } catch (err) {
+    logger.error('cannot start the fake SMTP server; set SMTP_URL to a free port, or FAKE_SMTP=false', { port, ...errorFields(err) });
+    process.exit(1);
+  }
+}
+let dispatcher: OutboxDispatcher | null = null;
+if (config.smtpUrl) {
+  dispatcher = startOutboxDispatcher({ dataSource, transport: createSmtpTransport(config.smtpUrl), from: config.mailFrom, logger });
+} else {
+  logger.warn('SMTP_URL is not set: e-mails wait in the outbox until it is');
+}
+const jobs = createJobs(config, logger);
+try {
+  await jobs.start();
+} catch (err) {
+  logger.error('cannot start the job queue', errorFields(err));
+  process.exit(1);
+}
+
 const app = createApp({ dataSource, config, logger });
 const server = createServer(app);
 server.keepAliveTimeout = 5000;
@@ -74,6 +103,9 @@ async function shutdown(signal: string): Promise<void> {
   force.unref();
   await new Promise<void>((resolve) => server.close(() => resolve()));
   await closeApp(app);
+  await dispatcher?.stop();
+  await jobs.stop();
+  await fakeSmtp?.stop();
   await dataSource.destroy();
   logger.info('stopped');
   process.exit(0);

@@ -26,7 +26,9 @@ export interface OutboxRow {
 }
 
 export async function outboxRows(ds: DataSource): Promise<OutboxRow[]> {
-  return ds.query(`SELECT id, to_address, subject, status, attempts, next_attempt_at, last_error, sent_at FROM outbox_messages ORDER BY created_at, subject`);
+  return ds.query(
+    `SELECT id, to_address, subject, status, attempts, next_attempt_at, last_error, sent_at FROM outbox_messages ORDER BY created_at, subject`,
+  );
 }
 
 export interface MailboxRow {
@@ -38,7 +40,9 @@ export interface MailboxRow {
 }
 
 export async function mailboxRows(ds: DataSource): Promise<MailboxRow[]> {
-  return ds.query(`SELECT to_address, from_address, subject, text_body, html_body FROM dev_mailbox ORDER BY subject`);
+  return ds.query(
+    `SELECT to_address, from_address, subject, text_body, html_body FROM dev_mailbox ORDER BY subject`,
+  );
 }
 
 export async function clearMailTables(ds: DataSource): Promise<void> {

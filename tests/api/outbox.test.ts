@@ -37,13 +37,24 @@ afterEach(async () => {
 });
 
 /** A dispatcher without a timer, on a clock the test moves. */
-function dispatcher(clock: { t: number }, transport: MailTransport = createSmtpTransport(`smtp://127.0.0.1:${port}`)) {
-  const d = startOutboxDispatcher({ dataSource: db.ds, transport, from, logger, autoStart: false, now: () => new Date(clock.t) });
+function dispatcher(
+  clock: { t: number },
+  transport: MailTransport = createSmtpTransport(`smtp://127.0.0.1:${port}`),
+) {
+  const d = startOutboxDispatcher({
+    dataSource: db.ds,
+    transport,
+    from,
+    logger,
+    autoStart: false,
+    now: () => new Date(clock.t),
+  });
   dispatchers.push(d);
   return d;
 }
 
-const startSmtp = async () => (smtp = await startFakeSmtp({ store: createMailboxService(db.ds).store, port }));
+const startSmtp = async () =>
+  (smtp = await startFakeSmtp({ store: createMailboxService(db.ds).store, port }));
 
 const sample = (n: number) => ({
   to: `robin${n}@tarnwick.example`,
@@ -72,7 +83,9 @@ describe('mail.enqueue', () => {
       await mail.enqueue(sample(2), { manager: tx });
     });
     const rows = await outboxRows(db.ds);
-    expect(rows.map((r) => [r.to_address, r.subject, r.status, r.attempts])).toEqual([['robin2@tarnwick.example', 'Verdict changed 2', 'pending', 0]]);
+    expect(rows.map((r) => [r.to_address, r.subject, r.status, r.attempts])).toEqual([
+      ['robin2@tarnwick.example', 'Verdict changed 2', 'pending', 0],
+    ]);
   });
 
   it.each([
@@ -95,7 +108,11 @@ describe('the dispatcher', () => {
     // Down: every message is tried once and rescheduled 30 s later (the first backoff step).
     expect(await d.runOnce()).toEqual({ sent: 0, retried: 3, gaveUp: 0 });
     let rows = await outboxRows(db.ds);
-    expect(rows.map((r) => [r.status, r.attempts])).toEqual([['pending', 1], ['pending', 1], ['pending', 1]]);
+    expect(rows.map((r) => [r.status, r.attempts])).toEqual([
+      ['pending', 1],
+      ['pending', 1],
+      ['pending', 1],
+    ]);
     expect(rows[0]!.last_error).toMatch(/ECONNREFUSED/);
     expect(rows[0]!.next_attempt_at.getTime()).toBe(clock.t + 30_000);
 
@@ -119,7 +136,9 @@ describe('the dispatcher', () => {
     ]);
     expect(arrived[0]!.text_body).toContain('Open the build sheet: http://cagewright.test/garage/1');
     expect(arrived[0]!.text_body).toContain(safetyCaution);
-    expect(arrived[0]!.html_body).toContain('<a href="http://cagewright.test/garage/1">Open the build sheet</a>');
+    expect(arrived[0]!.html_body).toContain(
+      '<a href="http://cagewright.test/garage/1">Open the build sheet</a>',
+    );
 
     // Sent is final: another run sends nothing twice.
     clock.t += 3_600_000;
@@ -153,7 +172,11 @@ describe('the dispatcher', () => {
 
     expect(await d.runOnce()).toEqual({ sent: 0, retried: 0, gaveUp: 1 });
     const [row] = await outboxRows(db.ds);
-    expect([row!.status, row!.attempts, row!.last_error]).toEqual(['failed_permanently', 4, '550 mailbox unavailable']);
+    expect([row!.status, row!.attempts, row!.last_error]).toEqual([
+      'failed_permanently',
+      4,
+      '550 mailbox unavailable',
+    ]);
     clock.t += 86_400_000;
     expect(await d.runOnce()).toEqual({ sent: 0, retried: 0, gaveUp: 0 });
   });
@@ -177,7 +200,10 @@ describe('the dispatcher', () => {
   it('takes back a row whose sender died mid-send once its claim lapses', async () => {
     const { id } = await createMailService(db.ds).enqueue(sample(1));
     // What a crash leaves behind: claimed (sending), lease ending in the past.
-    await db.ds.query(`UPDATE outbox_messages SET status = 'sending', attempts = 1, next_attempt_at = now() - interval '1 second' WHERE id = $1`, [id]);
+    await db.ds.query(
+      `UPDATE outbox_messages SET status = 'sending', attempts = 1, next_attempt_at = now() - interval '1 second' WHERE id = $1`,
+      [id],
+    );
     await startSmtp();
     expect(await dispatcher({ t: Date.now() }).runOnce()).toEqual({ sent: 1, retried: 0, gaveUp: 0 });
     expect((await outboxRows(db.ds)).map((r) => [r.status, r.attempts])).toEqual([['sent', 2]]);
@@ -185,11 +211,18 @@ describe('the dispatcher', () => {
 
   it('sends on its own timer and stops when told', async () => {
     await startSmtp();
-    const d = startOutboxDispatcher({ dataSource: db.ds, transport: createSmtpTransport(`smtp://127.0.0.1:${port}`), from, logger, intervalMs: 50 });
+    const d = startOutboxDispatcher({
+      dataSource: db.ds,
+      transport: createSmtpTransport(`smtp://127.0.0.1:${port}`),
+      from,
+      logger,
+      intervalMs: 50,
+    });
     dispatchers.push(d);
     await createMailService(db.ds).enqueue(sample(1));
     const deadline = Date.now() + 5000;
-    while ((await mailboxRows(db.ds)).length === 0 && Date.now() < deadline) await new Promise((r) => setTimeout(r, 50));
+    while ((await mailboxRows(db.ds)).length === 0 && Date.now() < deadline)
+      await new Promise((r) => setTimeout(r, 50));
     expect((await mailboxRows(db.ds)).map((m) => m.subject)).toEqual(['Verdict changed 1']);
 
     await d.stop();

@@ -10,7 +10,12 @@ export const auditActions = [
 
 export const auditQuerySchema = z.object({
   page: z.coerce.number('Must be a number').int('Must be a whole number').min(1, 'At least 1').default(1),
-  pageSize: z.coerce.number('Must be a number').int('Must be a whole number').min(1, 'At least 1').max(100, 'At most 100').default(25),
+  pageSize: z.coerce
+    .number('Must be a number')
+    .int('Must be a whole number')
+    .min(1, 'At least 1')
+    .max(100, 'At most 100')
+    .default(25),
   action: z
     .string()
     .regex(/^[a-z][a-z0-9_]*(\.[a-z][a-z0-9_]*)+$/, 'Must look like area.event')

@@ -9,7 +9,10 @@ export const outgoingMailSchema = z.object({
   text: z.string().min(1, 'Must not be empty').max(200_000, 'At most 200,000 characters'),
   html: z.string().max(400_000, 'At most 400,000 characters').optional(),
   /** `<area>.<event>`, lower case: `verdict.changed`, `review.decided`. */
-  kind: z.string().regex(/^[a-z][a-z0-9_]*(\.[a-z][a-z0-9_]*)+$/, 'Must look like area.event').max(80),
+  kind: z
+    .string()
+    .regex(/^[a-z][a-z0-9_]*(\.[a-z][a-z0-9_]*)+$/, 'Must look like area.event')
+    .max(80),
   related: z.record(z.string(), z.string().max(200)).default({}),
 });
 export type OutgoingMail = z.input<typeof outgoingMailSchema>;

@@ -54,7 +54,9 @@ export function startFakeSmtp(options: FakeSmtpOptions): Promise<FakeSmtp> {
         })
         .catch((err: unknown) => {
           // A storage failure is a temporary refusal (4xx), so the sender keeps the mail and retries.
-          options.logger?.warn('fake SMTP could not store a mail', { err: err instanceof Error ? err.message : String(err) });
+          options.logger?.warn('fake SMTP could not store a mail', {
+            err: err instanceof Error ? err.message : String(err),
+          });
           callback(Object.assign(new Error('Mailbox unavailable, try again later'), { responseCode: 451 }));
         });
     },

@@ -35,8 +35,8 @@ export function createMembersRouter({ services }: { services: Services }): Route
       guards: [adminOnly],
       params: memberParamsSchema,
       body: updateMemberBodySchema,
-      handler: async ({ res, params, body }) => {
-        res.json({ member: await members.updateRoles(params.clubId, params.userId, body.roles) });
+      handler: async ({ req, res, params, body }) => {
+        res.json({ member: await members.updateRoles(params.clubId, params.userId, body.roles, signedInUserId(req)) });
       },
     }),
     route({
@@ -44,8 +44,8 @@ export function createMembersRouter({ services }: { services: Services }): Route
       path: '/clubs/:clubId/members/:userId',
       guards: [adminOnly],
       params: memberParamsSchema,
-      handler: async ({ res, params }) => {
-        await members.remove(params.clubId, params.userId);
+      handler: async ({ req, res, params }) => {
+        await members.remove(params.clubId, params.userId, signedInUserId(req));
         res.status(204).end();
       },
     }),

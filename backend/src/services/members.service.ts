@@ -1,6 +1,7 @@
 // A club's members, for its admins: list, add (by e-mail, inviting people without an account),
 // change roles, remove, and the invitation accept path. The club row is locked while a change runs,
-// so two admins cannot both remove the last admin at once.
+// so two admins cannot both remove the last admin at once. Every change is written to the activity log
+// in the same transaction.
 import { createHash, randomBytes } from 'node:crypto';
 import { IsNull, type DataSource, type EntityManager } from 'typeorm';
 import type { AddMemberBody } from '../contracts/clubs';
@@ -8,6 +9,7 @@ import type { AddMemberWire, MemberWire } from '../contracts/clubs';
 import type { InvitationWire } from '../contracts/auth';
 import { Club, Invitation, Membership, User, type ClubRole } from '../entities';
 import { ConflictError, NotFoundError } from '../errors';
+import type { AuditService } from './audit.service';
 import { hashPassword } from './passwords';
 import { memberView } from './views';
 
@@ -19,8 +21,9 @@ export function hashToken(token: string): string {
 
 export type MemberService = ReturnType<typeof createMemberService>;
 
-export function createMemberService(ds: DataSource, options: { publicUrl: string; now?: () => Date }) {
+export function createMemberService(ds: DataSource, options: { publicUrl: string; audit: AuditService; now?: () => Date }) {
   const now = options.now ?? (() => new Date());
+  const { audit } = options;
 
   async function lockClub(tx: EntityManager, clubId: string): Promise<Club> {
     const club = await tx.getRepository(Club).findOne({ where: { id: clubId }, lock: { mode: 'pessimistic_write' } });
@@ -87,7 +90,18 @@ export function createMemberService(ds: DataSource, options: { publicUrl: string
         user ??= await users.save(users.create({ email: body.email, displayName: body.email.split('@')[0]!, passwordHash: null }));
         const membership = await tx.getRepository(Membership).save({ clubId, userId: user.id, roles: body.roles });
         membership.user = user;
-        if (user.passwordHash !== null) return { member: memberView(membership) };
+        const invited = user.passwordHash === null;
+        await audit.record(
+          {
+            clubId,
+            actorId: invitedById,
+            action: 'membership.added',
+            entity: { type: 'membership', id: user.id },
+            details: { email: user.email, roles: body.roles, invited },
+          },
+          { manager: tx },
+        );
+        if (!invited) return { member: memberView(membership) };
 
         const token = randomBytes(32).toString('base64url');
         await tx.getRepository(Invitation).save({
@@ -103,12 +117,23 @@ export function createMemberService(ds: DataSource, options: { publicUrl: string
       });
     },
 
-    async updateRoles(clubId: string, userId: string, roles: ClubRole[]): Promise<MemberWire> {
+    async updateRoles(clubId: string, userId: string, roles: ClubRole[], actorId: string | null = null): Promise<MemberWire> {
       return ds.transaction(async (tx) => {
         await lockClub(tx, clubId);
         const member = await findMember(tx, clubId, userId);
         await keepAnAdmin(tx, member, roles);
+        const before = member.roles;
         member.roles = roles;
+        await audit.record(
+          {
+            clubId,
+            actorId,
+            action: 'membership.roles_changed',
+            entity: { type: 'membership', id: userId },
+            details: { email: member.user?.email, before, after: roles },
+          },
+          { manager: tx },
+        );
         await tx.getRepository(Membership).update({ id: member.id }, { roles });
         // Keep a pending invitation in step with the membership it belongs to.
         if (member.user) {
@@ -118,11 +143,21 @@ export function createMemberService(ds: DataSource, options: { publicUrl: string
       });
     },
 
-    async remove(clubId: string, userId: string): Promise<void> {
+    async remove(clubId: string, userId: string, actorId: string | null = null): Promise<void> {
       await ds.transaction(async (tx) => {
         await lockClub(tx, clubId);
         const member = await findMember(tx, clubId, userId);
         await keepAnAdmin(tx, member, []);
+        await audit.record(
+          {
+            clubId,
+            actorId,
+            action: 'membership.removed',
+            entity: { type: 'membership', id: userId },
+            details: { email: member.user?.email, roles: member.roles },
+          },
+          { manager: tx },
+        );
         await tx.getRepository(Membership).delete({ id: member.id });
         if (member.user) await tx.getRepository(Invitation).delete({ clubId, email: member.user.email, acceptedAt: IsNull() });
       });
@@ -141,6 +176,16 @@ export function createMemberService(ds: DataSource, options: { publicUrl: string
         const { invitation, user } = await usableInvitation(tx, token, true);
         await tx.getRepository(User).update({ id: user.id }, { passwordHash, ...(displayName ? { displayName } : {}) });
         await tx.getRepository(Invitation).update({ id: invitation.id }, { acceptedAt: now() });
+        await audit.record(
+          {
+            clubId: invitation.clubId,
+            actorId: user.id,
+            action: 'invitation.accepted',
+            entity: { type: 'invitation', id: invitation.id },
+            details: { email: user.email, roles: invitation.roles },
+          },
+          { manager: tx },
+        );
         return user.id;
       });
     },

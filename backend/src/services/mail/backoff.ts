@@ -17,7 +17,8 @@ export type RetryDecision = { giveUp: true } | { giveUp: false; delayMs: number 
 
 /** `attempts` counts tries made so far, the one that just failed included (so at least 1). */
 export function afterFailure(attempts: number, policy: BackoffPolicy = defaultBackoff): RetryDecision {
-  if (!Number.isInteger(attempts) || attempts < 1) throw new RangeError(`attempts must be a whole number ≥ 1, got ${attempts}`);
+  if (!Number.isInteger(attempts) || attempts < 1)
+    throw new RangeError(`attempts must be a whole number ≥ 1, got ${attempts}`);
   if (attempts >= policy.maxAttempts) return { giveUp: true };
   // 2 ** 30 already exceeds any sensible cap; stop growing there so the number stays finite.
   const delayMs = Math.min(policy.capMs, policy.baseMs * 2 ** Math.min(attempts - 1, 30));

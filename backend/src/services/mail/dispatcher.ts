@@ -24,7 +24,12 @@ export interface MailTransport {
 
 export function createSmtpTransport(smtpUrl: string): MailTransport {
   // Short timeouts: a hanging server must not hold a claimed batch for minutes.
-  return createTransport({ url: smtpUrl, connectionTimeout: 5000, greetingTimeout: 5000, socketTimeout: 15000 });
+  return createTransport({
+    url: smtpUrl,
+    connectionTimeout: 5000,
+    greetingTimeout: 5000,
+    socketTimeout: 15000,
+  });
 }
 
 export interface OutboxDispatcherOptions {
@@ -98,24 +103,39 @@ export function startOutboxDispatcher(options: OutboxDispatcherOptions): OutboxD
         messageId: `<${row.id}@outbox.cagewright>`,
         headers: { 'X-Cagewright-Kind': row.kind },
       });
-      await ds.query(`UPDATE outbox_messages SET status = 'sent', sent_at = $2, last_error = NULL WHERE id = $1`, [row.id, now()]);
+      await ds.query(
+        `UPDATE outbox_messages SET status = 'sent', sent_at = $2, last_error = NULL WHERE id = $1`,
+        [row.id, now()],
+      );
       result.sent += 1;
     } catch (err) {
       const message = (err instanceof Error ? err.message : String(err)).slice(0, 2000);
       const decision = afterFailure(row.attempts, backoff);
       if (decision.giveUp) {
-        await ds.query(`UPDATE outbox_messages SET status = 'failed_permanently', last_error = $2 WHERE id = $1`, [row.id, message]);
+        await ds.query(
+          `UPDATE outbox_messages SET status = 'failed_permanently', last_error = $2 WHERE id = $1`,
+          [row.id, message],
+        );
         result.gaveUp += 1;
-        logger.error('mail given up', { outboxId: row.id, kind: row.kind, attempts: row.attempts, err: message });
+        logger.error('mail given up', {
+          outboxId: row.id,
+          kind: row.kind,
+          attempts: row.attempts,
+          err: message,
+        });
       } else {
         const next = new Date(now().getTime() + decision.delayMs);
-        await ds.query(`UPDATE outbox_messages SET status = 'pending', next_attempt_at = $2, last_error = $3 WHERE id = $1`, [
-          row.id,
-          next,
-          message,
-        ]);
+        await ds.query(
+          `UPDATE outbox_messages SET status = 'pending', next_attempt_at = $2, last_error = $3 WHERE id = $1`,
+          [row.id, next, message],
+        );
         result.retried += 1;
-        logger.warn('mail not sent, will retry', { outboxId: row.id, attempts: row.attempts, retryInMs: decision.delayMs, err: message });
+        logger.warn('mail not sent, will retry', {
+          outboxId: row.id,
+          attempts: row.attempts,
+          retryInMs: decision.delayMs,
+          err: message,
+        });
       }
     }
   }
@@ -134,12 +154,15 @@ export function startOutboxDispatcher(options: OutboxDispatcherOptions): OutboxD
     return running;
   }
 
-  const timer = options.autoStart === false
-    ? null
-    : setInterval(() => {
-        if (stopped || running) return;
-        runOnce().catch((err: unknown) => logger.warn('outbox run failed; next run retries', { ...errorFields(err), stack: undefined }));
-      }, options.intervalMs ?? 5000);
+  const timer =
+    options.autoStart === false
+      ? null
+      : setInterval(() => {
+          if (stopped || running) return;
+          runOnce().catch((err: unknown) =>
+            logger.warn('outbox run failed; next run retries', { ...errorFields(err), stack: undefined }),
+          );
+        }, options.intervalMs ?? 5000);
   timer?.unref();
 
   return {

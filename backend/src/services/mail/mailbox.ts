@@ -66,7 +66,10 @@ export function createMailboxService(ds: DataSource) {
 
     /** The mailbox shows every club's mail, so any club's admin may read it (and only while it exists). */
     async isAdminOfAnyClub(userId: string): Promise<boolean> {
-      const rows: unknown[] = await ds.query(`SELECT 1 FROM memberships WHERE user_id = $1 AND 'admin' = ANY(roles) LIMIT 1`, [userId]);
+      const rows: unknown[] = await ds.query(
+        `SELECT 1 FROM memberships WHERE user_id = $1 AND 'admin' = ANY(roles) LIMIT 1`,
+        [userId],
+      );
       return rows.length > 0;
     },
 

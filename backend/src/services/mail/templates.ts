@@ -30,7 +30,13 @@ export class MailTemplateError extends Error {
   override name = 'MailTemplateError';
 }
 
-const htmlEscapes: Record<string, string> = { '&': '&amp;', '<': '&lt;', '>': '&gt;', '"': '&quot;', "'": '&#39;' };
+const htmlEscapes: Record<string, string> = {
+  '&': '&amp;',
+  '<': '&lt;',
+  '>': '&gt;',
+  '"': '&quot;',
+  "'": '&#39;',
+};
 
 export function escapeHtml(value: string): string {
   return value.replace(/[&<>"']/g, (c) => htmlEscapes[c]!);
@@ -58,7 +64,9 @@ export function renderMail(content: MailContent): RenderedMail {
   const subject = oneLine(content.subject);
   if (!subject) throw new MailTemplateError('A mail needs a subject');
   const paragraphs = content.paragraphs.map((p) => p.trim()).filter(Boolean);
-  const action = content.action ? { label: oneLine(content.action.label), url: checkedUrl(content.action.url) } : null;
+  const action = content.action
+    ? { label: oneLine(content.action.label), url: checkedUrl(content.action.url) }
+    : null;
   const reason = content.reason?.trim();
 
   const text = [
@@ -78,7 +86,10 @@ export function renderMail(content: MailContent): RenderedMail {
     ...paragraphs.map((x) => p(escapeHtml(x))),
     ...(action ? [p(`<a href="${escapeHtml(action.url)}">${escapeHtml(action.label)}</a>`)] : []),
     '<hr style="border:none;border-top:1px solid #ccd">',
-    p(`<strong>${escapeHtml(productName)}</strong> · roll cage pre-checks for club motorsport`, 'margin:0 0 0.5em;font-size:13px'),
+    p(
+      `<strong>${escapeHtml(productName)}</strong> · roll cage pre-checks for club motorsport`,
+      'margin:0 0 0.5em;font-size:13px',
+    ),
     p(escapeHtml(safetyCaution), 'margin:0 0 0.5em;font-size:13px'),
     ...(reason ? [p(escapeHtml(reason), 'margin:0;font-size:13px;color:#555')] : []),
     '</body></html>',

@@ -1,0 +1,22 @@
+// A club's activity log, for that club's admins (docs/api.md, "Activity log").
+import { Router } from 'express';
+import { auditQuerySchema } from '../contracts/audit';
+import { clubParamsSchema } from '../contracts/clubs';
+import { requireClubRole } from '../middleware/guards';
+import type { Services } from '../services';
+import { mountRoutes, route } from './route-table';
+
+export function createAuditRouter({ services }: { services: Services }): Router {
+  return mountRoutes(Router(), [
+    route({
+      method: 'get',
+      path: '/clubs/:clubId/audit',
+      guards: [requireClubRole(['admin'])],
+      params: clubParamsSchema,
+      query: auditQuerySchema,
+      handler: async ({ res, params, query }) => {
+        res.json(await services.audit.list(params.clubId, query));
+      },
+    }),
+  ]);
+}

@@ -1,0 +1,21 @@
+// Background job progress, for admins of the job's club (docs/api.md, "Background jobs").
+import { Router } from 'express';
+import { jobParamsSchema } from '../contracts/jobs';
+import { requireSignedIn, signedInUserId } from '../middleware/guards';
+import type { Services } from '../services';
+import { mountRoutes, route } from './route-table';
+
+export function createJobsRouter({ services }: { services: Services }): Router {
+  return mountRoutes(Router(), [
+    route({
+      method: 'get',
+      path: '/jobs/:id',
+      guards: [requireSignedIn],
+      params: jobParamsSchema,
+      handler: async ({ req, res, params }) => {
+        res.set('Cache-Control', 'no-store');
+        res.json({ job: await services.jobProgress.forAdmin(signedInUserId(req), params.id) });
+      },
+    }),
+  ]);
+}

@@ -1,0 +1,26 @@
+// GET /api/meta: what the front end needs to know about this server before anyone signs in.
+import { readFileSync } from 'node:fs';
+import { resolve } from 'node:path';
+import { Router } from 'express';
+import { projectRoot } from '../config';
+import type { MetaWire } from '../contracts/mail';
+import { publicRoute } from '../middleware/guards';
+import { mountRoutes, route } from './route-table';
+
+const version = (
+  JSON.parse(readFileSync(resolve(projectRoot, 'package.json'), 'utf8')) as { version: string }
+).version;
+
+export function createMetaRouter({ mailboxEnabled }: { mailboxEnabled: boolean }): Router {
+  const meta: MetaWire = { mailboxEnabled, version };
+  return mountRoutes(Router(), [
+    route({
+      method: 'get',
+      path: '/meta',
+      guards: [publicRoute],
+      handler: ({ res }) => {
+        res.json(meta);
+      },
+    }),
+  ]);
+}

@@ -1,0 +1,18 @@
+// Background jobs (pg-boss) and their progress rows.
+export {
+  createJobs,
+  type Jobs,
+  type JobHandler,
+  type JobContext,
+  type ProgressReporter,
+  type SendOptions,
+  type JobsOptions,
+} from './jobs';
+export {
+  createJobProgressReader,
+  createJobProgressStore,
+  type JobProgress,
+  type JobProgressReader,
+  type JobProgressStore,
+  type SqlQuery,
+} from './progress';
