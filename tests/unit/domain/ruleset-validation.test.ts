@@ -96,3 +96,12 @@ describe('validateRulesetDocument', () => {
     }
   });
 });
+
+describe('docs/rulesets.md', () => {
+  test('lists every fact of the catalogue', async () => {
+    const { readFileSync } = await import('node:fs');
+    const { FACT_CATALOGUE } = await import('@backend/domain/facts');
+    const docs = readFileSync(new URL('../../../docs/rulesets.md', import.meta.url), 'utf8');
+    for (const f of FACT_CATALOGUE) expect(docs).toContain(`\`${f.name}\``);
+  });
+});
