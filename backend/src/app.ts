@@ -15,6 +15,10 @@ import { createFailureLimiter, createLoginLimiters, defaultLoginLimits, type Log
 import { createPassport, createSessionMiddleware, type SessionSetup } from './middleware/session';
 import { createAccountRouter } from './routes/account.routes';
 import { createAuthRouter } from './routes/auth.routes';
+import { createBuildSheetsRouter } from './routes/build-sheets.routes';
+import { createCarsRouter } from './routes/cars.routes';
+import { createCheckRunsReportRouter } from './routes/check-runs-report.routes';
+import { createPhotosRouter } from './routes/photos.routes';
 import { createChecksRouter } from './routes/checks.routes';
 import { createHealthRouter } from './routes/health.routes';
 import { createInvitationsRouter } from './routes/invitations.routes';
@@ -88,7 +92,7 @@ function serveFrontend(app: Express, dist: string): void {
 export function createApp(options: CreateAppOptions): Express {
   const { dataSource, config } = options;
   const logger = options.logger ?? createLogger(config.logLevel);
-  const services = options.services ?? createServices(dataSource, { publicUrl: config.publicUrl });
+  const services = options.services ?? createServices(dataSource, { publicUrl: config.publicUrl, uploadDir: config.uploadDir });
   const limits = options.loginLimits ?? defaultLoginLimits;
 
   const app = express();
@@ -127,6 +131,10 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(createMembersRouter({ services }));
   api.use(createRulebooksRouter({ services }));
   api.use(createChecksRouter({ services }));
+  api.use(createCarsRouter({ services }));
+  api.use(createBuildSheetsRouter({ services }));
+  api.use(createPhotosRouter({ services }));
+  api.use(createCheckRunsReportRouter({ services }));
   api.use(createMetaRouter({ mailboxEnabled: config.fakeSmtp }));
   api.use(createAuditRouter({ services }));
   api.use(createJobsRouter({ services }));

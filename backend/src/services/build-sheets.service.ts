@@ -204,8 +204,10 @@ export function createBuildSheetService(ds: DataSource) {
       return revisionView(await revisionByNumber(ds.manager, sheetId, number));
     },
 
-    async diff(sheetId: string, userId: string, from: number, to: number, units: UnitSystem): Promise<RevisionDiffWire> {
+    /** The changes from revision `from` to `to`, written in the caller's preferred units. */
+    async diff(sheetId: string, userId: string, from: number, to: number): Promise<RevisionDiffWire> {
       await sheetFor(ds.manager, sheetId, userId, 'read');
+      const units: UnitSystem = (await ds.getRepository(User).findOneBy({ id: userId }))?.preferredUnits ?? 'imperial';
       const [a, b] = await Promise.all([revisionByNumber(ds.manager, sheetId, from), revisionByNumber(ds.manager, sheetId, to)]);
       const changes = diffSpecifications(a.specification, b.specification, units);
       // The ruleset a revision was meant for is part of what changed, though not in the specification.

@@ -7,6 +7,11 @@ import { createRulesetService, type RulesetService } from './rulesets.service';
 import { createAuditService, type AuditService } from './audit.service';
 import { createMailboxService, createMailService, type MailboxService, type MailService } from './mail';
 import { createJobProgressReader, createJobProgressStore, type JobProgressReader } from './jobs';
+import { createBuildSheetService, type BuildSheetService } from './build-sheets.service';
+import { createGarageService, type GarageService } from './garage.service';
+import { createPhotoService, type PhotoService } from './photos.service';
+import { LocalDiskPhotoStorage, type PhotoStorage } from './photos/photo-storage';
+import { createReportService, type ReportService } from './reports.service';
 
 export interface Services {
   accounts: AccountService;
@@ -17,20 +22,35 @@ export interface Services {
   mail: MailService;
   mailbox: MailboxService;
   jobProgress: JobProgressReader;
+  garage: GarageService;
+  buildSheets: BuildSheetService;
+  photos: PhotoService;
+  reports: ReportService;
 }
 
-export function createServices(ds: DataSource, options: { publicUrl: string }): Services {
+export function createServices(
+  ds: DataSource,
+  // Photos go to `photoStorage`, else to local disk under `uploadDir` (config's UPLOAD_DIR).
+  options: { publicUrl: string; uploadDir?: string; photoStorage?: PhotoStorage },
+): Services {
   const rulesets = createRulesetService(ds);
   const audit = createAuditService(ds);
   const members = createMemberService(ds, { publicUrl: options.publicUrl, audit });
+  const checks = createCheckService(ds, rulesets);
+  const buildSheets = createBuildSheetService(ds);
+  const photos = createPhotoService(ds, options.photoStorage ?? new LocalDiskPhotoStorage(options.uploadDir ?? '.data/uploads'));
   return {
     accounts: createAccountService(ds),
     members,
     rulesets,
-    checks: createCheckService(ds, rulesets),
+    checks,
     audit,
     mail: createMailService(ds),
     mailbox: createMailboxService(ds),
     jobProgress: createJobProgressReader(createJobProgressStore((text, values) => ds.query(text, values)), members),
+    garage: createGarageService(ds),
+    buildSheets,
+    photos,
+    reports: createReportService(ds, { checks, sheets: buildSheets, photos }),
   };
 }
