@@ -1,7 +1,7 @@
 // A saved check: the specification exactly as checked, the report the engine gave, and the ruleset
 // version it was checked against. Immutable: a trigger refuses every UPDATE and DELETE (migration
 // 1796083300000). The verification code lets a steward or inspector look the run up later.
-import { Check, Column, CreateDateColumn, Entity, Index, JoinColumn, ManyToOne, PrimaryGeneratedColumn } from 'typeorm';
+import { Check, Column, CreateDateColumn, Entity, ForeignKey, Index, JoinColumn, ManyToOne, PrimaryGeneratedColumn } from 'typeorm';
 import type { Relation } from 'typeorm';
 import type { CheckReport } from '../contracts/report';
 import type { Specification } from '../contracts/specification';
@@ -50,9 +50,10 @@ export class CheckRun {
   @CreateDateColumn({ name: 'created_at', type: 'timestamptz' })
   createdAt!: Date;
 
-  // The build sheet revision the run was made from. No foreign key yet: the build-sheet tables
-  // come with their own migration, which adds the constraint.
+  // The build sheet revision the run was made from (migration 1796083400000 adds the constraint).
+  // Named by string: importing the revision entity here would make an import cycle.
   @Column({ name: 'build_sheet_revision_id', type: 'uuid', nullable: true })
+  @ForeignKey('BuildSheetRevision', { onDelete: 'NO ACTION' })
   buildSheetRevisionId!: string | null;
 
   @Column({ name: 'verification_code', type: 'text', unique: true })

@@ -112,12 +112,13 @@ export function createPhotoService(ds: DataSource, storage: PhotoStorage, logger
       const members = await memberIdsOfLatest(sheet);
       const metas = files.map((_f, i) => {
         const parsed = photoMetaSchema.safeParse({ caption: lists.captions?.[i], memberId: lists.memberIds?.[i], area: lists.areas?.[i] });
+        const rawMemberId = lists.memberIds?.[i]?.trim();
+        if (rawMemberId && !members.has(rawMemberId)) issues.push({ path: `photos.${i}.memberId`, message: `No member of the latest revision has the id "${rawMemberId}".` });
         if (!parsed.success) {
-          issues.push(...fieldIssues(parsed.error, `photos.${i}`));
+          issues.push(...fieldIssues(parsed.error, `photos.${i}`).filter((p) => p.path !== `photos.${i}.memberId` || !rawMemberId || members.has(rawMemberId)));
           return null;
         }
         const { caption, memberId, area } = parsed.data;
-        if (memberId !== null && !members.has(memberId)) issues.push({ path: `photos.${i}.memberId`, message: `No member of the latest revision has the id "${memberId}".` });
         return { caption, memberId, area: area ?? (memberId !== null ? ('members' as const) : ('general' as const)) };
       });
       if (issues.length) throw new ValidationError(issues);
@@ -137,10 +138,12 @@ export function createPhotoService(ds: DataSource, storage: PhotoStorage, logger
 
       // 2. Store the files; 3. write the rows. Either failing removes what was stored.
       const stored: string[] = [];
+      // One millisecond apart, so the sheet lists an upload's photos in the order they were chosen.
+      const uploadedAt = Date.now();
       const rows = processed.map((img, i) => {
         const id = randomUUID();
         return {
-          id, buildSheetId: sheet.id, ...metas[i]!, storageKey: `sheets/${sheet.id}/${id}.jpg`, thumbnailKey: `sheets/${sheet.id}/${id}.thumb.jpg`,
+          id, buildSheetId: sheet.id, createdAt: new Date(uploadedAt + i), ...metas[i]!, storageKey: `sheets/${sheet.id}/${id}.jpg`, thumbnailKey: `sheets/${sheet.id}/${id}.thumb.jpg`,
           widthPx: img.widthPx, heightPx: img.heightPx, byteSize: img.full.length, uploadedById: userId, img,
         };
       });

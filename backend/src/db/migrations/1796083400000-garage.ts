@@ -1,4 +1,5 @@
-// The builder's garage: cars, build sheets with numbered revisions, and photos. Entity tables were
+// The builder's garage: cars, build sheets with numbered revisions, and photos; and the foreign key
+// from check_runs.build_sheet_revision_id to the revisions. Entity tables were
 // generated from the entities with TypeORM's schema builder, so the drift test starts from zero
 // difference.
 import type { MigrationInterface, QueryRunner } from 'typeorm';
@@ -29,9 +30,12 @@ export class Garage1796083400000 implements MigrationInterface {
     await queryRunner.query(`ALTER TABLE "build_sheet_revisions" ADD CONSTRAINT "FK_eb300e1605c1e6b3e47237e9426" FOREIGN KEY ("created_by") REFERENCES "users"("id") ON DELETE SET NULL ON UPDATE NO ACTION`);
     await queryRunner.query(`ALTER TABLE "photos" ADD CONSTRAINT "FK_1a5c34351545408e8919ea7d6e2" FOREIGN KEY ("build_sheet_id") REFERENCES "build_sheets"("id") ON DELETE CASCADE ON UPDATE NO ACTION`);
     await queryRunner.query(`ALTER TABLE "photos" ADD CONSTRAINT "FK_321fd52a2c7d768cf387257e198" FOREIGN KEY ("uploaded_by") REFERENCES "users"("id") ON DELETE SET NULL ON UPDATE NO ACTION`);
+    // A saved check run names the revision it was made from (column added by 1796083300000).
+    await queryRunner.query(`ALTER TABLE "check_runs" ADD CONSTRAINT "FK_b04f7c8897b96e6c680ecc43430" FOREIGN KEY ("build_sheet_revision_id") REFERENCES "build_sheet_revisions"("id") ON DELETE NO ACTION ON UPDATE NO ACTION`);
   }
 
   public async down(queryRunner: QueryRunner): Promise<void> {
+    await queryRunner.query(`ALTER TABLE "check_runs" DROP CONSTRAINT "FK_b04f7c8897b96e6c680ecc43430"`);
     await queryRunner.query(`ALTER TABLE "photos" DROP CONSTRAINT "FK_321fd52a2c7d768cf387257e198"`);
     await queryRunner.query(`ALTER TABLE "photos" DROP CONSTRAINT "FK_1a5c34351545408e8919ea7d6e2"`);
     await queryRunner.query(`ALTER TABLE "build_sheet_revisions" DROP CONSTRAINT "FK_eb300e1605c1e6b3e47237e9426"`);
