@@ -4,6 +4,9 @@ import type { RouteLocationRaw } from 'vue-router';
 import type { Role } from '@/api/types';
 import type { RouteName } from '@/router/routes';
 
+/** Optional parts of the server, reported by GET /api/meta; an entry naming one shows only while it is on. */
+export type ServerFeature = 'mailbox';
+
 export interface NavEntry {
   label: string;
   /** A PrimeIcons class. */
@@ -11,12 +14,15 @@ export interface NavEntry {
   route: RouteName;
   /** Shown only to holders of one of these roles in the current club; the route gets `clubId`. */
   roles?: readonly Role[];
+  feature?: ServerFeature;
 }
 
 export const navEntries: readonly NavEntry[] = [
   { label: 'Overview', icon: 'pi pi-gauge', route: 'home' },
   { label: 'Garage', icon: 'pi pi-car', route: 'garage', roles: ['builder'] },
   { label: 'Members', icon: 'pi pi-users', route: 'club-members', roles: ['admin'] },
+  { label: 'Activity log', icon: 'pi pi-history', route: 'club-activity', roles: ['admin'] },
+  { label: 'Mailbox', icon: 'pi pi-inbox', route: 'dev-mailbox', roles: ['admin'], feature: 'mailbox' },
   { label: 'Account', icon: 'pi pi-user', route: 'account' },
 ];
 
@@ -31,8 +37,10 @@ export function visibleNavLinks(
   entries: readonly NavEntry[],
   clubId: string | null,
   roles: readonly Role[],
+  features: ReadonlySet<ServerFeature> = new Set(),
 ): NavLink[] {
   return entries.flatMap((entry) => {
+    if (entry.feature && !features.has(entry.feature)) return [];
     if (!entry.roles) return [{ label: entry.label, icon: entry.icon, to: { name: entry.route } }];
     if (clubId === null || !entry.roles.some((role) => roles.includes(role))) return [];
     return [{ label: entry.label, icon: entry.icon, to: { name: entry.route, params: { clubId } } }];

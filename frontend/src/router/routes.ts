@@ -5,7 +5,8 @@ import type { Role } from '@/api/types';
 
 /** Every route name; links and redirects use these, never raw paths. */
 export type RouteName = 'sign-in' | 'invitation' | 'home' | 'account' | 'club-members' | 'not-found'
-  | 'garage' | 'car' | 'build-sheet' | 'check-run';
+  | 'garage' | 'car' | 'build-sheet' | 'check-run'
+  | 'dev-mailbox' | 'club-activity';
 
 declare module 'vue-router' {
   interface RouteMeta {
@@ -58,6 +59,8 @@ export const routes: NamedRoute[] = [
       { path: 'garage', name: 'garage', component: () => import('@/views/GarageView.vue'), meta: { title: 'Garage' } },
       { path: 'cars/:carId', name: 'car', component: () => import('@/views/CarView.vue'), meta: { title: 'Car' } },
       { path: 'build-sheets/:sheetId', name: 'build-sheet', component: () => import('@/views/BuildSheetView.vue'), meta: { title: 'Build sheet' } },
+      { path: 'dev/mailbox', name: 'dev-mailbox', component: () => import('@/views/MailboxView.vue'), meta: { roles: ['admin'], title: 'Mailbox' } },
+      { path: 'clubs/:clubId/activity', name: 'club-activity', component: () => import('@/views/AuditLogView.vue'), meta: { roles: ['admin'], title: 'Activity log' } },
       { path: 'check-runs/:checkRunId', name: 'check-run', component: () => import('@/views/CheckRunView.vue'), meta: { title: 'Check run' } },
     ],
   },

@@ -12,10 +12,10 @@ describe('the app menu', () => {
     [[], ['Overview', 'Account']],
     [['builder'], ['Overview', 'Garage', 'Account']],
     [['steward'], ['Overview', 'Account']],
-    [['admin'], ['Overview', 'Members', 'Account']],
+    [['admin'], ['Overview', 'Members', 'Activity log', 'Account']],
     [
       ['builder', 'steward', 'admin'],
-      ['Overview', 'Garage', 'Members', 'Account'],
+      ['Overview', 'Garage', 'Members', 'Activity log', 'Account'],
     ],
   ])('roles %j in the current club show %j', (roles, expected) => {
     expect(labels(roles)).toEqual(expected);

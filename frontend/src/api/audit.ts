@@ -1,0 +1,18 @@
+// A club's activity log (club admins).
+import { http } from './http';
+import type { AuditEntryWire, AuditPageWire } from '@contracts/audit';
+
+export type AuditEntry = AuditEntryWire;
+export type AuditPage = AuditPageWire;
+
+export interface AuditFilter {
+  page: number;
+  pageSize: number;
+  action?: string | null;
+}
+
+export function listAudit(clubId: string, filter: AuditFilter): Promise<AuditPage> {
+  const query = new URLSearchParams({ page: String(filter.page), pageSize: String(filter.pageSize) });
+  if (filter.action) query.set('action', filter.action);
+  return http.get<AuditPage>(`/clubs/${encodeURIComponent(clubId)}/audit?${query.toString()}`);
+}

@@ -1,0 +1,48 @@
+// How activity log entries read on screen: a short name for each action and one line saying what
+// changed. Unknown actions (added by later features) still read sensibly from their raw name.
+import type { AuditEntry } from '@/api/audit';
+import { roleLabels } from '@/components/common/roles';
+import type { Role } from '@/api/types';
+
+export const actionLabels: Record<string, string> = {
+  'membership.added': 'Member added',
+  'membership.roles_changed': 'Roles changed',
+  'membership.removed': 'Member removed',
+  'invitation.accepted': 'Invitation accepted',
+};
+
+/** `ruleset.version_published` → "Ruleset: version published" for actions without a label yet. */
+export function actionLabel(action: string): string {
+  const known = actionLabels[action];
+  if (known) return known;
+  const [area = '', ...rest] = action.split('.');
+  const words = rest.join(' ').replace(/_/g, ' ');
+  return `${area.charAt(0).toUpperCase()}${area.slice(1)}: ${words}`;
+}
+
+function roles(value: unknown): string {
+  if (!Array.isArray(value)) return '';
+  return value.map((r) => roleLabels[r as Role] ?? String(r)).join(', ');
+}
+
+const text = (value: unknown): string => (typeof value === 'string' ? value : '');
+
+export function auditSummary(entry: AuditEntry): string {
+  const d = entry.details;
+  switch (entry.action) {
+    case 'membership.added':
+      return `${text(d.email)} as ${roles(d.roles)}${d.invited ? ' (invitation sent)' : ''}`;
+    case 'membership.roles_changed':
+      return `${text(d.email)}: ${roles(d.before)} → ${roles(d.after)}`;
+    case 'membership.removed':
+      return `${text(d.email)} (was ${roles(d.roles)})`;
+    case 'invitation.accepted':
+      return `${text(d.email)} joined as ${roles(d.roles)}`;
+    default:
+      return entry.entityId ? `${entry.entityType} ${entry.entityId}` : entry.entityType;
+  }
+}
+
+export function actorName(entry: AuditEntry): string {
+  return entry.actor ? entry.actor.displayName || entry.actor.email : 'System';
+}
