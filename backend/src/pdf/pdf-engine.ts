@@ -25,9 +25,40 @@ let ready = false;
 interface FontkitFormat {
   probe(buffer: Uint8Array): boolean;
 }
+interface GlyphRun {
+  positions: Record<string, number>[];
+}
+interface FontkitFont {
+  constructor: FontkitFormat;
+  layout(text: string, features?: unknown): GlyphRun;
+}
 interface FontkitModule {
-  create(buffer: Uint8Array): { constructor: FontkitFormat };
+  create(buffer: Uint8Array): FontkitFont;
   registerFormat(format: unknown): void;
+}
+
+const LAYOUT_CACHE_LIMIT = 20_000;
+
+/**
+ * Shaping a word (GSUB/GPOS lookups) was the largest cost left once fonts were shared, and a report
+ * shapes the same words every time. The shaped run depends only on the font, the text and the
+ * features, so it is kept per font. pdfkit scales a run's positions in place, so each caller gets
+ * fresh position objects; the glyphs are shared, as fontkit itself shares them.
+ */
+function memoiseLayout(font: FontkitFont): void {
+  const layout = font.layout.bind(font);
+  let cache = new Map<string, GlyphRun>();
+  font.layout = (text, features) => {
+    const key = features === undefined ? text : `${JSON.stringify(features)}\u0000${text}`;
+    let run = cache.get(key);
+    if (!run) {
+      if (cache.size >= LAYOUT_CACHE_LIMIT) cache = new Map();
+      run = layout(text, features);
+      cache.set(key, run);
+    }
+    const copy = Object.create(Object.getPrototypeOf(run) as object) as GlyphRun;
+    return Object.assign(copy, run, { positions: run.positions.map((p) => Object.assign(Object.create(Object.getPrototypeOf(p) as object) as object, p)) });
+  };
 }
 
 /**
@@ -40,8 +71,9 @@ interface FontkitModule {
  */
 function reuseParsedFonts(buffers: Buffer[]): void {
   const fontkit = require('fontkit') as FontkitModule;
-  const parsed = new Map<Uint8Array, unknown>(buffers.map((b) => [b, fontkit.create(b)]));
-  const trueType = (parsed.values().next().value as { constructor: FontkitFormat }).constructor;
+  const parsed = new Map<Uint8Array, FontkitFont>(buffers.map((b) => [b, fontkit.create(b)]));
+  for (const font of parsed.values()) memoiseLayout(font);
+  const trueType = parsed.values().next().value!.constructor;
   const probe = trueType.probe.bind(trueType);
   trueType.probe = (buffer) => !parsed.has(buffer) && probe(buffer);
   class ParsedFont {

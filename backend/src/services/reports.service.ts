@@ -89,7 +89,7 @@ export function createReportService(ds: DataSource, deps: { checks: CheckService
           car: found.car, builderName: builder?.displayName ?? null, sheetName: found.sheet.name, builderId: found.car.ownerId,
           photos: thumbs.map(({ photo, thumbnail }) => {
             const kind = photo.memberId ? kinds.get(photo.memberId) : undefined;
-            const label = photo.memberId ? `${kind ? MEMBER_KIND_LABELS[kind] : 'member'} "${photo.memberId}"` : photo.area;
+            const label = photo.memberId ? `${kind ? MEMBER_KIND_LABELS[kind] : 'member'} "${photo.memberId}"` : `${photo.area[0]!.toUpperCase()}${photo.area.slice(1)}`;
             return { thumbnail, caption: photo.caption, label };
           }),
         };
