@@ -108,7 +108,22 @@ function chooseVariant(req: CompiledRequirement, weightKg: number | undefined): 
  * spread of two ~25-key objects with dotted names very slowly (about 0.2 ms each, measured).
  */
 function layered(base: FactSet, own: FactSet): FactSet {
-  return Object.assign(Object.create(base) as FactSet, own);
+  // `own` is a fresh object literal from memberFacts/plateFacts, so re-parenting it is safe.
+  return Object.setPrototypeOf(own, base) as FactSet;
+}
+
+// A requirement's branch in a bundled rule. Without a `when` guard the branch is the `requires`
+// node itself (fewer nodes for the engine to clone per run); the suffix says so.
+const REQUIRES_ONLY = '|requires';
+const branches = new WeakMap<RuleProperties, object>();
+
+function branchOf(rule: RuleProperties): object {
+  const cached = branches.get(rule);
+  if (cached) return cached;
+  const top = (rule.conditions as unknown as ResultNode).all ?? [];
+  const branch = top.length === 1 && top[0].name === 'requires' ? { ...top[0], name: `${rule.name}${REQUIRES_ONLY}` } : { ...(rule.conditions as object), name: rule.name };
+  branches.set(rule, branch);
+  return branch;
 }
 
 /** Only the facts a group's rules read, so each run builds fewer engine facts. */
@@ -171,7 +186,7 @@ export async function evaluateSpecification(
     const bundle: RuleProperties = {
       name: 'group',
       event: { type: 'group' },
-      conditions: { all: rules.map((r) => ({ ...(r.conditions as object), name: r.name })) } as unknown as RuleProperties['conditions'],
+      conditions: { all: rules.map(branchOf) } as unknown as RuleProperties['conditions'],
     };
     const engine = rules.length > 0 ? newEngine([bundle]) : undefined;
     const needed = factsNeeded(reqs);
@@ -192,7 +207,12 @@ export async function evaluateSpecification(
         const { results, failureResults } = await engine.run(engineFacts);
         trees = new Map<string, ResultNode>();
         const root = [...results, ...failureResults][0].conditions as unknown as ResultNode;
-        for (const branch of root.all ?? []) trees.set(String(branch.name), branch);
+        for (const branch of root.all ?? []) {
+          const name = String(branch.name);
+          // Re-wrap a requires-only branch so findings read every tree the same way.
+          if (name.endsWith(REQUIRES_ONLY)) trees.set(name.slice(0, -REQUIRES_ONLY.length), { all: [{ ...branch, name: 'requires' }] });
+          else trees.set(name, branch);
+        }
         seen.set(key, trees);
       }
       for (const req of reqs) {
@@ -302,54 +322,62 @@ function factValueOf(facts: FactSet, leaf: ResultNode, meta: LeafMeta): unknown 
 
 interface LeafSummary {
   required: RequiredValue[];
-  /** Unique facts to report as measured, in leaf order. */
-  measured: { name: string; meta: LeafMeta }[];
+  /** Unique facts to report as measured: index into the subtree's leaves, and the leaf's metadata. */
+  measured: { index: number; meta: LeafMeta }[];
 }
 
 // The required side of a subtree is static per compiled requirement; cache it so a check only
-// looks up measured values.
+// looks up measured values. `key` names the subtree ("requires" or an alternative).
 const summaries = new WeakMap<CompiledRequirement, Map<string, LeafSummary>>();
 
-function summarise(req: CompiledRequirement, leaves: ResultNode[]): LeafSummary {
+function summarise(req: CompiledRequirement, key: string, leaves: ResultNode[]): LeafSummary {
   let perReq = summaries.get(req);
   if (!perReq) summaries.set(req, (perReq = new Map()));
-  const key = leaves.map((l) => l.name).join(',');
   const cached = perReq.get(key);
   if (cached) return cached;
   const required: RequiredValue[] = [];
   const measured: LeafSummary['measured'] = [];
   const seenM = new Set<string>();
   const seenR = new Set<string>();
-  for (const leaf of leaves) {
+  leaves.forEach((leaf, index) => {
     const meta = req.leaves[String(leaf.name)];
-    if (!meta) continue;
-    const key2 = `${meta.fact}|${meta.path ?? ''}`;
-    if (!seenM.has(key2)) {
-      seenM.add(key2);
-      measured.push({ name: String(leaf.name), meta });
+    if (!meta) return;
+    const factKey = `${meta.fact}|${meta.path ?? ''}`;
+    if (!seenM.has(factKey)) {
+      seenM.add(factKey);
+      measured.push({ index, meta });
     }
-    const rkey = `${key2}|${meta.operator}|${JSON.stringify(meta.value)}`;
+    const rkey = `${factKey}|${meta.operator}|${JSON.stringify(meta.value)}`;
     if (!seenR.has(rkey)) {
       seenR.add(rkey);
       required.push({ fact: meta.fact, label: meta.label, ...(meta.path ? { path: meta.path } : {}), operator: meta.operator, value: meta.value as RequiredValue['value'], dimension: meta.dimension });
     }
-  }
+  });
   const summary = { required, measured };
   perReq.set(key, summary);
   return summary;
 }
 
-function measuredAndRequired(req: CompiledRequirement, leaves: ResultNode[], facts: FactSet): { measured: MeasuredValue[]; required: RequiredValue[] } {
-  const summary = summarise(req, leaves);
+function copyRequired(summary: LeafSummary): RequiredValue[] {
+  // Copies, so a caller editing a report never changes the cache.
+  const out: RequiredValue[] = [];
+  for (const r of summary.required) out.push({ ...r });
+  return out;
+}
+
+function measuredValues(summary: LeafSummary, leaves: ResultNode[], facts: FactSet): MeasuredValue[] {
   const measured: MeasuredValue[] = [];
-  const byName = new Map(leaves.map((l) => [String(l.name), l]));
-  for (const { name, meta } of summary.measured) {
-    const value = factValueOf(facts, byName.get(name)!, meta);
+  for (const { index, meta } of summary.measured) {
+    const value = factValueOf(facts, leaves[index], meta);
     if (typeof value === 'number' || typeof value === 'string' || typeof value === 'boolean')
       measured.push({ fact: meta.fact, label: meta.label, ...(meta.path ? { path: meta.path } : {}), value, dimension: meta.dimension });
   }
-  // Copies, so a caller editing a report never changes the cache.
-  return { measured, required: summary.required.map((r) => ({ ...r })) };
+  return measured;
+}
+
+function describeLeaf(req: CompiledRequirement, leaf: ResultNode, facts: FactSet, system: UnitSystem): string {
+  const meta = req.leaves[String(leaf.name)];
+  return `${meta.label} ${display(factValueOf(facts, leaf, meta), meta.dimension, system)} (required ${OP_WORDS[meta.operator]} ${display(meta.value, meta.dimension, system)})`;
 }
 
 function buildFinding(ctx: Ctx, req: CompiledRequirement, variant: CompiledVariant, subject: Subject, tree: ResultNode, facts: FactSet): Finding {
@@ -370,21 +398,18 @@ function buildFinding(ctx: Ctx, req: CompiledRequirement, variant: CompiledVaria
   const verdict: Tri = triState(requires, facts, missing);
   if (req.template === 'tube_table') return tubeTableFinding(ctx, req, variant, subject, requires, facts, verdict, missing);
   const leaves = leavesOf(requires);
-  const { measured, required } = measuredAndRequired(req, leaves, facts);
+  const summary = summarise(req, 'requires', leaves);
+  const measured = measuredValues(summary, leaves, facts);
+  const required = copyRequired(summary);
   const v: Finding['verdict'] = verdict === 'unknown' ? 'needs_information' : verdict ? 'pass' : 'fail';
-  const describe = (l: ResultNode): string => {
-    const meta = req.leaves[String(l.name)];
-    return `${meta.label} ${display(factValueOf(facts, l, meta), meta.dimension, ctx.system)} (required ${OP_WORDS[meta.operator]} ${display(meta.value, meta.dimension, ctx.system)})`;
-  };
-  const known = leaves.filter((l) => req.leaves[String(l.name)] && factPresentFor(facts, l));
   let reason: string;
-  if (v === 'pass') {
-    const passing = known.filter((l) => l.result === true);
-    reason = passing.length > 0 ? `Meets it: ${passing.map(describe).join('; ')}.` : 'Meets the requirement.';
-  } else if (v === 'needs_information') reason = `Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')}.`;
+  // Passing findings carry their measured and required values; words are spent on what to fix.
+  if (v === 'pass') reason = 'Meets the requirement.';
+  else if (v === 'needs_information') reason = `Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')}.`;
   else {
-    const failing = known.filter((l) => l.result === false);
-    reason = failing.length > 0 ? `Does not meet it: ${failing.map(describe).join('; ')}.` : 'Does not meet the requirement.';
+    const parts: string[] = [];
+    for (const l of leaves) if (l.result === false && req.leaves[String(l.name)] && factPresentFor(facts, l)) parts.push(describeLeaf(req, l, facts, ctx.system));
+    reason = parts.length > 0 ? `Does not meet it: ${parts.join('; ')}.` : 'Does not meet the requirement.';
     if (missing.size > 0) reason += ` Also not given: ${missingList(missing).map((m) => m.label).join(', ')}.`;
   }
   const f = baseFinding(ctx, req, subject, v, reason);
@@ -438,7 +463,7 @@ function tubeTableFinding(
   };
   const pick = matched ?? [...alts].sort((x, y) => score(String(x.name)) - score(String(y.name)))[0];
   const pickMeta = pick ? req.alternatives[String(pick.name)] : undefined;
-  const required: RequiredValue[] = pick ? summarise(req, leavesOf(pick)).required.map((r) => ({ ...r })) : [];
+  const required: RequiredValue[] = pick ? copyRequired(summarise(req, String(pick.name), leavesOf(pick))) : [];
   const v: Finding['verdict'] = verdict === 'unknown' ? 'needs_information' : verdict ? 'pass' : 'fail';
   const restrictions = (a: typeof pickMeta) =>
     a ? [a.materials ? ` in ${a.materials.join(' or ')}` : '', a.processes ? ` (${a.processes.join(', ')})` : ''].join('') : '';
