@@ -4,10 +4,10 @@
 // sizes follow published tables so the expectations can be checked against FACTS.md.
 import { randomUUID } from 'node:crypto';
 import { beforeAll, describe, expect, it } from 'vitest';
-import type { Services } from '../../backend/src/services';
-import { newVerificationCode } from '../../backend/src/services/checks.service';
+import { createServices, type Services } from '../../backend/src/services';
+import { createCheckService, newVerificationCode, type CheckServiceOptions } from '../../backend/src/services/checks.service';
 import { hashPassword } from '../../backend/src/services/passwords';
-import { agentFor, demo, makeTestApp, signIn, useTestDatabase, type Agent } from './helpers';
+import { agentFor, demo, makeTestApp, signIn, testPublicUrl, useTestDatabase, type Agent } from './helpers';
 
 const db = useTestDatabase();
 const IN = 25.4; // mm per inch, exact (F-UNIT-1)
@@ -360,28 +360,51 @@ describe('saved check runs', () => {
 });
 
 describe('compiled rulesets and concurrent checks', () => {
-  it('compile a version once, however many checks use it', async () => {
-    const fresh = makeTestApp(db.ds);
-    const stats = () => (fresh.locals.services as Services).rulesets.cacheStats();
+  /** An app whose checks run on the given engine, with fresh caches. */
+  function appWith(options: CheckServiceOptions) {
+    const base = createServices(db.ds, { publicUrl: testPublicUrl });
+    const services: Services = { ...base, checks: createCheckService(db.ds, base.rulesets, options) };
+    return { fresh: makeTestApp(db.ds, { services }), services };
+  }
+
+  it('compile a version once in process, however many checks use it', async () => {
+    const { fresh, services } = appWith({ engine: 'in-process' });
     const agent = agentFor(fresh);
     const token = await signIn(agent, demo.builder);
-    expect(stats()).toEqual({ compiles: 0, hits: 0, size: 0 });
+    expect(services.rulesets.cacheStats()).toEqual({ compiles: 0, hits: 0, size: 0 });
     // Twenty at once on a cold cache still compile once: the first request's compilation is shared.
     await Promise.all(Array.from({ length: 20 }, () => post({ agent, token }, dryRunBody('club-saloon')).expect(200)));
-    expect(stats()).toEqual({ compiles: 1, hits: 19, size: 1 });
+    expect(services.rulesets.cacheStats()).toEqual({ compiles: 1, hits: 19, size: 1 });
     await post({ agent, token }, dryRunBody('open-sprint')).expect(200);
     await post({ agent, token }, dryRunBody('hill-saloon')).expect(200);
-    expect(stats()).toEqual({ compiles: 2, hits: 20, size: 2 });
+    expect(services.rulesets.cacheStats()).toEqual({ compiles: 2, hits: 20, size: 2 });
+    expect(services.checks.engineStats()).toMatchObject({ mode: 'in-process', compiles: 2 });
   });
 
-  it('give every one of 20 parallel dry runs the same report as a check on its own', async () => {
+  it.each([1, 2])('compile a version once per worker thread (%i workers)', async (workers) => {
+    const { fresh, services } = appWith({ workers });
+    const agent = agentFor(fresh);
+    const token = await signIn(agent, demo.builder);
+    await Promise.all(Array.from({ length: 20 }, () => post({ agent, token }, dryRunBody('club-saloon')).expect(200)));
+    expect(services.checks.engineStats()).toEqual({ mode: 'workers', compiles: workers, workers, inFlight: 0 });
+    await Promise.all(Array.from({ length: 10 }, () => post({ agent, token }, dryRunBody('open-sprint')).expect(200)));
+    expect(services.checks.engineStats().compiles).toBe(workers);
+    // The main thread compiled nothing: the workers did.
+    expect(services.rulesets.cacheStats().compiles).toBe(0);
+    await services.checks.close();
+  });
+
+  it.each(['workers', 'in-process'] as const)('give every one of 20 parallel dry runs the same report as a check on its own (%s)', async (engine) => {
+    const { fresh } = appWith({ engine, workers: 2 });
+    const agent = agentFor(fresh);
+    const who = { agent, token: await signIn(agent, demo.builder) };
     const thin = validSpecs['club-saloon']!();
     (thin.members as Json[])[0]!.wallMm = 0.083 * IN;
     const bodies = [dryRunBody('club-saloon'), dryRunBody('club-saloon', thin), dryRunBody('heavy-special'), dryRunBody('open-sprint')];
     const alone: { verdict: string }[] = [];
-    for (const b of bodies) alone.push((await post({ agent: builder, token: builderToken }, b).expect(200)).body.report);
+    for (const b of bodies) alone.push((await post(who, b).expect(200)).body.report);
     expect(alone.map((r) => r.verdict)).toEqual(['pass', 'fail', 'pass', 'pass']);
-    const together = await Promise.all(Array.from({ length: 20 }, (_, i) => post({ agent: builder, token: builderToken }, bodies[i % 4]).expect(200)));
+    const together = await Promise.all(Array.from({ length: 20 }, (_, i) => post(who, bodies[i % 4]).expect(200)));
     together.forEach((res, i) => expect(res.body.report).toEqual(alone[i % 4]));
   });
 });

@@ -7,11 +7,12 @@ import { randomBytes } from 'node:crypto';
 import type { DataSource, EntityManager } from 'typeorm';
 import type { CheckRunWire } from '../contracts/checks';
 import type { CheckReport } from '../contracts/report';
-import { issuesToProblems, specificationSchema, type Specification } from '../contracts/specification';
-import { evaluateSpecification, UnknownClassError, type CompiledRuleset } from '../domain';
+import type { Specification } from '../contracts/specification';
 import type { UnitSystem } from '../domain/units';
 import { CheckRun, User, type ClubRole } from '../entities';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
+import { createInProcessEngine, createWorkerEngine, type CheckEngine } from './check-engine';
+import { parseCheckSpecification } from './check-input';
 import { canSeeVersion, type RulesetService } from './rulesets.service';
 
 export interface CheckInput {
@@ -58,14 +59,9 @@ export function newVerificationCode(): string {
 
 /** The specification, or a 400 naming every invalid field as `specification.<path>`. */
 export function parseSpecificationOrThrow(json: unknown, classId: string): Specification {
-  const result = specificationSchema.safeParse(json);
-  if (!result.success) {
-    throw new ValidationError(issuesToProblems(result.error.issues).map((p) => ({ path: p.path ? `specification.${p.path}` : 'specification', message: p.message })));
-  }
-  if (result.data.vehicle.classId !== classId) {
-    throw new ValidationError([{ path: 'specification.vehicle.classId', message: `Must be the class being checked ("${classId}")` }]);
-  }
-  return result.data;
+  const outcome = parseCheckSpecification(json, classId);
+  if (!outcome.ok) throw new ValidationError(outcome.problems);
+  return outcome.specification;
 }
 
 function runView(run: CheckRun, creator: User | null): CheckRunWire {
@@ -85,10 +81,23 @@ function runView(run: CheckRun, creator: User | null): CheckRunWire {
 
 export type CheckService = ReturnType<typeof createCheckService>;
 
-export function createCheckService(ds: DataSource, rulesets: RulesetService) {
+export interface CheckServiceOptions {
+  /** Where evaluations run: worker threads (default) or the calling thread. */
+  engine?: 'workers' | 'in-process';
+  /** Worker threads for the `workers` engine (default: cores − 1, at least 1). */
+  workers?: number;
+}
+
+export function createCheckService(ds: DataSource, rulesets: RulesetService, options: CheckServiceOptions = {}) {
+  const engine: CheckEngine =
+    options.engine === 'in-process'
+      ? createInProcessEngine((version) => rulesets.loadCompiled(version.id, version), () => rulesets.cacheStats().compiles)
+      : createWorkerEngine({ ...(options.workers ? { size: options.workers } : {}), documentFor: (version) => rulesets.loadDocument(version) });
+
   /** Parses, checks access and state, and runs the engine; shared by dry and saved runs. */
-  async function check(input: CheckInput): Promise<{ specification: Specification; report: CheckReport }> {
-    const specification = parseSpecificationOrThrow(input.specification, input.classId);
+  // The specification is parsed where it is evaluated (a worker thread, usually), so the server's
+  // event loop does not pay for it twice; the route has already parsed it once for its 400s.
+  async function check(input: CheckInput): Promise<{ specification: Specification; reportJson: string }> {
     const access = await rulesets.access(input.rulesetVersionId, input.userId);
     if (!access || !canSeeVersion(access) || !access.roles!.some((r) => checkerRoles.includes(r))) {
       throw new NotFoundError('Ruleset version not found.');
@@ -100,25 +109,38 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService) {
         currentVersionId ? { currentVersionId } : undefined,
       );
     }
-    const compiled: CompiledRuleset = await rulesets.loadCompiled(access.id, access);
-    try {
-      const report = await evaluateSpecification(compiled, input.classId, specification, input.unitSystem ? { unitSystem: input.unitSystem } : {});
-      return { specification, report };
-    } catch (err) {
-      if (err instanceof UnknownClassError) throw new NotFoundError(err.message);
-      throw err;
-    }
+    return engine.evaluate({
+      version: { id: access.id, status: access.status, lockVersion: access.lockVersion },
+      classId: input.classId,
+      specification: input.specification,
+      ...(input.unitSystem ? { unitSystem: input.unitSystem } : {}),
+    });
   }
 
   return {
+    /** Which engine runs the checks, how many compilations it made, how busy it is. */
+    engineStats: () => engine.stats(),
+
+    /** Ends the worker threads (they never keep the process alive, but tests and shutdown tidy up). */
+    close: () => engine.close(),
+
     /** A check whose report is returned and nothing is stored. */
     async dryRun(input: CheckInput): Promise<CheckReport> {
-      return (await check(input)).report;
+      return JSON.parse((await check(input)).reportJson) as CheckReport;
+    },
+
+    /**
+     * The same dry run, with the report as JSON text: the route sends it as it is, so a large
+     * report is serialised once, off the event loop.
+     */
+    async dryRunJson(input: CheckInput): Promise<string> {
+      return (await check(input)).reportJson;
     },
 
     /** A check stored as an immutable record; the stored specification is the parsed one. */
     async saveRun(input: SaveRunInput): Promise<CheckRunWire> {
-      const { specification, report } = await check(input);
+      const { specification, reportJson } = await check(input);
+      const report = JSON.parse(reportJson) as CheckReport;
       const manager = input.manager ?? ds.manager;
       const run = await manager.getRepository(CheckRun).save(
         manager.getRepository(CheckRun).create({

@@ -3,6 +3,7 @@
 // version, then cached: see compiled-ruleset-cache.ts). Editing and publishing come later.
 import type { DataSource } from 'typeorm';
 import type { RulebookWire, RulesetVersionSummaryWire, RulesetVersionWire } from '../contracts/checks';
+import type { RulesetDocument } from '../contracts/ruleset';
 import { compileRuleset, validateRulesetDocument, type CompiledRuleset } from '../domain';
 import { Rulebook, RulesetVersion, type ClubRole, type RulesetStatus } from '../entities';
 import { ConflictError, NotFoundError } from '../errors';
@@ -44,7 +45,8 @@ export type RulesetService = ReturnType<typeof createRulesetService>;
 export function createRulesetService(ds: DataSource, options: { cache?: CompiledRulesetCache } = {}) {
   const cache = options.cache ?? createCompiledRulesetCache();
 
-  async function compileStored(key: CacheKeyParts): Promise<CompiledRuleset> {
+  /** The stored document of a version; a draft only while it still has the lock version asked for. */
+  async function loadDocument(key: CacheKeyParts): Promise<RulesetDocument> {
     const row = await ds.getRepository(RulesetVersion).findOne({
       where: { id: key.id },
       select: { id: true, status: true, lockVersion: true, document: true },
@@ -55,9 +57,14 @@ export function createRulesetService(ds: DataSource, options: { cache?: Compiled
     if (key.status === 'draft' && (row.status !== 'draft' || row.lockVersion !== key.lockVersion)) {
       throw new ConflictError('This draft changed while it was being loaded. Try again.');
     }
+    return row.document;
+  }
+
+  async function compileStored(key: CacheKeyParts): Promise<CompiledRuleset> {
+    const document = await loadDocument(key);
     // Stored documents were validated when saved; validating again guards against rows written
     // around the service (and costs nothing after the first check, thanks to the cache).
-    const validation = validateRulesetDocument(row.document);
+    const validation = validateRulesetDocument(document);
     if (!validation.ok) {
       throw new ConflictError('This ruleset version cannot be used for checks: its document has problems an admin must fix.', {
         problems: validation.problems,
@@ -137,6 +144,8 @@ export function createRulesetService(ds: DataSource, options: { cache?: Compiled
       );
       return rows[0]?.id ?? null;
     },
+
+    loadDocument,
 
     cacheStats: () => cache.stats(),
   };
