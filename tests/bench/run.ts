@@ -1,0 +1,49 @@
+// `npm run bench`: the engine bench (tests/bench/engine.ts, checks per second of the pure engine)
+// and then the API bench (tests/bench/api.ts, latency, throughput and responsiveness through HTTP).
+// Prints one summary and exits non-zero when any target is missed. Numbers depend on the machine
+// and on what else runs on it: see docs/decisions/0005-checks-in-worker-threads.md.
+import { runApiBench, TARGETS } from './api';
+
+interface Line {
+  name: string;
+  value: string;
+  target: string;
+  ok: boolean;
+}
+
+const lines: Line[] = [];
+let failed = false;
+
+try {
+  const { runEngineBench, MIN_CHECKS_PER_SECOND } = await import('./engine');
+  const engine = await runEngineBench({ log: true });
+  lines.push({ name: 'engine checks/s (40 requirements, 15 members)', value: engine.checksPerSecond.toFixed(0), target: `≥ ${MIN_CHECKS_PER_SECOND}`, ok: engine.checksPerSecond >= MIN_CHECKS_PER_SECOND });
+  lines.push({ name: 'engine vs plain functions', value: `${engine.ratio.toFixed(1)}× slower`, target: 'reported', ok: true });
+} catch (err) {
+  console.error('engine bench failed:', err instanceof Error ? err.message : err);
+  failed = true;
+}
+
+try {
+  const api = await runApiBench({ log: true });
+  lines.push({ name: 'dry run through the API, one client, p99', value: `${api.dryRun.p99Ms} ms (p50 ${api.dryRun.p50Ms} ms)`, target: `< ${TARGETS.dryRunP99Ms} ms`, ok: api.dryRun.p99Ms < TARGETS.dryRunP99Ms });
+  lines.push({ name: `checks/s through the API, ${api.load.connections} clients`, value: api.load.checksPerSecond.toFixed(0), target: 'reported', ok: api.load.non2xx === 0 && api.load.errors === 0 });
+  lines.push({ name: 'GET /api/health under that load, p99', value: `${api.health.p99Ms} ms (p50 ${api.health.p50Ms} ms)`, target: `< ${TARGETS.healthP99Ms} ms`, ok: api.health.p99Ms < TARGETS.healthP99Ms });
+  lines.push({ name: 'server event-loop delay under load, p99', value: `${api.serverEventLoopDelay.p99Ms.toFixed(1)} ms`, target: 'reported', ok: true });
+} catch (err) {
+  console.error('API bench failed:', err instanceof Error ? err.message : err);
+  failed = true;
+}
+
+const cores = (await import('node:os')).availableParallelism();
+const load = (await import('node:os')).loadavg()[0]!;
+console.log(`\nBench summary (${cores} cores, load average ${load.toFixed(1)} at the end)`);
+for (const l of lines) console.log(`  ${l.ok ? 'ok  ' : 'MISS'}  ${l.name}: ${l.value}  [target ${l.target}]`);
+if (load > cores) console.log(`  note: the load average is above the core count; other work on this machine inflates these numbers.`);
+const missed = lines.filter((l) => !l.ok).length;
+if (failed || missed > 0) {
+  console.log(`${missed} target(s) missed${failed ? ', and a bench did not complete' : ''}.`);
+  process.exitCode = 1;
+} else {
+  console.log('All targets met.');
+}
