@@ -12,13 +12,16 @@ import type { TestProject } from 'vitest/node';
 declare module 'vitest' {
   export interface ProvidedContext {
     e2eBaseUrl: string;
+    e2eSmtpPort: number;
   }
 }
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
-const databaseName = 'cagewright_e2e';
 const port = Number(process.env.E2E_PORT ?? 3999);
+// One database per port, so two runs on different ports never drop each other's data.
+const databaseName = process.env.E2E_DB_NAME ?? (port === 3999 ? 'cagewright_e2e' : `cagewright_e2e_${port}`);
 const baseUrl = `http://127.0.0.1:${port}`;
+const smtpPort = Number(process.env.E2E_SMTP_PORT ?? port + 1000);
 
 function pgScript(...args: string[]): string {
   return execFileSync('bash', [resolve(root, 'scripts/pg.sh'), ...args], {
@@ -122,6 +125,9 @@ export default async function setup(project: TestProject): Promise<() => Promise
     SESSION_SECRET: randomBytes(32).toString('base64url'),
     LOG_LEVEL: 'warn',
     UPLOAD_DIR: resolve(root, '.artifacts/e2e-uploads'),
+    // The server runs its fake SMTP server on a port of its own, so journeys can read the mail it sends.
+    FAKE_SMTP: 'true',
+    SMTP_URL: `smtp://127.0.0.1:${smtpPort}`,
   };
   runBackendScript('backend/src/db/migrate.ts', env);
   runBackendScript('backend/src/db/seed.ts', env);
@@ -163,5 +169,6 @@ export default async function setup(project: TestProject): Promise<() => Promise
     throw err;
   }
   project.provide('e2eBaseUrl', baseUrl);
+  project.provide('e2eSmtpPort', smtpPort);
   return teardown;
 }
