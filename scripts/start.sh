@@ -26,4 +26,9 @@ export PORT="${PORT:-3000}"
 # Invitation links are built from PUBLIC_URL; follow the port unless the caller says otherwise.
 export PUBLIC_URL="${PUBLIC_URL:-http://127.0.0.1:$PORT}"
 step "Serving Cagewright at http://127.0.0.1:$PORT (Ctrl-C stops it; the database keeps running)"
+# The server itself runs the fake SMTP server (FAKE_SMTP, on by default outside production).
+fake_smtp="${FAKE_SMTP:-$([ "${NODE_ENV:-development}" = production ] && echo false || echo true)}"
+if [ "$fake_smtp" = true ] || [ "$fake_smtp" = 1 ]; then
+  info "e-mail is caught by the local fake SMTP server on ${SMTP_URL:-smtp://127.0.0.1:2525}; admins read it under Mailbox"
+fi
 exec node --import tsx backend/src/server.ts

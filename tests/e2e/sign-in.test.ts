@@ -9,10 +9,12 @@ const baseUrl = inject('e2eBaseUrl');
 test.for<[DemoRole, string[]]>([
   ['builder', ['Overview', 'Garage', 'Account']],
   ['steward', ['Overview', 'Account']],
-  ['admin', ['Overview', 'Members', 'Account']],
+  ['admin', ['Overview', 'Members', 'Activity log', 'Mailbox', 'Account']],
 ])('signed in as the demo %s, the menu shows exactly %j', async ([role, expected], { browser }) => {
   const { page } = browser;
   await signIn(page, baseUrl, demoUsers[role]);
+  // The Mailbox entry appears once GET /api/meta has answered (the e2e server runs its fake SMTP).
+  if (expected.includes('Mailbox')) await page.getByRole('link', { name: 'Mailbox' }).waitFor();
   expect(new URL(page.url()).pathname).toBe('/');
   expect(await mainNavLabels(page)).toEqual(expected);
   await screenshot(page, `overview-${role}`);

@@ -50,3 +50,35 @@ describe('loadConfig', () => {
     expect([c.port, c.publicUrl, c.trustProxy]).toEqual([3000, 'https://cage.example', 1]);
   });
 });
+
+describe('mail settings', () => {
+  it('default to the local fake SMTP server outside production', () => {
+    for (const NODE_ENV of ['development', 'test']) {
+      expect(loadConfig({ NODE_ENV }, { secretFile: join(mkdtempSync(join(tmpdir(), 'cw-config-')), 's') })).toMatchObject({
+        smtpUrl: 'smtp://127.0.0.1:2525',
+        mailFrom: 'Cagewright <no-reply@cagewright.example>',
+        fakeSmtp: true,
+      });
+    }
+  });
+
+  it('in production: no fake, and without SMTP_URL mail waits in the outbox', () => {
+    const c = loadConfig({ NODE_ENV: 'production', SESSION_SECRET: 's'.repeat(40) });
+    expect([c.fakeSmtp, c.smtpUrl]).toEqual([false, null]);
+    const relay = loadConfig({ NODE_ENV: 'production', SESSION_SECRET: 's'.repeat(40), SMTP_URL: 'smtps://relay.example:465' });
+    expect(relay.smtpUrl).toBe('smtps://relay.example:465');
+  });
+
+  it('names bad mail variables, and refuses a fake SMTP server off loopback', () => {
+    expect(() => loadConfig({ NODE_ENV: 'test', SMTP_URL: 'http://x', MAIL_FROM: 'nobody', FAKE_SMTP: 'maybe' })).toThrow(
+      new ConfigError(
+        'Invalid configuration:\n' +
+          '  SMTP_URL: must be an smtp:// or smtps:// URL\n' +
+          '  MAIL_FROM: must be an address, e.g. Name <no-reply@example.org>\n' +
+          '  FAKE_SMTP: must be true or false',
+      ),
+    );
+    expect(() => loadConfig({ NODE_ENV: 'test', SMTP_URL: 'smtp://relay.example:25' })).toThrow(/with FAKE_SMTP on it must be smtp:\/\/127.0.0.1:<port>/);
+    expect(loadConfig({ NODE_ENV: 'test', SMTP_URL: 'smtp://relay.example:25', FAKE_SMTP: 'false' }).smtpUrl).toBe('smtp://relay.example:25');
+  });
+});
