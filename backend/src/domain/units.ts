@@ -169,8 +169,11 @@ function defaultDecimals(unit: string, raw: number): number {
 }
 
 export function roundTo(value: number, decimals: number): number {
+  // Scale, then drop binary noise below 12 significant digits before rounding, so a value that is
+  // exactly on a half in decimal (1.75 in = 44.45 mm, stored as 44.449999…) rounds the way a person expects.
   const f = 10 ** decimals;
-  return Math.round((value + Number.EPSILON * Math.sign(value)) * f) / f;
+  const scaled = Number((value * f).toPrecision(12));
+  return (Math.sign(scaled) * Math.round(Math.abs(scaled))) / f;
 }
 
 export type ParseResult = { ok: true; valueCanonical: number } | { ok: false; message: string };
