@@ -90,7 +90,7 @@ describe('buildReportDocument', () => {
   it('writes numbers in the reader’s units and nothing Noto Sans cannot draw', async () => {
     const metric = textsOf(buildReportDocument(await sampleReportInput('metric', 0)).content).join('\n');
     expect(metric).toContain('44.5 × 2.41 mm');
-    expect(metric).toContain('outside diameter: 44.4 mm');
+    expect(metric).toContain('outside diameter: 44.5 mm');
     // Reasons and explanations are the engine's and the rulebook's own words; the values we format are not in inches.
     expect(metric).not.toMatch(/(outside diameter|wall thickness): [\d.]+ in\b/);
     const imperial = textsOf(buildReportDocument(await sampleReportInput('imperial', 0)).content).join('\n');
