@@ -6,6 +6,9 @@ import type {
   RevisionSummaryWire, RevisionWire, UpdateCarBody,
 } from '@contracts/garage';
 import type { Specification } from '@contracts/specification';
+import type { CheckRunWire as SavedCheckRun } from '@contracts/checks';
+
+export type { SavedCheckRun };
 
 export type {
   BuildSheetDetailWire as BuildSheetDetail, BuildSheetWire as BuildSheet, CarWire as Car, SheetCheckRunWire as CheckRun,
@@ -38,7 +41,7 @@ export async function archiveCar(carId: string): Promise<CarWire> {
 }
 
 export async function restoreCar(carId: string): Promise<CarWire> {
-  return (await http.post<{ car: CarWire }>(`${carPath(carId)}/restore`)).car;
+  return (await http.post<{ car: CarWire }>(`${carPath(carId)}/unarchive`)).car;
 }
 
 export interface NewSheet {
@@ -69,7 +72,7 @@ export interface SaveRevision {
 
 /** Saves a new revision on top of `baseRevision`; a stale base gives `409 conflict` `{ currentRevision }`. */
 export function saveRevision(sheetId: string, body: SaveRevision): Promise<BuildSheetDetailWire> {
-  return http.post<BuildSheetDetailWire>(`${sheetPath(sheetId)}/revisions`, body);
+  return http.put<BuildSheetDetailWire>(`${sheetPath(sheetId)}/specification`, body);
 }
 
 export async function listRevisions(sheetId: string): Promise<RevisionSummaryWire[]> {
@@ -81,7 +84,7 @@ export async function getRevision(sheetId: string, number: number): Promise<Revi
 }
 
 export function diffRevisions(sheetId: string, from: number, to: number): Promise<RevisionDiffWire> {
-  return http.get<RevisionDiffWire>(`${sheetPath(sheetId)}/diff/${from}/${to}`);
+  return http.get<RevisionDiffWire>(`${sheetPath(sheetId)}/revisions/${from}/diff/${to}`);
 }
 
 /** Runs the check on the sheet's current revision and keeps it as an immutable check run. */
@@ -93,8 +96,9 @@ export async function listCheckRuns(sheetId: string): Promise<CheckRunSummaryWir
   return (await http.get<{ checkRuns: CheckRunSummaryWire[] }>(`${sheetPath(sheetId)}/check-runs`)).checkRuns;
 }
 
-export async function getCheckRun(checkRunId: string): Promise<CheckRunWire> {
-  return (await http.get<{ checkRun: CheckRunWire }>(`/check-runs/${id(checkRunId)}`)).checkRun;
+/** A kept run as the checks API gives it (the sheet it came from is not part of that answer). */
+export async function getCheckRun(checkRunId: string): Promise<SavedCheckRun> {
+  return (await http.get<{ checkRun: SavedCheckRun }>(`/check-runs/${id(checkRunId)}`)).checkRun;
 }
 
 export const checkRunPdfUrl = (checkRunId: string) => `/api/check-runs/${id(checkRunId)}/report.pdf`;

@@ -11,7 +11,7 @@ const sheetPhotos = (sheetId: string) => `/build-sheets/${encodeURIComponent(she
 const photoPath = (photoId: string) => `/photos/${encodeURIComponent(photoId)}`;
 
 /** The multipart field the server reads the file from. */
-export const PHOTO_FIELD = 'photo';
+export const PHOTO_FIELD = 'photos';
 
 export async function listPhotos(sheetId: string): Promise<PhotoWire[]> {
   return (await http.get<{ photos: PhotoWire[] }>(sheetPhotos(sheetId))).photos;
@@ -65,9 +65,10 @@ export function uploadPhoto(
       new Promise<PhotoWire>((resolve, reject) => {
         const form = new FormData();
         form.append(PHOTO_FIELD, file, file.name);
-        form.append('caption', meta.caption);
-        form.append('memberId', meta.memberId ?? '');
-        form.append('area', meta.area ?? '');
+        // The server takes several files with one caption/member/area each, in file order; one file here.
+        form.append('captions', meta.caption);
+        form.append('memberIds', meta.memberId ?? '');
+        form.append('areas', meta.area ?? '');
         xhr.open('POST', `/api${sheetPhotos(sheetId)}`);
         xhr.setRequestHeader('X-CSRF-Token', csrf);
         xhr.setRequestHeader('Accept', 'application/json');

@@ -3,8 +3,9 @@
 // with the server's own schema, so the messages and paths (`members.0.wallMm`) match what the API says.
 import { specificationSchema, issuesToProblems } from '@contracts/specification';
 import type { FieldProblem, Specification, SpecMember, SpecPlate } from '@contracts/specification';
-import { formatQuantity } from '@domain/index';
-import type { MemberKind, UnitSystem } from '@domain/index';
+import { formatQuantity } from '@domain/units';
+import type { UnitSystem } from '@domain/units';
+import type { MemberKind } from '@domain/vocabulary';
 
 export type MemberDraft = Omit<SpecMember, 'odMm' | 'wallMm'> & { odMm?: number; wallMm?: number };
 export type PlateDraft = SpecPlate;

@@ -2,8 +2,8 @@
 // (mm, kg, degrees inside), how typed text becomes a canonical value again, and the composable an input
 // uses so that re-formatting never fights the person typing.
 import { ref, watch, type Ref } from 'vue';
-import { DEFAULT_UNIT, UNITS, formatQuantity, parseQuantity, roundTo } from '@domain/index';
-import type { Dimension, UnitSystem } from '@domain/index';
+import { DEFAULT_UNIT, UNITS, formatQuantity, parseQuantity, roundTo } from '@domain/units';
+import type { Dimension, UnitSystem } from '@domain/units';
 
 /** Extra decimals an input may show so a stored value survives being shown (45 mm = 1.7717 in). */
 const MAX_INPUT_DECIMALS: Record<string, number> = { in: 4, mm: 3, kg: 1, lb: 0, deg: 1, ratio: 3, count: 0, cm2: 2 };

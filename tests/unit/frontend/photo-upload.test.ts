@@ -105,9 +105,9 @@ describe('sending', () => {
     expect(first.url).toBe('/api/build-sheets/sheet-1/photos');
     expect(first.headers['x-csrf-token']).toBe('csrf-photo');
     expect((first.body.get(PHOTO_FIELD) as File).name).toBe('foot.jpg');
-    expect(first.body.get('caption')).toBe('Left foot');
-    expect(first.body.get('memberId')).toBe('mh');
-    expect(first.body.get('area')).toBe('members');
+    expect(first.body.get('captions')).toBe('Left foot');
+    expect(first.body.get('memberIds')).toBe('mh');
+    expect(first.body.get('areas')).toBe('members');
     expect(busy.value).toBe(true);
 
     first.xhr.progress(1000, 4000);

@@ -48,7 +48,7 @@ async function clickButton(label: string) {
   button.click();
   await settle();
 }
-const posts = () => mock.calls.filter((c) => c.method === 'POST' && c.path === `${sheetPath}/revisions`);
+const posts = () => mock.calls.filter((c) => c.method === 'PUT' && c.path === `${sheetPath}/specification`);
 
 test('the saved specification shows in the builder units, the unit beside each input', async () => {
   await openSheet();
@@ -60,7 +60,7 @@ test('the saved specification shows in the builder units, the unit beside each i
 
 describe('saving', () => {
   test('sends the revision it started from, the class and the canonical specification', async () => {
-    mock.on('POST', `${sheetPath}/revisions`, json(200, sheetDetail(4, 0.095)));
+    mock.on('PUT', `${sheetPath}/specification`, json(200, sheetDetail(4, 0.095)));
     await openSheet();
     await type(wallInput(), '0.095');
     await clickButton('Save');
@@ -77,8 +77,8 @@ describe('saving', () => {
 
   test('a stale revision (409) keeps the typed input, explains, and "keep mine" saves over the newer one', async () => {
     mock.on(
-      'POST',
-      `${sheetPath}/revisions`,
+      'PUT',
+      `${sheetPath}/specification`,
       apiError(409, 'conflict', 'The sheet was saved meanwhile.', { currentRevision: 5 }),
       json(200, sheetDetail(6, 0.095)),
     );
@@ -99,8 +99,8 @@ describe('saving', () => {
 
   test("the API's field errors appear at their inputs (paths under specification.)", async () => {
     mock.on(
-      'POST',
-      `${sheetPath}/revisions`,
+      'PUT',
+      `${sheetPath}/specification`,
       apiError(400, 'validation_failed', 'Some fields are invalid.', [{ path: 'specification.members.0.wallMm', message: 'Must be less than half the OD' }]),
     );
     await openSheet();

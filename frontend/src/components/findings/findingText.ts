@@ -1,7 +1,10 @@
 // Words for findings: verdicts with their icon, areas in the trade's terms, and measured and required
 // values in the builder's units (the report carries canonical values with their dimension).
-import { formatQuantity, MEMBER_KIND_LABELS } from '@domain/index';
-import type { MemberKind, UnitSystem } from '@domain/index';
+// Direct module imports (not the domain's index) keep the rules engine out of the pages that only show results.
+import { formatQuantity } from '@domain/units';
+import type { UnitSystem } from '@domain/units';
+import { MEMBER_KIND_LABELS } from '@domain/vocabulary';
+import type { MemberKind } from '@domain/vocabulary';
 import type { CheckReport, Finding, MeasuredValue, RequiredValue } from '@contracts/report';
 import type { RequirementArea } from '@contracts/ruleset';
 import { valueLabel } from '@/components/sheet/sheetLabels';

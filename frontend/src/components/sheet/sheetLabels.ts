@@ -2,7 +2,7 @@
 import {
   CHASSIS_TYPES, COCKPIT_TYPES, FUELS, MATERIALS, MEMBER_KINDS, MEMBER_KIND_LABELS, PADDING_STANDARDS, PLATE_FIXINGS,
   PLATE_LOCATIONS, PROCESSES, WALL_METHODS, WELDING_PROCESSES,
-} from '@domain/index';
+} from '@domain/vocabulary';
 
 const WORDS: Record<string, string> = {
   mild_steel: 'Mild steel',
