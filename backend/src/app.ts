@@ -28,6 +28,8 @@ import { createJobsRouter } from './routes/jobs.routes';
 import { createMailboxRouter } from './routes/mailbox.routes';
 import { createMetaRouter } from './routes/meta.routes';
 import { createRulebooksRouter } from './routes/rulebooks.routes';
+import { createRulebookAdminRouter } from './routes/rulebook-admin.routes';
+import type { RepublishQueue } from './services/rulebook-admin.service';
 import { createServices, type Services } from './services';
 
 export interface CreateAppOptions {
@@ -42,6 +44,8 @@ export interface CreateAppOptions {
   pruneSessions?: boolean;
   /** Folder of the production front-end build; null turns static serving off. */
   frontendDist?: string | null;
+  /** Where a publish sends its re-check job (pg-boss in server.ts); without it publishing queues nothing. */
+  republishQueue?: RepublishQueue | null;
 }
 
 export const jsonBodyLimit = '100kb';
@@ -130,6 +134,7 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(createInvitationsRouter({ services }));
   api.use(createMembersRouter({ services }));
   api.use(createRulebooksRouter({ services }));
+  api.use(createRulebookAdminRouter({ services, republishQueue: options.republishQueue ?? null }));
   api.use(createChecksRouter({ services }));
   api.use(createCarsRouter({ services }));
   api.use(createBuildSheetsRouter({ services }));

@@ -13,6 +13,8 @@ import { startFakeSmtp, type FakeSmtp } from './dev/fake-smtp';
 import { createLogger, errorFields, type Logger } from './logger';
 import { createMailboxService, createSmtpTransport, startOutboxDispatcher, type OutboxDispatcher } from './services/mail';
 import { createJobs } from './services/jobs';
+import { createServices } from './services';
+import { registerRepublishWorker } from './services/publish/republish-job';
 
 function readConfig(): Config {
   try {
@@ -78,7 +80,10 @@ try {
   process.exit(1);
 }
 
-const app = createApp({ dataSource, config, logger });
+// One set of services for the app and the publish job, so both share the compiled-ruleset cache.
+const services = createServices(dataSource, { publicUrl: config.publicUrl, uploadDir: config.uploadDir });
+await registerRepublishWorker(jobs, { ds: dataSource, rulesets: services.rulesets, mail: services.mail, audit: services.audit, publicUrl: config.publicUrl });
+const app = createApp({ dataSource, config, logger, services, republishQueue: jobs });
 const server = createServer(app);
 server.keepAliveTimeout = 5000;
 server.on('error', (err) => {

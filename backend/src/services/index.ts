@@ -12,6 +12,7 @@ import { createGarageService, type GarageService } from './garage.service';
 import { createPhotoService, type PhotoService } from './photos.service';
 import { LocalDiskPhotoStorage, type PhotoStorage } from './photos/photo-storage';
 import { createReportService, type ReportService } from './reports.service';
+import { createRulebookAdminService, type RulebookAdminService } from './rulebook-admin.service';
 
 export interface Services {
   accounts: AccountService;
@@ -26,6 +27,7 @@ export interface Services {
   buildSheets: BuildSheetService;
   photos: PhotoService;
   reports: ReportService;
+  rulebookAdmin: RulebookAdminService;
 }
 
 export function createServices(
@@ -52,5 +54,6 @@ export function createServices(
     buildSheets,
     photos,
     reports: createReportService(ds, { checks, sheets: buildSheets, photos }),
+    rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit }),
   };
 }

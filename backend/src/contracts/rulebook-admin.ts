@@ -1,0 +1,71 @@
+// Wire contracts of rulebook administration (docs/api.md, "Rulebook administration"): drafts,
+// autosave with lock versions, compare, impact, publish, retire, import and export.
+import { z } from 'zod';
+import type { DocumentProblem } from './ruleset';
+import { uuidSchema } from './common';
+
+export const rulebookParamsSchema = z.object({ rulebookId: uuidSchema });
+export const draftParamsSchema = z.object({ versionId: uuidSchema });
+export const compareParamsSchema = z.object({ versionId: uuidSchema, otherId: uuidSchema });
+
+const lockVersionSchema = z.number('Must be a number').int('Must be a whole number').min(1, 'Must be at least 1');
+const dateSchema = z.string('Must be a date').regex(/^\d{4}-\d{2}-\d{2}$/, 'Must be a date written YYYY-MM-DD');
+
+/** An autosave: the whole document (drafts may be incomplete) and the lock version it was based on. */
+export const saveDraftBodySchema = z.object({
+  lockVersion: lockVersionSchema,
+  // Shape is checked by validateRulesetDocument and reported as problems; a draft may be unfinished.
+  document: z.record(z.string(), z.unknown(), 'Must be a JSON object'),
+});
+export type SaveDraftBody = z.infer<typeof saveDraftBodySchema>;
+
+/** An import: the file's text as it was read, so bad JSON can be named precisely. */
+export const importDraftBodySchema = z.object({
+  lockVersion: lockVersionSchema,
+  text: z.string('Must be the file text').min(1, 'The file is empty').max(90_000, 'The file is larger than 90 kB'),
+});
+export type ImportDraftBody = z.infer<typeof importDraftBodySchema>;
+
+export const publishBodySchema = z.object({ lockVersion: lockVersionSchema, effectiveDate: dateSchema });
+export type PublishBody = z.infer<typeof publishBodySchema>;
+
+export type Verdict = 'pass' | 'fail' | 'needs_information';
+
+export interface SavedDraftWire {
+  lockVersion: number;
+  updatedAt: string;
+  /** What still stops publishing (empty: publishable). */
+  problems: DocumentProblem[];
+}
+
+export interface DraftConflictDetails {
+  currentLockVersion: number;
+  currentDocument: unknown;
+  currentUpdatedAt: string;
+}
+
+export interface ImpactSheetWire {
+  buildSheetId: string;
+  sheetName: string;
+  carName: string;
+  builder: { id: string; displayName: string };
+  classId: string;
+  before: Verdict | null;
+  after: Verdict;
+}
+
+export interface ImpactWire {
+  versionId: string;
+  /** Classes the changes touch; sheets of other classes are not re-checked. */
+  classIds: string[];
+  checked: number;
+  counts: { passToFail: number; failToPass: number; unchanged: number; needsInformationChanged: number; otherChanged: number };
+  /** Sheets whose verdict changes (unchanged ones are only counted). */
+  changed: ImpactSheetWire[];
+}
+
+export interface PublishedWire {
+  versionId: string;
+  jobId: string | null;
+  classIds: string[];
+}

@@ -1,0 +1,111 @@
+// Rulebook administration for club admins (docs/api.md, "Rulebook administration"). Every route
+// needs the admin role in the club that owns the rulebook: strangers get 404, other roles 403.
+// The service checks the club through the version or rulebook id; the guard only demands a session.
+import { Router } from 'express';
+import {
+  compareParamsSchema,
+  draftParamsSchema,
+  importDraftBodySchema,
+  publishBodySchema,
+  rulebookParamsSchema,
+  saveDraftBodySchema,
+} from '../contracts/rulebook-admin';
+import { requireSignedIn, signedInUserId } from '../middleware/guards';
+import type { Services } from '../services';
+import type { RepublishQueue } from '../services/rulebook-admin.service';
+import { mountRoutes, route } from './route-table';
+
+export function createRulebookAdminRouter({ services, republishQueue }: { services: Services; republishQueue: RepublishQueue | null }): Router {
+  const admin = services.rulebookAdmin;
+  return mountRoutes(Router(), [
+    route({
+      method: 'post',
+      path: '/rulebooks/:rulebookId/drafts',
+      guards: [requireSignedIn],
+      params: rulebookParamsSchema,
+      handler: async ({ req, res, params }) => {
+        res.status(201).json({ version: await admin.createDraft(params.rulebookId, signedInUserId(req)) });
+      },
+    }),
+    route({
+      method: 'put',
+      path: '/ruleset-drafts/:versionId',
+      guards: [requireSignedIn],
+      params: draftParamsSchema,
+      body: saveDraftBodySchema,
+      handler: async ({ req, res, params, body }) => {
+        res.json({ draft: await admin.saveDraft(params.versionId, signedInUserId(req), body) });
+      },
+    }),
+    route({
+      method: 'post',
+      path: '/ruleset-drafts/:versionId/import',
+      guards: [requireSignedIn],
+      params: draftParamsSchema,
+      body: importDraftBodySchema,
+      handler: async ({ req, res, params, body }) => {
+        res.json({ draft: await admin.importDraft(params.versionId, signedInUserId(req), body) });
+      },
+    }),
+    route({
+      method: 'delete',
+      path: '/ruleset-drafts/:versionId',
+      guards: [requireSignedIn],
+      params: draftParamsSchema,
+      handler: async ({ req, res, params }) => {
+        await admin.deleteDraft(params.versionId, signedInUserId(req));
+        res.status(204).end();
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/ruleset-drafts/:versionId/impact',
+      guards: [requireSignedIn],
+      params: draftParamsSchema,
+      handler: async ({ req, res, params }) => {
+        res.json({ impact: await admin.impact(params.versionId, signedInUserId(req)) });
+      },
+    }),
+    route({
+      method: 'post',
+      path: '/ruleset-drafts/:versionId/publish',
+      guards: [requireSignedIn],
+      params: draftParamsSchema,
+      body: publishBodySchema,
+      handler: async ({ req, res, params, body }) => {
+        res.status(202).json({ published: await admin.publish(params.versionId, signedInUserId(req), body, republishQueue) });
+      },
+    }),
+    route({
+      method: 'post',
+      path: '/ruleset-versions/:versionId/retire',
+      guards: [requireSignedIn],
+      params: draftParamsSchema,
+      handler: async ({ req, res, params }) => {
+        res.json({ version: await admin.retire(params.versionId, signedInUserId(req)) });
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/ruleset-versions/:versionId/compare/:otherId',
+      guards: [requireSignedIn],
+      params: compareParamsSchema,
+      handler: async ({ req, res, params }) => {
+        res.json(await admin.compare(params.versionId, params.otherId, signedInUserId(req)));
+      },
+    }),
+    route({
+      method: 'get',
+      path: '/ruleset-versions/:versionId/export',
+      guards: [requireSignedIn],
+      params: draftParamsSchema,
+      handler: async ({ req, res, params }) => {
+        const file = await admin.exportVersion(params.versionId, signedInUserId(req));
+        res.set('Content-Type', 'application/json; charset=utf-8');
+        res.set('Content-Disposition', `attachment; filename="${file.fileName}"`);
+        res.set('Cache-Control', 'no-store');
+        res.send(file.json);
+      },
+    }),
+  ]);
+}

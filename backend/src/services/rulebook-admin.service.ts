@@ -1,0 +1,323 @@
+// Rulebook administration for a club's admins: start a draft from the latest edition, autosave it
+// (lock versions: a stale save is refused with both versions kept), import and export documents,
+// compare two versions in words, run a draft against the club's build sheets (impact), publish
+// (then a background job re-checks and tells builders: services/publish/) and retire. The life-cycle
+// rules are the pure domain's (domain/rulebook/lifecycle.ts); the database trigger backs them up.
+// Every change is written with its activity-log entry in one transaction.
+import type { DataSource, EntityManager } from 'typeorm';
+import type { DocumentProblem, RulesetDocument } from '../contracts/ruleset';
+import type {
+  DraftConflictDetails,
+  ImpactSheetWire,
+  ImpactWire,
+  ImportDraftBody,
+  PublishBody,
+  PublishedWire,
+  SaveDraftBody,
+  SavedDraftWire,
+} from '../contracts/rulebook-admin';
+import type { RulesetVersionWire } from '../contracts/checks';
+import { validateRulesetDocument } from '../domain/rules/validate';
+import { describeRulesetChanges, type RulesetChange } from '../domain/rulebook/diff';
+import { startDraftFrom, transitionVersion, type RulebookVersion } from '../domain/rulebook/lifecycle';
+import type { ClubRole, RulesetStatus } from '../entities';
+import { AppError, ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors';
+import type { AuditService } from './audit.service';
+import type { RulesetService } from './rulesets.service';
+import { affectedClassIds, recheckSheets } from './publish/recheck';
+
+/** Sends the re-check job after a publish; server.ts passes pg-boss, tests may pass their own. */
+export interface RepublishQueue {
+  send(queue: string, data: RepublishJobData, options: { clubId: string; requestedBy: string }): Promise<string>;
+}
+
+export const republishQueueName = 'ruleset.republish';
+
+export interface RepublishJobData {
+  versionId: string;
+  previousVersionId: string | null;
+  classIds: string[];
+}
+
+interface VersionRow {
+  id: string;
+  rulebookId: string;
+  versionNumber: number;
+  status: RulesetStatus;
+  edition: string;
+  effectiveDate: string;
+  document: unknown;
+  publishedAt: Date | null;
+  lockVersion: number;
+  updatedAt: Date;
+  clubId: string;
+}
+
+const versionColumns = `v.id, v.rulebook_id AS "rulebookId", v.version_number AS "versionNumber", v.status, v.edition,
+  to_char(v.effective_date, 'YYYY-MM-DD') AS "effectiveDate", v.document, v.published_at AS "publishedAt",
+  v.lock_version AS "lockVersion", v.updated_at AS "updatedAt", r.club_id AS "clubId"`;
+
+function asLifecycle(v: VersionRow): RulebookVersion {
+  return {
+    id: v.id,
+    rulebookId: v.rulebookId,
+    versionNumber: v.versionNumber,
+    state: v.status,
+    edition: v.edition,
+    // A draft's stored date is a placeholder (the column is NOT NULL); publishing always names one.
+    effectiveDate: v.status === 'draft' ? null : v.effectiveDate,
+    document: v.document,
+    publishedAt: v.publishedAt ? v.publishedAt.toISOString() : null,
+  };
+}
+
+function editionOf(document: unknown, fallback: string): string {
+  const rb = (document as { rulebook?: { edition?: unknown } } | null)?.rulebook;
+  return typeof rb?.edition === 'string' && rb.edition.trim() !== '' ? rb.edition.trim().slice(0, 200) : fallback;
+}
+
+function problemsOf(document: unknown): DocumentProblem[] {
+  const v = validateRulesetDocument(document);
+  return v.ok ? [] : v.problems;
+}
+
+/** A document's problems as a 400, each with its JSON path (`requirements.3.section`). */
+function documentInvalid(problems: DocumentProblem[], prefix = ''): ValidationError {
+  return new ValidationError(problems.map((p) => ({ path: p.path ? `${prefix}${p.path}` : prefix.replace(/\.$/, '') || '(document)', message: p.message })));
+}
+
+function refusal(code: string, message: string, problems?: DocumentProblem[]): AppError {
+  if (code === 'invalid_document' && problems) return new ConflictError(message, { problems });
+  return new ConflictError(message);
+}
+
+export type RulebookAdminService = ReturnType<typeof createRulebookAdminService>;
+
+export function createRulebookAdminService(ds: DataSource, deps: { rulesets: RulesetService; audit: AuditService }) {
+  const { rulesets, audit } = deps;
+
+  async function rolesIn(em: EntityManager, clubId: string, userId: string): Promise<ClubRole[] | null> {
+    const rows: { roles: ClubRole[] }[] = await em.query(`SELECT roles FROM memberships WHERE club_id = $1 AND user_id = $2`, [clubId, userId]);
+    return rows[0]?.roles ?? null;
+  }
+
+  /** The version (locked for update inside a transaction when asked); 404 for strangers, 403 for non-admins. */
+  async function adminVersion(em: EntityManager, versionId: string, userId: string, lock = false): Promise<VersionRow> {
+    const rows: VersionRow[] = await em.query(
+      `SELECT ${versionColumns} FROM ruleset_versions v JOIN rulebooks r ON r.id = v.rulebook_id WHERE v.id = $1 ${lock ? 'FOR UPDATE OF v' : ''}`,
+      [versionId],
+    );
+    const row = rows[0];
+    const roles = row ? await rolesIn(em, row.clubId, userId) : null;
+    if (!row || !roles || roles.length === 0 || (row.status === 'draft' && !roles.includes('admin'))) {
+      throw new NotFoundError('Ruleset version not found.');
+    }
+    if (!roles.includes('admin')) throw new ForbiddenError('Only the club’s admins keep its rulebooks.');
+    return row;
+  }
+
+  async function siblingsOf(em: EntityManager, rulebookId: string): Promise<VersionRow[]> {
+    return em.query(`SELECT ${versionColumns} FROM ruleset_versions v JOIN rulebooks r ON r.id = v.rulebook_id WHERE v.rulebook_id = $1 ORDER BY v.version_number`, [rulebookId]);
+  }
+
+  function draftOnly(v: VersionRow): void {
+    if (v.status !== 'draft') {
+      throw new ConflictError(`Version ${v.versionNumber} is ${v.status}: its content can never change. Start a new draft instead.`);
+    }
+  }
+
+  function conflict(v: VersionRow): ConflictError {
+    const details: DraftConflictDetails = { currentLockVersion: v.lockVersion, currentDocument: v.document, currentUpdatedAt: v.updatedAt.toISOString() };
+    return new ConflictError('Someone else saved this draft since you opened it. Both versions are kept: choose which to keep.', details as unknown as Record<string, unknown>);
+  }
+
+  async function writeDraft(tx: EntityManager, v: VersionRow, document: unknown, userId: string, action: string, details: Record<string, unknown>): Promise<SavedDraftWire> {
+    // TypeORM's postgres driver answers an UPDATE … RETURNING with [rows, affectedCount].
+    const [rows]: [{ lockVersion: number; updatedAt: Date }[], number] = await tx.query(
+      `UPDATE ruleset_versions SET document = $2::jsonb, edition = $3, lock_version = lock_version + 1, updated_at = now()
+       WHERE id = $1 AND status = 'draft' RETURNING lock_version AS "lockVersion", updated_at AS "updatedAt"`,
+      [v.id, JSON.stringify(document), editionOf(document, v.edition)],
+    );
+    const saved = rows[0];
+    if (!saved) throw new ConflictError('This draft is no longer a draft.');
+    await audit.record({ clubId: v.clubId, actorId: userId, action, entity: { type: 'ruleset_version', id: v.id }, details: { versionNumber: v.versionNumber, lockVersion: saved.lockVersion, ...details } }, { manager: tx });
+    return { lockVersion: saved.lockVersion, updatedAt: saved.updatedAt.toISOString(), problems: problemsOf(document) };
+  }
+
+  /** Both documents, validated, oldest first. */
+  function validDocument(v: VersionRow): RulesetDocument {
+    const validation = validateRulesetDocument(v.document);
+    if (!validation.ok) {
+      throw new ConflictError(`Version ${v.versionNumber} has problems to fix before it can be compared or tried out.`, { problems: validation.problems });
+    }
+    return validation.document;
+  }
+
+  /** The version a draft is measured against: the current published one, else the newest non-draft. */
+  function baselineOf(siblings: VersionRow[], except: string): VersionRow | undefined {
+    const others = siblings.filter((s) => s.id !== except && s.status !== 'draft');
+    return others.find((s) => s.status === 'published') ?? others.sort((a, b) => b.versionNumber - a.versionNumber)[0];
+  }
+
+  function classesConcerned(changes: RulesetChange[], doc: RulesetDocument): string[] {
+    return affectedClassIds(changes, doc.classes.map((c) => c.id));
+  }
+
+  return {
+    /** A new draft copied from the rulebook's newest version (one open draft per rulebook). */
+    async createDraft(rulebookId: string, userId: string): Promise<RulesetVersionWire> {
+      const id = await ds.transaction(async (tx) => {
+        const books: { clubId: string }[] = await tx.query(`SELECT club_id AS "clubId" FROM rulebooks WHERE id = $1 FOR UPDATE`, [rulebookId]);
+        const book = books[0];
+        const roles = book ? await rolesIn(tx, book.clubId, userId) : null;
+        if (!book || !roles || roles.length === 0) throw new NotFoundError('Rulebook not found.');
+        if (!roles.includes('admin')) throw new ForbiddenError('Only the club’s admins keep its rulebooks.');
+        const siblings = await siblingsOf(tx, rulebookId);
+        const latest = [...siblings].filter((s) => s.status !== 'draft').sort((a, b) => b.versionNumber - a.versionNumber)[0] ?? siblings[siblings.length - 1];
+        if (!latest) throw new ConflictError('This rulebook has no version to start from; import a document into a new rulebook instead.');
+        const draft = startDraftFrom(asLifecycle(latest), siblings.map(asLifecycle));
+        if ('ok' in draft) throw new ConflictError(draft.message);
+        const rows: { id: string }[] = await tx.query(
+          `INSERT INTO ruleset_versions (rulebook_id, version_number, status, edition, effective_date, document, created_by)
+           VALUES ($1, $2, 'draft', $3, $4, $5::jsonb, $6) RETURNING id`,
+          [rulebookId, draft.versionNumber, draft.edition, latest.effectiveDate, JSON.stringify(draft.document), userId],
+        );
+        const newId = rows[0]!.id;
+        await audit.record({ clubId: book.clubId, actorId: userId, action: 'ruleset.draft_started', entity: { type: 'ruleset_version', id: newId }, details: { rulebookId, versionNumber: draft.versionNumber, copiedFrom: latest.versionNumber, edition: draft.edition } }, { manager: tx });
+        return newId;
+      });
+      return rulesets.getVersion(id, userId);
+    },
+
+    /** Autosave: refused with 409 (the server's document in details) when `lockVersion` is stale. */
+    async saveDraft(versionId: string, userId: string, body: SaveDraftBody): Promise<SavedDraftWire> {
+      return ds.transaction(async (tx) => {
+        const v = await adminVersion(tx, versionId, userId, true);
+        draftOnly(v);
+        if (v.lockVersion !== body.lockVersion) throw conflict(v);
+        return writeDraft(tx, v, body.document, userId, 'ruleset.draft_saved', {});
+      });
+    },
+
+    /** Replaces a draft's document with an imported file; bad JSON or a bad document changes nothing. */
+    async importDraft(versionId: string, userId: string, body: ImportDraftBody): Promise<SavedDraftWire> {
+      let parsed: unknown;
+      try {
+        parsed = JSON.parse(body.text);
+      } catch (err) {
+        throw new ValidationError([{ path: 'text', message: `The file is not valid JSON: ${(err as Error).message}` }]);
+      }
+      const validation = validateRulesetDocument(parsed);
+      if (!validation.ok) throw documentInvalid(validation.problems, 'document.');
+      return ds.transaction(async (tx) => {
+        const v = await adminVersion(tx, versionId, userId, true);
+        draftOnly(v);
+        if (v.lockVersion !== body.lockVersion) throw conflict(v);
+        return writeDraft(tx, v, validation.document, userId, 'ruleset.imported', { requirementCount: validation.document.requirements.length });
+      });
+    },
+
+    async deleteDraft(versionId: string, userId: string): Promise<void> {
+      await ds.transaction(async (tx) => {
+        const v = await adminVersion(tx, versionId, userId, true);
+        const done = transitionVersion(asLifecycle(v), { type: 'delete' }, { siblings: [], now: new Date().toISOString() });
+        if (!done.ok) throw refusal(done.code, done.message);
+        await tx.query(`DELETE FROM ruleset_versions WHERE id = $1 AND status = 'draft'`, [v.id]);
+        await audit.record({ clubId: v.clubId, actorId: userId, action: 'ruleset.draft_deleted', entity: { type: 'ruleset_version', id: v.id }, details: { versionNumber: v.versionNumber, edition: v.edition } }, { manager: tx });
+      });
+    },
+
+    /** What changed from `otherId` to `versionId` (older first, whichever order they are given in). */
+    async compare(versionId: string, otherId: string, userId: string): Promise<{ from: number; to: number; changes: RulesetChange[] }> {
+      const [a, b] = await Promise.all([adminVersion(ds.manager, versionId, userId), adminVersion(ds.manager, otherId, userId)]);
+      if (a.rulebookId !== b.rulebookId) throw new NotFoundError('Ruleset version not found.');
+      const [older, newer] = a.versionNumber <= b.versionNumber ? [a, b] : [b, a];
+      return { from: older.versionNumber, to: newer.versionNumber, changes: describeRulesetChanges(validDocument(older), validDocument(newer)) };
+    },
+
+    /** The draft against every active build sheet of the classes its changes concern; nothing stored. */
+    async impact(versionId: string, userId: string): Promise<ImpactWire> {
+      const v = await adminVersion(ds.manager, versionId, userId);
+      draftOnly(v);
+      const doc = validDocument(v);
+      const baseline = baselineOf(await siblingsOf(ds.manager, v.rulebookId), v.id);
+      const classIds = baseline ? classesConcerned(describeRulesetChanges(validDocument(baseline), doc), doc) : doc.classes.map((c) => c.id);
+      const compiled = await rulesets.loadCompiled(v.id, { status: v.status, lockVersion: v.lockVersion });
+      const counts = { passToFail: 0, failToPass: 0, unchanged: 0, needsInformationChanged: 0, otherChanged: 0 };
+      const changed: ImpactSheetWire[] = [];
+      const { checked } = await recheckSheets({
+        ds,
+        rulebookId: v.rulebookId,
+        classIds,
+        compiled,
+        beforeFor: (id) => rulesets.loadCompiled(id),
+        onPage: (sheets) => {
+          for (const s of sheets) {
+            const before = s.before;
+            if (before === s.after) {
+              counts.unchanged++;
+              continue;
+            }
+            if (before === 'pass' && s.after === 'fail') counts.passToFail++;
+            else if (before === 'fail' && s.after === 'pass') counts.failToPass++;
+            else if (before === 'needs_information' || s.after === 'needs_information') counts.needsInformationChanged++;
+            else counts.otherChanged++;
+            changed.push({ buildSheetId: s.buildSheetId, sheetName: s.sheetName, carName: s.carName, builder: { id: s.ownerId, displayName: s.ownerName }, classId: s.classId, before, after: s.after });
+          }
+        },
+      });
+      return { versionId: v.id, classIds, checked, counts, changed };
+    },
+
+    /** Publishes the draft (the previous edition is superseded) and queues the re-check of the sheets. */
+    async publish(versionId: string, userId: string, body: PublishBody, queue: RepublishQueue | null): Promise<PublishedWire> {
+      const outcome = await ds.transaction(async (tx) => {
+        const v = await adminVersion(tx, versionId, userId, true);
+        draftOnly(v);
+        if (v.lockVersion !== body.lockVersion) throw conflict(v);
+        const siblings = await siblingsOf(tx, v.rulebookId);
+        const done = transitionVersion(asLifecycle(v), { type: 'publish', effectiveDate: body.effectiveDate }, { siblings: siblings.map(asLifecycle), now: new Date().toISOString() });
+        if (!done.ok) throw refusal(done.code, done.message, done.problems);
+        const published = done.version!;
+        const previous = siblings.find((s) => s.status === 'published') ?? baselineOf(siblings, v.id);
+        // Supersede first: at most one published version per rulebook (a unique index).
+        for (const change of done.changes.slice(1)) {
+          await tx.query(`UPDATE ruleset_versions SET status = $2 WHERE id = $1`, [change.versionId, change.to]);
+        }
+        await tx.query(
+          `UPDATE ruleset_versions SET status = 'published', document = $2::jsonb, edition = $3, effective_date = $4, published_at = now(), published_by = $5 WHERE id = $1`,
+          [v.id, JSON.stringify(published.document), published.edition, published.effectiveDate, userId],
+        );
+        const doc = published.document as RulesetDocument;
+        const classIds = previous ? classesConcerned(describeRulesetChanges(validDocument(previous), doc), doc) : doc.classes.map((c) => c.id);
+        await audit.record({ clubId: v.clubId, actorId: userId, action: 'ruleset.published', entity: { type: 'ruleset_version', id: v.id }, details: { versionNumber: v.versionNumber, edition: published.edition, effectiveDate: published.effectiveDate, supersededVersion: previous?.status === 'published' ? previous.versionNumber : null, classIds } }, { manager: tx });
+        return { v, classIds, previousId: previous?.id ?? null };
+      });
+      // pg-boss has its own connections, so the job is sent once the publish is committed.
+      const jobId = queue
+        ? await queue.send(republishQueueName, { versionId, previousVersionId: outcome.previousId, classIds: outcome.classIds }, { clubId: outcome.v.clubId, requestedBy: userId })
+        : null;
+      return { versionId, jobId, classIds: outcome.classIds };
+    },
+
+    async retire(versionId: string, userId: string): Promise<RulesetVersionWire> {
+      await ds.transaction(async (tx) => {
+        const v = await adminVersion(tx, versionId, userId, true);
+        const done = transitionVersion(asLifecycle(v), { type: 'retire' }, { siblings: [], now: new Date().toISOString() });
+        if (!done.ok) throw refusal(done.code, done.message);
+        await tx.query(`UPDATE ruleset_versions SET status = 'retired' WHERE id = $1`, [v.id]);
+        await audit.record({ clubId: v.clubId, actorId: userId, action: 'ruleset.retired', entity: { type: 'ruleset_version', id: v.id }, details: { versionNumber: v.versionNumber, edition: v.edition, from: v.status } }, { manager: tx });
+      });
+      return rulesets.getVersion(versionId, userId);
+    },
+
+    /** The document in the rulesets/ format, with a file name of the rulebook and edition. */
+    async exportVersion(versionId: string, userId: string): Promise<{ fileName: string; json: string }> {
+      const v = await adminVersion(ds.manager, versionId, userId);
+      const slugRows: { slug: string }[] = await ds.query(`SELECT slug FROM rulebooks WHERE id = $1`, [v.rulebookId]);
+      const edition = v.edition.toLowerCase().replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '') || `v${v.versionNumber}`;
+      const draftMark = v.status === 'draft' ? `-draft-${v.versionNumber}` : '';
+      return { fileName: `${slugRows[0]?.slug ?? 'rulebook'}-${edition}${draftMark}.json`, json: `${JSON.stringify(v.document, null, 2)}\n` };
+    },
+  };
+}
