@@ -185,13 +185,11 @@ describe('POST /api/checks: a dry run', () => {
         details: [
           { path: 'rulesetVersionId', message: 'Must be an id' },
           { path: 'specification.vehicle.weightWithDriverKg', message: 'Must be greater than zero' },
-          // The schema's range check and the tube-size check both speak about a negative OD.
+          // One message per problem: the range check speaks, the tube-size check stays quiet.
           { path: 'specification.members.0.odMm', message: 'Must be greater than zero' },
-          { path: 'specification.members.0.odMm', message: 'The outside diameter must be a positive number.' },
           { path: 'specification.members.1.wallMm', message: 'Invalid input: expected number, received string' },
           { path: 'specification.members.2.kind', message: expect.stringMatching(/^Invalid option: expected one of "main_hoop"\|"front_hoop"/) },
           { path: 'specification.members.3.odMm', message: 'Must be at most 1000' },
-          { path: 'specification.members.3.odMm', message: 'An outside diameter of 4000 mm is not a cage tube (over 150 mm); check the units.' },
           { path: 'specification.members.4.id', message: 'Invalid input: expected string, received undefined' },
         ],
       },
@@ -207,8 +205,8 @@ describe('POST /api/checks: a dry run', () => {
     const res = await post({ agent: builder, token: builderToken }, dryRunBody('club-saloon', spec)).expect(400);
     expect(res.body.error.code).toBe('validation_failed');
     expect(res.body.error.details).toEqual([
-      { path: 'specification.members.0.wallMm', message: 'A wall of 20 mm is half the outside diameter or more; the tube would be solid.' },
-      { path: 'specification.members.1.odMm', message: 'An outside diameter of 900 mm is not a cage tube (over 150 mm); check the units.' },
+      { path: 'specification.members.0.wallMm', message: 'A wall of 20 mm (0.787 in) is half the outside diameter or more; the tube would be solid.' },
+      { path: 'specification.members.1.odMm', message: 'An outside diameter of 900 mm (35.433 in) is not a cage tube (over 150 mm); check the units.' },
       // The hoop's 6 in bend radius is now under half the 900 mm OD.
       { path: 'specification.members.1.bends.0.clrMm', message: 'A centreline radius under half the OD is not a bend.' },
       { path: 'specification.members.2.wallReadings.0.wallMm', message: 'A wall reading must be less than half the outside diameter.' },

@@ -10,6 +10,7 @@ import { tubeSizeProblems } from '../domain/tube.js';
 
 export const SPEC_LIMITS = { members: 60, bendsPerMember: 12, readingsPerMember: 24, jointsPerMember: 12, plates: 40, holes: 60 } as const;
 
+const TUBE_FIELD_MAX_MM = { odMm: 1000, wallMm: 100 } as const;
 const positive = (max: number) => z.number().positive('Must be greater than zero').max(max, `Must be at most ${max}`);
 const nonNegative = (max: number) => z.number().min(0, 'Must not be negative').max(max, `Must be at most ${max}`);
 const signed = (limit: number) => z.number().min(-limit, `Must be at least ${-limit}`).max(limit, `Must be at most ${limit}`);
@@ -39,8 +40,8 @@ export const memberSchema = z.object({
   id,
   kind: z.enum(MEMBER_KINDS),
   label: text(80).optional(),
-  odMm: positive(1000),
-  wallMm: positive(100),
+  odMm: positive(TUBE_FIELD_MAX_MM.odMm),
+  wallMm: positive(TUBE_FIELD_MAX_MM.wallMm),
   wallReadings: z.array(wallReadingSchema).max(SPEC_LIMITS.readingsPerMember).optional(),
   material: z.enum(MATERIALS).optional(),
   grade: text(60).optional(),
@@ -52,7 +53,8 @@ export const memberSchema = z.object({
   joints: z.array(jointSchema).max(SPEC_LIMITS.jointsPerMember).optional(),
 }).superRefine((m, ctx) => {
   // Cross-field checks per member, so one bad member does not hide another's problems.
-  for (const p of tubeSizeProblems(m)) ctx.addIssue({ code: 'custom', path: [p.field], message: p.message });
+  // Sizes outside the field bounds already failed above; add only what those bounds cannot see.
+  for (const p of tubeSizeProblems(m)) if (m[p.field] > 0 && m[p.field] <= TUBE_FIELD_MAX_MM[p.field]) ctx.addIssue({ code: 'custom', path: [p.field], message: p.message });
   m.wallReadings?.forEach((r, j) => {
     if (r.wallMm >= m.odMm / 2)
       ctx.addIssue({ code: 'custom', path: ['wallReadings', j, 'wallMm'], message: 'A wall reading must be less than half the outside diameter.' });

@@ -37,17 +37,20 @@ export interface TubeProblem {
   message: string;
 }
 
+// Problem messages name both unit systems: the reader may have typed either.
+const both = (mm: number) => `${Math.round(mm * 100) / 100} mm (${(mm / 25.4).toFixed(3)} in)`;
+
 /** Every reason a size cannot be a cage tube, in words a builder understands. Empty when plausible. */
 export function tubeSizeProblems({ odMm, wallMm }: TubeSize): TubeProblem[] {
   const problems: TubeProblem[] = [];
   if (!Number.isFinite(odMm) || odMm <= 0) problems.push({ field: 'odMm', message: 'The outside diameter must be a positive number.' });
   else if (odMm > MAX_PLAUSIBLE_OD_MM)
-    problems.push({ field: 'odMm', message: `An outside diameter of ${odMm} mm is not a cage tube (over ${MAX_PLAUSIBLE_OD_MM} mm); check the units.` });
+    problems.push({ field: 'odMm', message: `An outside diameter of ${both(odMm)} is not a cage tube (over ${MAX_PLAUSIBLE_OD_MM} mm); check the units.` });
   else if (odMm < MIN_PLAUSIBLE_OD_MM)
-    problems.push({ field: 'odMm', message: `An outside diameter of ${odMm} mm is too small for a cage tube; check the units.` });
+    problems.push({ field: 'odMm', message: `An outside diameter of ${both(odMm)} is too small for a cage tube; check the units.` });
   if (!Number.isFinite(wallMm) || wallMm <= 0) problems.push({ field: 'wallMm', message: 'The wall thickness must be a positive number.' });
   else if (Number.isFinite(odMm) && odMm > 0 && wallMm >= odMm / 2)
-    problems.push({ field: 'wallMm', message: `A wall of ${wallMm} mm is half the outside diameter or more; the tube would be solid.` });
+    problems.push({ field: 'wallMm', message: `A wall of ${both(wallMm)} is half the outside diameter or more; the tube would be solid.` });
   return problems;
 }
 

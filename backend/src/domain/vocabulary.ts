@@ -15,6 +15,14 @@ export const MEMBER_KIND_LABELS: Readonly<Record<MemberKind, string>> = {
 
 export const MATERIALS = ['mild_steel', 'chromoly_4130', 'other'] as const;
 export const PROCESSES = ['dom', 'erw', 'seamless', 'cds', 'other'] as const;
+
+/** Words for generated sentences, so a reason never shows a vocabulary key like "mild_steel". */
+export const MATERIAL_LABELS: Readonly<Record<(typeof MATERIALS)[number], string>> = {
+  mild_steel: 'mild steel', chromoly_4130: '4130 chromoly', other: 'other material',
+};
+export const PROCESS_LABELS: Readonly<Record<(typeof PROCESSES)[number], string>> = {
+  dom: 'DOM', erw: 'ERW', seamless: 'seamless', cds: 'CDS', other: 'other process',
+};
 export const JOINT_KINDS = ['welded', 'bolted', 'removable'] as const;
 export const CHASSIS_TYPES = ['unibody', 'tube_frame'] as const;
 export const COCKPIT_TYPES = ['open', 'closed'] as const;

@@ -12,7 +12,7 @@ import { FACTS_BY_NAME, factPresent, memberFacts, memberTubeData, plateFacts, ve
 import type { FactSet, MemberTubeData } from '../facts.js';
 import { formatQuantity } from '../units.js';
 import type { Dimension, UnitSystem } from '../units.js';
-import { MEMBER_KIND_LABELS } from '../vocabulary.js';
+import { MATERIAL_LABELS, MEMBER_KIND_LABELS, PROCESS_LABELS } from '../vocabulary.js';
 import type { MemberKind, PlateLocation } from '../vocabulary.js';
 import { customOperators } from './operators.js';
 import type { CompiledRequirement, CompiledRuleset, CompiledVariant, LeafMeta } from './types.js';
@@ -466,7 +466,12 @@ function tubeTableFinding(
   const required: RequiredValue[] = pick ? copyRequired(summarise(req, String(pick.name), leavesOf(pick))) : [];
   const v: Finding['verdict'] = verdict === 'unknown' ? 'needs_information' : verdict ? 'pass' : 'fail';
   const restrictions = (a: typeof pickMeta) =>
-    a ? [a.materials ? ` in ${a.materials.join(' or ')}` : '', a.processes ? ` (${a.processes.join(', ')})` : ''].join('') : '';
+    a
+      ? [
+          a.materials ? ` in ${a.materials.map((m) => MATERIAL_LABELS[m as keyof typeof MATERIAL_LABELS] ?? m).join(' or ')}` : '',
+          a.processes ? ` (${a.processes.map((x) => PROCESS_LABELS[x as keyof typeof PROCESS_LABELS] ?? x).join(', ')})` : '',
+        ].join('')
+      : '';
   let reason: string;
   if (v === 'pass' && pickMeta) reason = `Matches ${pickMeta.label}${restrictions(pickMeta)}${forBand}.`;
   else if (v === 'needs_information') reason = `Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')} ${band === 'all weights' ? '' : ` (band ${band})`}.`;
