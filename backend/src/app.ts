@@ -28,6 +28,10 @@ import { createJobsRouter } from './routes/jobs.routes';
 import { createMailboxRouter } from './routes/mailbox.routes';
 import { createMetaRouter } from './routes/meta.routes';
 import { createRulebooksRouter } from './routes/rulebooks.routes';
+import { createSubmissionsRouter } from './routes/submissions.routes';
+import { createReviewRouter } from './routes/review.routes';
+import { createCageRecordsRouter } from './routes/cage-records.routes';
+import { createVerifyRouter, defaultVerifyLimit } from './routes/verify.routes';
 import { createRulebookAdminRouter } from './routes/rulebook-admin.routes';
 import type { RepublishQueue } from './services/rulebook-admin.service';
 import { createServices, type Services } from './services';
@@ -44,6 +48,8 @@ export interface CreateAppOptions {
   pruneSessions?: boolean;
   /** Folder of the production front-end build; null turns static serving off. */
   frontendDist?: string | null;
+  /** Look-ups per IP on the public verification route (default 30 a minute). */
+  verifyLimits?: { windowMs: number; limit: number };
   /** Where a publish sends its re-check job (pg-boss in server.ts); without it publishing queues nothing. */
   republishQueue?: RepublishQueue | null;
 }
@@ -143,6 +149,10 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(createMetaRouter({ mailboxEnabled: config.fakeSmtp }));
   api.use(createAuditRouter({ services }));
   api.use(createJobsRouter({ services }));
+  api.use(createSubmissionsRouter({ services }));
+  api.use(createReviewRouter({ services }));
+  api.use(createCageRecordsRouter({ services }));
+  api.use(createVerifyRouter({ services, limits: options.verifyLimits ?? defaultVerifyLimit }));
   // The development mailbox exists only while the fake SMTP server does; otherwise its routes are 404.
   if (config.fakeSmtp) api.use(createMailboxRouter({ services }));
   api.use(apiNotFound);
@@ -159,4 +169,6 @@ export function createApp(options: CreateAppOptions): Express {
 export async function closeApp(app: Express): Promise<void> {
   const store = app.locals.sessionStore as SessionSetup['store'] | undefined;
   await store?.close();
+  // The check worker threads belong to the services; end them with the app.
+  await (app.locals.services as Services | undefined)?.checks.close();
 }

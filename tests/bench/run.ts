@@ -35,6 +35,15 @@ try {
   failed = true;
 }
 
+try {
+  const { runPdfBench } = await import('./pdf');
+  const pdf = await runPdfBench();
+  lines.push({ name: 'PDF report (8 pages, 54 findings, 6 photos), median', value: `${pdf.medianMs} ms`, target: '< 150 ms', ok: pdf.medianMs < 150 });
+} catch (err) {
+  console.error('PDF bench failed:', err instanceof Error ? err.message : err);
+  failed = true;
+}
+
 const cores = (await import('node:os')).availableParallelism();
 const load = (await import('node:os')).loadavg()[0]!;
 console.log(`\nBench summary (${cores} cores, load average ${load.toFixed(1)} at the end)`);
