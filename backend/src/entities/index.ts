@@ -12,6 +12,10 @@ import { BuildSheetRevision } from './build-sheet-revision.entity';
 import { Photo } from './photo.entity';
 import { OutboxMessage } from './outbox-message.entity';
 import { AuditEntry } from './audit-entry.entity';
+import { Submission } from './submission.entity';
+import { SubmissionEvent } from './submission-event.entity';
+import { FindingAnnotation } from './finding-annotation.entity';
+import { CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn } from './cage-record.entity';
 
 export { Club, Invitation, Membership, User };
 export { clubRoles, type ClubRole } from './membership.entity';
@@ -23,5 +27,7 @@ export { Car, BuildSheet, BuildSheetRevision, Photo };
 export type { ChassisType } from './car.entity';
 export { OutboxMessage, AuditEntry };
 export { outboxStatuses, type OutboxStatus } from './outbox-message.entity';
+export { Submission, SubmissionEvent, FindingAnnotation, CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn };
 
-export const entities = [User, Club, Membership, Invitation, Rulebook, RulesetVersion, CheckRun, Car, BuildSheet, BuildSheetRevision, Photo, OutboxMessage, AuditEntry];
+export const entities = [User, Club, Membership, Invitation, Rulebook, RulesetVersion, CheckRun, Car, BuildSheet, BuildSheetRevision, Photo, OutboxMessage, AuditEntry,
+  Submission, SubmissionEvent, FindingAnnotation, CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn];

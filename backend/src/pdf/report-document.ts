@@ -7,6 +7,7 @@ import type { CutListRowWire, TubeDataWire } from '../contracts/garage';
 import type { CheckReport, Finding, MeasuredValue, RequiredValue } from '../contracts/report';
 import { AREAS } from '../contracts/ruleset';
 import { FACTS_BY_NAME } from '../domain/facts';
+import { findingKey } from '../domain/review/waivers';
 import { formatQuantity, type Dimension, type UnitSystem } from '../domain/units';
 import { MEMBER_KIND_LABELS } from '../domain/vocabulary';
 
@@ -35,6 +36,23 @@ export interface ReportDocumentInput {
   /** Tube data with the cut list, computed from the specification that was checked. */
   tubeData: TubeDataWire;
   photos: ReportPhoto[];
+  /** A steward's approval of the submitted check: record number, decision, waivers, QR of the verification link. */
+  review?: ReportReview;
+}
+
+export interface ReportReview {
+  recordNumber: string;
+  /** valid, expired, superseded or revoked when the PDF is made. */
+  recordStatus: string;
+  stewardName: string;
+  decidedAt: Date;
+  expiresAt: Date;
+  note: string | null;
+  /** findingKey of domain/review/waivers.ts → the steward's reason. */
+  waivers: { findingKey: string; reason: string; stewardName: string }[];
+  verificationUrl: string;
+  /** The QR code of verificationUrl as an SVG document. */
+  qrSvg: string;
 }
 
 const COLOURS = { ink: '#1d2327', muted: '#5b6670', rule: '#c9d0d6', band: '#eef1f3', pass: '#1f6f43', fail: '#a3261d', info: '#8a5a00', na: '#5b6670' };
@@ -136,16 +154,17 @@ export function findingsByRequirement(findings: readonly Finding[]): Finding[][]
   return [...groups.values()];
 }
 
-function requirementBlock(findings: readonly Finding[], units: UnitSystem): Content {
+function requirementBlock(findings: readonly Finding[], units: UnitSystem, waived: ReadonlySet<string> = new Set()): Content {
   const first = findings[0]!;
   const rows: TableCell[][] = findings.map((f) => {
+    const isWaived = waived.has(findingKey(f));
     const details: Content[] = [];
     if (f.measured.length) details.push({ text: [{ text: 'Measured ', color: COLOURS.muted }, f.measured.map((m) => measuredText(m, units)).join('; ')] });
     if (f.required.length) details.push({ text: [{ text: 'Required ', color: COLOURS.muted }, f.required.map((r) => requiredText(r, units)).join('; ')] });
     if (f.missing.length) details.push({ text: [{ text: 'Missing ', color: COLOURS.muted }, f.missing.map((m) => pdfSafe(m.label)).join('; ')] });
     if (f.reason) details.push({ text: pdfSafe(f.reason) });
     return [
-      { text: VERDICT_WORDS[f.verdict], bold: true, color: VERDICT_COLOURS[f.verdict] },
+      { text: isWaived ? `${VERDICT_WORDS[f.verdict]}, waived` : VERDICT_WORDS[f.verdict], bold: true, color: isWaived ? COLOURS.info : VERDICT_COLOURS[f.verdict] },
       { text: subjectText(f) },
       { stack: details },
     ];
@@ -229,6 +248,52 @@ function photoGrid(photos: readonly ReportPhoto[]): Content {
 
 const heading = (text: string): Content => ({ text, style: 'h2' });
 
+/** The steward's decision: the record number, who approved it and when, waivers, and the QR to check it. */
+function reviewBlock(review: ReportReview, findings: readonly Finding[]): Content[] {
+  const byKey = new Map(findings.map((f) => [findingKey(f), f]));
+  const day = (d: Date) => d.toISOString().slice(0, 10);
+  const out: Content[] = [
+    heading('Steward review'),
+    {
+      columns: [
+        {
+          width: '*',
+          stack: [
+            labelValueTable([
+              ['Cage record', review.recordNumber],
+              ['Decision', `Approved by ${review.stewardName} on ${day(review.decidedAt)}`],
+              ['Valid until', day(review.expiresAt)],
+              ['Status when printed', review.recordStatus],
+              ...(review.note ? ([['Steward note', review.note]] as [string, string][]) : []),
+              ['Check it at', review.verificationUrl],
+            ]),
+          ],
+        },
+        { width: 96, stack: [{ svg: review.qrSvg, width: 90 }, { text: 'Scan to check the record', fontSize: 7, color: COLOURS.muted, alignment: 'center' }] },
+      ],
+      columnGap: 12,
+    },
+  ];
+  if (review.waivers.length) {
+    out.push({ text: 'Waivers', style: 'h3' }, {
+      table: {
+        widths: [150, '*'],
+        body: review.waivers.map((w) => {
+          const f = byKey.get(w.findingKey);
+          return [
+            { text: f ? `${pdfSafe(f.title)}, ${subjectText(f)} (section ${pdfSafe(f.citation.section)})` : w.findingKey, bold: true },
+            { text: pdfSafe(`${w.reason} (${w.stewardName})`) },
+          ];
+        }),
+      },
+      layout: 'lightHorizontalLines',
+      fontSize: 8.5,
+      margin: [0, 0, 0, 6],
+    });
+  }
+  return out;
+}
+
 export function buildReportDocument(input: ReportDocumentInput): TDocumentDefinitions {
   const { report, units, car } = input;
   const q = (v: number, d: Dimension) => formatQuantity(v, d, units).text;
@@ -292,9 +357,11 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
       ['Checked on', dateText],
       ['Units', units === 'metric' ? 'metric (mm, kg)' : 'imperial (in, lb)'],
     ]),
+    ...(input.review ? reviewBlock(input.review, report.findings) : []),
     { text: SAFETY_CAUTION, bold: true, margin: [0, 2, 0, 2] },
     { text: pdfSafe(report.disclaimer), color: COLOURS.muted, fontSize: 8.5, margin: [0, 0, 0, 10] },
   ];
+  const waived = new Set(input.review?.waivers.map((w) => w.findingKey) ?? []);
 
   const notMet = report.findings.filter((f) => f.verdict === 'fail' || (f.verdict === 'needs_information' && f.severity === 'mandatory'));
   if (notMet.length) {
@@ -325,7 +392,7 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
   if (report.findings.length === 0) content.push({ text: 'This ruleset has no requirements for this class.', color: COLOURS.muted });
   for (const group of findingsByArea(report.findings)) {
     content.push({ text: group.title, style: 'h3' });
-    for (const reqFindings of findingsByRequirement(group.findings)) content.push(requirementBlock(reqFindings, units));
+    for (const reqFindings of findingsByRequirement(group.findings)) content.push(requirementBlock(reqFindings, units, waived));
   }
 
   content.push(heading('Tube data'));

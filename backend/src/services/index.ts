@@ -12,6 +12,10 @@ import { createGarageService, type GarageService } from './garage.service';
 import { createPhotoService, type PhotoService } from './photos.service';
 import { LocalDiskPhotoStorage, type PhotoStorage } from './photos/photo-storage';
 import { createReportService, type ReportService } from './reports.service';
+import { createReviewService, type ReviewService } from './review.service';
+import { createReviewReader, type ReviewReader } from './review-detail';
+import { createCageRecordService, type CageRecordService } from './cage-records.service';
+import { createVerificationService, type VerificationService } from './verification.service';
 import { createRulebookAdminService, type RulebookAdminService } from './rulebook-admin.service';
 
 export interface Services {
@@ -27,6 +31,10 @@ export interface Services {
   buildSheets: BuildSheetService;
   photos: PhotoService;
   reports: ReportService;
+  review: ReviewService;
+  reviewReader: ReviewReader;
+  cageRecords: CageRecordService;
+  verification: VerificationService;
   rulebookAdmin: RulebookAdminService;
 }
 
@@ -41,19 +49,26 @@ export function createServices(
   const checks = createCheckService(ds, rulesets);
   const buildSheets = createBuildSheetService(ds);
   const photos = createPhotoService(ds, options.photoStorage ?? new LocalDiskPhotoStorage(options.uploadDir ?? '.data/uploads'));
+  const mail = createMailService(ds);
+  const cageRecords = createCageRecordService(ds, { mail, audit, publicUrl: options.publicUrl });
+  const reports = createReportService(ds, { checks, sheets: buildSheets, photos });
   return {
     accounts: createAccountService(ds),
     members,
     rulesets,
     checks,
     audit,
-    mail: createMailService(ds),
+    mail,
     mailbox: createMailboxService(ds),
     jobProgress: createJobProgressReader(createJobProgressStore((text, values) => ds.query(text, values)), members),
     garage: createGarageService(ds),
     buildSheets,
     photos,
-    reports: createReportService(ds, { checks, sheets: buildSheets, photos }),
+    reports,
+    review: createReviewService(ds, { mail, audit, publicUrl: options.publicUrl, records: cageRecords }),
+    reviewReader: createReviewReader(ds, { records: cageRecords, reports, publicUrl: options.publicUrl }),
+    cageRecords,
+    verification: createVerificationService(ds),
     rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit }),
   };
 }

@@ -9,7 +9,7 @@ import { MEMBER_KIND_LABELS } from '../domain/vocabulary';
 import { BuildSheet, BuildSheetRevision, CheckRun, User } from '../entities';
 import { ConflictError, NotFoundError } from '../errors';
 import { renderPdf } from '../pdf/pdf-engine';
-import { buildReportDocument, type ReportPhoto } from '../pdf/report-document';
+import { buildReportDocument, type ReportPhoto, type ReportReview } from '../pdf/report-document';
 import type { BuildSheetService } from './build-sheets.service';
 import type { CheckService } from './checks.service';
 import { sheetFor } from './garage.service';
@@ -69,7 +69,7 @@ export function createReportService(ds: DataSource, deps: { checks: CheckService
      * and admins); a run without a sheet follows the checks service's rule. Units: `units`, else
      * the builder's preferred units.
      */
-    async pdf(checkRunId: string, userId: string, units?: UnitSystem): Promise<{ pdf: Buffer; verificationCode: string }> {
+    async pdf(checkRunId: string, userId: string, units?: UnitSystem, review?: ReportReview): Promise<{ pdf: Buffer; verificationCode: string }> {
       const run = await ds.getRepository(CheckRun).findOneBy({ id: checkRunId });
       if (!run) throw new NotFoundError('Check run not found.');
       const revision = run.buildSheetRevisionId ? await ds.getRepository(BuildSheetRevision).findOneBy({ id: run.buildSheetRevisionId }) : null;
@@ -108,6 +108,7 @@ export function createReportService(ds: DataSource, deps: { checks: CheckService
         checkedAt: run.createdAt,
         tubeData: tubeDataFor(run.specification),
         photos: context.photos,
+        ...(review ? { review } : {}),
       });
       return { pdf: await renderPdf(doc), verificationCode: run.verificationCode };
     },

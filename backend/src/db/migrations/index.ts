@@ -4,5 +4,6 @@ import { RulesetsAndChecks1796083300000 } from './1796083300000-rulesets-and-che
 import { Garage1796083400000 } from './1796083400000-garage';
 import { OutboxAndAudit1796083500000 } from './1796083500000-outbox-and-audit';
 import { RulesetRechecks1796083600000 } from './1796083600000-ruleset-rechecks';
+import { Review1796083700000 } from './1796083700000-review';
 
-export const migrations = [Accounts1796083200000, RulesetsAndChecks1796083300000, Garage1796083400000, OutboxAndAudit1796083500000, RulesetRechecks1796083600000];
+export const migrations = [Accounts1796083200000, RulesetsAndChecks1796083300000, Garage1796083400000, OutboxAndAudit1796083500000, RulesetRechecks1796083600000, Review1796083700000];

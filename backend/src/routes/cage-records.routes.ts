@@ -1,0 +1,38 @@
+// Cage records and the club's record settings (docs/api.md, "Review and cage records"). A record is
+// read by the car's owner and the club's stewards and admins, revoked by a steward or admin; the
+// settings (number prefix, validity in months) are read by stewards and admins, changed by admins.
+import { Router } from 'express';
+import { clubParamsSchema, recordParamsSchema, recordSettingsBodySchema, revokeBodySchema } from '../contracts/review';
+import { requireClubRole, requireSignedIn, signedInUserId } from '../middleware/guards';
+import type { Services } from '../services';
+import { mountRoutes, route } from './route-table';
+
+export function createCageRecordsRouter({ services }: { services: Services }): Router {
+  const { cageRecords } = services;
+  return mountRoutes(Router(), [
+    route({
+      method: 'get', path: '/cage-records/:recordId', guards: [requireSignedIn], params: recordParamsSchema,
+      handler: async ({ req, res, params }) => {
+        res.json({ record: await cageRecords.get(params.recordId, signedInUserId(req)) });
+      },
+    }),
+    route({
+      method: 'post', path: '/cage-records/:recordId/revoke', guards: [requireSignedIn], params: recordParamsSchema, body: revokeBodySchema,
+      handler: async ({ req, res, params, body }) => {
+        res.json({ record: await cageRecords.revoke(params.recordId, signedInUserId(req), body.reason) });
+      },
+    }),
+    route({
+      method: 'get', path: '/clubs/:clubId/record-settings', guards: [requireClubRole(['steward', 'admin'])], params: clubParamsSchema,
+      handler: async ({ res, params }) => {
+        res.json({ settings: await cageRecords.settings(params.clubId) });
+      },
+    }),
+    route({
+      method: 'patch', path: '/clubs/:clubId/record-settings', guards: [requireClubRole(['admin'])], params: clubParamsSchema, body: recordSettingsBodySchema,
+      handler: async ({ req, res, params, body }) => {
+        res.json({ settings: await cageRecords.updateSettings(params.clubId, signedInUserId(req), body) });
+      },
+    }),
+  ]);
+}

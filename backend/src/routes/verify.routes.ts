@@ -1,0 +1,33 @@
+// The public verification of a cage record by its code (docs/api.md, "Review and cage records"): no
+// sign-in, rate-limited per IP, and one plain 404 for every code that does not name a record.
+import { Router } from 'express';
+import { rateLimit } from 'express-rate-limit';
+import { verifyParamsSchema } from '../contracts/review';
+import { NotFoundError, RateLimitedError } from '../errors';
+import { publicRoute } from '../middleware/guards';
+import type { Services } from '../services';
+import { mountRoutes, route } from './route-table';
+
+export const defaultVerifyLimit = { windowMs: 60_000, limit: 30 };
+
+export function createVerifyRouter({ services, limits = defaultVerifyLimit }: { services: Services; limits?: { windowMs: number; limit: number } }): Router {
+  const limiter = rateLimit({
+    windowMs: limits.windowMs,
+    limit: limits.limit,
+    standardHeaders: 'draft-8',
+    legacyHeaders: false,
+    handler: (_req, _res, next) => next(new RateLimitedError('Too many look-ups from here. Wait a minute and try again.')),
+  });
+  return mountRoutes(Router(), [
+    route({
+      method: 'get', path: '/verify/:code', guards: [publicRoute], before: [limiter], params: verifyParamsSchema,
+      handler: async ({ res, params }) => {
+        const result = await services.verification.verify(params.code);
+        // Nobody caches a status that can change (a revocation must show at once).
+        res.setHeader('Cache-Control', 'no-store');
+        if (!result) throw new NotFoundError('No cage record has this code.');
+        res.json({ record: result });
+      },
+    }),
+  ]);
+}
