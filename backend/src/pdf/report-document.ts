@@ -369,7 +369,9 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
       table: {
         widths: [100, '*', 'auto'],
         body: notMet.map((f) => [
-          { text: VERDICT_WORDS[f.verdict], bold: true, color: VERDICT_COLOURS[f.verdict] },
+          waived.has(findingKey(f))
+            ? { text: `${VERDICT_WORDS[f.verdict]}, waived`, bold: true, color: COLOURS.info }
+            : { text: VERDICT_WORDS[f.verdict], bold: true, color: VERDICT_COLOURS[f.verdict] },
           { text: `${pdfSafe(f.title)}, ${subjectText(f)}` },
           { text: `Section ${pdfSafe(f.citation.section)}`, alignment: 'right' as const },
         ]),
