@@ -12,7 +12,7 @@ const WORDS: Record<string, string> = {
   erw: 'ERW',
   seamless: 'Seamless',
   cds: 'CDS',
-  unibody: 'Unibody (bodyshell)',
+  unibody: 'Unibody',
   tube_frame: 'Tube frame',
   open: 'Open',
   closed: 'Closed',
@@ -43,9 +43,17 @@ const kindLabel = (k: string) => MEMBER_KIND_LABELS[k as keyof typeof MEMBER_KIN
 
 /** A value from any closed list in words ("chromoly_4130" → "4130 chromoly", "main_hoop" → "Main hoop"). */
 export function valueLabel(value: string): string {
+  // "other" is in several lists; only the member-kind list calls it "other member" (kindOptionLabel).
+  const word = WORDS[value];
+  if (word) return word;
   const kind = kindLabel(value);
   if (kind) return kind.charAt(0).toUpperCase() + kind.slice(1);
-  return WORDS[value] ?? value.replace(/_/g, ' ');
+  return value.replace(/_/g, ' ');
+}
+
+function kindOptionLabel(kind: string): string {
+  const label = kindLabel(kind) ?? kind;
+  return label.charAt(0).toUpperCase() + label.slice(1);
 }
 
 export interface Option {
@@ -56,7 +64,7 @@ export interface Option {
 const options = (values: readonly string[]): Option[] => values.map((value) => ({ label: valueLabel(value), value }));
 
 export const OPTIONS = {
-  kind: options(MEMBER_KINDS),
+  kind: MEMBER_KINDS.map((value) => ({ label: kindOptionLabel(value), value })),
   material: options(MATERIALS),
   process: options(PROCESSES),
   chassis: options(CHASSIS_TYPES),
