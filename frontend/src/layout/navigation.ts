@@ -21,6 +21,7 @@ export const navEntries: readonly NavEntry[] = [
   { label: 'Overview', icon: 'pi pi-gauge', route: 'home' },
   { label: 'Garage', icon: 'pi pi-car', route: 'garage', roles: ['builder'] },
   { label: 'Members', icon: 'pi pi-users', route: 'club-members', roles: ['admin'] },
+  { label: 'Rulebooks', icon: 'pi pi-book', route: 'rulebooks', roles: ['admin'] },
   { label: 'Activity log', icon: 'pi pi-history', route: 'club-activity', roles: ['admin'] },
   { label: 'Mailbox', icon: 'pi pi-inbox', route: 'dev-mailbox', roles: ['admin'], feature: 'mailbox' },
   { label: 'Account', icon: 'pi pi-user', route: 'account' },

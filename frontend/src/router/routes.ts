@@ -6,7 +6,8 @@ import type { Role } from '@/api/types';
 /** Every route name; links and redirects use these, never raw paths. */
 export type RouteName = 'sign-in' | 'invitation' | 'home' | 'account' | 'club-members' | 'not-found'
   | 'garage' | 'car' | 'build-sheet' | 'check-run'
-  | 'dev-mailbox' | 'club-activity';
+  | 'dev-mailbox' | 'club-activity'
+  | 'rulebooks' | 'rulebook-version' | 'rulebook-compare';
 
 declare module 'vue-router' {
   interface RouteMeta {
@@ -62,6 +63,9 @@ export const routes: NamedRoute[] = [
       { path: 'dev/mailbox', name: 'dev-mailbox', component: () => import('@/views/MailboxView.vue'), meta: { roles: ['admin'], title: 'Mailbox' } },
       { path: 'clubs/:clubId/activity', name: 'club-activity', component: () => import('@/views/AuditLogView.vue'), meta: { roles: ['admin'], title: 'Activity log' } },
       { path: 'check-runs/:checkRunId', name: 'check-run', component: () => import('@/views/CheckRunView.vue'), meta: { title: 'Check run' } },
+      { path: 'clubs/:clubId/rulebooks', name: 'rulebooks', component: () => import('@/views/RulebooksView.vue'), meta: { roles: ['admin'], title: 'Rulebooks' } },
+      { path: 'ruleset-versions/:versionId', name: 'rulebook-version', component: () => import('@/views/RulebookVersionView.vue'), meta: { roles: ['admin'], title: 'Rulebook' } },
+      { path: 'ruleset-versions/:versionId/compare/:otherId', name: 'rulebook-compare', component: () => import('@/views/RulebookCompareView.vue'), meta: { roles: ['admin'], title: 'What changed' } },
     ],
   },
   {

@@ -1,0 +1,61 @@
+// The draft's impact on the club's build sheets, publishing it, and following the re-check job's
+// progress until it is done (polled once a second; polling stops when the page goes).
+import { onBeforeUnmount, ref, type Ref } from 'vue';
+import { draftImpact, jobProgress, publishDraft, type ImpactWire, type JobProgressWire } from '@/api/rulebook-admin';
+import { errorMessage } from '@/api/errors';
+
+export function useRulebookPublish(versionId: Ref<string>, lockVersion: Ref<number>, options: { pollMs?: number } = {}) {
+  const impact = ref<ImpactWire | null>(null);
+  const impactLoading = ref(false);
+  const impactError = ref<string | null>(null);
+  const publishing = ref(false);
+  const publishError = ref<string | null>(null);
+  const job = ref<JobProgressWire | null>(null);
+  const published = ref(false);
+  let timer: ReturnType<typeof setTimeout> | null = null;
+
+  async function loadImpact(): Promise<void> {
+    impactLoading.value = true;
+    impactError.value = null;
+    try {
+      impact.value = await draftImpact(versionId.value);
+    } catch (err) {
+      impact.value = null;
+      impactError.value = errorMessage(err);
+    } finally {
+      impactLoading.value = false;
+    }
+  }
+
+  async function poll(jobId: string): Promise<void> {
+    try {
+      job.value = await jobProgress(jobId);
+    } catch (err) {
+      publishError.value = `The re-check's progress cannot be read: ${errorMessage(err)}`;
+      return;
+    }
+    if (job.value.state === 'queued' || job.value.state === 'running') timer = setTimeout(() => void poll(jobId), options.pollMs ?? 1000);
+  }
+
+  async function publish(effectiveDate: string): Promise<boolean> {
+    publishing.value = true;
+    publishError.value = null;
+    try {
+      const answer = await publishDraft(versionId.value, lockVersion.value, effectiveDate);
+      published.value = true;
+      if (answer.jobId) await poll(answer.jobId);
+      return true;
+    } catch (err) {
+      publishError.value = errorMessage(err);
+      return false;
+    } finally {
+      publishing.value = false;
+    }
+  }
+
+  onBeforeUnmount(() => {
+    if (timer) clearTimeout(timer);
+  });
+
+  return { impact, impactLoading, impactError, loadImpact, publishing, publishError, publish, job, published };
+}
