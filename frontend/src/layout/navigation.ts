@@ -20,6 +20,7 @@ export interface NavEntry {
 export const navEntries: readonly NavEntry[] = [
   { label: 'Overview', icon: 'pi pi-gauge', route: 'home' },
   { label: 'Garage', icon: 'pi pi-car', route: 'garage', roles: ['builder'] },
+  { label: 'Review queue', icon: 'pi pi-check-square', route: 'review-queue', roles: ['steward'] },
   { label: 'Members', icon: 'pi pi-users', route: 'club-members', roles: ['admin'] },
   { label: 'Rulebooks', icon: 'pi pi-book', route: 'rulebooks', roles: ['admin'] },
   { label: 'Activity log', icon: 'pi pi-history', route: 'club-activity', roles: ['admin'] },

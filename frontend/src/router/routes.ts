@@ -6,6 +6,7 @@ import type { Role } from '@/api/types';
 /** Every route name; links and redirects use these, never raw paths. */
 export type RouteName = 'sign-in' | 'invitation' | 'home' | 'account' | 'club-members' | 'not-found'
   | 'garage' | 'car' | 'build-sheet' | 'check-run'
+  | 'review-queue' | 'submission' | 'cage-record' | 'verify' | 'verify-code'
   | 'dev-mailbox' | 'club-activity'
   | 'rulebooks' | 'rulebook-version' | 'rulebook-compare';
 
@@ -35,6 +36,9 @@ export const routes: NamedRoute[] = [
     component: () => import('@/views/InvitationView.vue'),
     meta: { public: true, title: 'Invitation' },
   },
+  // The check at the track: public, outside the shell, made for a phone.
+  { path: '/verify', name: 'verify', component: () => import('@/views/VerifyView.vue'), meta: { public: true, title: 'Check a cage record' } },
+  { path: '/verify/:code', name: 'verify-code', component: () => import('@/views/VerifyView.vue'), meta: { public: true, title: 'Check a cage record' } },
   {
     path: '/',
     component: () => import('@/layout/AppLayout.vue'),
@@ -63,6 +67,9 @@ export const routes: NamedRoute[] = [
       { path: 'dev/mailbox', name: 'dev-mailbox', component: () => import('@/views/MailboxView.vue'), meta: { roles: ['admin'], title: 'Mailbox' } },
       { path: 'clubs/:clubId/activity', name: 'club-activity', component: () => import('@/views/AuditLogView.vue'), meta: { roles: ['admin'], title: 'Activity log' } },
       { path: 'check-runs/:checkRunId', name: 'check-run', component: () => import('@/views/CheckRunView.vue'), meta: { title: 'Check run' } },
+      { path: 'clubs/:clubId/review', name: 'review-queue', component: () => import('@/views/ReviewQueueView.vue'), meta: { roles: ['steward', 'admin'], title: 'Review queue' } },
+      { path: 'submissions/:submissionId', name: 'submission', component: () => import('@/views/SubmissionView.vue'), meta: { title: 'Review' } },
+      { path: 'cage-records/:recordId', name: 'cage-record', component: () => import('@/views/CageRecordView.vue'), meta: { title: 'Cage record' } },
       { path: 'clubs/:clubId/rulebooks', name: 'rulebooks', component: () => import('@/views/RulebooksView.vue'), meta: { roles: ['admin'], title: 'Rulebooks' } },
       { path: 'ruleset-versions/:versionId', name: 'rulebook-version', component: () => import('@/views/RulebookVersionView.vue'), meta: { roles: ['admin'], title: 'Rulebook' } },
       { path: 'ruleset-versions/:versionId/compare/:otherId', name: 'rulebook-compare', component: () => import('@/views/RulebookCompareView.vue'), meta: { roles: ['admin'], title: 'What changed' } },

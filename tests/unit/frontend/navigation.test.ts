@@ -11,11 +11,11 @@ describe('the app menu', () => {
   test.each<[Role[], string[]]>([
     [[], ['Overview', 'Account']],
     [['builder'], ['Overview', 'Garage', 'Account']],
-    [['steward'], ['Overview', 'Account']],
+    [['steward'], ['Overview', 'Review queue', 'Account']],
     [['admin'], ['Overview', 'Members', 'Activity log', 'Account']],
     [
       ['builder', 'steward', 'admin'],
-      ['Overview', 'Garage', 'Members', 'Activity log', 'Account'],
+      ['Overview', 'Garage', 'Review queue', 'Members', 'Activity log', 'Account'],
     ],
   ])('roles %j in the current club show %j', (roles, expected) => {
     expect(labels(roles)).toEqual(expected);
