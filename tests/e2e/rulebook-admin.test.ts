@@ -1,0 +1,148 @@
+// The rulebook journey: the demo builder has a saloon sheet that passes; the demo admin starts a new
+// draft, raises the Club Saloon minimum wall in the tube table (no JSON), meets a second save of the
+// same draft (and keeps their own), sees the impact (one sheet from pass to fail), puts the edition in
+// force, watches the re-check finish, reads what changed, and the builder's mail reaches the mailbox.
+// Every screen is captured at 1280 and 390 px wide.
+import type { Page } from 'playwright-core';
+import { expect, inject } from 'vitest';
+import { browserTest as test, screenshot } from './browser';
+import { demoPassword, demoUsers, signIn } from './demo';
+
+const baseUrl = inject('e2eBaseUrl');
+
+async function shots(page: Page, name: string): Promise<void> {
+  await screenshot(page, `rulebook-${name}-1280`);
+  await page.setViewportSize({ width: 390, height: 844 });
+  await page.waitForTimeout(150);
+  await screenshot(page, `rulebook-${name}-390`);
+  await page.setViewportSize({ width: 1280, height: 800 });
+  await page.waitForTimeout(100);
+}
+
+async function api<T>(page: Page, method: 'GET' | 'POST' | 'PUT', path: string, data?: unknown): Promise<T> {
+  const token = ((await (await page.request.get(`${baseUrl}/api/auth/csrf`)).json()) as { token: string }).token;
+  const res = await page.request.fetch(`${baseUrl}/api${path}`, { method, data, headers: { 'X-CSRF-Token': token } });
+  if (!res.ok()) throw new Error(`${method} ${path}: ${res.status()} ${await res.text()}`);
+  return (res.status() === 204 ? undefined : await res.json()) as T;
+}
+
+/** The demo saloon (1.750 × 0.095 in hoops; F-UNIT-1: 1 in = 25.4 mm), complete enough to pass. */
+function passingSaloon() {
+  const hoop = { odMm: 44.45, wallMm: 2.413, material: 'mild_steel', process: 'dom', bends: [] };
+  const bar = { odMm: 38.1, wallMm: 2.413, material: 'mild_steel', process: 'dom', bends: [] };
+  return {
+    vehicle: { classId: 'club-saloon', weightWithDriverKg: 1200, chassis: 'unibody', cockpit: 'closed' },
+    members: [
+      { id: 'mh', kind: 'main_hoop', ...hoop, lengthMm: 3350, continuousPiece: true },
+      { id: 'fh', kind: 'front_hoop', ...hoop, lengthMm: 3900 },
+      { id: 'rb-l', kind: 'rear_brace', ...hoop, lengthMm: 1150 },
+      { id: 'rb-r', kind: 'rear_brace', ...hoop, lengthMm: 1150 },
+      { id: 'hb', kind: 'harness_bar', ...bar, lengthMm: 1180 },
+      { id: 'db-l', kind: 'door_bar', ...bar, lengthMm: 1020 },
+      { id: 'db-r', kind: 'door_bar', ...bar, lengthMm: 1020 },
+      { id: 'dg', kind: 'diagonal', ...bar },
+    ],
+    geometry: { rearBraceAttachBelowTopMm: 100, rearBraceAngleFromVerticalDeg: 38, helmetBelowHoopLineMm: 50, harnessBarBelowShouldersMm: 40 },
+    padding: { nearHelmet: true, standard: 'sfi_45_1' },
+    welding: { process: 'mig' },
+  };
+}
+
+test('the demo admin raises a minimum wall, sees the impact, puts it in force, and the builder is told', async ({ browser }) => {
+  const { page } = browser;
+  // The builder's passing sheet, through the API as the garage page would make it.
+  await api(page, 'POST', '/auth/login', { email: demoUsers.builder, password: demoPassword });
+  const me = await api<{ memberships: { club: { id: string } }[] }>(page, 'GET', '/auth/me');
+  const clubId = me.memberships[0]!.club.id;
+  const books = await api<{ rulebooks: { id: string; slug: string; versions: { id: string; status: string }[] }[] }>(page, 'GET', `/clubs/${clubId}/rulebooks`);
+  const cage = books.rulebooks.find((b) => b.slug === 'tarnwick-vale-mc-cage-regulations-2027')!;
+  const inForce = cage.versions.find((v) => v.status === 'published')!;
+  const car = await api<{ car: { id: string } }>(page, 'POST', '/cars', { name: 'Grey Saloon', make: 'Varden', model: 'Corsair', year: 1994, chassisType: 'unibody' });
+  const sheet = await api<{ buildSheet: { id: string } }>(page, 'POST', `/cars/${car.car.id}/build-sheets`, { name: 'Full cage 2027', clubId, rulesetVersionId: inForce.id, classId: 'club-saloon', specification: passingSaloon() });
+  const run = await api<{ checkRun: { overallVerdict: string } }>(page, 'POST', `/build-sheets/${sheet.buildSheet.id}/check-runs`);
+  expect(run.checkRun.overallVerdict).toBe('pass');
+  await api(page, 'POST', '/auth/logout');
+
+  await signIn(page, baseUrl, demoUsers.admin);
+  await page.getByRole('link', { name: 'Rulebooks' }).click();
+  await page.getByRole('heading', { name: 'Rulebooks', level: 1 }).waitFor();
+  await page.getByText('Version 1 · edition 2027').first().waitFor();
+  await shots(page, 'list');
+
+  const book = page.getByRole('region', { name: /Cage Regulations/ });
+  await book.getByRole('button', { name: 'Start a new draft' }).click();
+  await page.getByText('All changes saved').waitFor();
+  const saloon = page.getByRole('article', { name: /C4\.2\.2/ });
+  await saloon.waitFor();
+  await shots(page, 'draft-tubes');
+
+  // Club Saloon, 2,201 – 3,000 lb: the 1.750 in size's wall from 0.095 to 0.120 in, and the
+  // thinner-wall allowance with it (else a 1.750 in tube would still pass on 0.095 in).
+  const wall = saloon.getByLabel('Band 2, row 1, size 2: wall (in)');
+  expect(await wall.inputValue()).toBe('0.095');
+  await wall.fill('0.12');
+  await saloon.getByLabel('Thinner wall allowed: minimum wall').fill('0.12');
+  await page.getByText('All changes saved').waitFor();
+
+  for (const [tab, name] of [['Classes', 'classes'], ['Required members', 'members'], ['Limits', 'limits'], ['Other rules', 'other']] as const) {
+    await page.getByRole('tab', { name: tab }).click();
+    await shots(page, `draft-${name}`);
+  }
+  // The advanced view of one rule, with a problem pointed at by its path.
+  const process = page.getByRole('article', { name: /C4\.1\.2/ });
+  await process.getByRole('button', { name: 'Show the JSON' }).click();
+  const json = process.getByLabel(/JSON of requirement/);
+  await json.fill((await json.inputValue()).replace('"section": "C4.1.2"', '"section": ""'));
+  await process.getByText('requirements.6.section').waitFor();
+  await shots(page, 'draft-json');
+  await process.getByRole('button', { name: 'Hide the JSON' }).click();
+
+  // Someone else saves the same draft (the API, as a second admin's browser would).
+  const draftId = page.url().split('/ruleset-versions/')[1]!;
+  const current = await api<{ version: { lockVersion: number; document: { rulebook: { edition: string } } } }>(page, 'GET', `/ruleset-versions/${draftId}`);
+  await api(page, 'PUT', `/ruleset-drafts/${draftId}`, { lockVersion: current.version.lockVersion, document: { ...current.version.document, rulebook: { ...current.version.document.rulebook, edition: '2028 (other admin)' } } });
+  await page.getByRole('tab', { name: 'Tube sizes' }).click();
+  await page.getByLabel('Edition name').fill('2028 club copy');
+  await page.getByText('Someone else saved this draft', { exact: false }).first().waitFor();
+  await page.getByRole('dialog').getByText('Your version differs from theirs in').waitFor();
+  await shots(page, 'conflict');
+  await page.getByRole('button', { name: 'Keep my version' }).click();
+  await page.getByText('All changes saved').waitFor();
+
+  await page.getByRole('tab', { name: 'Impact' }).click();
+  await page.getByRole('button', { name: "Try it on the club's sheets" }).click();
+  await page.locator('[data-test="pass-to-fail"]').getByText('1', { exact: true }).waitFor();
+  expect(await page.getByRole('table').innerText()).toMatch(/Grey Saloon[\s\S]*Meets the rules[\s\S]*Does not meet them/);
+  await shots(page, 'impact');
+
+  await page.getByRole('button', { name: 'Put in force…' }).click();
+  const dialog = page.getByRole('dialog', { name: 'Put this edition in force' });
+  await dialog.getByLabel('Takes effect on').fill('2028-01-01');
+  await dialog.getByText('I have looked at the impact').click();
+  await shots(page, 'publish-confirm');
+  await dialog.getByRole('button', { name: 'Put in force' }).click();
+  await dialog.getByText('Re-check done').waitFor({ timeout: 30_000 });
+  expect(await dialog.innerText()).toContain('1 of 1');
+  await page.waitForTimeout(1200); // the bar's own fill animation
+  await shots(page, 'publish-done');
+  await dialog.getByRole('button', { name: 'Done' }).click();
+  await page.getByText('In force', { exact: true }).first().waitFor();
+  await page.getByRole('tab', { name: 'Tube sizes' }).click();
+  expect(await page.getByLabel('Band 2, row 1, size 2: wall (in)').first().isDisabled()).toBe(true);
+  await shots(page, 'published-read-only');
+
+  await page.getByRole('link', { name: 'All versions' }).click();
+  await page.getByRole('link', { name: 'What changed' }).first().click();
+  await page.getByText(/0\.095 → 0\.120 in/).first().waitFor();
+  await shots(page, 'compare');
+
+  // The builder's mail, through the outbox and the server's fake SMTP server.
+  let subjects: string[] = [];
+  for (let i = 0; i < 60 && !subjects.some((s) => s.includes('new pre-check verdict for Grey Saloon')); i++) {
+    const box = await api<{ messages: { to: string; subject: string }[] }>(page, 'GET', '/dev/mailbox');
+    subjects = box.messages.filter((m) => m.to === demoUsers.builder).map((m) => m.subject);
+    if (!subjects.length) await page.waitForTimeout(500);
+  }
+  expect(subjects.some((s) => s.includes('new pre-check verdict for Grey Saloon'))).toBe(true);
+  expect(browser.pageErrors.map((e) => e.message)).toEqual([]);
+}, 180_000);
