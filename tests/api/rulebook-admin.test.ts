@@ -11,8 +11,11 @@ const db = useTestDatabase();
 let app: Express;
 let fx: GarageFixture;
 let who: Awaited<ReturnType<typeof everyone>>;
+// The activity log is not reset between files (it is append-only); this file reads only its own entries.
+let startedAt: Date;
 
 beforeAll(async () => {
+  startedAt = new Date();
   fx = await garageFixture(db.ds);
   app = makeTestApp(db.ds);
   who = await everyone(app);
@@ -153,7 +156,7 @@ describe('rulebook administration', () => {
     expect(retired.body.version.status).toBe('retired');
     await post(who.admin, `/api/ruleset-versions/${fx.versionId}/retire`).expect(409);
 
-    const log: { action: string }[] = await db.ds.query(`SELECT action FROM audit_entries WHERE entity_type = 'ruleset_version' ORDER BY created_at`);
+    const log: { action: string }[] = await db.ds.query(`SELECT action FROM audit_entries WHERE entity_type = 'ruleset_version' AND created_at >= $1 ORDER BY created_at`, [startedAt]);
     expect(new Set(log.map((l) => l.action))).toEqual(new Set(['ruleset.draft_started', 'ruleset.draft_saved', 'ruleset.draft_deleted', 'ruleset.imported', 'ruleset.published', 'ruleset.retired']));
   });
 

@@ -12,10 +12,10 @@ describe('the app menu', () => {
     [[], ['Overview', 'Account']],
     [['builder'], ['Overview', 'Garage', 'Account']],
     [['steward'], ['Overview', 'Review queue', 'Account']],
-    [['admin'], ['Overview', 'Members', 'Activity log', 'Account']],
+    [['admin'], ['Overview', 'Members', 'Rulebooks', 'Activity log', 'Account']],
     [
       ['builder', 'steward', 'admin'],
-      ['Overview', 'Garage', 'Review queue', 'Members', 'Activity log', 'Account'],
+      ['Overview', 'Garage', 'Review queue', 'Members', 'Rulebooks', 'Activity log', 'Account'],
     ],
   ])('roles %j in the current club show %j', (roles, expected) => {
     expect(labels(roles)).toEqual(expected);
