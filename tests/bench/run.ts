@@ -44,6 +44,15 @@ try {
   failed = true;
 }
 
+try {
+  const { runRepublishBench, REPUBLISH_TARGET_SECONDS } = await import('./republish');
+  const r = await runRepublishBench({ log: true });
+  lines.push({ name: `re-check after a publish (${r.sheets} sheets, database included)`, value: `${r.seconds.toFixed(1)} s, ${r.sheetsPerSecond.toFixed(0)} sheets/s`, target: `< ${REPUBLISH_TARGET_SECONDS} s`, ok: r.pass });
+} catch (err) {
+  console.error('republish bench failed:', err instanceof Error ? err.message : err);
+  failed = true;
+}
+
 const cores = (await import('node:os')).availableParallelism();
 const load = (await import('node:os')).loadavg()[0]!;
 console.log(`\nBench summary (${cores} cores, load average ${load.toFixed(1)} at the end)`);
