@@ -20,7 +20,7 @@ import { createCarsRouter } from './routes/cars.routes';
 import { createCheckRunsReportRouter } from './routes/check-runs-report.routes';
 import { createPhotosRouter } from './routes/photos.routes';
 import { createChecksRouter } from './routes/checks.routes';
-import { createHealthRouter } from './routes/health.routes';
+import { createHealthProbe, createHealthRouter, type HealthProbe } from './routes/health.routes';
 import { createInvitationsRouter } from './routes/invitations.routes';
 import { createMembersRouter } from './routes/members.routes';
 import { createAuditRouter } from './routes/audit.routes';
@@ -111,7 +111,9 @@ export function createApp(options: CreateAppOptions): Express {
   app.disable('x-powered-by');
   app.use(securityHeaders(config));
 
-  app.use('/api', createHealthRouter(dataSource));
+  const healthProbe = createHealthProbe(dataSource);
+  app.locals.healthProbe = healthProbe;
+  app.use('/api', createHealthRouter(healthProbe));
 
   const sessionSetup: SessionSetup = createSessionMiddleware({
     dataSource,
@@ -171,4 +173,5 @@ export async function closeApp(app: Express): Promise<void> {
   await store?.close();
   // The check worker threads belong to the services; end them with the app.
   await (app.locals.services as Services | undefined)?.checks.close();
+  await (app.locals.healthProbe as HealthProbe | undefined)?.close();
 }
