@@ -8,8 +8,9 @@ const baseUrl = inject('e2eBaseUrl');
 
 test.for<[DemoRole, string[]]>([
   ['builder', ['Overview', 'Garage', 'Account']],
-  ['steward', ['Overview', 'Account']],
-  ['admin', ['Overview', 'Members', 'Activity log', 'Mailbox', 'Account']],
+  ['steward', ['Overview', 'Review queue', 'Account']],
+  // The demo admin is a steward too.
+  ['admin', ['Overview', 'Review queue', 'Members', 'Rulebooks', 'Activity log', 'Mailbox', 'Account']],
 ])('signed in as the demo %s, the menu shows exactly %j', async ([role, expected], { browser }) => {
   const { page } = browser;
   await signIn(page, baseUrl, demoUsers[role]);

@@ -9,6 +9,17 @@ export const actionLabels: Record<string, string> = {
   'membership.roles_changed': 'Roles changed',
   'membership.removed': 'Member removed',
   'invitation.accepted': 'Invitation accepted',
+  'ruleset.draft_started': 'Rulebook draft started',
+  'ruleset.draft_saved': 'Rulebook draft saved',
+  'ruleset.imported': 'Ruleset file imported',
+  'ruleset.draft_deleted': 'Rulebook draft deleted',
+  'ruleset.published': 'Edition put in force',
+  'ruleset.retired': 'Edition withdrawn',
+  'ruleset.recheck_completed': 'Build sheets re-checked',
+  'cage_record.issued': 'Cage record issued',
+  'cage_record.revoked': 'Cage record revoked',
+  'club.record_settings_changed': 'Cage record settings changed',
+  'submission.annotated': 'Finding annotated',
 };
 
 /** `ruleset.version_published` → "Ruleset: version published" for actions without a label yet. */
