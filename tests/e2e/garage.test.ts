@@ -40,6 +40,14 @@ test('a builder takes a car from empty garage to a kept check and its PDF', asyn
   const dir = mkdtempSync(join(tmpdir(), 'cagewright-garage-'));
   try {
     await signIn(page, baseUrl, demoUsers.builder);
+    // Other journeys share this database and may have given the builder cars: archive them (as the
+    // builder could) so this journey starts from an empty garage whatever ran before it.
+    const { token } = (await (await page.request.get(`${baseUrl}/api/auth/csrf`)).json()) as { token: string };
+    const { cars } = (await (await page.request.get(`${baseUrl}/api/cars`)).json()) as { cars: { id: string }[] };
+    for (const car of cars) {
+      const res = await page.request.post(`${baseUrl}/api/cars/${car.id}/archive`, { headers: { 'X-CSRF-Token': token } });
+      expect(res.status()).toBe(200);
+    }
     await page.getByRole('navigation', { name: 'Main' }).getByRole('link', { name: 'Garage' }).click();
     await page.getByRole('heading', { name: 'Your garage is empty' }).waitFor();
     await screenshot(page, 'garage-empty-desktop');
