@@ -9,13 +9,13 @@
 // is created afresh, migrated and seeded each run. The ruleset is the 40-requirement bench ruleset
 // and the 15-member bench specification of tests/bench/fixtures.ts.
 //   npx tsx --tsconfig tsconfig.json tests/bench/api.ts
-import { execFileSync, fork, type ChildProcess } from 'node:child_process';
+import { fork, type ChildProcess } from 'node:child_process';
 import { once } from 'node:events';
 import type { AddressInfo } from 'node:net';
 import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { fileURLToPath } from 'node:url';
 import autocannon from 'autocannon';
-import { Client } from 'pg';
+import { freshSeededDatabase } from './bench-db';
 
 const root = fileURLToPath(new URL('../..', import.meta.url));
 const benchDb = 'cagewright_bench';
@@ -31,35 +31,12 @@ export interface ApiBenchResult {
   misses: string[];
 }
 
-function pgScript(...args: string[]): string {
-  return execFileSync('bash', [`${root}scripts/pg.sh`, ...args], { cwd: root, encoding: 'utf8' }).trim();
-}
-
 /** A fresh, migrated, seeded bench database with the bench rulebook published; its URL and version id. */
 async function prepareDatabase(): Promise<{ url: string; versionId: string }> {
-  pgScript('start', '--test');
-  const testUrl = pgScript('url', '--test');
-  const admin = new Client({ connectionString: testUrl });
-  await admin.connect();
-  try {
-    await admin.query(`DROP DATABASE IF EXISTS ${benchDb} WITH (FORCE)`);
-    await admin.query(`CREATE DATABASE ${benchDb}`);
-  } finally {
-    await admin.end();
-  }
-  const url = new URL(testUrl);
-  url.pathname = `/${benchDb}`;
-
-  const { createDataSource } = await import('../../backend/src/db/data-source');
-  const { migrate } = await import('../../backend/src/db/migrate');
-  const { seedDemo } = await import('../../backend/src/db/seed');
   const { validateRulesetDocument } = await import('../../backend/src/domain');
   const { buildBenchRuleset } = await import('./fixtures');
-  const ds = createDataSource({ databaseUrl: url.toString(), poolSize: 2 });
-  await ds.initialize();
+  const { url, ds } = await freshSeededDatabase(benchDb, 2);
   try {
-    await migrate(ds);
-    await seedDemo(ds);
     const validation = validateRulesetDocument(buildBenchRuleset().document);
     if (!validation.ok) throw new Error(`bench ruleset invalid: ${JSON.stringify(validation.problems.slice(0, 3))}`);
     const doc = validation.document;
@@ -72,7 +49,7 @@ async function prepareDatabase(): Promise<{ url: string; versionId: string }> {
        VALUES ($1, 1, 'published', $2, $3, $4, now()) RETURNING id`,
       [book.id, doc.rulebook.edition, doc.rulebook.effectiveDate, JSON.stringify(doc)],
     );
-    return { url: url.toString(), versionId: version.id as string };
+    return { url, versionId: version.id as string };
   } finally {
     await ds.destroy();
   }

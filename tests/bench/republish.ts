@@ -8,13 +8,11 @@
 // Reports sheets/s, total time (target under 20 s) and the event-loop delay while it ran, which is
 // what other requests to the same process would wait.
 //   npx tsx --tsconfig tsconfig.json tests/bench/republish.ts
-import { execFileSync } from 'node:child_process';
 import { randomUUID } from 'node:crypto';
 import { monitorEventLoopDelay } from 'node:perf_hooks';
 import { fileURLToPath } from 'node:url';
-import { Client } from 'pg';
+import { freshSeededDatabase } from './bench-db';
 
-const root = fileURLToPath(new URL('../..', import.meta.url));
 const benchDb = 'cagewright_bench_republish';
 export const REPUBLISH_TARGET_SECONDS = 20;
 
@@ -29,10 +27,6 @@ export interface RepublishBenchResult {
   eventLoopDelayMaxMs: number;
   seedSeconds: number;
   pass: boolean;
-}
-
-function pgScript(...args: string[]): string {
-  return execFileSync('bash', [`${root}scripts/pg.sh`, ...args], { cwd: root, encoding: 'utf8' }).trim();
 }
 
 const hoop = (wallMm: number) => ({ odMm: 44.45, wallMm, material: 'mild_steel', process: 'dom', bends: [] });
@@ -65,29 +59,10 @@ interface TubeReq {
 export async function runRepublishBench(options: { sheets?: number; log?: boolean } = {}): Promise<RepublishBenchResult> {
   const total = options.sheets ?? 10_000;
   const log = options.log ? (m: string) => console.log(`[republish] ${m}`) : () => undefined;
-  pgScript('start', '--test');
-  const testUrl = pgScript('url', '--test');
-  const admin = new Client({ connectionString: testUrl });
-  await admin.connect();
-  try {
-    await admin.query(`DROP DATABASE IF EXISTS ${benchDb} WITH (FORCE)`);
-    await admin.query(`CREATE DATABASE ${benchDb}`);
-  } finally {
-    await admin.end();
-  }
-  const url = new URL(testUrl);
-  url.pathname = `/${benchDb}`;
-
-  const { createDataSource } = await import('../../backend/src/db/data-source');
-  const { migrate } = await import('../../backend/src/db/migrate');
-  const { seedDemo } = await import('../../backend/src/db/seed');
   const { createServices } = await import('../../backend/src/services');
   const { runRepublish } = await import('../../backend/src/services/publish/republish-job');
-  const ds = createDataSource({ databaseUrl: url.toString(), poolSize: 4 });
-  await ds.initialize();
+  const { ds } = await freshSeededDatabase(benchDb, 4);
   try {
-    await migrate(ds);
-    await seedDemo(ds);
     const seedStart = performance.now();
     const [ctx] = await ds.query(
       `SELECT v.id AS "versionId", v.rulebook_id AS "rulebookId", r.club_id AS "clubId",
