@@ -141,3 +141,11 @@ export function cageViewSvg(view: ProjectedView, options: CageSvgOptions): strin
   out.push('</svg>');
   return out.join('');
 }
+
+/** A short length of tube with a verdict's mark and symbol, for the legend (screen and PDF alike). */
+export function legendSwatchSvg(verdict: MarkVerdict, title: string = VERDICT_MARKS[verdict].label): string {
+  const od = 10;
+  const member = { id: `legend-${verdict}`, name: title, odMm: od, points: [{ u: 6, v: -8 }, { u: 54, v: -8 }], depthMm: 0 };
+  const body = memberSvg(member, { name: title, sizeText: '', verdict, rule: null }, false).replace(/ cursor="pointer"/g, '');
+  return `<svg xmlns="http://www.w3.org/2000/svg"${attrs({ viewBox: '0 0 80 16', width: 40, height: 8, role: 'img', 'aria-label': title })}>${body}${symbol(verdict, { u: 70, v: -8 }, 7)}</svg>`;
+}
