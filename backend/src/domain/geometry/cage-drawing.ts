@@ -2,21 +2,17 @@
 // the review page, the PDF and the bench all call, so each draws exactly the same thing. Members
 // without a path (a sheet typed the old way) are simply not drawn; the sheet works as before.
 import { formatQuantity, type UnitSystem } from '../units.js';
-import { MEMBER_KIND_LABELS, type MemberKind } from '../vocabulary.js';
-import { memberCentreline } from './centreline-source.js';
+import type { MemberKind } from '../vocabulary.js';
+import { memberCentreline } from './centreline.js';
+import { deriveCageGeometry, type GeometryInput } from './derive.js';
+import type { GeometryFactValues } from './derived-facts.js';
+import type { CageNode, PathEntry } from './model.js';
+import { memberNames } from './names.js';
 import { cageGeometryMarks } from './cage-marks.js';
 import { projectView, VIEW_NAMES, type DrawnMember, type ViewName } from './projection.js';
 import { memberMarks } from './verdict-marks.js';
 import type { Finding } from '../../contracts/report.js';
 import { cageViewSvg, type SvgMemberInfo } from './view-svg.js';
-
-export interface CageNodeLike {
-  id: string;
-  label?: string;
-  xMm: number;
-  yMm: number;
-  zMm: number;
-}
 
 export interface CageMemberLike {
   id: string;
@@ -24,33 +20,14 @@ export interface CageMemberLike {
   label?: string;
   odMm?: number;
   wallMm?: number;
-  path?: { nodeId: string; clrMm?: number }[];
+  path?: readonly PathEntry[];
 }
 
-/** The parts of a specification (or of the editor's draft) the drawing reads. */
+/** The parts of a specification (or of the editor's draft, where a size may still be missing) the drawing reads. */
 export interface CageSpecLike {
   members: readonly CageMemberLike[];
-  model?: { nodes: readonly CageNodeLike[] };
-  vehicle?: { driverShoulderHeightMm?: number; helmet?: { xMm: number; yMm: number; zMm: number; radiusMm: number } };
-}
-
-/**
- * The name every output uses: the builder's own, else the kind in words, numbered when the cage has
- * several of that kind ("Rear brace (backstay) 2"), never an internal id.
- */
-export function memberNames(members: readonly CageMemberLike[]): Map<string, string> {
-  const counts = new Map<MemberKind, number>();
-  for (const m of members) counts.set(m.kind, (counts.get(m.kind) ?? 0) + 1);
-  const seen = new Map<MemberKind, number>();
-  const out = new Map<string, string>();
-  for (const m of members) {
-    const nth = (seen.get(m.kind) ?? 0) + 1;
-    seen.set(m.kind, nth);
-    const words = MEMBER_KIND_LABELS[m.kind];
-    const fallback = `${words.charAt(0).toUpperCase()}${words.slice(1)}${(counts.get(m.kind) ?? 0) > 1 ? ` ${nth}` : ''}`;
-    out.set(m.id, m.label?.trim() || fallback);
-  }
-  return out;
+  model?: { nodes: readonly CageNode[] };
+  vehicle?: GeometryInput['vehicle'];
 }
 
 /** Members that can be drawn: a path of known nodes and an OD. */
@@ -60,10 +37,10 @@ export function drawnMembers(spec: CageSpecLike): DrawnMember[] {
   const known = new Set(nodes.map((n) => n.id));
   const names = memberNames(spec.members);
   const out: DrawnMember[] = [];
-  for (const m of spec.members) {
+  for (const [i, m] of spec.members.entries()) {
     if (!m.path || m.path.length < 2 || !m.odMm || m.odMm <= 0 || m.path.some((p) => !known.has(p.nodeId))) continue;
     const centreline = memberCentreline(nodes, m.path, m.odMm);
-    if (centreline.length >= 2) out.push({ id: m.id, name: names.get(m.id) ?? m.id, odMm: m.odMm, centreline });
+    if (centreline.length >= 2) out.push({ id: m.id, name: names[i]!, odMm: m.odMm, centreline });
   }
   return out;
 }
@@ -90,6 +67,20 @@ export interface CageDrawing {
   /** Per drawn member: name, size, verdict and rule (for hover text and lists beside the drawing). */
   members: Map<string, SvgMemberInfo>;
   drawn: DrawnMember[];
+  /** The model's derived geometry facts the drawing labels (the same values the rules read). */
+  facts: GeometryFactValues;
+}
+
+/** The model's facts, from the members that have a size (a draft may still lack one). */
+export function drawingFacts(spec: CageSpecLike): GeometryFactValues {
+  if (!spec.model || spec.model.nodes.length === 0) return {};
+  const members = spec.members.filter((m): m is CageMemberLike & { odMm: number } => typeof m.odMm === 'number' && m.odMm > 0);
+  try {
+    return deriveCageGeometry({ vehicle: spec.vehicle, members, model: spec.model }).facts;
+  } catch {
+    // A draft mid-edit may hold a path the contract will refuse; the drawing still shows, unlabelled.
+    return {};
+  }
 }
 
 export function drawCage(input: CageDrawingInput): CageDrawing {
@@ -102,10 +93,11 @@ export function drawCage(input: CageDrawingInput): CageDrawing {
     const mark = marks.get(d.id);
     members.set(d.id, { name: d.name, sizeText: tubeSizeWords(m.odMm, m.wallMm, input.units), verdict: mark?.verdict ?? 'unchecked', rule: mark?.worstRule ?? null });
   }
-  const geometry = cageGeometryMarks(input.spec, drawn, input.units);
+  const facts = drawingFacts(input.spec);
+  const geometry = cageGeometryMarks(input.spec, drawn, facts, input.units);
   const svgs = {} as Record<ViewName, string>;
   for (const view of VIEW_NAMES) {
     svgs[view] = cageViewSvg(projectView(drawn, view), { members, marks: geometry, units: input.units, highlightId: input.highlightId ?? null, labels: input.labels ?? false });
   }
-  return { svgs, members, drawn };
+  return { svgs, members, drawn, facts };
 }

@@ -104,7 +104,7 @@ export function cageViewSvg(view: ProjectedView, options: CageSvgOptions): strin
   const f = frameOf(view, marks);
   const width = f.maxU - f.minU;
   const height = f.maxV - f.minV;
-  const fontMm = Math.max(width, height) * 0.026;
+  const fontMm = Math.max(width, height) * 0.02;
   const title = options.title ?? VIEW_TITLES[view.view];
   const out: string[] = [];
   out.push(
