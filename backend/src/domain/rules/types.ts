@@ -6,7 +6,8 @@ import type { Dimension } from '../units.js';
 import type { FriendlyOperator } from './operators.js';
 import type { TemplateName } from './template-kinds.js';
 
-export type LeafValue = number | string | boolean | readonly string[] | { fact: string };
+/** `{ fact }`: another value of the check; `times`: k × it (canonical; `timesDimension` null for a plain factor). */
+export type LeafValue = number | string | boolean | readonly string[] | { fact: string; times?: number; timesDimension?: Dimension | null };
 
 export interface LeafMeta {
   fact: string;
@@ -27,6 +28,9 @@ export interface AlternativeMeta {
   materials?: readonly string[];
   processes?: readonly string[];
   source: 'table' | 'allowance' | 'printed_equivalent';
+  /** With a tube table's `measuredWall`: the thinnest reading the member needs, and its fact. */
+  requiredReadingMm?: number;
+  readingFact?: string;
   note?: string;
 }
 
