@@ -102,9 +102,9 @@ type Subject =
   | { kind: 'member'; id: string; memberKind: MemberKind; index: number }
   | { kind: 'plate'; id: string; location: PlateLocation; index: number };
 
-type VariantChoice = { variant: CompiledVariant } | { missingWeight: true } | { outsideTable: true };
+export type VariantChoice = { variant: CompiledVariant } | { missingWeight: true } | { outsideTable: true };
 
-function chooseVariant(req: CompiledRequirement, weightKg: number | undefined): VariantChoice {
+export function chooseVariant(req: CompiledRequirement, weightKg: number | undefined): VariantChoice {
   if (req.variants.length === 1 && req.variants[0].aboveKg === null && req.variants[0].upToKg === null) return { variant: req.variants[0] };
   if (weightKg === undefined) return { missingWeight: true };
   const v = req.variants.find((x) => (x.aboveKg === null || weightKg > x.aboveKg + 1e-9) && (x.upToKg === null || weightKg <= x.upToKg + 1e-9));
