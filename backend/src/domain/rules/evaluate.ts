@@ -299,7 +299,7 @@ function missingList(names: Iterable<string>): MissingFact[] {
 
 // Other members' sizes a compiled ruleset compares with, found once per compiled ruleset.
 const peerNames = new WeakMap<CompiledRuleset, string[]>();
-function peerNamesOf(compiled: CompiledRuleset): string[] {
+export function peerNamesOf(compiled: CompiledRuleset): string[] {
   let names = peerNames.get(compiled);
   if (!names) {
     names = [...new Set(compiled.requirements.flatMap((r) => r.factsUsed.filter((f) => referenceLabel(f) !== undefined)))];
