@@ -2,6 +2,7 @@
 export * from './units.js';
 export * from './tube.js';
 export * from './vocabulary.js';
+export * from './dates.js';
 export * from './facts.js';
 export { compileRuleset, RulesetInvalidError } from './rules/compile.js';
 export { validateRulesetDocument } from './rules/validate.js';

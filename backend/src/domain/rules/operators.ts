@@ -35,10 +35,26 @@ export const NOT_NEAR = 'cwNotNear';
 const isNumber = (x: unknown): x is number => typeof x === 'number' && Number.isFinite(x);
 const near = (a: number, v: unknown): boolean => Array.isArray(v) && isNumber(v[0]) && isNumber(v[1]) && Math.abs(a - v[0]) <= v[1];
 
+/**
+ * Dates are "YYYY-MM-DD" text, which orders correctly as text; the engine's own lessThan only
+ * takes numbers, so date comparisons get operators of their own.
+ */
+export const DATE_OPERATORS: Readonly<Partial<Record<EngineOperator, string>>> = {
+  lessThan: 'cwDateBefore', lessThanInclusive: 'cwDateOnOrBefore', greaterThan: 'cwDateAfter', greaterThanInclusive: 'cwDateOnOrAfter',
+  equal: 'cwDateOn', notEqual: 'cwDateNotOn',
+};
+const isDateText = (x: unknown): x is string => typeof x === 'string' && /^\d{4}-\d{2}-\d{2}$/.test(x);
+
 export function customOperators(): Operator[] {
   return [
     new Operator<number, unknown>(NEAR, (a, v) => near(a, v), isNumber),
     new Operator<number, unknown>(NOT_NEAR, (a, v) => !near(a, v), isNumber),
+    new Operator<string, unknown>('cwDateBefore', (a, v) => a < String(v), isDateText),
+    new Operator<string, unknown>('cwDateOnOrBefore', (a, v) => a <= String(v), isDateText),
+    new Operator<string, unknown>('cwDateAfter', (a, v) => a > String(v), isDateText),
+    new Operator<string, unknown>('cwDateOnOrAfter', (a, v) => a >= String(v), isDateText),
+    new Operator<string, unknown>('cwDateOn', (a, v) => a === String(v), isDateText),
+    new Operator<string, unknown>('cwDateNotOn', (a, v) => a !== String(v), isDateText),
   ];
 }
 
