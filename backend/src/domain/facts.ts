@@ -14,6 +14,9 @@ import {
 } from './vocabulary.js';
 import type { MemberKind } from './vocabulary.js';
 import { isIsoDate } from './dates.js';
+import { memberShapes, memberSide } from './geometry/derive.js';
+import { SIDED_MEMBER_KINDS } from './vocabulary.js';
+import type { MemberSide } from './vocabulary.js';
 
 export type FactScope = 'vehicle' | 'member' | 'plate';
 /**
@@ -215,8 +218,9 @@ export function vehicleFacts(spec: Specification, cls: ClassBasis, tubes: readon
   const masses = tubes.map((t) => t.massKg);
   const estimated = masses.length > 0 && masses.every((x) => x !== null) ? masses.reduce<number>((s, x) => s + (x ?? 0), 0) : undefined;
   const sideCounts: Record<string, number> = {};
-  for (const m of spec.members) {
-    const key = `${m.kind}:${m.side ?? 'unstated'}`;
+  const sides = memberSides(spec);
+  for (const [i, m] of spec.members.entries()) {
+    const key = `${m.kind}:${sides[i] ?? 'unstated'}`;
     sideCounts[key] = (sideCounts[key] ?? 0) + 1;
   }
   const measuredWeight = cls.weightBasis === 'with_driver' ? v.weightWithDriverKg : v.weightWithoutDriverKg;
@@ -253,8 +257,22 @@ export function vehicleFacts(spec: Specification, cls: ClassBasis, tubes: readon
   };
 }
 
+/**
+ * Each member's side: as typed on the sheet, else derived from its path in the cage model (y > 0 is
+ * the car's left). Kinds that span the car never get one.
+ */
+export function memberSides(spec: Specification): (MemberSide | undefined)[] {
+  const sides: (MemberSide | undefined)[] = spec.members.map((m) => (SIDED_MEMBER_KINDS.includes(m.kind) ? m.side : undefined));
+  if (spec.model && spec.members.some((m, i) => m.path && sides[i] === undefined && SIDED_MEMBER_KINDS.includes(m.kind))) {
+    for (const shape of memberShapes(spec)) {
+      if (sides[shape.index] === undefined && SIDED_MEMBER_KINDS.includes(shape.kind)) sides[shape.index] = memberSide(shape.geometry.points);
+    }
+  }
+  return sides;
+}
+
 /** Member-scope facts of one member (vehicle facts are merged in by the evaluator). */
-export function memberFacts(spec: Specification, m: SpecMember, tube: MemberTubeData): FactSet {
+export function memberFacts(spec: Specification, m: SpecMember, tube: MemberTubeData, side: MemberSide | undefined = m.side): FactSet {
   const readings = (m.wallReadings ?? []).map((r) => r.wallMm);
   const bends = m.bends;
   const clrs = (bends ?? []).map((b) => b.clrMm);
@@ -265,7 +283,7 @@ export function memberFacts(spec: Specification, m: SpecMember, tube: MemberTube
   const minClr = minOf(clrs);
   return {
     'member.kind': m.kind,
-    'member.side': m.side,
+    'member.side': side,
     'member.odMm': m.odMm,
     'member.wallMm': m.wallMm,
     'member.minMeasuredWallMm': minOf(readings),

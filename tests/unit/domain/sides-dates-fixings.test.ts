@@ -53,6 +53,20 @@ describe('per-side counts ("at least one door bar on each side")', () => {
   test('opt-in: without "side" the same sheet without sides passes on its total, as before', async () => {
     expect(finding(await check(total, { vehicle: { classId: 'c' }, members: [bar('a'), bar('b')] }), 'doors').verdict).toBe('pass');
   });
+  test('with a cage model, a member without a typed side takes the side of its path (y > 0 is the left)', async () => {
+    const node = (id: string, yMm: number, xMm: number) => ({ id, role: 'end', xMm, yMm, zMm: 400 });
+    const spec = {
+      vehicle: { classId: 'c' },
+      model: { nodes: [node('la', 600, 0), node('lb', 600, 900), node('ra', -600, 0), node('rb', -600, 900)] },
+      members: [
+        { ...bar('l'), path: [{ nodeId: 'la' }, { nodeId: 'lb' }] },
+        { ...bar('r'), path: [{ nodeId: 'ra' }, { nodeId: 'rb' }] },
+      ],
+    };
+    expect(finding(await check(each, spec), 'doors').verdict).toBe('pass');
+    spec.members[1].path = [{ nodeId: 'la' }, { nodeId: 'lb' }];
+    expect(finding(await check(each, spec), 'doors').verdict).toBe('fail');
+  });
   test('"on the driver\'s side" reads vehicle.driverSide', async () => {
     const drv = compiled(doc([doorBars({ side: 'driver', min: 2 })]));
     const members = [bar('r1', 'right'), bar('r2', 'right'), bar('l1', 'left')];
@@ -219,5 +233,27 @@ describe('opt-in: documents that do not use the new forms keep their verdicts', 
     if (!parsed.ok) throw new Error('bad spec');
     const r = await evaluateSpecification(demo, 'club-saloon', parsed.value);
     expect(r.findings.some((f) => f.missing.some((m) => ['member.side', 'cage.approvedOn', 'plate.footFixing', 'vehicle.driverSide'].includes(m.fact)))).toBe(false);
+  });
+});
+
+describe('the tube chooser honours legacy rows and listed weights', () => {
+  test('F-MSUK-3: 38 × 2.5 and 40 × 2.0 are listed sizes only for a cage approved before 1 Jan 1995', async () => {
+    const { listedSizesForBand } = await import('@backend/domain/tube-choice');
+    const msuk = compileFile('tests/fixtures/rulesets/msuk-ncr-2026.json');
+    const sizes = (approvedOn?: string) => {
+      const r = listedSizesForBand(msuk, { classId: 'new_cage', memberKind: 'main_hoop', ...(approvedOn ? { approvedOn } : {}) });
+      if (r.status !== 'listed') throw new Error(r.status);
+      return r.sizes.map((s) => [s.odMm, s.wallMm]);
+    };
+    expect(sizes()).toEqual([[50, 2], [45, 2.5]]);
+    expect(sizes('1995-01-01')).toEqual([[50, 2], [45, 2.5]]);
+    expect(sizes('1990-05-01')).toEqual([[40, 2], [38, 2.5], [50, 2], [45, 2.5]]);
+  });
+  test('F-SCCA-T1: a class with a listed weight bands on it, whatever weight the query gives', async () => {
+    const { listedSizesForBand } = await import('@backend/domain/tube-choice');
+    const scca = compileFile('tests/fixtures/rulesets/scca-gcr-quoted.json');
+    const r = listedSizesForBand(scca, { classId: 'gcr_2008_listed', memberKind: 'main_hoop', weightKg: 1000 * 0.45359237 });
+    if (r.status !== 'listed') throw new Error(r.status);
+    expect(r.sizes[0].bandLabel).toBe('1,701 – 2,699 lb');
   });
 });

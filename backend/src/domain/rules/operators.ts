@@ -43,18 +43,19 @@ export const DATE_OPERATORS: Readonly<Partial<Record<EngineOperator, string>>> =
   lessThan: 'cwDateBefore', lessThanInclusive: 'cwDateOnOrBefore', greaterThan: 'cwDateAfter', greaterThanInclusive: 'cwDateOnOrAfter',
   equal: 'cwDateOn', notEqual: 'cwDateNotOn',
 };
-const isDateText = (x: unknown): x is string => typeof x === 'string' && /^\d{4}-\d{2}-\d{2}$/.test(x);
+export const isDateText = (x: unknown): x is string => typeof x === 'string' && /^\d{4}-\d{2}-\d{2}$/.test(x);
+
+/** The date operators' comparisons, shared by the engine and the plain-code reader (plain.ts). */
+export const DATE_COMPARISONS: Readonly<Record<string, (a: string, b: string) => boolean>> = {
+  cwDateBefore: (a, b) => a < b, cwDateOnOrBefore: (a, b) => a <= b, cwDateAfter: (a, b) => a > b,
+  cwDateOnOrAfter: (a, b) => a >= b, cwDateOn: (a, b) => a === b, cwDateNotOn: (a, b) => a !== b,
+};
 
 export function customOperators(): Operator[] {
   return [
     new Operator<number, unknown>(NEAR, (a, v) => near(a, v), isNumber),
     new Operator<number, unknown>(NOT_NEAR, (a, v) => !near(a, v), isNumber),
-    new Operator<string, unknown>('cwDateBefore', (a, v) => a < String(v), isDateText),
-    new Operator<string, unknown>('cwDateOnOrBefore', (a, v) => a <= String(v), isDateText),
-    new Operator<string, unknown>('cwDateAfter', (a, v) => a > String(v), isDateText),
-    new Operator<string, unknown>('cwDateOnOrAfter', (a, v) => a >= String(v), isDateText),
-    new Operator<string, unknown>('cwDateOn', (a, v) => a === String(v), isDateText),
-    new Operator<string, unknown>('cwDateNotOn', (a, v) => a !== String(v), isDateText),
+    ...Object.entries(DATE_COMPARISONS).map(([name, cmp]) => new Operator<string, unknown>(name, (a, v) => cmp(a, String(v)), isDateText)),
   ];
 }
 
