@@ -23,6 +23,10 @@ if [ "$purpose" = test ]; then
 else
   port="${CAGEWRIGHT_PG_PORT:-54320}"; db_name="${CAGEWRIGHT_DB_NAME:-cagewright}"; cluster=pg
 fi
+# A cluster of its own for a test that stops and starts PostgreSQL (the outage test), beside the others.
+if [ -n "${CAGEWRIGHT_PG_CLUSTER:-}" ]; then
+  cluster="$CAGEWRIGHT_PG_CLUSTER"
+fi
 
 log() { echo "[pg:$purpose] $*" >&2; }
 

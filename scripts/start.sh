@@ -2,7 +2,8 @@
 # npm start: from a fresh clone on a machine with Node.js to the running app at http://127.0.0.1:PORT.
 # Installs npm packages and PostgreSQL when missing, starts the durable private cluster (it keeps
 # running afterwards and is reused; `npm run db:stop` stops it), migrates, seeds the demo (idempotent),
-# builds the front end when its sources changed, then replaces itself with the server (Ctrl-C stops it).
+# builds the front end when its sources changed, then replaces itself with the server's supervisor
+# (backend/src/supervisor.ts: restarts the server after an unexpected exit; Ctrl-C stops both).
 set -euo pipefail
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
 
@@ -31,4 +32,5 @@ fake_smtp="${FAKE_SMTP:-$([ "${NODE_ENV:-development}" = production ] && echo fa
 if [ "$fake_smtp" = true ] || [ "$fake_smtp" = 1 ]; then
   info "e-mail is caught by the local fake SMTP server on ${SMTP_URL:-smtp://127.0.0.1:2525}; admins read it under Mailbox"
 fi
-exec node --import tsx backend/src/server.ts
+# The supervisor restarts the server if it ever exits unexpectedly, and says so in the log.
+exec node --import tsx backend/src/supervisor.ts -- node --import tsx backend/src/server.ts

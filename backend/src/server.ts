@@ -15,6 +15,7 @@ import { createMailboxService, createSmtpTransport, startOutboxDispatcher, type 
 import { createJobs } from './services/jobs';
 import { createServices } from './services';
 import { registerRepublishWorker } from './services/publish/republish-job';
+import { exitCodeConfig } from './supervisor';
 
 function readConfig(): Config {
   try {
@@ -22,7 +23,8 @@ function readConfig(): Config {
   } catch (err) {
     if (err instanceof ConfigError) {
       console.error(err.message);
-      process.exit(1);
+      // The supervisor does not restart a server that refuses its configuration.
+      process.exit(exitCodeConfig);
     }
     throw err;
   }

@@ -163,7 +163,8 @@ export default async function setup(project: TestProject): Promise<() => Promise
   };
 
   try {
-    await waitForHealth(server, () => log, 60_000);
+    // Generous: on a loaded two-core machine tsx alone can take a minute before the server listens.
+    await waitForHealth(server, () => log, 180_000);
   } catch (err) {
     await teardown();
     throw err;

@@ -7,6 +7,8 @@ import {
   PLATE_FIXINGS, PLATE_LOCATIONS, PROCESSES, WALL_METHODS, WELDING_PROCESSES,
 } from '../domain/vocabulary.js';
 import { tubeSizeProblems } from '../domain/tube.js';
+import { MODEL_LIMITS, NODE_ROLES } from '../domain/geometry/model.js';
+import { analysePath } from '../domain/geometry/member-path.js';
 
 export const SPEC_LIMITS = { members: 60, bendsPerMember: 12, readingsPerMember: 24, jointsPerMember: 12, plates: 40, holes: 60 } as const;
 
@@ -36,6 +38,33 @@ export const jointSchema = z.object({
   boltGrade: text(20).optional(),
 });
 
+// The cage model (issue 10): nodes on tube centrelines in the cage frame, see docs/geometry.md.
+const coordinate = z.number()
+  .min(-MODEL_LIMITS.coordinateMm, `More than ${MODEL_LIMITS.coordinateMm / 1000} m from the origin: check the units (the model is in millimetres)`)
+  .max(MODEL_LIMITS.coordinateMm, `More than ${MODEL_LIMITS.coordinateMm / 1000} m from the origin: check the units (the model is in millimetres)`);
+
+export const cageNodeSchema = z.object({
+  id,
+  label: text(80).optional(),
+  role: z.enum(NODE_ROLES),
+  xMm: coordinate,
+  yMm: coordinate,
+  zMm: coordinate,
+});
+
+export const modelSchema = z.object({
+  nodes: z.array(cageNodeSchema).max(MODEL_LIMITS.nodes, `At most ${MODEL_LIMITS.nodes} nodes`),
+});
+
+export const pathEntrySchema = z.object({
+  nodeId: id,
+  /** Centreline radius of a bend at this node; only on interior entries. */
+  clrMm: positive(5000).optional(),
+});
+
+export const MEMBER_SIDES = ['left', 'right', 'centre'] as const;
+export const DRIVER_SIDES = ['left', 'right'] as const;
+
 export const memberSchema = z.object({
   id,
   kind: z.enum(MEMBER_KINDS),
@@ -51,6 +80,13 @@ export const memberSchema = z.object({
   bends: z.array(bendSchema).max(SPEC_LIMITS.bendsPerMember).optional(),
   continuousPiece: z.boolean().optional(),
   joints: z.array(jointSchema).max(SPEC_LIMITS.jointsPerMember).optional(),
+  /** Which side of the car the member is on, as typed; with a path the model derives it from y. */
+  side: z.enum(MEMBER_SIDES).optional(),
+  /** The member's centreline through the model's nodes, in order (issue 10). */
+  path: z.array(pathEntrySchema)
+    .min(2, 'A path needs at least two nodes')
+    .max(MODEL_LIMITS.nodes, `At most ${MODEL_LIMITS.nodes} nodes in a path`)
+    .optional(),
 }).superRefine((m, ctx) => {
   // Cross-field checks per member, so one bad member does not hide another's problems.
   // Sizes outside the field bounds already failed above; add only what those bounds cannot see.
@@ -74,6 +110,12 @@ export const vehicleSchema = z.object({
   chassis: z.enum(CHASSIS_TYPES).optional(),
   cockpit: z.enum(COCKPIT_TYPES).optional(),
   fuel: z.enum(FUELS).optional(),
+  /** Which side the driver sits on, so "driver side" and "passenger side" resolve. */
+  driverSide: z.enum(DRIVER_SIDES).optional(),
+  /** Height (z, model frame) of the seated driver's shoulders. */
+  driverShoulderHeightMm: positive(MODEL_LIMITS.coordinateMm).optional(),
+  /** The helmet in the driving position as a sphere: centre in the model frame and radius. */
+  helmet: z.object({ xMm: coordinate, yMm: coordinate, zMm: coordinate, radiusMm: positive(300) }).optional(),
 });
 
 /** Geometry measurements, all optional; signs are explained per field. */
@@ -82,6 +124,8 @@ export const geometrySchema = z.object({
   rearBraceAttachBelowTopMm: nonNegative(2000).optional(),
   /** Angle each rear brace makes with the vertical (the smaller one if they differ). */
   rearBraceAngleFromVerticalDeg: nonNegative(90).optional(),
+  /** Included angle between a rear brace and the main hoop where they meet (the smaller one if they differ). */
+  rearBraceIncludedAngleDeg: nonNegative(180).optional(),
   /** Top of main hoop above the top of the helmet (negative: helmet sticks out above). */
   hoopAboveHelmetMm: signed(1000).optional(),
   /** Helmet top below the line joining the main and front hoop tops (negative: above the line). */
@@ -140,6 +184,7 @@ export const specificationSchema = z
     inspectionHoles: z.array(inspectionHoleSchema).max(SPEC_LIMITS.holes).optional(),
     padding: paddingSchema.optional(),
     welding: weldingSchema.optional(),
+    model: modelSchema.optional(),
   })
   .superRefine((spec, ctx) => {
     const seen = new Map<string, number>();
@@ -156,11 +201,44 @@ export const specificationSchema = z
     spec.inspectionHoles?.forEach((h, i) => {
       if (!ids.has(h.memberId)) ctx.addIssue({ code: 'custom', path: ['inspectionHoles', i, 'memberId'], message: `No member has the id "${h.memberId}".` });
     });
+    modelProblems(spec, ctx);
   });
+
+/** The model's cross-checks: unique node ids, paths through known nodes, and each path a real tube. */
+function modelProblems(spec: { members: z.infer<typeof memberSchema>[]; model?: z.infer<typeof modelSchema> }, ctx: z.RefinementCtx): void {
+  const nodes = new Map<string, { x: number; y: number; z: number }>();
+  spec.model?.nodes.forEach((n, i) => {
+    if (nodes.has(n.id)) ctx.addIssue({ code: 'custom', path: ['model', 'nodes', i, 'id'], message: `Node id "${n.id}" is already used by another node.` });
+    else nodes.set(n.id, { x: n.xMm, y: n.yMm, z: n.zMm });
+  });
+  // A node already refused for its coordinates would only add knock-on problems to its paths.
+  const refused = (p: { x: number; y: number; z: number }) => [p.x, p.y, p.z].some((c) => !(Math.abs(c) <= MODEL_LIMITS.coordinateMm));
+  spec.members.forEach((m, i) => {
+    if (!m.path) return;
+    if (!spec.model) {
+      ctx.addIssue({ code: 'custom', path: ['members', i, 'path'], message: 'A path needs the model’s nodes; add the nodes first.' });
+      return;
+    }
+    let known = true;
+    m.path.forEach((e, j) => {
+      if (nodes.has(e.nodeId)) return;
+      known = false;
+      ctx.addIssue({ code: 'custom', path: ['members', i, 'path', j, 'nodeId'], message: `No node has the id "${e.nodeId}".` });
+    });
+    if (!known) return;
+    const points = m.path.map((e) => nodes.get(e.nodeId)!);
+    if (points.some(refused)) return;
+    const r = analysePath(points, m.path.map((e) => e.clrMm), m.odMm);
+    if (!r.ok) for (const p of r.problems) ctx.addIssue({ code: 'custom', path: ['members', i, 'path', p.index, p.field], message: p.message });
+  });
+}
 
 export type Specification = z.infer<typeof specificationSchema>;
 export type SpecMember = z.infer<typeof memberSchema>;
 export type SpecPlate = z.infer<typeof plateSchema>;
+export type SpecModel = z.infer<typeof modelSchema>;
+export type SpecCageNode = z.infer<typeof cageNodeSchema>;
+export type SpecPathEntry = z.infer<typeof pathEntrySchema>;
 
 export interface FieldProblem {
   path: string;

@@ -4,6 +4,7 @@ import { DataSource } from 'typeorm';
 import { entities } from '../entities';
 import type { Logger } from '../logger';
 import { migrations } from './migrations';
+import { guardedClientClass } from './pg-pool';
 
 export interface DataSourceOptions {
   databaseUrl: string;
@@ -13,6 +14,9 @@ export interface DataSourceOptions {
 }
 
 export function createDataSource({ databaseUrl, logger, poolSize = 10 }: DataSourceOptions): DataSource {
+  // Errors of a client with no owner at that moment (the pool reports them too, below) must never
+  // reach an 'error' event without a listener: see db/pg-pool.ts.
+  const onClientError = (err: Error) => logger?.debug('postgres client error', { err: err.message });
   return new DataSource({
     type: 'postgres',
     url: databaseUrl,
@@ -30,6 +34,7 @@ export function createDataSource({ databaseUrl, logger, poolSize = 10 }: DataSou
       // Fail fast rather than queue forever when PostgreSQL is unreachable.
       connectionTimeoutMillis: 5000,
       idleTimeoutMillis: 30000,
+      Client: guardedClientClass('app', onClientError),
     },
     // An idle client losing its server emits 'error' on the pool; unhandled, that would end the
     // process. Log it: the pool drops the client and the next checkout reconnects.

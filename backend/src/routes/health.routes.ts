@@ -2,8 +2,8 @@
 // The probe has a connection of its own: under load the app's pool has a queue, and a probe that
 // waited in it would measure the queue, not the database (the bench saw p99 go from ~30 to ~260 ms).
 import { Router } from 'express';
-import pg from 'pg';
 import type { DataSource } from 'typeorm';
+import { createGuardedPool } from '../db/pg-pool';
 import { publicRoute } from '../middleware/guards';
 import { mountRoutes, route } from './route-table';
 
@@ -16,9 +16,12 @@ export interface HealthProbe {
 
 export function createHealthProbe(ds: DataSource): HealthProbe {
   const url = (ds.options as { url?: string }).url;
-  const pool = new pg.Pool({ connectionString: url, max: 1, connectionTimeoutMillis: probeTimeoutMs, idleTimeoutMillis: 60_000, allowExitOnIdle: true });
-  // A dropped idle connection is reported here; the next probe simply reconnects.
-  pool.on('error', () => undefined);
+  // A dropped connection is reported to the listener (nothing to do: the next probe reconnects).
+  const pool = createGuardedPool(
+    'health',
+    { connectionString: url, max: 1, connectionTimeoutMillis: probeTimeoutMs, idleTimeoutMillis: 60_000, allowExitOnIdle: true },
+    () => undefined,
+  );
   return {
     async databaseIsUp() {
       let timer: NodeJS.Timeout | undefined;

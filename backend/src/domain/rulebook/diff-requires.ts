@@ -1,8 +1,10 @@
-// The ruleset diff for what one requirement demands: each template (tube table, required members,
-// limits, allowed values, raw conditions) compared part by part, values in canonical units so a
+// The ruleset diff for what one requirement demands: each rule kind (template-kinds.ts) compared
+// part by part, values in canonical units so a
 // document rewritten in other units reads as unchanged where the rule is unchanged.
 import type { LimitCheck, Requires, TubeTable } from '../../contracts/ruleset.js';
 import { FACTS_BY_NAME } from '../facts.js';
+import { TEMPLATE_KINDS, TEMPLATE_NAMES } from '../rules/template-kinds.js';
+import type { TemplateName, TemplateOf } from '../rules/template-kinds.js';
 import {
   canonical,
   changedJsonPaths,
@@ -27,12 +29,23 @@ export type Emit = (
   values?: { before?: string; after?: string; paths?: string[] },
 ) => void;
 
-export const TEMPLATE_WORDS: Readonly<Record<Requires['template'], string>> = {
-  tube_table: 'tube table',
-  required_members: 'required members',
-  limit: 'limits',
-  allowed_values: 'allowed values',
-  conditions: 'conditions',
+/** Words for each rule kind, from the one registry of kinds. */
+export const TEMPLATE_WORDS: Readonly<Record<Requires['template'], string>> = Object.fromEntries(
+  TEMPLATE_NAMES.map((t) => [t, TEMPLATE_KINDS[t].words]),
+) as Record<Requires['template'], string>;
+
+type Differ<K extends TemplateName> = (a: TemplateOf<K>, sa: Side, b: TemplateOf<K>, sb: Side, emit: Emit) => void;
+
+/** How each rule kind is compared. A mapped type: a kind without its words here fails the type-check. */
+const DIFFERS: { readonly [K in TemplateName]: Differ<K> } = {
+  tube_table: tubeTable,
+  required_members: (a, _sa, b, _sb, emit) => requiredMembers(a, b, emit),
+  limit: (a, sa, b, sb, emit) => limits(a.checks, sa, b.checks, sb, emit),
+  allowed_values: (a, _sa, b, _sb, emit) => allowedValues(a, b, emit),
+  conditions: (a, _sa, b, _sb, emit) => {
+    const paths = changedJsonPaths(a.conditions, b.conditions);
+    if (paths.length > 0) emit('changed', `conditions changed (${pathsText(paths)})`, { paths });
+  },
 };
 
 export function describeRequiresChanges(a: Requires, sa: Side, b: Requires, sb: Side, emit: Emit): void {
@@ -43,20 +56,8 @@ export function describeRequiresChanges(a: Requires, sa: Side, b: Requires, sb: 
     });
     return;
   }
-  switch (a.template) {
-    case 'tube_table':
-      return tubeTable(a, sa, b as TubeTable, sb, emit);
-    case 'required_members':
-      return requiredMembers(a, b as typeof a, emit);
-    case 'limit':
-      return limits(a.checks, sa, (b as typeof a).checks, sb, emit);
-    case 'allowed_values':
-      return allowedValues(a, b as typeof a, emit);
-    case 'conditions': {
-      const paths = changedJsonPaths(a.conditions, (b as typeof a).conditions);
-      if (paths.length > 0) emit('changed', `conditions changed (${pathsText(paths)})`, { paths });
-    }
-  }
+  // Same template on both sides (checked above); the mapped type ties each differ to its kind.
+  (DIFFERS[a.template] as Differ<TemplateName>)(a, sa, b, sb, emit);
 }
 
 // Tube tables -----------------------------------------------------------------------------------

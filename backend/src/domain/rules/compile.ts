@@ -79,6 +79,8 @@ export function compileDocument(doc: RulesetDocument, problems: Problems & { lis
     const before = problems.list.length;
     const when = req.appliesTo?.when === undefined ? undefined : compileConditionTree(req.appliesTo.when, [...path, 'appliesTo', 'when'], ctx);
     const requires = compileRequires(req, [...path, 'requires'], ctx);
+    // A requirement that compiles to nothing must never vanish from the checks without a word.
+    if (!requires && problems.list.length === before) problems.add([...path, 'requires'], `This ${req.requires.template} rule could not be compiled.`);
     if (problems.list.length > before || !requires) return;
     requirements.push({
       id: req.id, index, title: req.title, section: req.section, severity: req.severity, area: req.area, scope: req.scope,

@@ -15,6 +15,7 @@ import type { Dimension, UnitSystem } from '../units.js';
 import { MATERIAL_LABELS, MEMBER_KIND_LABELS, PROCESS_LABELS } from '../vocabulary.js';
 import type { MemberKind, PlateLocation } from '../vocabulary.js';
 import { customOperators } from './operators.js';
+import { TEMPLATE_KINDS } from './template-kinds.js';
 import type { CompiledRequirement, CompiledRuleset, CompiledVariant, LeafMeta } from './types.js';
 import { leavesOf, namedPart, triState } from './verdict.js';
 import type { ResultNode, Tri } from './verdict.js';
@@ -94,9 +95,9 @@ type Subject =
   | { kind: 'member'; id: string; memberKind: MemberKind; index: number }
   | { kind: 'plate'; id: string; location: PlateLocation; index: number };
 
-type VariantChoice = { variant: CompiledVariant } | { missingWeight: true } | { outsideTable: true };
+export type VariantChoice = { variant: CompiledVariant } | { missingWeight: true } | { outsideTable: true };
 
-function chooseVariant(req: CompiledRequirement, weightKg: number | undefined): VariantChoice {
+export function chooseVariant(req: CompiledRequirement, weightKg: number | undefined): VariantChoice {
   if (req.variants.length === 1 && req.variants[0].aboveKg === null && req.variants[0].upToKg === null) return { variant: req.variants[0] };
   if (weightKg === undefined) return { missingWeight: true };
   const v = req.variants.find((x) => (x.aboveKg === null || weightKg > x.aboveKg + 1e-9) && (x.upToKg === null || weightKg <= x.upToKg + 1e-9));
@@ -396,7 +397,7 @@ function buildFinding(ctx: Ctx, req: CompiledRequirement, variant: CompiledVaria
   }
   const missing = new Set<string>();
   const verdict: Tri = triState(requires, facts, missing);
-  if (req.template === 'tube_table') return tubeTableFinding(ctx, req, variant, subject, requires, facts, verdict, missing);
+  if (TEMPLATE_KINDS[req.template].findings === 'tube_sizes') return tubeTableFinding(ctx, req, variant, subject, requires, facts, verdict, missing);
   const leaves = leavesOf(requires);
   const summary = summarise(req, 'requires', leaves);
   const measured = measuredValues(summary, leaves, facts);

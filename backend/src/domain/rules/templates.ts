@@ -1,5 +1,5 @@
-// Compiles the typed requirement templates (tube_table, required_members, limit, allowed_values,
-// conditions) into json-rules-engine condition trees, converting values to canonical units once.
+// Compiles the typed requirement templates (the rule kinds of template-kinds.ts) into
+// json-rules-engine condition trees, converting values to canonical units once.
 import type { Requirement, TubeTable } from '../../contracts/ruleset.js';
 import { toCanonical } from '../units.js';
 import { tubeSizeProblems } from '../tube.js';
@@ -8,6 +8,8 @@ import { compileConditionTree, compileLeaf, resolveUnit } from './conditions.js'
 import type { CompileContext, EngineNode, Path, Problems } from './conditions.js';
 import { ENGINE_FROM_LIMIT } from './operators.js';
 import type { AlternativeMeta } from './types.js';
+import { TEMPLATE_KINDS } from './template-kinds.js';
+import type { TemplateName, TemplateOf } from './template-kinds.js';
 
 export interface CanonicalEquivalent {
   size: { odMm: number; wallMm: number };
@@ -146,48 +148,58 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
   return { variants };
 }
 
+type Compiler<K extends TemplateName> = (req: Requirement, r: TemplateOf<K>, path: Path, ctx: TemplateContext) => CompiledRequires | undefined;
+const single = (node: EngineNode | undefined): CompiledRequires | undefined => (node ? { variants: [{ aboveKg: null, upToKg: null, node }] } : undefined);
+
+function compileRequiredMembers(r: TemplateOf<'required_members'>, path: Path, ctx: TemplateContext): CompiledRequires | undefined {
+  const leaves: (EngineNode | undefined)[] = [];
+  r.members.forEach((entry, i) => {
+    const p = [...path, 'members', i];
+    const kinds = [...new Set(entry.kinds)];
+    const label = entry.label ?? `number of ${kinds.map((k) => MEMBER_KIND_LABELS[k]).join(' / ')}`;
+    const addressing = kinds.length === 1 ? { fact: 'vehicle.memberCounts', path: kinds[0] } : { fact: 'vehicle.memberCountOfKinds', params: { kinds } };
+    leaves.push(compileLeaf({ ...addressing, operator: 'greaterThanInclusive', value: entry.min }, p, ctx, label));
+    if (entry.max !== undefined) {
+      if (entry.max < entry.min) ctx.problems.add([...p, 'max'], 'The maximum must not be below the minimum.');
+      leaves.push(compileLeaf({ ...addressing, operator: 'lessThanInclusive', value: entry.max }, p, ctx, label));
+    }
+  });
+  return leaves.every((l) => l) ? single({ all: leaves }) : undefined;
+}
+
+function compileLimit(r: TemplateOf<'limit'>, path: Path, ctx: TemplateContext): CompiledRequires | undefined {
+  const leaves = r.checks.map((c, i) =>
+    compileLeaf({ fact: c.fact, operator: ENGINE_FROM_LIMIT[c.operator], value: c.value, unit: c.unit, path: c.path, params: c.params }, [...path, 'checks', i], ctx, c.label),
+  );
+  return leaves.every((l) => l) ? single({ all: leaves }) : undefined;
+}
+
+function compileAllowedValues(r: TemplateOf<'allowed_values'>, path: Path, ctx: TemplateContext): CompiledRequires | undefined {
+  const renamed = { ...ctx, problems: renamedProblems(ctx.problems, { value: 'values', operator: 'fact' }) };
+  const leaf = compileLeaf({ fact: r.fact, operator: r.mode === 'forbidden' ? 'notIn' : 'in', value: r.values }, path, renamed);
+  ctx.leafCount = renamed.leafCount;
+  return single(leaf ? { all: [leaf] } : undefined);
+}
+
+/**
+ * The compiler of every rule kind. A mapped type over the schema's template names: a kind without
+ * a compiler fails the type-check instead of compiling to nothing.
+ */
+const COMPILERS: { readonly [K in TemplateName]: Compiler<K> } = {
+  tube_table: (_req, r, path, ctx) => compileTubeTable(r, path, ctx),
+  required_members: (_req, r, path, ctx) => compileRequiredMembers(r, path, ctx),
+  limit: (_req, r, path, ctx) => compileLimit(r, path, ctx),
+  allowed_values: (_req, r, path, ctx) => compileAllowedValues(r, path, ctx),
+  conditions: (_req, r, path, ctx) => single(compileConditionTree(r.conditions, [...path, 'conditions'], ctx)),
+};
+
 export function compileRequires(req: Requirement, path: Path, ctx: TemplateContext): CompiledRequires | undefined {
   const r = req.requires;
-  const single = (node: EngineNode | undefined): CompiledRequires | undefined => (node ? { variants: [{ aboveKg: null, upToKg: null, node }] } : undefined);
-  switch (r.template) {
-    case 'tube_table':
-      if (req.scope.kind !== 'member') {
-        ctx.problems.add([...path.slice(0, -1), 'scope'], 'A tube table applies to members: scope it to member kinds.');
-        return undefined;
-      }
-      return compileTubeTable(r, path, ctx);
-    case 'required_members': {
-      if (req.scope.kind !== 'vehicle') {
-        ctx.problems.add([...path.slice(0, -1), 'scope'], 'Required members are counted for the whole vehicle: use scope "vehicle".');
-        return undefined;
-      }
-      const leaves: (EngineNode | undefined)[] = [];
-      r.members.forEach((entry, i) => {
-        const p = [...path, 'members', i];
-        const kinds = [...new Set(entry.kinds)];
-        const label = entry.label ?? `number of ${kinds.map((k) => MEMBER_KIND_LABELS[k]).join(' / ')}`;
-        const addressing = kinds.length === 1 ? { fact: 'vehicle.memberCounts', path: kinds[0] } : { fact: 'vehicle.memberCountOfKinds', params: { kinds } };
-        leaves.push(compileLeaf({ ...addressing, operator: 'greaterThanInclusive', value: entry.min }, p, ctx, label));
-        if (entry.max !== undefined) {
-          if (entry.max < entry.min) ctx.problems.add([...p, 'max'], 'The maximum must not be below the minimum.');
-          leaves.push(compileLeaf({ ...addressing, operator: 'lessThanInclusive', value: entry.max }, p, ctx, label));
-        }
-      });
-      return leaves.every((l) => l) ? single({ all: leaves }) : undefined;
-    }
-    case 'limit': {
-      const leaves = r.checks.map((c, i) =>
-        compileLeaf({ fact: c.fact, operator: ENGINE_FROM_LIMIT[c.operator], value: c.value, unit: c.unit, path: c.path, params: c.params }, [...path, 'checks', i], ctx, c.label),
-      );
-      return leaves.every((l) => l) ? single({ all: leaves }) : undefined;
-    }
-    case 'allowed_values': {
-      const renamed = { ...ctx, problems: renamedProblems(ctx.problems, { value: 'values', operator: 'fact' }) };
-      const leaf = compileLeaf({ fact: r.fact, operator: r.mode === 'forbidden' ? 'notIn' : 'in', value: r.values }, path, renamed);
-      ctx.leafCount = renamed.leafCount;
-      return single(leaf ? { all: [leaf] } : undefined);
-    }
-    case 'conditions':
-      return single(compileConditionTree(r.conditions, [...path, 'conditions'], ctx));
+  const kind = TEMPLATE_KINDS[r.template];
+  if (!kind.scopes.includes(req.scope.kind)) {
+    ctx.problems.add([...path.slice(0, -1), 'scope'], kind.scopeMessage);
+    return undefined;
   }
+  // TypeScript cannot tie COMPILERS[r.template] to r's own member of the union; the mapped type does.
+  return (COMPILERS[r.template] as Compiler<TemplateName>)(req, r, path, ctx);
 }

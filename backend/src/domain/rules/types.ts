@@ -4,6 +4,7 @@ import type { RuleProperties } from 'json-rules-engine';
 import type { RequirementArea, RequirementScope, RulesetClass, RulesetDocument } from '../../contracts/ruleset.js';
 import type { Dimension } from '../units.js';
 import type { FriendlyOperator } from './operators.js';
+import type { TemplateName } from './template-kinds.js';
 
 export type LeafValue = number | string | boolean | readonly string[] | { fact: string };
 
@@ -45,7 +46,7 @@ export interface CompiledRequirement {
   severity: 'mandatory' | 'advisory';
   area: RequirementArea;
   scope: RequirementScope;
-  template: string;
+  template: TemplateName;
   classes: readonly string[] | null;
   explanation: string;
   /** One per weight band for a banded tube table, else exactly one. */

@@ -7,6 +7,7 @@
 import { randomUUID } from 'node:crypto';
 import PgBoss from 'pg-boss';
 import type { Config } from '../../config';
+import { createGuardedPool } from '../../db/pg-pool';
 import { errorFields, type Logger } from '../../logger';
 import { createJobProgressStore, type JobProgress } from './progress';
 
@@ -52,11 +53,16 @@ export function createJobs(
   logger: Logger,
   options: JobsOptions = {},
 ): Jobs {
+  // pg-boss's own pool would attach no listener to its clients (db/pg-pool.ts); it gets ours instead,
+  // which this module opens and closes with the queue.
+  const pool = createGuardedPool(
+    'jobs',
+    { connectionString: config.databaseUrl, max: 3, application_name: 'cagewright-jobs', connectionTimeoutMillis: 5000, idleTimeoutMillis: 30_000 },
+    (err) => logger.debug('job queue connection error', { err: err.message }),
+  );
   const boss = new PgBoss({
-    connectionString: config.databaseUrl,
+    db: { executeSql: (text, values) => pool.query(text, values) },
     schema: options.schema ?? 'pgboss',
-    max: 3,
-    application_name: 'cagewright-jobs',
     // No cron schedules are used; skip their polling.
     schedule: false,
   });
@@ -94,6 +100,7 @@ export function createJobs(
       started = false;
       // Lets running handlers finish (up to 10 s), then closes the pool.
       await boss.stop({ graceful: true, timeout: 10_000, wait: true });
+      await pool.end();
     },
 
     async send(queue, data, opts = {}) {
