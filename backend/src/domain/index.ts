@@ -1,5 +1,7 @@
 // The pure domain of Cagewright, in one import for the server and the front end's previews.
 export * from './units.js';
+export * from './typed-number.js';
+export * from './field-ranges.js';
 export * from './tube.js';
 export * from './vocabulary.js';
 export * from './dates.js';
