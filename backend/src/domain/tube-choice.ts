@@ -50,6 +50,8 @@ export interface ListedSize {
   odOrLarger: boolean;
   materials?: readonly string[];
   processes?: readonly string[];
+  /** A legacy size: only for cages approved before this date. */
+  approvedBefore?: string;
   /** Of the printed size, steel density (F-ENG-1, F-ENG-6). */
   massPerMetreKg: number;
 }
@@ -61,6 +63,8 @@ export interface BandQuery {
   weightKg?: number;
   material?: Material;
   process?: Process;
+  /** The cage's approval date (YYYY-MM-DD): legacy rows count only for cages approved before theirs. */
+  approvedOn?: string;
 }
 
 export type ListedSizes =
@@ -98,7 +102,8 @@ export function listedSizesForBand(compiled: CompiledRuleset, query: BandQuery):
   if (tables.length === 0) return { status: 'no_table', requirementIds: [] };
   const chosen: { req: CompiledRequirement; variant: CompiledVariant }[] = [];
   for (const req of tables) {
-    const c = chooseVariant(req, query.weightKg);
+    // A class with a listed weight bands on it, whatever the car weighs.
+    const c = chooseVariant(req, compiled.listedWeightsKg[query.classId] ?? query.weightKg);
     if ('missingWeight' in c) return { status: 'needs_weight', requirementIds: ids };
     if ('outsideTable' in c) return { status: 'outside_table', requirementIds: ids };
     chosen.push({ req, variant: c.variant });
@@ -109,14 +114,17 @@ export function listedSizesForBand(compiled: CompiledRuleset, query: BandQuery):
       const meta = alt.name ? req.alternatives[alt.name] : undefined;
       if (!meta) continue;
       if (!restrictionFits(meta.materials, query.material) || !restrictionFits(meta.processes, query.process)) continue;
+      // A legacy row is a size only for a cage known to be approved before its date.
+      if (meta.approvedBefore && !(query.approvedOn !== undefined && query.approvedOn < meta.approvedBefore)) continue;
       const size: ListedSize = {
         requirementId: req.id, ...(variant.bandLabel ? { bandLabel: variant.bandLabel } : {}), label: meta.label,
         odMm: meta.odMm, wallMm: meta.wallMm, minWallMm: meta.requiredWallMm, source: meta.source, odOrLarger: meta.source === 'allowance',
         ...(meta.materials ? { materials: meta.materials } : {}), ...(meta.processes ? { processes: meta.processes } : {}),
+        ...(meta.approvedBefore ? { approvedBefore: meta.approvedBefore } : {}),
         massPerMetreKg: tubeSectionProperties({ odMm: meta.odMm, wallMm: meta.wallMm }, query.material ?? 'mild_steel').massPerMetreKg,
       };
       const others = chosen.filter((c) => c.req !== req);
-      const facts: FactSet = { 'member.odMm': size.odMm, 'member.wallMm': size.wallMm, 'member.material': query.material, 'member.process': query.process };
+      const facts: FactSet = { 'member.odMm': size.odMm, 'member.wallMm': size.wallMm, 'member.material': query.material, 'member.process': query.process, 'cage.approvedOn': query.approvedOn };
       // Unknown here only means "material or process not given": keep the size, its row says which.
       if (others.every((o) => evaluatePlain(partsOf(o.variant).requires, facts, new Set()) !== false)) sizes.push(size);
     }

@@ -5,6 +5,7 @@ import type { LimitCheck, Requires, TubeTable } from '../../contracts/ruleset.js
 import { FACTS_BY_NAME } from '../facts.js';
 import { findGrade } from '../grades.js';
 import { GRADE_FACTS } from '../rules/limit-values.js';
+import { formatIsoDate } from '../dates.js';
 import { TEMPLATE_KINDS, TEMPLATE_NAMES } from '../rules/template-kinds.js';
 import type { TemplateName, TemplateOf } from '../rules/template-kinds.js';
 import {
@@ -81,13 +82,14 @@ function bandName(bands: readonly Band[], i: number, side: Side, unit?: string):
 }
 
 const rowKey = (r: Row): string =>
-  `${[...(r.materials ?? [])].sort().join('+')}|${[...(r.processes ?? [])].sort().join('+')}`;
+  `${[...(r.materials ?? [])].sort().join('+')}|${[...(r.processes ?? [])].sort().join('+')}|${r.approvedBefore ?? ''}`;
 
 function rowName(r: Row): string {
   const materials = r.materials
     ? r.materials.map((m) => (m === 'other' ? 'other material' : valueWord(m))).join(' or ')
     : 'any material';
-  return r.processes ? `${materials} (${r.processes.map(valueWord).join(', ')})` : materials;
+  const named = r.processes ? `${materials} (${r.processes.map(valueWord).join(', ')})` : materials;
+  return r.approvedBefore ? `${named}, cages approved before ${formatIsoDate(r.approvedBefore)}` : named;
 }
 
 const sizesText = (r: Row, side: Side): string => r.alternatives.map((s) => sizeText(s, side)).join(', ');
@@ -274,14 +276,17 @@ function allowances(a: TubeTable, sa: Side, b: TubeTable, sb: Side, emit: Emit):
 
 type MemberEntry = Extract<Requires, { template: 'required_members' }>['members'][number];
 const entryKey = (e: MemberEntry) => [...new Set(e.kinds)].sort().join('+');
+const SIDE_COUNT_WORDS: Readonly<Record<NonNullable<MemberEntry['side']>, string>> = {
+  each: 'on each side', left: 'on the left', right: 'on the right', driver: "on the driver's side", passenger: "on the passenger's side",
+};
 const countText = (e: MemberEntry) =>
-  e.max === undefined
+  `${e.max === undefined
     ? `at least ${e.min}`
     : e.min === e.max
       ? `exactly ${e.min}`
       : e.min === 0
         ? `at most ${e.max}`
-        : `${e.min} to ${e.max}`;
+        : `${e.min} to ${e.max}`}${e.side ? ` ${SIDE_COUNT_WORDS[e.side]}` : ''}`;
 
 function requiredMembers(
   a: Extract<Requires, { template: 'required_members' }>,
@@ -309,7 +314,7 @@ function requiredMembers(
         before: countText(old),
         after: countText(e),
       });
-    else if (old.min !== e.min || old.max !== e.max)
+    else if (old.min !== e.min || old.max !== e.max || old.side !== e.side)
       emit('changed', `${kinds}: ${countText(old)} → ${countText(e)}`, {
         before: countText(old),
         after: countText(e),
@@ -353,14 +358,20 @@ function checkSubject(c: LimitCheck): string {
   return c.path ? `${fact.label}: ${valueWord(c.path)}` : fact.label;
 }
 
+const DATE_OPERATOR_WORDS: Readonly<Record<LimitCheck['operator'], string>> = {
+  atLeast: 'on or after', atMost: 'on or before', above: 'after', below: 'before', equals: 'on', notEquals: 'not on',
+};
+
 function checkValue(c: LimitCheck, side: Side): { value: string; canonical?: number; key: string } {
   const v = c.value;
   if (typeof v === 'boolean') return { value: v ? 'yes' : 'no', key: String(v) };
   if (typeof v === 'string') {
+    if (FACTS_BY_NAME.get(c.fact)?.type === 'date') return { value: formatIsoDate(v), key: `date|${v}` };
     // A grade: the same grade however it is written.
     const family = GRADE_FACTS[c.fact]?.family;
     const grade = family ? findGrade(family, v) : undefined;
-    return { value: grade?.name ?? v, key: `grade|${grade?.id ?? v}` };
+    if (grade) return { value: grade.name, key: `grade|${grade.id}` };
+    return { value: valueWord(v), key: `text|${v}` };
   }
   if (typeof v === 'object') {
     const k = v.unit === undefined ? v.times : canonical(v.times, 'length', side, v.unit);
@@ -384,7 +395,8 @@ function sameProportional(a: LimitCheck, sa: Side, b: LimitCheck, sb: Side): boo
   return sameNumber(kx, ky);
 }
 
-const checkText = (c: LimitCheck, side: Side) => `${OPERATOR_WORDS[c.operator]} ${checkValue(c, side).value}`;
+const checkText = (c: LimitCheck, side: Side) =>
+  `${(FACTS_BY_NAME.get(c.fact)?.type === 'date' ? DATE_OPERATOR_WORDS : OPERATOR_WORDS)[c.operator]} ${checkValue(c, side).value}`;
 
 function limits(ca: readonly LimitCheck[], sa: Side, cb: readonly LimitCheck[], sb: Side, emit: Emit): void {
   const used = new Set<number>();
