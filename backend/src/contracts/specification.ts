@@ -3,10 +3,13 @@
 // clients convert at the edges. Every measurement is optional except what makes a member a member.
 import { z } from 'zod';
 import {
-  CHASSIS_TYPES, COCKPIT_TYPES, FUELS, JOINT_KINDS, MATERIALS, MEMBER_KINDS, PADDING_STANDARDS,
-  PLATE_FIXINGS, PLATE_LOCATIONS, PROCESSES, WALL_METHODS, WELDING_PROCESSES,
+  CHASSIS_TYPES, COCKPIT_TYPES, DRIVER_SIDES, FUELS, JOINT_KINDS, MATERIALS, MEMBER_KINDS, MEMBER_KIND_LABELS, MEMBER_SIDES,
+  PADDING_STANDARDS, PLATE_FIXINGS, PLATE_LOCATIONS, PROCESSES, SIDED_MEMBER_KINDS, WALL_METHODS, WELDING_PROCESSES,
 } from '../domain/vocabulary.js';
 import { tubeSizeProblems } from '../domain/tube.js';
+import { addDays, formatIsoDate, isIsoDate, isoDateOf } from '../domain/dates.js';
+import { MODEL_LIMITS, NODE_ROLES } from '../domain/geometry/model.js';
+import { analysePath } from '../domain/geometry/member-path.js';
 
 export const SPEC_LIMITS = { members: 60, bendsPerMember: 12, readingsPerMember: 24, jointsPerMember: 12, plates: 40, holes: 60 } as const;
 
@@ -36,6 +39,30 @@ export const jointSchema = z.object({
   boltGrade: text(20).optional(),
 });
 
+// The cage model (issue 10): nodes on tube centrelines in the cage frame, see docs/geometry.md.
+const coordinate = z.number()
+  .min(-MODEL_LIMITS.coordinateMm, `More than ${MODEL_LIMITS.coordinateMm / 1000} m from the origin: check the units (the model is in millimetres)`)
+  .max(MODEL_LIMITS.coordinateMm, `More than ${MODEL_LIMITS.coordinateMm / 1000} m from the origin: check the units (the model is in millimetres)`);
+
+export const cageNodeSchema = z.object({
+  id,
+  label: text(80).optional(),
+  role: z.enum(NODE_ROLES),
+  xMm: coordinate,
+  yMm: coordinate,
+  zMm: coordinate,
+});
+
+export const modelSchema = z.object({
+  nodes: z.array(cageNodeSchema).max(MODEL_LIMITS.nodes, `At most ${MODEL_LIMITS.nodes} nodes`),
+});
+
+export const pathEntrySchema = z.object({
+  nodeId: id,
+  /** Centreline radius of a bend at this node; only on interior entries. */
+  clrMm: positive(5000).optional(),
+});
+
 export const memberSchema = z.object({
   id,
   kind: z.enum(MEMBER_KINDS),
@@ -51,8 +78,17 @@ export const memberSchema = z.object({
   bends: z.array(bendSchema).max(SPEC_LIMITS.bendsPerMember).optional(),
   continuousPiece: z.boolean().optional(),
   joints: z.array(jointSchema).max(SPEC_LIMITS.jointsPerMember).optional(),
+  /** Which side of the car the member is on, as typed; with a path the model derives it from y. */
+  side: z.enum(MEMBER_SIDES).optional(),
+  /** The member's centreline through the model's nodes, in order (issue 10). */
+  path: z.array(pathEntrySchema)
+    .min(2, 'A path needs at least two nodes')
+    .max(MODEL_LIMITS.nodes, `At most ${MODEL_LIMITS.nodes} nodes in a path`)
+    .optional(),
 }).superRefine((m, ctx) => {
   // Cross-field checks per member, so one bad member does not hide another's problems.
+  if (m.side !== undefined && !SIDED_MEMBER_KINDS.includes(m.kind))
+    ctx.addIssue({ code: 'custom', path: ['side'], message: `A ${MEMBER_KIND_LABELS[m.kind]} spans the car and has no side; leave the side empty.` });
   // Sizes outside the field bounds already failed above; add only what those bounds cannot see.
   for (const p of tubeSizeProblems(m)) if (m[p.field] > 0 && m[p.field] <= TUBE_FIELD_MAX_MM[p.field]) ctx.addIssue({ code: 'custom', path: [p.field], message: p.message });
   m.wallReadings?.forEach((r, j) => {
@@ -74,6 +110,12 @@ export const vehicleSchema = z.object({
   chassis: z.enum(CHASSIS_TYPES).optional(),
   cockpit: z.enum(COCKPIT_TYPES).optional(),
   fuel: z.enum(FUELS).optional(),
+  /** Which side the driver sits on, so "driver side" and "passenger side" resolve. */
+  driverSide: z.enum(DRIVER_SIDES).optional(),
+  /** Height (z, model frame) of the seated driver's shoulders. */
+  driverShoulderHeightMm: positive(MODEL_LIMITS.coordinateMm).optional(),
+  /** The helmet in the driving position as a sphere: centre in the model frame and radius. */
+  helmet: z.object({ xMm: coordinate, yMm: coordinate, zMm: coordinate, radiusMm: positive(300) }).optional(),
 });
 
 /** Geometry measurements, all optional; signs are explained per field. */
@@ -82,6 +124,8 @@ export const geometrySchema = z.object({
   rearBraceAttachBelowTopMm: nonNegative(2000).optional(),
   /** Angle each rear brace makes with the vertical (the smaller one if they differ). */
   rearBraceAngleFromVerticalDeg: nonNegative(90).optional(),
+  /** Included angle between a rear brace and the main hoop where they meet (the smaller one if they differ). */
+  rearBraceIncludedAngleDeg: nonNegative(180).optional(),
   /** Top of main hoop above the top of the helmet (negative: helmet sticks out above). */
   hoopAboveHelmetMm: signed(1000).optional(),
   /** Helmet top below the line joining the main and front hoop tops (negative: above the line). */
@@ -108,7 +152,12 @@ export const plateSchema = z.object({
   sidesMm: z.tuple([positive(2000), positive(2000)]).optional(),
   /** Measured area when the plate is not a rectangle. */
   areaMm2: positive(4_000_000).optional(),
+  /** Older sheets: one fixing for the plate; read as the plate's fixing to the body when `plateFixing` is absent. */
   fixing: z.enum(PLATE_FIXINGS).optional(),
+  /** How the plate is fixed to the body or chassis. */
+  plateFixing: z.enum(PLATE_FIXINGS).optional(),
+  /** How the hoop or brace foot is fixed to the plate. */
+  footFixing: z.enum(PLATE_FIXINGS).optional(),
   backingPlate: z.boolean().optional(),
   backingThicknessMm: positive(50).optional(),
   boltCount: z.number().int('Must be a whole number').min(0).max(50).optional(),
@@ -131,6 +180,30 @@ export const weldingSchema = z.object({
   process: z.enum(WELDING_PROCESSES).optional(),
 });
 
+const isoDate = z.string().refine(isIsoDate, 'A date as YYYY-MM-DD');
+
+/** A day of slack so a builder a timezone ahead of UTC can enter today's date. */
+export function latestAcceptedDate(now: Date = new Date()): string {
+  return addDays(isoDateOf(now), 1);
+}
+
+/** The cage's own history: approval and build dates, and a maker's certificate or homologation. */
+export const cageSchema = z.object({
+  /** When the cage (or bar) was approved by the sanctioning body: legacy allowances depend on it. */
+  approvedOn: isoDate.optional(),
+  builtOn: isoDate.optional(),
+  certificate: z.object({
+    issuer: text(120).optional(),
+    number: z.string().trim().min(1, 'Required').max(80, 'At most 80 characters'),
+  }).optional(),
+}).superRefine((c, ctx) => {
+  const latest = latestAcceptedDate();
+  if (c.approvedOn !== undefined && isIsoDate(c.approvedOn) && c.approvedOn > latest)
+    ctx.addIssue({ code: 'custom', path: ['approvedOn'], message: `An approval date cannot be in the future (${formatIsoDate(c.approvedOn)}).` });
+  if (c.builtOn !== undefined && isIsoDate(c.builtOn) && c.builtOn > latest)
+    ctx.addIssue({ code: 'custom', path: ['builtOn'], message: `A build date cannot be in the future (${formatIsoDate(c.builtOn)}).` });
+});
+
 export const specificationSchema = z
   .object({
     vehicle: vehicleSchema,
@@ -140,6 +213,8 @@ export const specificationSchema = z
     inspectionHoles: z.array(inspectionHoleSchema).max(SPEC_LIMITS.holes).optional(),
     padding: paddingSchema.optional(),
     welding: weldingSchema.optional(),
+    cage: cageSchema.optional(),
+    model: modelSchema.optional(),
   })
   .superRefine((spec, ctx) => {
     const seen = new Map<string, number>();
@@ -156,11 +231,45 @@ export const specificationSchema = z
     spec.inspectionHoles?.forEach((h, i) => {
       if (!ids.has(h.memberId)) ctx.addIssue({ code: 'custom', path: ['inspectionHoles', i, 'memberId'], message: `No member has the id "${h.memberId}".` });
     });
+    modelProblems(spec, ctx);
   });
+
+/** The model's cross-checks: unique node ids, paths through known nodes, and each path a real tube. */
+function modelProblems(spec: { members: z.infer<typeof memberSchema>[]; model?: z.infer<typeof modelSchema> }, ctx: z.RefinementCtx): void {
+  const nodes = new Map<string, { x: number; y: number; z: number }>();
+  spec.model?.nodes.forEach((n, i) => {
+    if (nodes.has(n.id)) ctx.addIssue({ code: 'custom', path: ['model', 'nodes', i, 'id'], message: `Node id "${n.id}" is already used by another node.` });
+    else nodes.set(n.id, { x: n.xMm, y: n.yMm, z: n.zMm });
+  });
+  // A node already refused for its coordinates would only add knock-on problems to its paths.
+  const refused = (p: { x: number; y: number; z: number }) => [p.x, p.y, p.z].some((c) => !(Math.abs(c) <= MODEL_LIMITS.coordinateMm));
+  spec.members.forEach((m, i) => {
+    if (!m.path) return;
+    if (!spec.model) {
+      ctx.addIssue({ code: 'custom', path: ['members', i, 'path'], message: 'A path needs the model’s nodes; add the nodes first.' });
+      return;
+    }
+    let known = true;
+    m.path.forEach((e, j) => {
+      if (nodes.has(e.nodeId)) return;
+      known = false;
+      ctx.addIssue({ code: 'custom', path: ['members', i, 'path', j, 'nodeId'], message: `No node has the id "${e.nodeId}".` });
+    });
+    if (!known) return;
+    const points = m.path.map((e) => nodes.get(e.nodeId)!);
+    if (points.some(refused)) return;
+    const r = analysePath(points, m.path.map((e) => e.clrMm), m.odMm);
+    if (!r.ok) for (const p of r.problems) ctx.addIssue({ code: 'custom', path: ['members', i, 'path', p.index, p.field], message: p.message });
+  });
+}
 
 export type Specification = z.infer<typeof specificationSchema>;
 export type SpecMember = z.infer<typeof memberSchema>;
 export type SpecPlate = z.infer<typeof plateSchema>;
+export type SpecCage = z.infer<typeof cageSchema>;
+export type SpecModel = z.infer<typeof modelSchema>;
+export type SpecCageNode = z.infer<typeof cageNodeSchema>;
+export type SpecPathEntry = z.infer<typeof pathEntrySchema>;
 
 export interface FieldProblem {
   path: string;
