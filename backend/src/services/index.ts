@@ -18,6 +18,7 @@ import { createCageRecordService, type CageRecordService } from './cage-records.
 import { createVerificationService, type VerificationService } from './verification.service';
 import { createRulebookAdminService, type RulebookAdminService } from './rulebook-admin.service';
 import { createFabricationService, type FabricationService } from './fabrication.service';
+import { createFabricationSettingsService } from './fabrication-settings.service';
 
 export interface Services {
   accounts: AccountService;
@@ -53,7 +54,8 @@ export function createServices(
   const photos = createPhotoService(ds, options.photoStorage ?? new LocalDiskPhotoStorage(options.uploadDir ?? '.data/uploads'));
   const mail = createMailService(ds);
   const cageRecords = createCageRecordService(ds, { mail, audit, publicUrl: options.publicUrl });
-  const reports = createReportService(ds, { checks, sheets: buildSheets, photos });
+  const fabricationSettings = createFabricationSettingsService(ds);
+  const reports = createReportService(ds, { checks, sheets: buildSheets, photos, fabricationSettings });
   return {
     accounts: createAccountService(ds),
     members,
@@ -72,6 +74,6 @@ export function createServices(
     cageRecords,
     verification: createVerificationService(ds),
     rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit }),
-    fabrication: createFabricationService(),
+    fabrication: createFabricationService({ buildSheets, settings: fabricationSettings }),
   };
 }
