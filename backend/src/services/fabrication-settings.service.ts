@@ -3,17 +3,14 @@
 // preferred units (a 6 m or a 20 ft stick). Writes arrive validated, so a refused change never
 // touches what was saved.
 import type { DataSource } from 'typeorm';
-import type { FabricationSettings } from '../contracts/fabrication';
+import type { FabricationSettings, FabricationSettingsWire } from '../contracts/fabrication';
 import { DEFAULT_KERF_MM, DEFAULT_STICK_MM } from '../domain/fabrication/nesting';
 import type { FabricationSettingsInput } from '../domain/fabrication/sheet-fabrication';
 
 /** A few millimetres per end to dress the fit, as is common practice. */
 export const DEFAULT_TRIM_ALLOWANCE_MM = 3;
 
-export interface FabricationSettingsWire extends FabricationSettings {
-  /** False until the builder saves settings of their own. */
-  saved: boolean;
-}
+export type { FabricationSettingsWire };
 
 export interface FabricationSettingsService {
   get(userId: string): Promise<FabricationSettingsWire>;
