@@ -58,6 +58,7 @@ const DEFS: Def[] = [
   // Geometry
   num('geometry.rearBraceAttachBelowTopMm', 'vehicle', 'length', 'rear brace attachment below main hoop top', 'How far below the top of the main hoop the rear braces attach.'),
   num('geometry.rearBraceAngleFromVerticalDeg', 'vehicle', 'angle', 'rear brace angle from vertical', 'Angle of the rear braces from the vertical (the smaller, if they differ).'),
+  num('geometry.rearBraceIncludedAngleDeg', 'vehicle', 'angle', 'included angle between rear brace and main hoop', 'Included angle between a rear brace and the main hoop where they meet (the smaller, if they differ).'),
   num('geometry.hoopAboveHelmetMm', 'vehicle', 'length', 'main hoop top above helmet top', 'Height of the main hoop top above the helmet top in the driving position (negative: helmet higher).'),
   num('geometry.helmetBelowHoopLineMm', 'vehicle', 'length', 'helmet below the line joining the hoop tops', 'Distance of the helmet top below the line from the main hoop top to the front hoop top (negative: above it).'),
   num('geometry.hoopBehindHelmetMm', 'vehicle', 'length', 'main hoop behind the helmet', 'Horizontal distance from the back of the helmet to the main hoop.'),
@@ -151,14 +152,16 @@ export interface MemberTubeData {
   densityAssumed: boolean;
 }
 
-export function memberTubeData(m: SpecMember, index: number): MemberTubeData {
+/** `modelLengthMm`: the developed length from the cage model, which is the member's when it has a path. */
+export function memberTubeData(m: SpecMember, index: number, modelLengthMm?: number): MemberTubeData {
   const material: Material = m.material ?? 'mild_steel';
   const p = tubeSectionProperties({ odMm: m.odMm, wallMm: m.wallMm }, material);
-  const massKg = m.lengthMm === undefined ? null : tubeMassKg(p, m.lengthMm);
+  const lengthMm = modelLengthMm ?? m.lengthMm;
+  const massKg = lengthMm === undefined ? null : tubeMassKg(p, lengthMm);
   return {
     memberId: m.id, kind: m.kind, index, odMm: m.odMm, wallMm: m.wallMm, areaMm2: p.areaMm2,
     secondMomentMm4: p.secondMomentMm4, sectionModulusMm3: p.sectionModulusMm3, radiusOfGyrationMm: p.radiusOfGyrationMm,
-    torsionalConstantMm4: p.torsionalConstantMm4, massPerMetreKg: p.massPerMetreKg, lengthMm: m.lengthMm ?? null, massKg,
+    torsionalConstantMm4: p.torsionalConstantMm4, massPerMetreKg: p.massPerMetreKg, lengthMm: lengthMm ?? null, massKg,
     densityAssumed: m.material === undefined || m.material === 'other',
   };
 }
@@ -187,6 +190,7 @@ export function vehicleFacts(spec: Specification, cls: ClassBasis, tubes: readon
     'vehicle.estimatedTubeMassKg': estimated,
     'geometry.rearBraceAttachBelowTopMm': g.rearBraceAttachBelowTopMm,
     'geometry.rearBraceAngleFromVerticalDeg': g.rearBraceAngleFromVerticalDeg,
+    'geometry.rearBraceIncludedAngleDeg': g.rearBraceIncludedAngleDeg,
     'geometry.hoopAboveHelmetMm': g.hoopAboveHelmetMm,
     'geometry.helmetBelowHoopLineMm': g.helmetBelowHoopLineMm,
     'geometry.hoopBehindHelmetMm': g.hoopBehindHelmetMm,

@@ -11,13 +11,14 @@ export interface FixtureSpec {
 }
 export const HOOP = { halfWidthMm: 600, heightMm: 1150, clrMm: 150, odMm: 45 } as const;
 
-export function cageSpec(over: { braceJunctionZ?: number; braceFootX?: number } = {}): FixtureSpec {
+export function cageSpec(over: { braceJunctionZ?: number; braceFootX?: number; clrMm?: number } = {}): FixtureSpec {
   const jz = over.braceJunctionZ ?? 1000;
   const fx = over.braceFootX ?? -900;
+  const clr = over.clrMm ?? HOOP.clrMm;
   const w = HOOP.halfWidthMm;
   const h = HOOP.heightMm;
   return {
-    vehicle: { classId: 'new_cage', driverSide: 'right', driverShoulderHeightMm: 900, helmet: { xMm: 250, yMm: -300, zMm: 950, radiusMm: 150 } },
+    vehicle: { classId: 'new_cage', driverSide: 'right', driverShoulderHeightMm: 900, helmet: { xMm: 250, yMm: -300, zMm: 900, radiusMm: 150 } },
     model: {
       nodes: [
         { id: 'fl', label: 'hoop foot left', role: 'foot', xMm: 0, yMm: w, zMm: 0 },
@@ -34,7 +35,7 @@ export function cageSpec(over: { braceJunctionZ?: number; braceFootX?: number } 
     },
     members: [
       { id: 'mh', kind: 'main_hoop', label: 'main hoop', odMm: HOOP.odMm, wallMm: 2.5,
-        path: [{ nodeId: 'fl' }, { nodeId: 'hl' }, { nodeId: 'jl' }, { nodeId: 'tl', clrMm: HOOP.clrMm }, { nodeId: 'tr', clrMm: HOOP.clrMm }, { nodeId: 'jr' }, { nodeId: 'hr' }, { nodeId: 'fr' }] },
+        path: [{ nodeId: 'fl' }, { nodeId: 'hl' }, { nodeId: 'jl' }, { nodeId: 'tl', clrMm: clr }, { nodeId: 'tr', clrMm: clr }, { nodeId: 'jr' }, { nodeId: 'hr' }, { nodeId: 'fr' }] },
       { id: 'bsl', kind: 'rear_brace', label: 'backstay left', odMm: 38, wallMm: 2.5, path: [{ nodeId: 'jl' }, { nodeId: 'bl' }] },
       { id: 'bsr', kind: 'rear_brace', label: 'backstay right', odMm: 38, wallMm: 2.5, path: [{ nodeId: 'jr' }, { nodeId: 'br' }] },
       { id: 'hb', kind: 'harness_bar', label: 'harness bar', odMm: 38, wallMm: 2.5, path: [{ nodeId: 'hl' }, { nodeId: 'hr' }] },
