@@ -3,7 +3,7 @@
 import { describe, expect, test } from 'vitest';
 import { analysePath, deriveCageGeometry, memberCentreline, vec3 } from '@backend/domain/geometry/index';
 import type { PathGeometry } from '@backend/domain/geometry/index';
-import { HOOP, cageSpec } from './cage-fixture';
+import { HOOP, cageSpec } from '../../../fixtures/cage-model';
 
 const analyse = (pts: [number, number, number][], clrs: (number | undefined)[], od = 45): PathGeometry => {
   const r = analysePath(pts.map(([x, y, z]) => vec3(x, y, z)), clrs, od);

@@ -4,7 +4,7 @@
 import { describe, expect, test } from 'vitest';
 import { deriveCageGeometry } from '@backend/domain/geometry/index';
 import { IN, check, compileFile, finding } from '../helpers';
-import { cageSpec } from './cage-fixture';
+import { cageSpec } from '../../../fixtures/cage-model';
 
 const msuk = compileFile('tests/fixtures/rulesets/msuk-ncr-2026.json');
 const nhra = compileFile('tests/fixtures/rulesets/nhra-quoted.json');
