@@ -36,6 +36,11 @@ export const classSchema = z.object({
   name: shortText,
   weightBasis: z.enum(['with_driver', 'without_driver']),
   description: longText.optional(),
+  /**
+   * The class's listed weight (e.g. the GCR vehicle weight), in the document's mass unit or `unit`:
+   * when given, tube-table bands and `vehicle.weightKg` use it instead of the measured weight.
+   */
+  listedWeight: z.object({ value: positive, unit: unitName.optional() }).optional(),
 });
 
 export const tubeSizeSchema = z.object({
@@ -60,6 +65,8 @@ export const tubeRowSchema = z.object({
   materials: z.array(z.enum(MATERIALS)).min(1).max(MATERIALS.length).optional(),
   /** Tube processes this row accepts; omitted = any process. */
   processes: z.array(z.enum(PROCESSES)).min(1).max(PROCESSES.length).optional(),
+  /** The row counts only for cages approved before this date (YYYY-MM-DD), e.g. a legacy size. */
+  approvedBefore: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'A date as YYYY-MM-DD').optional(),
   alternatives: z.array(tubeAlternativeSchema).min(1, 'List at least one size').max(L.alternativesPerRow),
 });
 
@@ -84,6 +91,9 @@ export const tubeTableSchema = z.object({
     .optional(),
 });
 
+export const MEMBER_COUNT_SIDES = ['each', 'left', 'right', 'driver', 'passenger'] as const;
+export type MemberCountSide = (typeof MEMBER_COUNT_SIDES)[number];
+
 export const requiredMembersSchema = z.object({
   template: z.literal('required_members'),
   members: z
@@ -93,6 +103,11 @@ export const requiredMembersSchema = z.object({
         min: z.number().int().min(0).max(50),
         max: z.number().int().min(0).max(50).optional(),
         label: shortText.optional(),
+        /**
+         * Count per side instead of in total: "each" (left and right each need min..max), or one
+         * side: left, right, driver, passenger. Omitted: counted in total, whatever the sides.
+         */
+        side: z.enum(MEMBER_COUNT_SIDES).optional(),
       }),
     )
     .min(1)
@@ -108,7 +123,8 @@ export const limitCheckSchema = z.object({
   path: z.string().max(40).optional(),
   params: z.record(z.string(), z.unknown()).optional(),
   operator: z.enum(LIMIT_OPERATORS),
-  value: z.union([finite, z.boolean()]),
+  /** A number in document units, true/false, or a date "YYYY-MM-DD" for date facts. */
+  value: z.union([finite, z.boolean(), z.string().min(1).max(60)]),
   unit: unitName.optional(),
   label: shortText.optional(),
 });
@@ -158,6 +174,11 @@ export const requirementSchema = z.object({
     .optional(),
   requires: requiresSchema,
   explanation: longText,
+  /**
+   * The rulebook accepts a cage certified by its maker (certificate or homologation number on the
+   * sheet) in place of this rule: such a cage is not checked against it, and the finding says why.
+   */
+  acceptsMakerCertificate: z.boolean().optional(),
 });
 
 export const measurementToleranceSchema = z

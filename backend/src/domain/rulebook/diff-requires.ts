@@ -3,6 +3,7 @@
 // document rewritten in other units reads as unchanged where the rule is unchanged.
 import type { LimitCheck, Requires, TubeTable } from '../../contracts/ruleset.js';
 import { FACTS_BY_NAME } from '../facts.js';
+import { formatIsoDate } from '../dates.js';
 import { TEMPLATE_KINDS, TEMPLATE_NAMES } from '../rules/template-kinds.js';
 import type { TemplateName, TemplateOf } from '../rules/template-kinds.js';
 import {
@@ -78,13 +79,14 @@ function bandName(bands: readonly Band[], i: number, side: Side, unit?: string):
 }
 
 const rowKey = (r: Row): string =>
-  `${[...(r.materials ?? [])].sort().join('+')}|${[...(r.processes ?? [])].sort().join('+')}`;
+  `${[...(r.materials ?? [])].sort().join('+')}|${[...(r.processes ?? [])].sort().join('+')}|${r.approvedBefore ?? ''}`;
 
 function rowName(r: Row): string {
   const materials = r.materials
     ? r.materials.map((m) => (m === 'other' ? 'other material' : valueWord(m))).join(' or ')
     : 'any material';
-  return r.processes ? `${materials} (${r.processes.map(valueWord).join(', ')})` : materials;
+  const named = r.processes ? `${materials} (${r.processes.map(valueWord).join(', ')})` : materials;
+  return r.approvedBefore ? `${named}, cages approved before ${formatIsoDate(r.approvedBefore)}` : named;
 }
 
 const sizesText = (r: Row, side: Side): string => r.alternatives.map((s) => sizeText(s, side)).join(', ');
@@ -236,14 +238,17 @@ function allowances(a: TubeTable, sa: Side, b: TubeTable, sb: Side, emit: Emit):
 
 type MemberEntry = Extract<Requires, { template: 'required_members' }>['members'][number];
 const entryKey = (e: MemberEntry) => [...new Set(e.kinds)].sort().join('+');
+const SIDE_COUNT_WORDS: Readonly<Record<NonNullable<MemberEntry['side']>, string>> = {
+  each: 'on each side', left: 'on the left', right: 'on the right', driver: "on the driver's side", passenger: "on the passenger's side",
+};
 const countText = (e: MemberEntry) =>
-  e.max === undefined
+  `${e.max === undefined
     ? `at least ${e.min}`
     : e.min === e.max
       ? `exactly ${e.min}`
       : e.min === 0
         ? `at most ${e.max}`
-        : `${e.min} to ${e.max}`;
+        : `${e.min} to ${e.max}`}${e.side ? ` ${SIDE_COUNT_WORDS[e.side]}` : ''}`;
 
 function requiredMembers(
   a: Extract<Requires, { template: 'required_members' }>,
@@ -271,7 +276,7 @@ function requiredMembers(
         before: countText(old),
         after: countText(e),
       });
-    else if (old.min !== e.min || old.max !== e.max)
+    else if (old.min !== e.min || old.max !== e.max || old.side !== e.side)
       emit('changed', `${kinds}: ${countText(old)} → ${countText(e)}`, {
         before: countText(old),
         after: countText(e),
@@ -315,8 +320,13 @@ function checkSubject(c: LimitCheck): string {
   return c.path ? `${fact.label}: ${valueWord(c.path)}` : fact.label;
 }
 
+const DATE_OPERATOR_WORDS: Readonly<Record<LimitCheck['operator'], string>> = {
+  atLeast: 'on or after', atMost: 'on or before', above: 'after', below: 'before', equals: 'on', notEquals: 'not on',
+};
+
 function checkValue(c: LimitCheck, side: Side): { value: string; canonical?: number } {
   if (typeof c.value === 'boolean') return { value: c.value ? 'yes' : 'no' };
+  if (typeof c.value === 'string') return { value: FACTS_BY_NAME.get(c.fact)?.type === 'date' ? formatIsoDate(c.value) : valueWord(c.value) };
   const dimension = FACTS_BY_NAME.get(c.fact)?.dimension;
   if (!dimension) return { value: String(c.value), canonical: c.value };
   return {
@@ -325,7 +335,8 @@ function checkValue(c: LimitCheck, side: Side): { value: string; canonical?: num
   };
 }
 
-const checkText = (c: LimitCheck, side: Side) => `${OPERATOR_WORDS[c.operator]} ${checkValue(c, side).value}`;
+const checkText = (c: LimitCheck, side: Side) =>
+  `${(FACTS_BY_NAME.get(c.fact)?.type === 'date' ? DATE_OPERATOR_WORDS : OPERATOR_WORDS)[c.operator]} ${checkValue(c, side).value}`;
 
 function limits(ca: readonly LimitCheck[], sa: Side, cb: readonly LimitCheck[], sb: Side, emit: Emit): void {
   const used = new Set<number>();
@@ -345,7 +356,7 @@ function limits(ca: readonly LimitCheck[], sa: Side, cb: readonly LimitCheck[], 
     const va = checkValue(old, sa);
     const vb = checkValue(c, sb);
     const sameValue =
-      typeof old.value === 'boolean' || typeof c.value === 'boolean'
+      typeof old.value !== 'number' || typeof c.value !== 'number'
         ? old.value === c.value
         : sameNumber(va.canonical, vb.canonical);
     if (old.operator !== c.operator || !sameValue) {

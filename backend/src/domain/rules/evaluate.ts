@@ -8,8 +8,9 @@ import type { Almanac, RuleProperties } from 'json-rules-engine';
 import type { Specification } from '../../contracts/specification.js';
 import type { CheckReport, Finding, MeasuredValue, MissingFact, RequiredValue } from '../../contracts/report.js';
 import { PRE_CHECK_DISCLAIMER } from '../../contracts/report.js';
-import { FACTS_BY_NAME, factPresent, memberFacts, memberTubeData, plateFacts, vehicleFacts } from '../facts.js';
-import type { FactSet, MemberTubeData } from '../facts.js';
+import { FACTS_BY_NAME, SIDE_COUNTS_FACT, countOnSide, factPresent, memberFacts, memberSides, memberTubeData, plateFacts, vehicleFacts } from '../facts.js';
+import type { FactSet, MemberTubeData, SideParam } from '../facts.js';
+import { formatIsoDate } from '../dates.js';
 import { deriveCageGeometry } from '../geometry/derive.js';
 import type { CageGeometry } from '../geometry/derive.js';
 import { memberNames } from '../geometry/names.js';
@@ -55,6 +56,14 @@ function newEngine(rules: RuleProperties[]): Engine {
   engine.addFact('member.odMarginOverTableMinimumMm', async (params: Record<string, unknown>, almanac: Almanac) => {
     const od = await almanac.factValue<number | undefined>('member.odMm');
     return typeof od === 'number' ? od - Number(params.tableMinimumOdMm) : undefined;
+  }, { cache: false });
+  engine.addFact('vehicle.memberCountOnSide', async (params: Record<string, unknown>, almanac: Almanac) => {
+    const facts: FactSet = {
+      [SIDE_COUNTS_FACT]: await almanac.factValue<Record<string, number>>(SIDE_COUNTS_FACT),
+      'vehicle.driverSide': await almanac.factValue<string | undefined>('vehicle.driverSide'),
+    };
+    const r = countOnSide(facts, params.kinds as string[], params.side as SideParam);
+    return 'count' in r ? r.count : undefined;
   }, { cache: false });
   engine.addFact('vehicle.memberCountOfKinds', async (params: Record<string, unknown>, almanac: Almanac) => {
     const counts = await almanac.factValue<Record<string, number>>('vehicle.memberCounts');
@@ -116,9 +125,9 @@ function lessFavourable(a: readonly Ordered[], b: readonly Ordered[]): Ordered[]
   return a.map((x, i) => (b[i] && VERDICT_RANK[b[i].finding.verdict] > VERDICT_RANK[x.finding.verdict] ? b[i] : x));
 }
 
-type VariantChoice = { variant: CompiledVariant } | { missingWeight: true } | { outsideTable: true };
+export type VariantChoice = { variant: CompiledVariant } | { missingWeight: true } | { outsideTable: true };
 
-function chooseVariant(req: CompiledRequirement, weightKg: number | undefined): VariantChoice {
+export function chooseVariant(req: CompiledRequirement, weightKg: number | undefined): VariantChoice {
   if (req.variants.length === 1 && req.variants[0].aboveKg === null && req.variants[0].upToKg === null) return { variant: req.variants[0] };
   if (weightKg === undefined) return { missingWeight: true };
   const v = req.variants.find((x) => (x.aboveKg === null || weightKg > x.aboveKg + 1e-9) && (x.upToKg === null || weightKg <= x.upToKg + 1e-9));
@@ -163,8 +172,13 @@ function factsNeeded(reqs: readonly CompiledRequirement[]): Set<string> {
   for (const r of reqs) for (const f of r.factsUsed) names.add(f);
   if (names.has('member.odMarginOverTableMinimumMm')) names.add('member.odMm');
   if (names.has('vehicle.memberCountOfKinds')) names.add('vehicle.memberCounts');
+  if (names.has('vehicle.memberCountOnSide')) {
+    names.add(SIDE_COUNTS_FACT);
+    names.add('vehicle.driverSide');
+  }
   names.delete('member.odMarginOverTableMinimumMm');
   names.delete('vehicle.memberCountOfKinds');
+  names.delete('vehicle.memberCountOnSide');
   return names;
 }
 
@@ -174,6 +188,10 @@ interface Ctx {
   weightKg: number | undefined;
   /** The builder's name for each member, by index (findings say it, never an id). */
   names: readonly string[];
+  /** The maker's certificate on the sheet, for requirements that accept one in their place. */
+  certificate?: { issuer?: string; number: string };
+  /** The weight is the class's listed weight, not a measured one. */
+  listedWeight: boolean;
 }
 
 export async function evaluateSpecification(
@@ -189,9 +207,14 @@ export async function evaluateSpecification(
   const geo = spec.model ? deriveCageGeometry(spec) : null;
   const lengths = modelLengths(spec, geo);
   const tubes = spec.members.map((m, i) => memberTubeData(m, i, lengths.get(m.id)));
-  const vfacts = vehicleFacts(spec, cls, tubes);
+  const listedWeightKg = compiled.listedWeightsKg[classId];
+  const vfacts = vehicleFacts(spec, { weightBasis: cls.weightBasis, ...(listedWeightKg !== undefined ? { listedWeightKg } : {}) }, tubes);
   const vr = vehicleReadings(vfacts, geo);
-  const ctx: Ctx = { compiled, system: options.unitSystem ?? doc.unitSystem, weightKg: vfacts['vehicle.weightKg'] as number | undefined, names: memberNames(spec.members) };
+  const certificate = spec.cage?.certificate;
+  const ctx: Ctx = {
+    compiled, system: options.unitSystem ?? doc.unitSystem, weightKg: vfacts['vehicle.weightKg'] as number | undefined,
+    ...(certificate ? { certificate } : {}), listedWeight: listedWeightKg !== undefined, names: memberNames(spec.members),
+  };
   const findings: Ordered[] = [];
   const disagreements: Disagreement[] = [...vr.disagreements];
 
@@ -202,7 +225,12 @@ export async function evaluateSpecification(
     const rules: RuleProperties[] = [];
     const direct: { req: CompiledRequirement; choice: VariantChoice }[] = [];
     const chosen = new Map<string, CompiledVariant>();
+    const waived: CompiledRequirement[] = [];
     for (const req of reqs) {
+      if (req.acceptsMakerCertificate && ctx.certificate) {
+        waived.push(req);
+        continue;
+      }
       const choice = chooseVariant(req, ctx.weightKg);
       if ('variant' in choice) {
         rules.push(choice.variant.rule);
@@ -223,6 +251,7 @@ export async function evaluateSpecification(
     for (const { subject, facts, fromModel } of subjects) {
       const order = subject.kind === 'vehicle' ? 0 : subject.index;
       for (const { req, choice } of direct) findings.push({ order: [req.index, order], finding: bandFinding(ctx, req, subject, choice) });
+      for (const req of waived) findings.push({ order: [req.index, order], finding: certifiedFinding(ctx, req, subject) });
       if (!engine) continue;
       // Left/right pairs and repeated bars often have identical facts: run the engine once for
       // them (the result trees are only read, never changed).
@@ -267,11 +296,12 @@ export async function evaluateSpecification(
 
   const membersByKind = new Map<MemberKind, { model: SubjectRun[]; sheet: SubjectRun[]; differs: boolean }>();
   const derivedById = new Map((geo?.members ?? []).map((d) => [d.memberId, d]));
+  const sides = memberSides(spec);
   spec.members.forEach((m, index) => {
     if (!plan.byKind.has(m.kind)) return;
     const group = membersByKind.get(m.kind) ?? { model: [], sheet: [], differs: false };
     const subject: Subject = { kind: 'member', id: m.id, memberKind: m.kind, index };
-    const mr = memberReadings(memberFacts(spec, m, tubes[index]), m, derivedById.get(m.id));
+    const mr = memberReadings(memberFacts(spec, m, tubes[index], sides[index]), m, derivedById.get(m.id));
     disagreements.push(...mr.disagreements);
     const union = (a: ReadonlySet<string>, b: ReadonlySet<string>) => new Set([...a, ...b]);
     group.model.push({ subject, facts: layered(vr.model.facts, mr.model.facts), fromModel: union(vr.model.fromModel, mr.model.fromModel) });
@@ -354,6 +384,14 @@ function baseFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, verdi
   };
 }
 
+/** The rulebook accepts a maker-certified cage in place of this rule: say so, with the certificate. */
+function certifiedFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject): Finding {
+  const c = ctx.certificate!;
+  const by = c.issuer ? ` from ${c.issuer}` : '';
+  return baseFinding(ctx, req, subject, 'not_applicable',
+    `Not checked: the sheet gives maker's certificate ${c.number}${by}, which this rulebook accepts in place of this rule. The inspector checks the certificate and the cage against it.`);
+}
+
 function missingList(names: Iterable<string>): MissingFact[] {
   return [...new Set(names)].sort().map((fact) => {
     const def = FACTS_BY_NAME.get(fact);
@@ -368,7 +406,7 @@ function bandFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, choic
     return f;
   }
   const w = ctx.weightKg ?? 0;
-  const f = baseFinding(ctx, req, subject, 'fail', `The table lists no tube size for a vehicle weight of ${formatQuantity(w, 'mass', ctx.system).text}.`);
+  const f = baseFinding(ctx, req, subject, 'fail', `The table lists no tube size for a ${ctx.listedWeight ? 'listed class weight' : 'vehicle weight'} of ${formatQuantity(w, 'mass', ctx.system).text}.`);
   f.measured = [{ fact: 'vehicle.weightKg', label: FACTS_BY_NAME.get('vehicle.weightKg')!.label, value: w, dimension: 'mass' }];
   return f;
 }
@@ -416,7 +454,7 @@ function summarise(req: CompiledRequirement, key: string, leaves: ResultNode[]):
   leaves.forEach((leaf, index) => {
     const meta = req.leaves[String(leaf.name)];
     if (!meta) return;
-    const factKey = `${meta.fact}|${meta.path ?? ''}`;
+    const factKey = `${meta.fact}|${meta.path ?? ''}${meta.paramsKey ? `|${meta.paramsKey}` : ''}`;
     if (!seenM.has(factKey)) {
       seenM.add(factKey);
       measured.push({ index, meta });
@@ -455,8 +493,11 @@ function modelNote(measured: readonly MeasuredValue[]): string {
   return labels.length === 0 ? '' : ` From the model: ${labels.join(', ')}.`;
 }
 
+const DATE_WORDS: Record<string, string> = { atLeast: 'on or after', atMost: 'on or before', above: 'after', below: 'before', equals: 'on', notEquals: 'not on' };
+
 function describeLeaf(req: CompiledRequirement, leaf: ResultNode, facts: FactSet, system: UnitSystem): string {
   const meta = req.leaves[String(leaf.name)];
+  if (meta.date) return `${meta.label} ${formatIsoDate(String(factValueOf(facts, leaf, meta)))} (required ${DATE_WORDS[meta.operator]} ${formatIsoDate(String(meta.value))})`;
   return `${meta.label} ${display(factValueOf(facts, leaf, meta), meta.dimension, system)} (required ${OP_WORDS[meta.operator]} ${display(meta.value, meta.dimension, system)})`;
 }
 
@@ -504,7 +545,7 @@ function buildFinding(
 function factPresentFor(facts: FactSet, leaf: ResultNode): boolean {
   const ref = leaf.value;
   const refFact = typeof ref === 'object' && ref !== null && !Array.isArray(ref) ? (ref as { fact?: unknown }).fact : undefined;
-  return factPresent(facts, String(leaf.fact)) && (typeof refFact !== 'string' || factPresent(facts, refFact));
+  return factPresent(facts, String(leaf.fact), leaf.params) && (typeof refFact !== 'string' || factPresent(facts, refFact));
 }
 
 function bandText(ctx: Ctx, v: CompiledVariant): string {
@@ -524,6 +565,7 @@ function tubeTableFinding(
   const wall = facts['member.wallMm'] as number;
   const material = facts['member.material'] as string | undefined;
   const process = facts['member.process'] as string | undefined;
+  const approvedOn = facts['cage.approvedOn'] as string | undefined;
   const measured: MeasuredValue[] = [
     { fact: 'member.odMm', label: 'outside diameter', value: od, dimension: 'length' },
     { fact: 'member.wallMm', label: 'wall thickness', value: wall, dimension: 'length' },
@@ -541,6 +583,7 @@ function tubeTableFinding(
     let s = Math.max(0, a.odMm - od) / a.odMm + Math.max(0, wallReq - wall) / wallReq;
     if (a.materials && material !== undefined && !a.materials.includes(material)) s += 1;
     if (a.processes && process !== undefined && !a.processes.includes(process)) s += 1;
+    if (a.approvedBefore && approvedOn !== undefined && !(approvedOn < a.approvedBefore)) s += 1;
     return s;
   };
   const pick = matched ?? [...alts].sort((x, y) => score(String(x.name)) - score(String(y.name)))[0];
@@ -552,6 +595,7 @@ function tubeTableFinding(
       ? [
           a.materials ? ` in ${a.materials.map((m) => MATERIAL_LABELS[m as keyof typeof MATERIAL_LABELS] ?? m).join(' or ')}` : '',
           a.processes ? ` (${a.processes.map((x) => PROCESS_LABELS[x as keyof typeof PROCESS_LABELS] ?? x).join(', ')})` : '',
+          a.approvedBefore ? `, for cages approved before ${formatIsoDate(a.approvedBefore)}` : '',
         ].join('')
       : '';
   let reason: string;
@@ -564,6 +608,8 @@ function tubeTableFinding(
     if (wallReq && typeof wallReq.value === 'number' && wall < wallReq.value - 1e-9) gaps.push(`wall ${display(wall, 'length', ctx.system)} is under ${display(wallReq.value, 'length', ctx.system)}`);
     if (pickMeta.materials && material !== undefined && !pickMeta.materials.includes(material)) gaps.push(`material ${material} is not ${pickMeta.materials.join(' or ')}`);
     if (pickMeta.processes && process !== undefined && !pickMeta.processes.includes(process)) gaps.push(`process ${process} is not ${pickMeta.processes.join(' or ')}`);
+    if (pickMeta.approvedBefore && approvedOn !== undefined && !(approvedOn < pickMeta.approvedBefore))
+      gaps.push(`the cage was approved on ${formatIsoDate(approvedOn)}, not before ${formatIsoDate(pickMeta.approvedBefore)}`);
     reason = `No listed size fits${forBand}. Nearest: ${pickMeta.label}${restrictions(pickMeta)}${gaps.length ? ` (${gaps.join('; ')})` : ''}.`;
   } else reason = `No listed size fits${forBand}.`;
   const f = baseFinding(ctx, req, subject, v, reason);

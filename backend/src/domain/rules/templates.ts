@@ -3,8 +3,10 @@
 import type { Requirement, TubeTable } from '../../contracts/ruleset.js';
 import { toCanonical } from '../units.js';
 import { tubeSizeProblems } from '../tube.js';
-import { MEMBER_KIND_LABELS } from '../vocabulary.js';
-import { compileConditionTree, compileLeaf, resolveUnit } from './conditions.js';
+import { isIsoDate } from '../dates.js';
+import { MEMBER_KIND_LABELS, SIDED_MEMBER_KINDS } from '../vocabulary.js';
+import type { SideParam } from '../facts.js';
+import { compileConditionTree, compileLeaf, resolveUnit, sideWords } from './conditions.js';
 import type { CompileContext, EngineNode, Path, Problems } from './conditions.js';
 import { ENGINE_FROM_LIMIT } from './operators.js';
 import type { AlternativeMeta } from './types.js';
@@ -73,6 +75,11 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
     const alternatives: EngineNode[] = [];
     band.rows.forEach((row, r) => {
       const rowPath = [...bandPath, 'rows', r];
+      if (row.approvedBefore !== undefined && !isIsoDate(row.approvedBefore)) {
+        ctx.problems.add([...rowPath, 'approvedBefore'], `"${row.approvedBefore}" is not a date: write it YYYY-MM-DD.`);
+        ok = false;
+        return;
+      }
       const sizes: { odMm: number; wallMm: number; label?: string }[] = [];
       row.alternatives.forEach((alt, a) => {
         const altPath = [...rowPath, 'alternatives', a];
@@ -96,11 +103,19 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
           const leaf = compileLeaf({ fact: 'member.process', operator: 'in', value: row.processes }, [...rowPath, 'processes'], ctx);
           if (leaf) out.push(leaf);
         }
+        // A legacy row: unknown (so "needs information", never a pass) until the sheet gives the date.
+        if (row.approvedBefore !== undefined) {
+          const leaf = compileLeaf({ fact: 'cage.approvedOn', operator: 'lessThan', value: row.approvedBefore }, [...rowPath, 'approvedBefore'], ctx);
+          if (leaf) out.push(leaf);
+        }
         return out;
       };
       const sizeNode = (odMm: number, wallMm: number, meta: Omit<AlternativeMeta, 'materials' | 'processes' | 'requiredWallMm'>): EngineNode => {
         const name = ctx.nextAlternative();
-        ctx.alternatives[name] = { ...meta, requiredWallMm: Math.max(wallMm - wallAllowanceMm, 0), ...(row.materials ? { materials: row.materials } : {}), ...(row.processes ? { processes: row.processes } : {}) };
+        ctx.alternatives[name] = {
+          ...meta, requiredWallMm: Math.max(wallMm - wallAllowanceMm, 0), ...(row.materials ? { materials: row.materials } : {}), ...(row.processes ? { processes: row.processes } : {}),
+          ...(row.approvedBefore ? { approvedBefore: row.approvedBefore } : {}),
+        };
         const od = compileLeaf({ fact: 'member.odMm', operator: 'greaterThanInclusive', value: odMm, unit: 'mm' }, rowPath, ctx);
         const wall = compileLeaf({ fact: 'member.wallMm', operator: 'greaterThanInclusive', value: Math.max(wallMm - wallAllowanceMm, 0), unit: 'mm' }, rowPath, ctx);
         return { all: [...restrictions(), od, wall], name };
@@ -129,6 +144,7 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
         ctx.alternatives[name] = {
           label, odMm: minOd + marginMm, wallMm: minWallMm, requiredWallMm: Math.max(minWallMm - wallAllowanceMm, 0), source: 'allowance',
           ...(row.materials ? { materials: row.materials } : {}), ...(row.processes ? { processes: row.processes } : {}),
+          ...(row.approvedBefore ? { approvedBefore: row.approvedBefore } : {}),
         };
         const margin = compileLeaf(
           { fact: 'member.odMarginOverTableMinimumMm', operator: 'greaterThanInclusive', value: marginMm, unit: 'mm', params: { tableMinimumOdMm: minOd } },
@@ -156,12 +172,24 @@ function compileRequiredMembers(r: TemplateOf<'required_members'>, path: Path, c
   r.members.forEach((entry, i) => {
     const p = [...path, 'members', i];
     const kinds = [...new Set(entry.kinds)];
-    const label = entry.label ?? `number of ${kinds.map((k) => MEMBER_KIND_LABELS[k]).join(' / ')}`;
-    const addressing = kinds.length === 1 ? { fact: 'vehicle.memberCounts', path: kinds[0] } : { fact: 'vehicle.memberCountOfKinds', params: { kinds } };
-    leaves.push(compileLeaf({ ...addressing, operator: 'greaterThanInclusive', value: entry.min }, p, ctx, label));
-    if (entry.max !== undefined) {
-      if (entry.max < entry.min) ctx.problems.add([...p, 'max'], 'The maximum must not be below the minimum.');
-      leaves.push(compileLeaf({ ...addressing, operator: 'lessThanInclusive', value: entry.max }, p, ctx, label));
+    const kindWords = kinds.map((k) => MEMBER_KIND_LABELS[k]).join(' / ');
+    if (entry.max !== undefined && entry.max < entry.min) ctx.problems.add([...p, 'max'], 'The maximum must not be below the minimum.');
+    // Per side (opt-in): each side is its own count, so two door bars on one side do not stand
+    // in for none on the other.
+    const sides: (SideParam | undefined)[] = entry.side === undefined ? [undefined] : entry.side === 'each' ? ['left', 'right'] : [entry.side];
+    if (entry.side !== undefined) {
+      const sideless = kinds.filter((k) => !SIDED_MEMBER_KINDS.includes(k));
+      if (sideless.length > 0) ctx.problems.add([...p, 'side'], `A ${MEMBER_KIND_LABELS[sideless[0]]} spans the car and has no side; count it in total.`);
+    }
+    for (const side of sides) {
+      const label = entry.label
+        ? (side && entry.side === 'each' ? `${entry.label} ${sideWords(side)}` : entry.label)
+        : `number of ${kindWords}${side ? ` ${sideWords(side)}` : ''}`;
+      const addressing = side !== undefined
+        ? { fact: 'vehicle.memberCountOnSide', params: { kinds, side } }
+        : kinds.length === 1 ? { fact: 'vehicle.memberCounts', path: kinds[0] } : { fact: 'vehicle.memberCountOfKinds', params: { kinds } };
+      leaves.push(compileLeaf({ ...addressing, operator: 'greaterThanInclusive', value: entry.min }, p, ctx, label));
+      if (entry.max !== undefined) leaves.push(compileLeaf({ ...addressing, operator: 'lessThanInclusive', value: entry.max }, p, ctx, label));
     }
   });
   return leaves.every((l) => l) ? single({ all: leaves }) : undefined;

@@ -16,6 +16,10 @@ export interface LeafMeta {
   /** Nominal required value, canonical units (before tolerance). */
   value: LeafValue;
   path?: string;
+  /** Tells apart comparisons of one dynamic fact with different params (left vs right counts). */
+  paramsKey?: string;
+  /** A calendar-date comparison (words "before" / "on or after", dates shown as "1 Jan 1995"). */
+  date?: true;
 }
 
 export interface AlternativeMeta {
@@ -26,6 +30,8 @@ export interface AlternativeMeta {
   requiredWallMm: number;
   materials?: readonly string[];
   processes?: readonly string[];
+  /** Counts only for cages approved before this date (YYYY-MM-DD). */
+  approvedBefore?: string;
   source: 'table' | 'allowance' | 'printed_equivalent';
   note?: string;
 }
@@ -49,6 +55,8 @@ export interface CompiledRequirement {
   template: TemplateName;
   classes: readonly string[] | null;
   explanation: string;
+  /** A maker's certificate on the sheet stands in for this requirement. */
+  acceptsMakerCertificate: boolean;
   /** One per weight band for a banded tube table, else exactly one. */
   variants: CompiledVariant[];
   leaves: Readonly<Record<string, LeafMeta>>;
@@ -65,6 +73,8 @@ export interface CompiledPolicy {
 export interface CompiledRuleset {
   document: RulesetDocument;
   classes: Readonly<Record<string, RulesetClass>>;
+  /** Listed class weights (canonical kg) for the classes that give one. */
+  listedWeightsKg: Readonly<Record<string, number>>;
   requirements: readonly CompiledRequirement[];
   policy: CompiledPolicy;
 }

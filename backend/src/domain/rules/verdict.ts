@@ -1,7 +1,7 @@
 // Three-valued reading of a json-rules-engine result tree. The engine treats a missing fact as a
 // failed comparison, and `not` would turn that into a pass; here a comparison whose fact is missing
 // is "unknown", so a finding can never pass on a value nobody measured (Kleene logic).
-import { factPresent } from '../facts.js';
+import { absentFacts, factPresent } from '../facts.js';
 import type { FactSet } from '../facts.js';
 
 export type Tri = true | false | 'unknown';
@@ -45,8 +45,9 @@ export function triState(node: ResultNode, facts: FactSet, missing: Set<string>)
   }
   const fact = node.fact as string;
   let absent = false;
-  if (!factPresent(facts, fact)) {
-    missing.add(fact);
+  const needed = absentFacts(facts, fact, node.params);
+  if (needed.length > 0) {
+    for (const n of needed) missing.add(n);
     absent = true;
   }
   if (isFactRef(node.value) && !factPresent(facts, node.value.fact)) {
