@@ -22,6 +22,8 @@ import { MATERIAL_LABELS, MEMBER_KIND_LABELS, PROCESS_LABELS } from '../vocabula
 import type { MemberKind, PlateLocation } from '../vocabulary.js';
 import { customOperators } from './operators.js';
 import { TEMPLATE_KINDS } from './template-kinds.js';
+import { REF_FACT, describeReference, peerFacts, referenceLabel, referencedFact, referenceValue } from './references.js';
+import type { RefParams } from './references.js';
 import type { CompiledRequirement, CompiledRuleset, CompiledVariant, LeafMeta } from './types.js';
 import { leavesOf, namedPart, triState } from './verdict.js';
 import type { ResultNode, Tri } from './verdict.js';
@@ -56,6 +58,11 @@ function newEngine(rules: RuleProperties[]): Engine {
   engine.addFact('member.odMarginOverTableMinimumMm', async (params: Record<string, unknown>, almanac: Almanac) => {
     const od = await almanac.factValue<number | undefined>('member.odMm');
     return typeof od === 'number' ? od - Number(params.tableMinimumOdMm) : undefined;
+  }, { cache: false });
+  // k × another value, or another member's size (references.ts): read at run time, never cached.
+  engine.addFact(REF_FACT, async (params: Record<string, unknown>, almanac: Almanac) => {
+    const p = params as unknown as RefParams;
+    return referenceValue(p, await almanac.factValue(p.fact));
   }, { cache: false });
   engine.addFact('vehicle.memberCountOnSide', async (params: Record<string, unknown>, almanac: Almanac) => {
     const facts: FactSet = {
@@ -209,6 +216,7 @@ export async function evaluateSpecification(
   const tubes = spec.members.map((m, i) => memberTubeData(m, i, lengths.get(m.id)));
   const listedWeightKg = compiled.listedWeightsKg[classId];
   const vfacts = vehicleFacts(spec, { weightBasis: cls.weightBasis, ...(listedWeightKg !== undefined ? { listedWeightKg } : {}) }, tubes);
+  Object.assign(vfacts, peerFacts(spec, peerNamesOf(compiled)));
   const vr = vehicleReadings(vfacts, geo);
   const certificate = spec.cage?.certificate;
   const ctx: Ctx = {
@@ -395,8 +403,20 @@ function certifiedFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject):
 function missingList(names: Iterable<string>): MissingFact[] {
   return [...new Set(names)].sort().map((fact) => {
     const def = FACTS_BY_NAME.get(fact);
-    return { fact, label: def?.label ?? fact, dimension: def?.dimension ?? null };
+    const other = def ? undefined : referenceLabel(fact);
+    return { fact, label: def?.label ?? other ?? fact, dimension: def?.dimension ?? (other ? 'length' : null) };
   });
+}
+
+// Other members' sizes a compiled ruleset compares with, found once per compiled ruleset.
+const peerNames = new WeakMap<CompiledRuleset, string[]>();
+export function peerNamesOf(compiled: CompiledRuleset): string[] {
+  let names = peerNames.get(compiled);
+  if (!names) {
+    names = [...new Set(compiled.requirements.flatMap((r) => r.factsUsed.filter((f) => referenceLabel(f) !== undefined)))];
+    peerNames.set(compiled, names);
+  }
+  return names;
 }
 
 function bandFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, choice: VariantChoice): Finding {
@@ -411,10 +431,10 @@ function bandFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, choic
   return f;
 }
 
-function display(value: unknown, dimension: Dimension | null, system: UnitSystem): string {
+function display(value: unknown, dimension: Dimension | null, system: UnitSystem, facts: FactSet = {}): string {
   if (typeof value === 'number' && dimension) return formatQuantity(value, dimension, system).text;
   if (Array.isArray(value)) return value.join(', ');
-  if (typeof value === 'object' && value !== null && 'fact' in value) return FACTS_BY_NAME.get(String((value as { fact: string }).fact))?.label ?? String(value);
+  if (typeof value === 'object' && value !== null && 'fact' in value) return describeReference(value as { fact: string; times?: number }, facts, dimension, system);
   return String(value);
 }
 
@@ -498,7 +518,7 @@ const DATE_WORDS: Record<string, string> = { atLeast: 'on or after', atMost: 'on
 function describeLeaf(req: CompiledRequirement, leaf: ResultNode, facts: FactSet, system: UnitSystem): string {
   const meta = req.leaves[String(leaf.name)];
   if (meta.date) return `${meta.label} ${formatIsoDate(String(factValueOf(facts, leaf, meta)))} (required ${DATE_WORDS[meta.operator]} ${formatIsoDate(String(meta.value))})`;
-  return `${meta.label} ${display(factValueOf(facts, leaf, meta), meta.dimension, system)} (required ${OP_WORDS[meta.operator]} ${display(meta.value, meta.dimension, system)})`;
+  return `${meta.label} ${display(factValueOf(facts, leaf, meta), meta.dimension, system)} (required ${OP_WORDS[meta.operator]} ${display(meta.value, meta.dimension, system, facts)})`;
 }
 
 function buildFinding(
@@ -543,9 +563,8 @@ function buildFinding(
 }
 
 function factPresentFor(facts: FactSet, leaf: ResultNode): boolean {
-  const ref = leaf.value;
-  const refFact = typeof ref === 'object' && ref !== null && !Array.isArray(ref) ? (ref as { fact?: unknown }).fact : undefined;
-  return factPresent(facts, String(leaf.fact), leaf.params) && (typeof refFact !== 'string' || factPresent(facts, refFact));
+  const refFact = referencedFact(leaf.value);
+  return factPresent(facts, String(leaf.fact), leaf.params) && (refFact === undefined || factPresent(facts, refFact));
 }
 
 function bandText(ctx: Ctx, v: CompiledVariant): string {
@@ -572,6 +591,10 @@ function tubeTableFinding(
   ];
   if (material !== undefined) measured.push({ fact: 'member.material', label: 'material', value: material, dimension: null });
   if (process !== undefined) measured.push({ fact: 'member.process', label: 'tube process', value: process, dimension: null });
+  // With a measured-wall rule: the thinnest reading by its method, when there is one.
+  const readingFact = Object.values(req.alternatives).find((a) => a.readingFact)?.readingFact;
+  const reading = readingFact ? (facts[readingFact] as number | undefined) : undefined;
+  if (readingFact && reading !== undefined) measured.push({ fact: readingFact, label: FACTS_BY_NAME.get(readingFact)?.label ?? readingFact, value: reading, dimension: 'length' });
   const band = bandText(ctx, variant);
   const forBand = band === 'all weights' ? '' : ` for ${band}`;
   const matched = alts.find((a) => triState(a, facts, new Set()) === true);
@@ -581,6 +604,7 @@ function tubeTableFinding(
     const a = req.alternatives[name];
     const wallReq = a.requiredWallMm;
     let s = Math.max(0, a.odMm - od) / a.odMm + Math.max(0, wallReq - wall) / wallReq;
+    if (a.requiredReadingMm !== undefined && reading !== undefined) s += Math.max(0, a.requiredReadingMm - reading) / a.requiredReadingMm;
     if (a.materials && material !== undefined && !a.materials.includes(material)) s += 1;
     if (a.processes && process !== undefined && !a.processes.includes(process)) s += 1;
     if (a.approvedBefore && approvedOn !== undefined && !(approvedOn < a.approvedBefore)) s += 1;
@@ -599,13 +623,22 @@ function tubeTableFinding(
         ].join('')
       : '';
   let reason: string;
-  if (v === 'pass' && pickMeta) reason = `Matches ${pickMeta.label}${restrictions(pickMeta)}${forBand}.`;
+  const readingWords = (a: NonNullable<typeof pickMeta>) =>
+    a.requiredReadingMm !== undefined && reading !== undefined && a.readingFact
+      ? `${FACTS_BY_NAME.get(a.readingFact)?.label ?? a.readingFact} ${display(reading, 'length', ctx.system)}`
+      : '';
+  if (v === 'pass' && pickMeta) {
+    const r = readingWords(pickMeta);
+    reason = `Matches ${pickMeta.label}${restrictions(pickMeta)}${forBand}${r ? `, with ${r} (at least ${display(pickMeta.requiredReadingMm!, 'length', ctx.system)} needed)` : ''}.`;
+  }
   else if (v === 'needs_information') reason = `Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')} ${band === 'all weights' ? '' : ` (band ${band})`}.`;
   else if (pickMeta) {
     const gaps: string[] = [];
     const wallReq = required.find((r) => r.fact === 'member.wallMm');
     if (od < pickMeta.odMm - 1e-9) gaps.push(`OD ${display(od, 'length', ctx.system)} is under ${display(pickMeta.odMm, 'length', ctx.system)}`);
     if (wallReq && typeof wallReq.value === 'number' && wall < wallReq.value - 1e-9) gaps.push(`wall ${display(wall, 'length', ctx.system)} is under ${display(wallReq.value, 'length', ctx.system)}`);
+    if (pickMeta.requiredReadingMm !== undefined && reading !== undefined && reading < pickMeta.requiredReadingMm - 1e-9)
+      gaps.push(`${readingWords(pickMeta)} is under ${display(pickMeta.requiredReadingMm, 'length', ctx.system)}`);
     if (pickMeta.materials && material !== undefined && !pickMeta.materials.includes(material)) gaps.push(`material ${material} is not ${pickMeta.materials.join(' or ')}`);
     if (pickMeta.processes && process !== undefined && !pickMeta.processes.includes(process)) gaps.push(`process ${process} is not ${pickMeta.processes.join(' or ')}`);
     if (pickMeta.approvedBefore && approvedOn !== undefined && !(approvedOn < pickMeta.approvedBefore))
