@@ -37,6 +37,7 @@ import { createRulebookAdminRouter } from './routes/rulebook-admin.routes';
 import { createFabricationRouter } from './routes/fabrication.routes';
 import type { RepublishQueue } from './services/rulebook-admin.service';
 import { createServices, type Services } from './services';
+import type { JobControl } from './services/jobs';
 
 export interface CreateAppOptions {
   /** An initialized DataSource (the session store shares its pool). */
@@ -54,6 +55,8 @@ export interface CreateAppOptions {
   verifyLimits?: { windowMs: number; limit: number };
   /** Where a publish sends its re-check job (pg-boss in server.ts); without it publishing queues nothing. */
   republishQueue?: RepublishQueue | null;
+  /** Runs a failed job again (POST /api/jobs/:id/retry); pg-boss in server.ts. Without it that route answers 409. */
+  jobControl?: JobControl | null;
 }
 
 export const jsonBodyLimit = '100kb';
@@ -153,7 +156,7 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(createCheckRunsReportRouter({ services }));
   api.use(createMetaRouter({ mailboxEnabled: config.fakeSmtp }));
   api.use(createAuditRouter({ services }));
-  api.use(createJobsRouter({ services }));
+  api.use(createJobsRouter({ services, control: options.jobControl ?? null }));
   api.use(createSubmissionsRouter({ services }));
   api.use(createReviewRouter({ services }));
   api.use(createCageRecordsRouter({ services }));
