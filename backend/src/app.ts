@@ -20,6 +20,7 @@ import { createCarsRouter } from './routes/cars.routes';
 import { createCheckRunsReportRouter } from './routes/check-runs-report.routes';
 import { createPhotosRouter } from './routes/photos.routes';
 import { createChecksRouter } from './routes/checks.routes';
+import { createGeometryRouter } from './routes/geometry.routes';
 import { createHealthProbe, createHealthRouter, type HealthProbe } from './routes/health.routes';
 import { createInvitationsRouter } from './routes/invitations.routes';
 import { createMembersRouter } from './routes/members.routes';
@@ -148,6 +149,7 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(createRulebooksRouter({ services }));
   api.use(createRulebookAdminRouter({ services, republishQueue: options.republishQueue ?? null }));
   api.use(createChecksRouter({ services }));
+  api.use(createGeometryRouter());
   api.use(createCarsRouter({ services }));
   api.use(createBuildSheetsRouter({ services }));
   api.use(createPhotosRouter({ services }));
