@@ -27,6 +27,8 @@ export const stockTubeBodySchema = z.object(stockTubeFields).strict().superRefin
   for (const p of tubeSizeProblems(t)) if (p.field === 'wallMm' && t.wallMm > 0) ctx.addIssue({ code: 'custom', path: ['wallMm'], message: p.message });
 });
 export type StockTubeBody = z.infer<typeof stockTubeBodySchema>;
+/** What a client sends (before trimming). */
+export type StockTubeInput = z.input<typeof stockTubeBodySchema>;
 
 /** A change to a stock size: any of the fields; the result must still be a possible tube. */
 export const stockTubePatchSchema = z.object({
@@ -41,6 +43,7 @@ export const stockTubePatchSchema = z.object({
   yieldSource: stockTubeFields.yieldSource.nullable(),
 }).strict().refine((p) => Object.keys(p).length > 0, 'Change at least one field');
 export type StockTubePatch = z.infer<typeof stockTubePatchSchema>;
+export type StockTubePatchInput = z.input<typeof stockTubePatchSchema>;
 
 export interface StockTubeWire {
   id: string;
@@ -77,8 +80,9 @@ export interface CandidateWire {
   label: string;
   odMm: number;
   wallMm: number;
-  material: (typeof MATERIALS)[number];
-  process: (typeof PROCESSES)[number];
+  /** null: not stated on the sheet. */
+  material: (typeof MATERIALS)[number] | null;
+  process: (typeof PROCESSES)[number] | null;
   grade: string | null;
   yieldMpa: number | null;
   massPerMetreKg: number;

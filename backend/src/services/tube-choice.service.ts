@@ -22,7 +22,7 @@ function candidateView(c: RankedCandidate, list: CandidateWire['list'], label: s
   for (const o of c.outcomes) for (const f of o.missing ?? []) missing.set(f, (missing.get(f) ?? new Set()).add(o.requirementId));
   return {
     stockId: list === 'sheet' ? null : (c.tube.id ?? null), list, label,
-    odMm: c.tube.odMm, wallMm: c.tube.wallMm, material: c.tube.material, process: c.tube.process,
+    odMm: c.tube.odMm, wallMm: c.tube.wallMm, material: c.tube.material ?? null, process: c.tube.process ?? null,
     grade: c.tube.grade ?? null, yieldMpa: c.tube.yieldMpa ?? null, massPerMetreKg: c.massPerMetreKg, status: c.status,
     matched: c.outcomes.flatMap((o) => (o.matched ? [o.matched] : [])),
     failing: failing ? { requirementId: failing.requirementId, title: failing.title, section: failing.section } : null,
