@@ -114,6 +114,42 @@ describe('saving revisions', () => {
   });
 });
 
+describe('plausible ranges on write (issue 9 §1)', () => {
+  it('refuses a weight 1,000× off and a wall typed as an OD at their paths, in both unit systems, and saves nothing', async () => {
+    const before = (await who.builder.agent.get(`/api/build-sheets/${sheetId}`)).body.buildSheet.currentRevision;
+    const spec = saloonSpec();
+    // "2,800 lb" read as 2.8 lb: 1.27 kg (F-UNIT-1, 1 lb = 0.45359237 kg).
+    (spec.vehicle as Record<string, unknown>).weightWithDriverKg = 2.8 * 0.45359237;
+    (spec.members[2] as Record<string, unknown>).wallMm = 12;
+    const res = await save({ baseRevision: before, rulesetVersionId: fx.versionId, classId: 'club-saloon', specification: spec }).expect(400);
+    expect(res.body.error.details).toEqual([
+      { path: 'specification.vehicle.weightWithDriverKg', message: "A race car's weight is 200 to 5,000 kg (441 to 11,023 lb): check the units." },
+      { path: 'specification.members.2.wallMm', message: "A cage tube's wall is 0.5 to 10 mm (0.02 to 0.394 in): check the units." },
+    ]);
+    expect((await who.builder.agent.get(`/api/build-sheets/${sheetId}`)).body.buildSheet.currentRevision).toBe(before);
+  });
+
+  it('refuses the same on a new sheet', async () => {
+    const spec = saloonSpec();
+    (spec.members[0] as Record<string, unknown>).lengthMm = 8_000; // 800 mm typed with one zero too many
+    const res = await who.builder.agent.post(`/api/cars/${carId}/build-sheets`).set('X-CSRF-Token', who.builder.token)
+      .send({ name: 'Slip', clubId: fx.clubId, rulesetVersionId: fx.versionId, classId: 'club-saloon', specification: spec }).expect(400);
+    expect(res.body.error.details).toEqual([
+      { path: 'specification.members.0.lengthMm', message: "A cage member's length is 50 to 6,000 mm (1.969 to 236.22 in): check the units." },
+    ]);
+  });
+
+  it('still checks a revision stored before its value was judged implausible: ranges apply to writes only', async () => {
+    const { sheetId: oldSheet } = await carWithSheet(who.builder, fx);
+    const latest = await db.ds.query('SELECT id, specification FROM build_sheet_revisions WHERE build_sheet_id = $1 AND number = 1', [oldSheet]);
+    const stored = { ...latest[0].specification, vehicle: { ...latest[0].specification.vehicle, weightWithDriverKg: 150 } };
+    await db.ds.query('UPDATE build_sheet_revisions SET specification = $2 WHERE id = $1', [latest[0].id, JSON.stringify(stored)]);
+    const run = await who.builder.agent.post(`/api/build-sheets/${oldSheet}/check-runs`).set('X-CSRF-Token', who.builder.token).expect(201);
+    expect(run.body.checkRun.specification.vehicle.weightWithDriverKg).toBe(150);
+    expect(['pass', 'fail', 'needs_information']).toContain(run.body.checkRun.overallVerdict);
+  });
+});
+
 describe('history and diff', () => {
   it('shows one revision and the changes between two in words, in the reader’s units', async () => {
     const rev1 = await who.builder.agent.get(`/api/build-sheets/${sheetId}/revisions/1`).expect(200);

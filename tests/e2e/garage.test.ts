@@ -96,6 +96,23 @@ test('a builder takes a car from empty garage to a kept check and its PDF', asyn
     await page.locator('#in-members-0-wallMm').fill('0.083');
     await expect.poll(() => tubeFinding(page).locator('.verdict').innerText()).toContain('Meets the rule');
     expect(await wall.getAttribute('class')).not.toContain('qty--bad');
+
+    // Issue 9 §1: "2,800" typed as rulebooks print weights is 2,800 lb, the "over 1,500 lb" band, where
+    // 1.625 × 0.083 is not listed. Read as 2.8 lb it would have stayed in the light band: a false pass.
+    const weight = page.getByLabel('Race weight without driver');
+    await weight.fill('2,800');
+    await expect.poll(() => tubeFinding(page).locator('.verdict').innerText()).toContain('Does not meet it');
+    expect(await tubeFinding(page).innerText()).toContain('over 1,500 lb');
+    await screenshot(page, 'garage-sheet-heavy-band-desktop');
+    // A form that could mean two things is refused at its input, saying why; so is an implausible weight.
+    const weightBox = qty(page, 'in-vehicle-weightWithoutDriverKg');
+    await weight.fill('2,8');
+    await weightBox.locator('.qty__msg--bad', { hasText: 'in inch-pound units a comma groups thousands' }).waitFor();
+    await screenshot(page, 'garage-sheet-ambiguous-weight-desktop');
+    await weight.fill('28');
+    await weightBox.locator('.qty__msg--bad', { hasText: "A race car's weight is 441 to 11,023 lb: check the units." }).waitFor();
+    await weight.fill('1400');
+    await expect.poll(() => tubeFinding(page).locator('.verdict').innerText()).toContain('Meets the rule');
     await page.getByRole('button', { name: 'Save', exact: true }).click();
     await page.getByText('Saved as revision 2').waitFor();
     await screenshot(page, 'garage-sheet-passing-desktop');
@@ -180,4 +197,5 @@ test('a builder takes a car from empty garage to a kept check and its PDF', asyn
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }
-});
+  // The whole journey, desktop and phone, passes a minute on a busy two-core machine.
+}, 120_000);

@@ -1,6 +1,7 @@
 // Units of measure for Cagewright. Everything inside the product is canonical (mm, kg, degrees,
 // MPa, mm², mm³, mm⁴, kg/m); conversion happens only at the edges: form inputs, reports and the
 // one-time conversion of a ruleset document written in its rulebook's own units.
+import { readTypedNumber } from './typed-number.js';
 
 export type UnitSystem = 'imperial' | 'metric';
 
@@ -179,39 +180,25 @@ export function roundTo(value: number, decimals: number): number {
 export type ParseResult = { ok: true; valueCanonical: number } | { ok: false; message: string };
 
 /**
- * Parses what a person types into a form field: "1.5", "1 1/2", "1-5/8", "1,5" (decimal comma),
- * optionally followed by a unit ("45 mm", "1.75in", "0.095\""). Without a unit, `defaultUnit` applies.
+ * Parses what a person types into a form field: a number as `readTypedNumber` reads it ("2,800",
+ * "2 800", "2.800,5", "1.5", "1 1/2", "1-5/8"), optionally followed by a unit ("45 mm", "1.75in",
+ * "0.095\""). Without a unit, `defaultUnit` applies. The form's unit system sets the presumption for
+ * a number both conventions read ("2,800" is 2800 in inch-pound mode and refused in metric mode),
+ * whatever unit is typed after it: the convention is the writer's, not the unit's.
  */
-export function parseQuantity(text: string, dimension: Dimension, defaultUnit: string): ParseResult {
+export function parseQuantity(text: string, dimension: Dimension, defaultUnit: string, system: UnitSystem): ParseResult {
   const trimmed = text.trim().replace(/″|"/g, ' in').replace(/°/g, ' deg');
   if (trimmed === '') return { ok: false, message: 'Enter a value.' };
-  const match = /^([+-]?[0-9][0-9.,\s/-]*?)\s*([a-zA-Z][a-zA-Z0-9/²]*)?$/.exec(trimmed);
-  if (!match) return { ok: false, message: `"${text}" is not a number.` };
-  const numberPart = match[1].trim();
+  const match = /^([+\-\u2212]?\s?[0-9.,][0-9.,\s/-]*?)\s*([a-zA-Z][a-zA-Z0-9/²]*)?$/.exec(trimmed);
+  if (!match) return { ok: false, message: `"${text.trim()}" is not a number.` };
+  const numberPart = match[1]!.trim();
   const unitPart = (match[2] ?? defaultUnit).replace('²', '2');
   const unit = isUnitName(unitPart) ? unitPart : undefined;
   if (!unit) return { ok: false, message: `Unknown unit "${unitPart}".` };
   if (UNITS[unit].dimension !== dimension) return { ok: false, message: `"${unitPart}" is not a unit of ${dimension.replace(/_/g, ' ')}.` };
-  const value = parseNumber(numberPart);
-  if (value === undefined) return { ok: false, message: `"${text}" is not a number.` };
-  return { ok: true, valueCanonical: toCanonical(value, unit) };
-}
-
-/** "1.5", "1,5", "1 1/2", "1-1/2", "5/8" → number; anything else → undefined. */
-export function parseNumber(text: string): number | undefined {
-  const t = text.trim();
-  if (/^[+-]?\d+([.,]\d+)?$/.test(t) || /^[+-]?[.,]\d+$/.test(t)) return Number(t.replace(',', '.'));
-  const mixed = /^(\d+)[\s-]+(\d+)\/(\d+)$/.exec(t);
-  if (mixed) {
-    const den = Number(mixed[3]);
-    return den === 0 ? undefined : Number(mixed[1]) + Number(mixed[2]) / den;
-  }
-  const frac = /^(\d+)\/(\d+)$/.exec(t);
-  if (frac) {
-    const den = Number(frac[2]);
-    return den === 0 ? undefined : Number(frac[1]) / den;
-  }
-  return undefined;
+  const read = readTypedNumber(numberPart, system);
+  if (!read.ok) return { ok: false, message: read.message };
+  return { ok: true, valueCanonical: toCanonical(read.value, unit) };
 }
 
 /** Relative + absolute floating-point slack: conversions like 1.5 in → 38.1 mm must not flip a verdict. */

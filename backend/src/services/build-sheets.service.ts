@@ -9,6 +9,7 @@ import type {
 } from '../contracts/garage';
 import type { Specification } from '../contracts/specification';
 import type { UnitSystem } from '../domain/units';
+import { implausibleValues } from '../domain/field-ranges';
 import { BuildSheet, BuildSheetRevision, Car, Club, Membership, Rulebook, RulesetVersion, User } from '../entities';
 import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors';
 import { parseSpecificationOrThrow } from './checks.service';
@@ -38,6 +39,18 @@ function revisionSummary(r: BuildSheetRevision): RevisionSummaryWire {
 
 function revisionView(r: BuildSheetRevision): RevisionWire {
   return { ...revisionSummary(r), specification: r.specification };
+}
+
+/**
+ * A specification being written to a sheet: the schema, then every field's plausible range (a units
+ * slip is refused at its path). Only writes pass through here: re-checking a stored revision parses
+ * with the schema alone, so a revision saved before a range existed keeps checking.
+ */
+export function parseSheetSpecificationForWrite(json: unknown, classId: string): Specification {
+  const specification = parseSpecificationOrThrow(json, classId);
+  const problems = implausibleValues(specification);
+  if (problems.length > 0) throw new ValidationError(problems.map((p) => ({ path: `specification.${p.path}`, message: p.message })));
+  return specification;
 }
 
 export type BuildSheetService = ReturnType<typeof createBuildSheetService>;
@@ -121,7 +134,7 @@ export function createBuildSheetService(ds: DataSource) {
         const specification: Specification =
           body.specification === undefined
             ? { vehicle: { classId: body.classId, chassis: car.chassisType }, members: [] }
-            : parseSpecificationOrThrow(body.specification, body.classId);
+            : parseSheetSpecificationForWrite(body.specification, body.classId);
         const sheet = await tx.getRepository(BuildSheet).save(
           tx.getRepository(BuildSheet).create({
             carId: car.id, name: body.name, clubId: body.clubId, rulebookId: version.rulebookId, rulesetVersionId: version.id,
@@ -163,7 +176,7 @@ export function createBuildSheetService(ds: DataSource) {
     /** Saves revision baseRevision + 1, or 409 `{ currentRevision }` when someone saved meanwhile. */
     async saveRevision(sheetId: string, userId: string, body: SaveRevisionBody): Promise<BuildSheetDetailWire> {
       // Parse first: a malformed draft is refused with every field, whatever the revision numbers say.
-      const specification = parseSpecificationOrThrow(body.specification, body.classId);
+      const specification = parseSheetSpecificationForWrite(body.specification, body.classId);
       try {
         return await ds.transaction(async (tx) => {
           const found = await sheetFor(tx, sheetId, userId, 'edit', true);

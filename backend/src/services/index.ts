@@ -19,6 +19,7 @@ import { createVerificationService, type VerificationService } from './verificat
 import { createRulebookAdminService, type RulebookAdminService } from './rulebook-admin.service';
 import { createTubeStockService, type TubeStockService } from './tube-stock.service';
 import { createTubeChoiceService, type TubeChoiceService } from './tube-choice.service';
+import { createFabricationService, type FabricationService } from './fabrication.service';
 
 export interface Services {
   accounts: AccountService;
@@ -40,6 +41,7 @@ export interface Services {
   rulebookAdmin: RulebookAdminService;
   tubeStock: TubeStockService;
   tubeChoice: TubeChoiceService;
+  fabrication: FabricationService;
 }
 
 export function createServices(
@@ -77,5 +79,6 @@ export function createServices(
     rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit }),
     tubeStock,
     tubeChoice: createTubeChoiceService(ds, { rulesets, stock: tubeStock }),
+    fabrication: createFabricationService(),
   };
 }

@@ -18,6 +18,8 @@ export interface SheetDraft {
   inspectionHoles: NonNullable<Specification['inspectionHoles']>;
   padding: NonNullable<Specification['padding']>;
   welding: NonNullable<Specification['welding']>;
+  /** The cage model's nodes (issue 10); absent on a sheet typed the old way. */
+  model?: NonNullable<Specification['model']>;
 }
 
 export function emptyDraft(classId: string): SheetDraft {
@@ -35,6 +37,7 @@ export function draftFromSpecification(spec: Specification, classId = spec.vehic
     inspectionHoles: copy.inspectionHoles ?? [],
     padding: copy.padding ?? {},
     welding: copy.welding ?? {},
+    ...(copy.model ? { model: copy.model } : {}),
   };
 }
 
@@ -103,6 +106,7 @@ export function checkDraft(draft: SheetDraft, units: UnitSystem = 'metric'): Dra
     inspectionHoles: draft.inspectionHoles.length ? draft.inspectionHoles : undefined,
     padding: draft.padding,
     welding: draft.welding,
+    model: draft.model,
   });
   // members must stay even when empty: an empty cage is a valid (if failing) specification.
   (candidate as { members: unknown }).members = prune(draft.members);

@@ -4,6 +4,7 @@
 import { ref, watch, type Ref } from 'vue';
 import { DEFAULT_UNIT, UNITS, formatQuantity, parseQuantity, roundTo } from '@domain/units';
 import type { Dimension, UnitSystem } from '@domain/units';
+import { inRange, rangeMessage, type FieldRange } from '@domain/field-ranges';
 
 /** Extra decimals an input may show so a stored value survives being shown (45 mm = 1.7717 in). */
 const MAX_INPUT_DECIMALS: Record<string, number> = { in: 4, mm: 3, kg: 1, lb: 0, deg: 1, ratio: 3, count: 0, cm2: 2 };
@@ -40,6 +41,8 @@ export interface InputRules {
   integer?: boolean;
   /** Said after "Over <max>" when a value is implausibly large, e.g. "not a cage tube; check the units". */
   maxHint?: string;
+  /** The field's plausible range (domain/field-ranges.ts): outside it is a units slip. */
+  range?: FieldRange;
 }
 
 export type InputParse = { ok: true; value: number | undefined } | { ok: false; message: string };
@@ -47,7 +50,7 @@ export type InputParse = { ok: true; value: number | undefined } | { ok: false; 
 /** Typed text → canonical value (undefined when empty), or the message to show at the input. */
 export function parseInput(text: string, dimension: Dimension, system: UnitSystem, rules: InputRules = {}): InputParse {
   if (text.trim() === '') return { ok: true, value: undefined };
-  const parsed = parseQuantity(text, dimension, inputUnit(dimension, system));
+  const parsed = parseQuantity(text, dimension, inputUnit(dimension, system), system);
   if (!parsed.ok) return parsed;
   const value = parsed.valueCanonical;
   const shown = (v: number) => formatQuantity(v, dimension, system).text;
@@ -57,6 +60,7 @@ export function parseInput(text: string, dimension: Dimension, system: UnitSyste
   if (rules.max !== undefined && value > rules.max + 1e-9)
     return { ok: false, message: rules.maxHint ? `Over ${shown(rules.max)}: ${rules.maxHint}.` : `Must be at most ${shown(rules.max)}.` };
   if (rules.integer && !Number.isInteger(value)) return { ok: false, message: 'Must be a whole number.' };
+  if (rules.range && !inRange(value, rules.range)) return { ok: false, message: rangeMessage(rules.range, system) };
   return { ok: true, value };
 }
 

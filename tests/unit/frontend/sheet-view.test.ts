@@ -111,10 +111,15 @@ describe('saving', () => {
 
   test('a wall of half the OD or more, or text that is not a number, is caught before anything is sent', async () => {
     await openSheet();
+    // 0.9 in is past any cage wall: the field's range says so first (issue 9 §1).
     await type(wallInput(), '0.9');
+    expect(wallInput().closest('.qty')!.textContent).toContain("A cage tube's wall is 0.02 to 0.394 in: check the units.");
+    // Within the range, a wall of half a small OD is the sheet's own check.
+    await type(document.querySelector<HTMLInputElement>('#in-members-0-odMm')!, '0.5');
+    await type(wallInput(), '0.3');
     await new Promise((r) => setTimeout(r, 350)); // the live check's pause
     await settle();
-    expect(wallInput().closest('.qty')!.textContent).toContain('is half the OD (1.625 in) or more');
+    expect(wallInput().closest('.qty')!.textContent).toContain('is half the OD (0.500 in) or more');
     await clickButton('Save');
     await type(wallInput(), '0.o9');
     await clickButton('Save');

@@ -84,7 +84,7 @@ describe('typed at the input', () => {
 });
 
 describe('the input component', () => {
-  function host(units: UnitSystem, initial?: number) {
+  function host(units: UnitSystem, initial?: number, field: { path: string; dimension: 'length' | 'mass' } = { path: 'members.0.wallMm', dimension: 'length' }) {
     const value = ref<number | undefined>(initial);
     const Host = defineComponent({
       setup() {
@@ -92,9 +92,9 @@ describe('the input component', () => {
         return () =>
           h('div', [
             h(SheetQuantityInput, {
-              path: 'members.0.wallMm',
+              path: field.path,
               label: 'Wall',
-              dimension: 'length',
+              dimension: field.dimension,
               modelValue: value.value,
               'onUpdate:modelValue': (v: number | undefined) => (value.value = v),
             }),
@@ -132,5 +132,35 @@ describe('the input component', () => {
     expect(value.value).toBe(2.5);
     expect(wrapper.find('input').attributes('aria-invalid')).toBe('true');
     expect(wrapper.find('output').text()).toBe('members.0.wallMm');
+  });
+
+  // Issue 9 §1: weights as rulebooks print them, and the slips a range catches.
+  const weight = { path: 'vehicle.weightWithoutDriverKg', dimension: 'mass' } as const;
+  test('"2,800" in inch-pound mode is 2,800 lb, not 2.8 lb', async () => {
+    const { wrapper, value } = host('imperial', undefined, weight);
+    await wrapper.find('input').setValue('2,800');
+    expect(value.value).toBeCloseTo(2800 * 0.45359237, 9); // F-UNIT-1: 1 lb = 0.45359237 kg exactly
+    expect(wrapper.find('.qty__msg--bad').exists()).toBe(false);
+  });
+
+  test.each<[UnitSystem, string, string]>([
+    ['imperial', '2,8', '"2,8": in inch-pound units a comma groups thousands (2,800), so this is not clear. Type a decimal with a point (2.8).'],
+    ['metric', '2,800', '"2,800" could mean 2800 or 2.8. Type 2800 or 2.8 to say which.'],
+    ['imperial', '28', "A race car's weight is 441 to 11,023 lb: check the units."],
+    ['metric', '2.8', "A race car's weight is 200 to 5,000 kg: check the units."],
+    ['metric', '12 500', "A race car's weight is 200 to 5,000 kg: check the units."],
+  ])('in %s mode "%s" is refused at the weight input: %s', async (units, text, message) => {
+    const { wrapper, value } = host(units, 1000, weight);
+    await wrapper.find('input').setValue(text);
+    expect(wrapper.find('.qty__msg--bad').text()).toBe(message);
+    expect(value.value).toBe(1000);
+    expect(wrapper.find('output').text()).toBe('vehicle.weightWithoutDriverKg');
+  });
+
+  test('a wall has its own range, not the weight\'s nor the brace length\'s', async () => {
+    const { wrapper, value } = host('metric', 2.5);
+    await wrapper.find('input').setValue('25');
+    expect(wrapper.find('.qty__msg--bad').text()).toBe("A cage tube's wall is 0.5 to 10 mm: check the units.");
+    expect(value.value).toBe(2.5);
   });
 });
