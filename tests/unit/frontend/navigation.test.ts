@@ -10,12 +10,12 @@ const labels = (roles: Role[], club: string | null = clubId) =>
 describe('the app menu', () => {
   test.each<[Role[], string[]]>([
     [[], ['Overview', 'Bench tools', 'Account']],
-    [['builder'], ['Overview', 'Garage', 'Bench tools', 'Account']],
+    [['builder'], ['Overview', 'Garage', 'Tube stock', 'Bench tools', 'Account']],
     [['steward'], ['Overview', 'Review queue', 'Bench tools', 'Account']],
-    [['admin'], ['Overview', 'Members', 'Rulebooks', 'Activity log', 'Bench tools', 'Account']],
+    [['admin'], ['Overview', 'Tube stock', 'Members', 'Rulebooks', 'Activity log', 'Bench tools', 'Account']],
     [
       ['builder', 'steward', 'admin'],
-      ['Overview', 'Garage', 'Review queue', 'Members', 'Rulebooks', 'Activity log', 'Bench tools', 'Account'],
+      ['Overview', 'Garage', 'Tube stock', 'Review queue', 'Members', 'Rulebooks', 'Activity log', 'Bench tools', 'Account'],
     ],
   ])('roles %j in the current club show %j', (roles, expected) => {
     expect(labels(roles)).toEqual(expected);

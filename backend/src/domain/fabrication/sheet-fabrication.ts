@@ -166,7 +166,7 @@ export function sheetFabrication(spec: Specification, settings: FabricationSetti
       endLossMm: [loss(ends[0]), loss(ends[1])],
       trimMm: [trim, trim],
     }, settings.dies);
-    for (const b of plan.bends) if (!b.dieName) notes.push(`No bender die is calibrated for a ${b.clrMm.toFixed(0)} mm CLR: bend ${b.number} is set at its angle without springback.`);
+    if (plan.bends.some((b) => !b.dieName)) notes.push('No bender die of this CLR is calibrated, so its bends are set at their own angle, without springback.');
     let copeRotationDeg: number | null = null;
     let rotationReference: MemberFabrication['rotationReference'] = null;
     const [s, e] = ends;
