@@ -9,6 +9,7 @@ import { AREAS } from '../contracts/ruleset';
 import { FACTS_BY_NAME } from '../domain/facts';
 import { findingKey } from '../domain/review/waivers';
 import { formatQuantity, type Dimension, type UnitSystem } from '../domain/units';
+import { formatIsoDate } from '../domain/dates';
 import { MEMBER_KIND_LABELS } from '../domain/vocabulary';
 
 export const REPORT_TITLE = 'Cagewright pre-check report';
@@ -38,6 +39,18 @@ export interface ReportDocumentInput {
   photos: ReportPhoto[];
   /** A steward's approval of the submitted check: record number, decision, waivers, QR of the verification link. */
   review?: ReportReview;
+  /** The checked sheet's approval and build dates and maker's certificate, when it gives them. */
+  cage?: { approvedOn?: string; builtOn?: string; certificate?: { issuer?: string; number: string } };
+}
+
+/** Rows for the cage's dates and certificate; none for a sheet that gives none. */
+export function cageRows(cage: ReportDocumentInput['cage']): [string, string][] {
+  if (!cage) return [];
+  const rows: [string, string][] = [];
+  if (cage.approvedOn) rows.push(['Cage approved on', formatIsoDate(cage.approvedOn)]);
+  if (cage.builtOn) rows.push(['Cage built on', formatIsoDate(cage.builtOn)]);
+  if (cage.certificate) rows.push(["Maker's certificate", `${cage.certificate.number}${cage.certificate.issuer ? `, ${cage.certificate.issuer}` : ''}`]);
+  return rows;
 }
 
 export interface ReportReview {
@@ -318,6 +331,7 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
               ['Year', car?.year ? String(car.year) : 'not given'],
               ['Build sheet', input.sheetName ? `${input.sheetName}${input.revisionNumber ? `, revision ${input.revisionNumber}` : ''}` : 'none'],
               ['Builder', input.builderName ?? 'unknown'],
+              ...cageRows(input.cage),
             ]),
           ],
         },

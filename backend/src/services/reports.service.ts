@@ -108,6 +108,7 @@ export function createReportService(ds: DataSource, deps: { checks: CheckService
         checkedAt: run.createdAt,
         tubeData: tubeDataFor(run.specification),
         photos: context.photos,
+        ...(run.specification.cage ? { cage: run.specification.cage } : {}),
         ...(review ? { review } : {}),
       });
       return { pdf: await renderPdf(doc), verificationCode: run.verificationCode };
