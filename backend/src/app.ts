@@ -20,6 +20,7 @@ import { createCarsRouter } from './routes/cars.routes';
 import { createCheckRunsReportRouter } from './routes/check-runs-report.routes';
 import { createPhotosRouter } from './routes/photos.routes';
 import { createChecksRouter } from './routes/checks.routes';
+import { createGeometryRouter } from './routes/geometry.routes';
 import { createHealthProbe, createHealthRouter, type HealthProbe } from './routes/health.routes';
 import { createInvitationsRouter } from './routes/invitations.routes';
 import { createMembersRouter } from './routes/members.routes';
@@ -36,6 +37,7 @@ import { createRulebookAdminRouter } from './routes/rulebook-admin.routes';
 import { createFabricationRouter } from './routes/fabrication.routes';
 import type { RepublishQueue } from './services/rulebook-admin.service';
 import { createServices, type Services } from './services';
+import type { JobControl } from './services/jobs';
 
 export interface CreateAppOptions {
   /** An initialized DataSource (the session store shares its pool). */
@@ -53,6 +55,8 @@ export interface CreateAppOptions {
   verifyLimits?: { windowMs: number; limit: number };
   /** Where a publish sends its re-check job (pg-boss in server.ts); without it publishing queues nothing. */
   republishQueue?: RepublishQueue | null;
+  /** Runs a failed job again (POST /api/jobs/:id/retry); pg-boss in server.ts. Without it that route answers 409. */
+  jobControl?: JobControl | null;
 }
 
 export const jsonBodyLimit = '100kb';
@@ -145,13 +149,14 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(createRulebooksRouter({ services }));
   api.use(createRulebookAdminRouter({ services, republishQueue: options.republishQueue ?? null }));
   api.use(createChecksRouter({ services }));
+  api.use(createGeometryRouter());
   api.use(createCarsRouter({ services }));
   api.use(createBuildSheetsRouter({ services }));
   api.use(createPhotosRouter({ services }));
   api.use(createCheckRunsReportRouter({ services }));
   api.use(createMetaRouter({ mailboxEnabled: config.fakeSmtp }));
   api.use(createAuditRouter({ services }));
-  api.use(createJobsRouter({ services }));
+  api.use(createJobsRouter({ services, control: options.jobControl ?? null }));
   api.use(createSubmissionsRouter({ services }));
   api.use(createReviewRouter({ services }));
   api.use(createCageRecordsRouter({ services }));

@@ -7,6 +7,7 @@ import { createServer } from 'node:http';
 import type { DataSource } from 'typeorm';
 import { closeApp, createApp } from './app';
 import { ConfigError, loadConfig, type Config } from './config';
+import { loadDotEnv } from './dotenv';
 import { createDataSource } from './db/data-source';
 import { migrate } from './db/migrate';
 import { startFakeSmtp, type FakeSmtp } from './dev/fake-smtp';
@@ -44,6 +45,7 @@ async function connect(ds: DataSource, logger: Logger, attempts = 30): Promise<v
   }
 }
 
+loadDotEnv();
 const config = readConfig();
 const logger = createLogger(config.logLevel);
 process.on('unhandledRejection', (err) => logger.error('unhandled rejection', errorFields(err)));
@@ -74,7 +76,7 @@ if (config.smtpUrl) {
 } else {
   logger.warn('SMTP_URL is not set: e-mails wait in the outbox until it is');
 }
-const jobs = createJobs(config, logger);
+const jobs = createJobs(config, logger, { staleAfterSeconds: config.jobStaleAfterSeconds });
 try {
   await jobs.start();
 } catch (err) {
@@ -84,8 +86,8 @@ try {
 
 // One set of services for the app and the publish job, so both share the compiled-ruleset cache.
 const services = createServices(dataSource, { publicUrl: config.publicUrl, uploadDir: config.uploadDir });
-await registerRepublishWorker(jobs, { ds: dataSource, rulesets: services.rulesets, mail: services.mail, audit: services.audit, publicUrl: config.publicUrl });
-const app = createApp({ dataSource, config, logger, services, republishQueue: jobs });
+await registerRepublishWorker(jobs, { ds: dataSource, rulesets: services.rulesets, mail: services.mail, audit: services.audit, publicUrl: config.publicUrl, batchSize: config.recheckBatchSize });
+const app = createApp({ dataSource, config, logger, services, republishQueue: jobs, jobControl: jobs });
 const server = createServer(app);
 server.keepAliveTimeout = 5000;
 server.on('error', (err) => {

@@ -127,6 +127,8 @@ export default async function setup(project: TestProject): Promise<() => Promise
     UPLOAD_DIR: resolve(root, '.artifacts/e2e-uploads'),
     // The server runs its fake SMTP server on a port of its own, so journeys can read the mail it sends.
     FAKE_SMTP: 'true',
+    // A developer's own .env must not reach the server under test.
+    CAGEWRIGHT_DOTENV: 'off',
     SMTP_URL: `smtp://127.0.0.1:${smtpPort}`,
   };
   runBackendScript('backend/src/db/migrate.ts', env);
@@ -163,8 +165,7 @@ export default async function setup(project: TestProject): Promise<() => Promise
   };
 
   try {
-    // Generous: on a loaded two-core machine tsx alone can take a minute before the server listens.
-    await waitForHealth(server, () => log, 180_000);
+    await waitForHealth(server, () => log, 60_000);
   } catch (err) {
     await teardown();
     throw err;

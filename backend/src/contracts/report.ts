@@ -5,6 +5,7 @@ import { z } from 'zod';
 import { DIMENSIONS } from '../domain/units.js';
 import { MEMBER_KINDS, PLATE_LOCATIONS } from '../domain/vocabulary.js';
 import { AREAS } from './ruleset.js';
+import { cageGeometrySchema } from './geometry.js';
 
 export const VERDICTS = ['pass', 'fail', 'not_applicable', 'needs_information'] as const;
 export type FindingVerdict = (typeof VERDICTS)[number];
@@ -18,6 +19,8 @@ export const measuredValueSchema = z.object({
   path: z.string().optional(),
   value: scalar,
   dimension,
+  /** "model" when the value was derived from the cage model; "sheet" marks a typed value beside it. */
+  source: z.enum(['model', 'sheet']).optional(),
 });
 
 export const requiredValueSchema = z.object({
@@ -25,7 +28,8 @@ export const requiredValueSchema = z.object({
   label: z.string(),
   path: z.string().optional(),
   operator: z.enum(['atLeast', 'atMost', 'above', 'below', 'equals', 'notEquals', 'oneOf', 'noneOf', 'includes', 'excludes']),
-  value: z.union([scalar, z.array(z.string()), z.object({ fact: z.string() })]),
+  /** A number, text, a list, or another fact (`times`: k × that fact, canonical; `timesDimension`: k's dimension, null for a plain factor). */
+  value: z.union([scalar, z.array(z.string()), z.object({ fact: z.string(), times: z.number().optional(), timesDimension: dimension.optional() })]),
   dimension,
 });
 
@@ -38,7 +42,8 @@ export const findingSchema = z.object({
   verdict: z.enum(VERDICTS),
   severity: z.enum(['mandatory', 'advisory']),
   area: z.enum(AREAS),
-  member: z.object({ id: z.string(), kind: z.enum(MEMBER_KINDS), index: z.number().int() }).nullable(),
+  /** `name` is the builder's own name for the member (their label, else the kind's words). */
+  member: z.object({ id: z.string(), kind: z.enum(MEMBER_KINDS), index: z.number().int(), name: z.string().optional() }).nullable(),
   plate: z.object({ id: z.string(), location: z.enum(PLATE_LOCATIONS), index: z.number().int() }).nullable(),
   measured: z.array(measuredValueSchema),
   required: z.array(requiredValueSchema),
@@ -92,6 +97,8 @@ export const checkReportSchema = z.object({
     /** Canonical units per dimension. */
     measurementTolerance: z.record(z.string(), z.number()),
   }),
+  /** Derived values of the cage model, when the specification has one (docs/geometry.md). */
+  geometry: cageGeometrySchema.optional(),
   disclaimer: z.string(),
 });
 

@@ -5,7 +5,7 @@
 // This file is the structural schema; `validateRulesetDocument` (domain/rules/validate.ts) adds the
 // semantic checks (facts, operators, units, duplicate ids) and reports every problem with its path.
 import { z } from 'zod';
-import { MATERIALS, MEMBER_KINDS, PLATE_LOCATIONS, PROCESSES } from '../domain/vocabulary.js';
+import { MATERIALS, MEMBER_KINDS, PLATE_LOCATIONS, PROCESSES, WALL_METHODS } from '../domain/vocabulary.js';
 
 export const RULESET_FORMAT_VERSION = 1;
 export const RULESET_LIMITS = {
@@ -77,14 +77,44 @@ export const weightBandSchema = z.object({
   rows: z.array(tubeRowSchema).min(1).max(L.rowsPerBand),
 });
 
+export const THIN_WALL_READINGS = ['smallest_listed', 'largest_listed'] as const;
+
+/** A wall tolerance for measured walls: an absolute length, or a percent of the table's wall. */
+export const wallToleranceSchema = z.union([
+  z.object({ value: nonNegative, unit: unitName.optional() }).strict(),
+  z.object({ percent: nonNegative }).strict(),
+]);
+
+export const measuredWallSchema = z
+  .object({
+    /** Only readings taken this way count (the thinnest of them). */
+    method: z.enum(WALL_METHODS),
+    /** Omitted: 0 (the reading must reach the table's wall). */
+    tolerance: wallToleranceSchema.optional(),
+  })
+  .strict();
+
 export const tubeTableSchema = z.object({
   template: z.literal('tube_table'),
+  /** Opt-in: a member also needs a measured wall, by `method`, of at least the table's wall less `tolerance`. */
+  measuredWall: measuredWallSchema.optional(),
   weightUnit: unitName.optional(),
   bands: z.array(weightBandSchema).min(1).max(L.bands),
   allowances: z
     .object({
       /** "If the OD is at least `odMargin` above the band minimum, the wall may be `minWall`." */
-      thinWallWhenOdExceedsMinimum: z.object({ odMargin: nonNegative, minWall: positive, unit: unitName.optional() }).optional(),
+      thinWallWhenOdExceedsMinimum: z
+        .object({
+          odMargin: nonNegative,
+          minWall: positive,
+          unit: unitName.optional(),
+          /**
+           * Which OD is "the minimum diameter required for the weight": the smallest OD the row lists
+           * (default, the behaviour of every document written before the option) or the largest.
+           */
+          minimumDiameter: z.enum(THIN_WALL_READINGS).optional(),
+        })
+        .optional(),
       /** Subtracted from every wall in the table (e.g. −0.010 in: write 0.010). */
       wallAllowance: z.object({ value: nonNegative, unit: unitName.optional() }).optional(),
     })
@@ -117,14 +147,22 @@ export const requiredMembersSchema = z.object({
 export const LIMIT_OPERATORS = ['atLeast', 'atMost', 'above', 'below', 'equals', 'notEquals'] as const;
 export type LimitOperator = (typeof LIMIT_OPERATORS)[number];
 
+/**
+ * "k × another fact": `times` is k, a plain number when both facts have the same dimension, or a
+ * quantity with `unit` when the dimensions differ (area ≥ 10 in × OD: k is a length).
+ */
+export const proportionalValueSchema = z
+  .object({ times: positive, of: z.string().min(1).max(80), unit: unitName.optional() })
+  .strict();
+
 export const limitCheckSchema = z.object({
   fact: z.string().min(1).max(80),
   /** For facts with `path` (vehicle.memberCounts): the member kind. */
   path: z.string().max(40).optional(),
   params: z.record(z.string(), z.unknown()).optional(),
   operator: z.enum(LIMIT_OPERATORS),
-  /** A number in document units, true/false, or a date "YYYY-MM-DD" for date facts. */
-  value: z.union([finite, z.boolean(), z.string().min(1).max(60)]),
+  /** A number in document units, true/false, a date "YYYY-MM-DD" (date facts), a grade name (grade facts), or k × another fact. */
+  value: z.union([finite, z.boolean(), z.string().trim().min(1).max(60), proportionalValueSchema]),
   unit: unitName.optional(),
   label: shortText.optional(),
 });
@@ -147,7 +185,20 @@ export const conditionsSchema = z.object({
   conditions: z.unknown(),
 });
 
-export const requiresSchema = z.discriminatedUnion('template', [tubeTableSchema, requiredMembersSchema, limitSchema, allowedValuesSchema, conditionsSchema]);
+export const MATCH_MEASURES = ['od', 'wall'] as const;
+export const MATCH_OPERATORS = ['equals', 'atLeast', 'atMost'] as const;
+
+/** Member against member: this member's OD / wall compared with every member of the kinds in `of`. */
+export const memberMatchSchema = z.object({
+  template: z.literal('member_match'),
+  of: z.array(z.enum(MEMBER_KINDS)).min(1).max(MEMBER_KINDS.length),
+  checks: z
+    .array(z.object({ measure: z.enum(MATCH_MEASURES), operator: z.enum(MATCH_OPERATORS) }))
+    .min(1)
+    .max(MATCH_MEASURES.length),
+});
+
+export const requiresSchema = z.discriminatedUnion('template', [tubeTableSchema, requiredMembersSchema, limitSchema, allowedValuesSchema, conditionsSchema, memberMatchSchema]);
 
 export const AREAS = ['tubes', 'members', 'geometry', 'mounting', 'padding', 'welding', 'material'] as const;
 
@@ -210,6 +261,8 @@ export type RequirementScope = z.infer<typeof scopeSchema>;
 export type Requires = z.infer<typeof requiresSchema>;
 export type TubeTable = z.infer<typeof tubeTableSchema>;
 export type LimitCheck = z.infer<typeof limitCheckSchema>;
+export type ProportionalValue = z.infer<typeof proportionalValueSchema>;
+export type MemberMatch = z.infer<typeof memberMatchSchema>;
 export type TubeSizeInDocument = z.infer<typeof tubeSizeSchema>;
 export type RequirementArea = (typeof AREAS)[number];
 

@@ -12,11 +12,19 @@ import {
   CHASSIS_TYPES, COCKPIT_TYPES, DRIVER_SIDES, FUELS, MATERIALS, MEMBER_KINDS, MEMBER_SIDES, PADDING_STANDARDS, PLATE_FIXINGS,
   PLATE_LOCATIONS, PROCESSES, WELDING_PROCESSES,
 } from './vocabulary.js';
-import type { MemberKind } from './vocabulary.js';
+import type { MemberKind, WallMethod } from './vocabulary.js';
+import { findGrade } from './grades.js';
 import { isIsoDate } from './dates.js';
 import { memberShapes, memberSide } from './geometry/derive.js';
 import { SIDED_MEMBER_KINDS } from './vocabulary.js';
 import type { MemberSide } from './vocabulary.js';
+
+/** The fact that holds the thinnest wall reading of each measuring method. */
+export const WALL_METHOD_FACTS: Readonly<Record<WallMethod, string>> = {
+  ultrasonic: 'member.minUltrasonicWallMm',
+  inspection_hole: 'member.minInspectionHoleWallMm',
+  callipers: 'member.minCalliperWallMm',
+};
 
 export type FactScope = 'vehicle' | 'member' | 'plate';
 /**
@@ -88,9 +96,14 @@ const DEFS: Def[] = [
   num('member.odMm', 'member', 'length', 'outside diameter', 'Nominal outside diameter.'),
   num('member.wallMm', 'member', 'length', 'wall thickness', 'Nominal wall thickness.'),
   num('member.minMeasuredWallMm', 'member', 'length', 'thinnest measured wall', 'The thinnest wall reading (ultrasonic or at an inspection hole); unknown without readings.', true),
+  num('member.minUltrasonicWallMm', 'member', 'length', 'thinnest ultrasonic wall reading', 'The thinnest wall reading taken with an ultrasonic (sonic) gauge; unknown without one.', true),
+  num('member.minInspectionHoleWallMm', 'member', 'length', 'thinnest wall reading at an inspection hole', 'The thinnest wall reading taken at an inspection hole; unknown without one.', true),
+  num('member.minCalliperWallMm', 'member', 'length', 'thinnest wall reading by callipers', 'The thinnest wall reading taken with callipers at a tube end; unknown without one.', true),
   num('member.wallReadingCount', 'member', 'count', 'number of wall readings', 'How many wall readings were taken.', true),
   en('member.material', 'member', MATERIALS, 'material', 'mild_steel, chromoly_4130 or other.'),
   { name: 'member.grade', scope: 'member', type: 'text', label: 'material grade', description: 'Grade as written (e.g. "1020", "AS 1163 C350").', derived: false },
+  num('member.gradeMinYieldMpa', 'member', 'stress', 'minimum yield of the material grade', 'The minimum yield strength of `member.grade` in the grade vocabulary (docs: ordered grades); unknown for a grade not in it.', true),
+  num('member.gradeMinTensileMpa', 'member', 'stress', 'minimum tensile strength of the material grade', 'The minimum tensile strength of `member.grade` in the grade vocabulary; unknown for a grade not in it.', true),
   en('member.process', 'member', PROCESSES, 'tube process', 'dom, erw, seamless, cds or other.'),
   num('member.yieldMpa', 'member', 'stress', 'yield strength', 'Minimum yield strength from the mill certificate or standard.'),
   num('member.lengthMm', 'member', 'length', 'member length', 'Length of tube in the member.'),
@@ -127,6 +140,8 @@ const DEFS: Def[] = [
   num('plate.boltCount', 'plate', 'count', 'number of bolts', 'Bolts fixing the foot to the plate, or the plate through the body.'),
   num('plate.boltDiameterMm', 'plate', 'length', 'bolt diameter', 'Nominal bolt diameter.'),
   { name: 'plate.boltGrade', scope: 'plate', type: 'text', label: 'bolt grade', description: 'Bolt grade as written (e.g. "8.8", "Grade 8").', derived: false },
+  num('plate.boltGradeMinYieldMpa', 'plate', 'stress', 'minimum yield of the bolt grade', 'The minimum yield strength of `plate.boltGrade` in the bolt grade vocabulary; unknown for a grade not in it.', true),
+  num('plate.boltGradeMinTensileMpa', 'plate', 'stress', 'minimum tensile strength of the bolt grade', 'The minimum tensile strength of `plate.boltGrade` in the bolt grade vocabulary; unknown for a grade not in it.', true),
   num('plate.attachedWallMm', 'plate', 'length', 'wall of the attached member', 'Wall thickness of the member the plate carries (needs memberId).', true),
   num('plate.attachedOdMm', 'plate', 'length', 'OD of the attached member', 'Outside diameter of the member the plate carries (needs memberId).', true),
 ];
@@ -194,14 +209,16 @@ export interface MemberTubeData {
   densityAssumed: boolean;
 }
 
-export function memberTubeData(m: SpecMember, index: number): MemberTubeData {
+/** `modelLengthMm`: the developed length from the cage model, which is the member's when it has a path. */
+export function memberTubeData(m: SpecMember, index: number, modelLengthMm?: number): MemberTubeData {
   const material: Material = m.material ?? 'mild_steel';
   const p = tubeSectionProperties({ odMm: m.odMm, wallMm: m.wallMm }, material);
-  const massKg = m.lengthMm === undefined ? null : tubeMassKg(p, m.lengthMm);
+  const lengthMm = modelLengthMm ?? m.lengthMm;
+  const massKg = lengthMm === undefined ? null : tubeMassKg(p, lengthMm);
   return {
     memberId: m.id, kind: m.kind, index, odMm: m.odMm, wallMm: m.wallMm, areaMm2: p.areaMm2,
     secondMomentMm4: p.secondMomentMm4, sectionModulusMm3: p.sectionModulusMm3, radiusOfGyrationMm: p.radiusOfGyrationMm,
-    torsionalConstantMm4: p.torsionalConstantMm4, massPerMetreKg: p.massPerMetreKg, lengthMm: m.lengthMm ?? null, massKg,
+    torsionalConstantMm4: p.torsionalConstantMm4, massPerMetreKg: p.massPerMetreKg, lengthMm: lengthMm ?? null, massKg,
     densityAssumed: m.material === undefined || m.material === 'other',
   };
 }
@@ -274,6 +291,8 @@ export function memberSides(spec: Specification): (MemberSide | undefined)[] {
 /** Member-scope facts of one member (vehicle facts are merged in by the evaluator). */
 export function memberFacts(spec: Specification, m: SpecMember, tube: MemberTubeData, side: MemberSide | undefined = m.side): FactSet {
   const readings = (m.wallReadings ?? []).map((r) => r.wallMm);
+  const byMethod = (method: WallMethod) => minOf((m.wallReadings ?? []).filter((r) => r.method === method).map((r) => r.wallMm));
+  const grade = findGrade('material', m.grade);
   const bends = m.bends;
   const clrs = (bends ?? []).map((b) => b.clrMm);
   const ovals = (bends ?? []).flatMap((b) => (b.minOdMm !== undefined && b.maxOdMm !== undefined ? [ovalityRatio(b.minOdMm, b.maxOdMm)] : []));
@@ -287,9 +306,14 @@ export function memberFacts(spec: Specification, m: SpecMember, tube: MemberTube
     'member.odMm': m.odMm,
     'member.wallMm': m.wallMm,
     'member.minMeasuredWallMm': minOf(readings),
+    'member.minUltrasonicWallMm': byMethod('ultrasonic'),
+    'member.minInspectionHoleWallMm': byMethod('inspection_hole'),
+    'member.minCalliperWallMm': byMethod('callipers'),
     'member.wallReadingCount': readings.length,
     'member.material': m.material,
     'member.grade': m.grade,
+    'member.gradeMinYieldMpa': grade?.minYieldMpa,
+    'member.gradeMinTensileMpa': grade?.minTensileMpa,
     'member.process': m.process,
     'member.yieldMpa': m.yieldMpa,
     'member.lengthMm': m.lengthMm,
@@ -318,6 +342,7 @@ export function memberFacts(spec: Specification, m: SpecMember, tube: MemberTube
 export function plateFacts(spec: Specification, p: SpecPlate): FactSet {
   const attached = p.memberId === undefined ? undefined : spec.members.find((m) => m.id === p.memberId);
   const shape = p.sidesMm ? { sidesMm: p.sidesMm, areaMm2: p.areaMm2 } : undefined;
+  const boltGrade = findGrade('bolt', p.boltGrade);
   return {
     'plate.location': p.location,
     'plate.thicknessMm': p.thicknessMm,
@@ -334,6 +359,8 @@ export function plateFacts(spec: Specification, p: SpecPlate): FactSet {
     'plate.boltCount': p.boltCount,
     'plate.boltDiameterMm': p.boltDiameterMm,
     'plate.boltGrade': p.boltGrade,
+    'plate.boltGradeMinYieldMpa': boltGrade?.minYieldMpa,
+    'plate.boltGradeMinTensileMpa': boltGrade?.minTensileMpa,
     'plate.attachedWallMm': attached?.wallMm,
     'plate.attachedOdMm': attached?.odMm,
   };

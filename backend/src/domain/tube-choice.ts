@@ -6,9 +6,11 @@
 // choice); it exists because an engine run per stock size would be far too slow for hundreds of sizes.
 // Pure: canonical units in and out (mm, kg/m).
 import type { Specification, SpecMember } from '../contracts/specification.js';
-import { memberFacts, memberTubeData, plateFacts, vehicleFacts } from './facts.js';
+import { WALL_METHOD_FACTS, memberFacts, memberTubeData, plateFacts, vehicleFacts } from './facts.js';
 import type { FactSet } from './facts.js';
-import { chooseVariant } from './rules/evaluate.js';
+import { chooseVariant, peerNamesOf } from './rules/evaluate.js';
+import { peerFacts } from './rules/references.js';
+import { findGrade } from './grades.js';
 import { evaluatePlain } from './rules/plain.js';
 import type { PlainNode } from './rules/plain.js';
 import type { AlternativeMeta, CompiledRequirement, CompiledRuleset, CompiledVariant } from './rules/types.js';
@@ -144,6 +146,8 @@ export const TUBE_DEPENDENT_FACTS: ReadonlySet<string> = new Set([
   'member.massKg', 'member.areaMm2', 'member.secondMomentMm4', 'member.sectionModulusMm3', 'member.radiusOfGyrationMm',
   'member.torsionalConstantMm4', 'member.massPerMetreKg', 'member.odMarginOverTableMinimumMm', 'member.minBendRadiusOverOd',
   'vehicle.anyChromoly', 'vehicle.estimatedTubeMassKg', 'plate.attachedWallMm', 'plate.attachedOdMm',
+  'member.minUltrasonicWallMm', 'member.minInspectionHoleWallMm', 'member.minCalliperWallMm',
+  'member.gradeMinYieldMpa', 'member.gradeMinTensileMpa',
 ]);
 
 export type CandidateStatus = 'legal' | 'fails' | 'undecided';
@@ -193,6 +197,8 @@ function prepare(compiled: CompiledRuleset, classId: string, spec: Specification
   const member = spec.members[index];
   const tubes = spec.members.map((m, i) => memberTubeData(m, i));
   const vfacts = vehicleFacts(spec, cls, tubes);
+  // Other members' sizes (member against member); a member is never compared with its own kind.
+  Object.assign(vfacts, peerFacts(spec, peerNamesOf(compiled)));
   const reqs = compiled.requirements.filter((r) => applies(r, classId) && dependsOnTube(r));
   const memberReqs = reqs.filter((r) => r.scope.kind === 'member' && r.scope.memberKinds.includes(member.kind));
   const vehicleReqs = reqs.filter((r) => r.scope.kind === 'vehicle');
@@ -300,6 +306,11 @@ function judge(p: Prepared, tube: StockTube): RankedCandidate {
   mf['member.odMm'] = tube.odMm;
   mf['member.wallMm'] = tube.wallMm;
   mf['member.minMeasuredWallMm'] = (p.member.wallReadings?.length ?? 0) > 0 ? tube.wallMm : undefined;
+  for (const [method, fact] of Object.entries(WALL_METHOD_FACTS))
+    mf[fact] = p.member.wallReadings?.some((r) => r.method === method) ? tube.wallMm : undefined;
+  const grade = findGrade('material', tube.grade);
+  mf['member.gradeMinYieldMpa'] = grade?.minYieldMpa;
+  mf['member.gradeMinTensileMpa'] = grade?.minTensileMpa;
   mf['member.material'] = tube.material;
   mf['member.grade'] = tube.grade;
   mf['member.process'] = tube.process;

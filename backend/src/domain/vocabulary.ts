@@ -31,7 +31,8 @@ export const PLATE_FIXINGS = ['welded', 'bolted'] as const;
 export const PLATE_LOCATIONS = ['main_hoop_foot', 'front_hoop_foot', 'rear_brace_foot', 'lateral_hoop_foot', 'other'] as const;
 export const WELDING_PROCESSES = ['tig', 'mig', 'stick', 'gas', 'other'] as const;
 export const PADDING_STANDARDS = ['sfi_45_1', 'fia_8857_2001', 'non_homologated', 'none'] as const;
-export const WALL_METHODS = ['ultrasonic', 'inspection_hole'] as const;
+export const WALL_METHODS = ['ultrasonic', 'inspection_hole', 'callipers'] as const;
+export type WallMethod = (typeof WALL_METHODS)[number];
 
 export type PlateLocation = (typeof PLATE_LOCATIONS)[number];
 

@@ -20,6 +20,8 @@ export interface SheetDraft {
   welding: NonNullable<Specification['welding']>;
   /** Approval and build dates and a maker's certificate (issue 9). */
   cage: CageDraft;
+  /** The cage model's nodes (issue 10); absent on a sheet typed the old way. */
+  model?: NonNullable<Specification['model']>;
 }
 
 /** The certificate's number may be blank while typing; the schema asks for it once an issuer is given. */
@@ -41,6 +43,7 @@ export function draftFromSpecification(spec: Specification, classId = spec.vehic
     padding: copy.padding ?? {},
     welding: copy.welding ?? {},
     cage: copy.cage ?? {},
+    ...(copy.model ? { model: copy.model } : {}),
   };
 }
 
@@ -112,6 +115,7 @@ export function checkDraft(draft: SheetDraft, units: UnitSystem = 'metric'): Dra
     padding: draft.padding,
     welding: draft.welding,
     cage: draft.cage,
+    model: draft.model,
   });
   // members must stay even when empty: an empty cage is a valid (if failing) specification.
   (candidate as { members: unknown }).members = prune(draft.members);

@@ -1,7 +1,8 @@
 // Verdicts of the FACTS.md candidate test cases against fixture rulesets that encode the
 // published (or quoted) sources. Each case names its fact id and source.
 import { describe, expect, test } from 'vitest';
-import { IN, LB, check, compileFile, finding } from './helpers';
+import { compileRuleset, validateRulesetDocument } from '@backend/domain/index';
+import { IN, LB, check, compileFile, finding, loadJson } from './helpers';
 
 const msuk = compileFile('tests/fixtures/rulesets/msuk-ncr-2026.json');
 const scca = compileFile('tests/fixtures/rulesets/scca-gcr-quoted.json');
@@ -24,9 +25,29 @@ describe('SCCA GCR 2008+ tube table (F-SCCA-T1, quoted secondhand: improvedtouri
   ])('%s: %d lb, %d × %d in → %s', async (_tc, lb, od, wall, verdict) => {
     expect((await hoop(lb, od, wall)).verdict).toBe(verdict);
   });
-  test('TC-07 under either reading: 1.875 OD clears 1.625 + 0.250 but not 1.750 + 0.250', async () => {
+  // "If the OD used is at least 0.250 in above the minimum diameter required for the weight" has two
+  // readings for the 2,700 lb band (1.750 × 0.095 or 1.625 × 0.120): the smallest listed OD (1.625,
+  // the fixture's default reading) or the largest (1.750). `minimumDiameter` picks one.
+  const strictScca = (() => {
+    const doc = JSON.parse(JSON.stringify(loadJson('tests/fixtures/rulesets/scca-gcr-quoted.json'))) as { requirements: { id: string; requires: { allowances: { thinWallWhenOdExceedsMinimum: Record<string, unknown> } } }[] };
+    doc.requirements.find((r) => r.id === 'scca-t1-tubes')!.requires.allowances.thinWallWhenOdExceedsMinimum.minimumDiameter = 'largest_listed';
+    const v = validateRulesetDocument(doc);
+    if (!v.ok) throw new Error(JSON.stringify(v.problems));
+    return compileRuleset(v.document);
+  })();
+  const strictHoop = async (lb: number, od: number, wall: number) =>
+    finding(await check(strictScca, { vehicle: { classId: 'gcr_2008', weightWithDriverKg: lb * LB }, members: [member('mh', 'main_hoop', od * IN, wall * IN, { process: 'dom' })] }), 'scca-t1-tubes', 'mh');
+  test('TC-07 under the smallest-listed reading (default): 1.875 OD clears 1.625 + 0.250; 1.800 does not', async () => {
     expect((await hoop(2750, 1.875, 0.08)).verdict).toBe('pass');
     expect((await hoop(2750, 1.8, 0.08)).verdict).toBe('fail');
+  });
+  test('TC-07 under the largest-listed reading: 1.875 OD fails (needs 1.750 + 0.250 = 2.000)', async () => {
+    expect((await strictHoop(2750, 1.875, 0.08)).verdict).toBe('fail');
+    expect((await strictHoop(2750, 1.875, 0.08)).reason).toContain('2.000 in OD or larger with 0.080 in wall');
+  });
+  test('TC-07 as printed: 2.000 × 0.080 at 2,750 lb passes under either reading', async () => {
+    expect((await hoop(2750, 2.0, 0.08)).verdict).toBe('pass');
+    expect((await strictHoop(2750, 2.0, 0.08)).verdict).toBe('pass');
   });
   test('TC-05 reason names the nearest listed alternative', async () => {
     const f = await hoop(1701, 1.375, 0.08);

@@ -7,6 +7,8 @@ import type { FactSet, SideParam } from '../facts.js';
 import { DATE_COMPARISONS, NEAR, NOT_NEAR, isDateText } from './operators.js';
 import type { Tri } from './verdict.js';
 import { walkPath } from './evaluate.js';
+import { REF_FACT, referencedFact, referenceValue } from './references.js';
+import type { RefParams } from './references.js';
 
 /** A compiled node as compile.ts/templates.ts build it (all / any / not / comparison). */
 export interface PlainNode {
@@ -102,11 +104,15 @@ export function evaluatePlain(node: PlainNode, facts: FactSet, missing: Set<stri
     for (const n of needed) missing.add(n);
     absent = true;
   }
-  if (isFactRef(node.value) && !factPresent(facts, node.value.fact)) {
-    missing.add(node.value.fact);
+  const ref = referencedFact(node.value);
+  if (ref !== undefined && !factPresent(facts, ref)) {
+    missing.add(ref);
     absent = true;
   }
   if (absent) return 'unknown';
-  const b = isFactRef(node.value) ? facts[node.value.fact] : node.value;
+  // k × another fact / another member's size: the same value the engine's REF_FACT computes.
+  const b = isFactRef(node.value)
+    ? node.value.fact === REF_FACT ? referenceValue((node.value as unknown as { params: RefParams }).params, facts[ref!]) : facts[node.value.fact]
+    : node.value;
   return compare(node.operator as string, factValue(facts, node), b);
 }

@@ -11,6 +11,11 @@ import type { CompileContext, EngineNode, Path, Problems } from './conditions.js
 import { ENGINE_FROM_LIMIT } from './operators.js';
 import type { AlternativeMeta } from './types.js';
 import { TEMPLATE_KINDS } from './template-kinds.js';
+import { compileGradeFloor, compileProportional } from './limit-values.js';
+import { GRADE_FACTS, isProportional } from './limit-forms.js';
+import { compileMemberMatch } from './member-match.js';
+import { WALL_METHOD_FACTS } from '../facts.js';
+import { MEASURED_WALL_MAX_PERCENT } from './measured-wall.js';
 import type { TemplateName, TemplateOf } from './template-kinds.js';
 
 export interface CanonicalEquivalent {
@@ -49,6 +54,29 @@ export function lengthLabel(mm: number, system: 'imperial' | 'metric'): string {
   return system === 'imperial' ? `${(mm / 25.4).toFixed(3)} in` : `${Math.round(mm * 100) / 100} mm`;
 }
 
+/**
+ * A tube table's `measuredWall`, resolved: the reading fact and the wall a reading needs for a
+ * table wall. Undefined when the table has none; null when it is invalid (problems reported).
+ */
+function measuredWallRule(t: TubeTable, path: Path, ctx: TemplateContext): { fact: string; percent?: number; required: (wallMm: number) => number } | undefined | null {
+  const mw = t.measuredWall;
+  if (!mw) return undefined;
+  const fact = WALL_METHOD_FACTS[mw.method];
+  const tol = mw.tolerance;
+  if (tol === undefined) return { fact, required: (w) => w };
+  if ('percent' in tol) {
+    if (tol.percent >= MEASURED_WALL_MAX_PERCENT) {
+      ctx.problems.add([...path, 'measuredWall', 'tolerance', 'percent'], `A reading tolerance of ${tol.percent} % would accept a wall ${tol.percent >= 100 ? 'of nothing' : 'half as thick or thinner'}: it must be under ${MEASURED_WALL_MAX_PERCENT} %.`);
+      return null;
+    }
+    return { fact, percent: tol.percent, required: (w) => w * (1 - tol.percent / 100) };
+  }
+  const unit = resolveUnit('length', tol.unit, [...path, 'measuredWall', 'tolerance', 'unit'], ctx);
+  if (!unit) return null;
+  const tolMm = toCanonical(tol.value, unit);
+  return { fact, required: (w) => w - tolMm };
+}
+
 function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): CompiledRequires | undefined {
   let ok = true;
   const massUnit = resolveUnit('mass', t.weightUnit, [...path, 'weightUnit'], ctx);
@@ -57,6 +85,22 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
   const thinUnit = resolveUnit('length', thin?.unit, [...path, 'allowances', 'thinWallWhenOdExceedsMinimum', 'unit'], ctx);
   if (!massUnit || !wallAllowanceUnit || !thinUnit) return undefined;
   const wallAllowanceMm = t.allowances?.wallAllowance ? toCanonical(t.allowances.wallAllowance.value, wallAllowanceUnit) : 0;
+  const reading = measuredWallRule(t, path, ctx);
+  if (reading === null) return undefined;
+  // The reading is compared with the table's wall less the rulebook's reading tolerance only: not
+  // less the wall allowance (for nominal sizes) and without the measurement tolerance, which would
+  // otherwise widen a limit the rulebook already states for readings (docs/rulesets.md).
+  const readingLeaf = (wallMm: number, where: Path): { node: EngineNode; requiredMm: number; fact: string } | undefined => {
+    if (!reading) return undefined;
+    const requiredMm = reading.required(wallMm);
+    if (reading.percent === undefined && requiredMm <= wallMm / 2) {
+      ctx.problems.add([...path, 'measuredWall', 'tolerance', 'value'], `The tolerance leaves ${lengthLabel(requiredMm, ctx.system)} of a ${lengthLabel(wallMm, ctx.system)} wall: it must leave more than half of every wall in the table.`);
+      ok = false;
+      return undefined;
+    }
+    const node = compileLeaf({ fact: reading.fact, operator: 'greaterThanInclusive', value: requiredMm, unit: 'mm' }, where, { ...ctx, tolerance: {} });
+    return node ? { node, requiredMm, fact: reading.fact } : undefined;
+  };
 
   let previousUpTo: number | null = null;
   const variants: CompiledRequires['variants'] = [];
@@ -112,13 +156,15 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
       };
       const sizeNode = (odMm: number, wallMm: number, meta: Omit<AlternativeMeta, 'materials' | 'processes' | 'requiredWallMm'>): EngineNode => {
         const name = ctx.nextAlternative();
+        const od = compileLeaf({ fact: 'member.odMm', operator: 'greaterThanInclusive', value: odMm, unit: 'mm' }, rowPath, ctx);
+        const wall = compileLeaf({ fact: 'member.wallMm', operator: 'greaterThanInclusive', value: Math.max(wallMm - wallAllowanceMm, 0), unit: 'mm' }, rowPath, ctx);
+        const measured = readingLeaf(wallMm, [...path, 'measuredWall']);
         ctx.alternatives[name] = {
           ...meta, requiredWallMm: Math.max(wallMm - wallAllowanceMm, 0), ...(row.materials ? { materials: row.materials } : {}), ...(row.processes ? { processes: row.processes } : {}),
           ...(row.approvedBefore ? { approvedBefore: row.approvedBefore } : {}),
+          ...(measured ? { requiredReadingMm: measured.requiredMm, readingFact: measured.fact } : {}),
         };
-        const od = compileLeaf({ fact: 'member.odMm', operator: 'greaterThanInclusive', value: odMm, unit: 'mm' }, rowPath, ctx);
-        const wall = compileLeaf({ fact: 'member.wallMm', operator: 'greaterThanInclusive', value: Math.max(wallMm - wallAllowanceMm, 0), unit: 'mm' }, rowPath, ctx);
-        return { all: [...restrictions(), od, wall], name };
+        return { all: [...restrictions(), od, wall, ...(measured ? [measured.node] : [])], name };
       };
       for (const s of sizes) {
         const label = s.label ?? sizeLabel(s.odMm, s.wallMm, ctx.system);
@@ -136,14 +182,19 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
         }
       }
       if (thin && thinUnit) {
-        const minOd = Math.min(...sizes.map((s) => s.odMm));
+        // Two readings of "the minimum diameter required for the weight" (F-SCCA-T1): the smallest OD
+        // the row lists (today's default) or the largest.
+        const ods = sizes.map((s) => s.odMm);
+        const minOd = thin.minimumDiameter === 'largest_listed' ? Math.max(...ods) : Math.min(...ods);
         const marginMm = toCanonical(thin.odMargin, thinUnit);
         const minWallMm = toCanonical(thin.minWall, thinUnit);
         const name = ctx.nextAlternative();
         const label = `${lengthLabel(minOd + marginMm, ctx.system)} OD or larger with ${lengthLabel(minWallMm, ctx.system)} wall (thin-wall allowance)`;
+        const measured = readingLeaf(minWallMm, [...path, 'measuredWall']);
         ctx.alternatives[name] = {
           label, odMm: minOd + marginMm, wallMm: minWallMm, requiredWallMm: Math.max(minWallMm - wallAllowanceMm, 0), source: 'allowance',
           ...(row.materials ? { materials: row.materials } : {}), ...(row.processes ? { processes: row.processes } : {}),
+          ...(measured ? { requiredReadingMm: measured.requiredMm, readingFact: measured.fact } : {}),
           ...(row.approvedBefore ? { approvedBefore: row.approvedBefore } : {}),
         };
         const margin = compileLeaf(
@@ -151,7 +202,7 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
           [...path, 'allowances', 'thinWallWhenOdExceedsMinimum'], ctx,
         );
         const wall = compileLeaf({ fact: 'member.wallMm', operator: 'greaterThanInclusive', value: Math.max(minWallMm - wallAllowanceMm, 0), unit: 'mm' }, [...path, 'allowances'], ctx);
-        alternatives.push({ all: [...restrictions(), margin, wall], name });
+        alternatives.push({ all: [...restrictions(), margin, wall, ...(measured ? [measured.node] : [])], name });
       }
     });
     // Descending priorities make the engine try alternatives one at a time and stop at the first
@@ -196,9 +247,13 @@ function compileRequiredMembers(r: TemplateOf<'required_members'>, path: Path, c
 }
 
 function compileLimit(r: TemplateOf<'limit'>, path: Path, ctx: TemplateContext): CompiledRequires | undefined {
-  const leaves = r.checks.map((c, i) =>
-    compileLeaf({ fact: c.fact, operator: ENGINE_FROM_LIMIT[c.operator], value: c.value, unit: c.unit, path: c.path, params: c.params }, [...path, 'checks', i], ctx, c.label),
-  );
+  const leaves = r.checks.flatMap((c, i): (EngineNode | undefined)[] => {
+    const p = [...path, 'checks', i];
+    if (GRADE_FACTS[c.fact]) return compileGradeFloor(c, p, ctx) ?? [undefined];
+    const v = c.value;
+    if (isProportional(v)) return [compileProportional({ ...c, value: v }, p, ctx)];
+    return [compileLeaf({ fact: c.fact, operator: ENGINE_FROM_LIMIT[c.operator], value: v, unit: c.unit, path: c.path, params: c.params }, p, ctx, c.label)];
+  });
   return leaves.every((l) => l) ? single({ all: leaves }) : undefined;
 }
 
@@ -219,6 +274,7 @@ const COMPILERS: { readonly [K in TemplateName]: Compiler<K> } = {
   limit: (_req, r, path, ctx) => compileLimit(r, path, ctx),
   allowed_values: (_req, r, path, ctx) => compileAllowedValues(r, path, ctx),
   conditions: (_req, r, path, ctx) => single(compileConditionTree(r.conditions, [...path, 'conditions'], ctx)),
+  member_match: (req, r, path, ctx) => single(compileMemberMatch(req, r, path, ctx)),
 };
 
 export function compileRequires(req: Requirement, path: Path, ctx: TemplateContext): CompiledRequires | undefined {

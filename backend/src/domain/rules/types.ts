@@ -6,7 +6,8 @@ import type { Dimension } from '../units.js';
 import type { FriendlyOperator } from './operators.js';
 import type { TemplateName } from './template-kinds.js';
 
-export type LeafValue = number | string | boolean | readonly string[] | { fact: string };
+/** `{ fact }`: another value of the check; `times`: k × it (canonical; `timesDimension` null for a plain factor). */
+export type LeafValue = number | string | boolean | readonly string[] | { fact: string; times?: number; timesDimension?: Dimension | null };
 
 export interface LeafMeta {
   fact: string;
@@ -33,6 +34,9 @@ export interface AlternativeMeta {
   /** Counts only for cages approved before this date (YYYY-MM-DD). */
   approvedBefore?: string;
   source: 'table' | 'allowance' | 'printed_equivalent';
+  /** With a tube table's `measuredWall`: the thinnest reading the member needs, and its fact. */
+  requiredReadingMm?: number;
+  readingFact?: string;
   note?: string;
 }
 

@@ -40,6 +40,7 @@ const WORDS: Record<string, string> = {
   left: 'Left',
   right: 'Right',
   centre: 'Centre',
+  callipers: 'Callipers at a tube end',
 };
 
 const kindLabel = (k: string) => MEMBER_KIND_LABELS[k as keyof typeof MEMBER_KIND_LABELS];
