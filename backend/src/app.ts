@@ -34,6 +34,7 @@ import { createReviewRouter } from './routes/review.routes';
 import { createCageRecordsRouter } from './routes/cage-records.routes';
 import { createVerifyRouter, defaultVerifyLimit } from './routes/verify.routes';
 import { createRulebookAdminRouter } from './routes/rulebook-admin.routes';
+import { createTubeStockRouter } from './routes/tube-stock.routes';
 import { createFabricationRouter } from './routes/fabrication.routes';
 import type { RepublishQueue } from './services/rulebook-admin.service';
 import { createServices, type Services } from './services';
@@ -160,6 +161,7 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(createSubmissionsRouter({ services }));
   api.use(createReviewRouter({ services }));
   api.use(createCageRecordsRouter({ services }));
+  api.use(createTubeStockRouter({ services }));
   api.use(createFabricationRouter({ services }));
   api.use(createVerifyRouter({ services, limits: options.verifyLimits ?? defaultVerifyLimit }));
   // The development mailbox exists only while the fake SMTP server does; otherwise its routes are 404.
