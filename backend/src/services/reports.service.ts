@@ -110,6 +110,7 @@ export function createReportService(ds: DataSource, deps: { checks: CheckService
         checkedAt: run.createdAt,
         tubeData: tubeDataFor(run.specification),
         photos: context.photos,
+        ...(run.specification.cage ? { cageHistory: run.specification.cage } : {}),
         ...(review ? { review } : {}),
         cage: cageFor(run.specification, run.report, shownUnits, review),
       });
