@@ -9,6 +9,7 @@ import { AREAS } from '../contracts/ruleset';
 import { FACTS_BY_NAME } from '../domain/facts';
 import { findingKey } from '../domain/review/waivers';
 import { formatQuantity, type Dimension, type UnitSystem } from '../domain/units';
+import { formatIsoDate } from '../domain/dates';
 import { MEMBER_KIND_LABELS } from '../domain/vocabulary';
 import type { BuyingList } from '../domain/fabrication/nesting';
 import { LEGEND_MARKS } from '../domain/geometry/verdict-marks';
@@ -46,6 +47,18 @@ export interface ReportDocumentInput {
   buyingList?: BuyingList;
   /** The cage views (domain/geometry drawCage, the same SVG strings as the screen), when the sheet has a model. */
   cage?: { svgs: Record<ViewName, string>; drawnMembers: number; totalMembers: number };
+  /** The checked sheet's approval and build dates and maker's certificate, when it gives them. */
+  cageHistory?: { approvedOn?: string; builtOn?: string; certificate?: { issuer?: string; number: string } };
+}
+
+/** Rows for the cage's dates and certificate; none for a sheet that gives none. */
+export function cageRows(cage: ReportDocumentInput['cageHistory']): [string, string][] {
+  if (!cage) return [];
+  const rows: [string, string][] = [];
+  if (cage.approvedOn) rows.push(['Cage approved on', formatIsoDate(cage.approvedOn)]);
+  if (cage.builtOn) rows.push(['Cage built on', formatIsoDate(cage.builtOn)]);
+  if (cage.certificate) rows.push(["Maker's certificate", `${cage.certificate.number}${cage.certificate.issuer ? `, ${cage.certificate.issuer}` : ''}`]);
+  return rows;
 }
 
 export interface ReportReview {
@@ -388,6 +401,7 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
               ['Year', car?.year ? String(car.year) : 'not given'],
               ['Build sheet', input.sheetName ? `${input.sheetName}${input.revisionNumber ? `, revision ${input.revisionNumber}` : ''}` : 'none'],
               ['Builder', input.builderName ?? 'unknown'],
+              ...cageRows(input.cageHistory),
             ]),
           ],
         },

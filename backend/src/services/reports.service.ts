@@ -112,6 +112,7 @@ export function createReportService(ds: DataSource, deps: { checks: CheckService
         checkedAt: run.createdAt,
         tubeData: tubeDataFor(run.specification),
         photos: context.photos,
+        ...(run.specification.cage ? { cageHistory: run.specification.cage } : {}),
         ...(review ? { review } : {}),
         // A sheet's report carries what to buy, with the builder's own stick length and kerf.
         ...(revision && deps.fabricationSettings
