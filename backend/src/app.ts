@@ -10,6 +10,7 @@ import type { DataSource } from 'typeorm';
 import { projectRoot, type Config } from './config';
 import { createLogger, type Logger } from './logger';
 import { requireCsrfToken } from './middleware/csrf';
+import { refuseUnsafeInput } from './middleware/safe-input';
 import { apiNotFound, createErrorHandler } from './middleware/error-handler';
 import { createFailureLimiter, createLoginLimiters, defaultLoginLimits, type LoginLimits } from './middleware/rate-limit';
 import { createPassport, createSessionMiddleware, type SessionSetup } from './middleware/session';
@@ -150,6 +151,8 @@ export function createApp(options: CreateAppOptions): Express {
     next();
   });
   api.use(express.json({ limit: jsonBodyLimit }));
+  // NUL, lone surrogates, over-deep nesting and `__proto__` keys: 400 at their path, before anything reads them.
+  api.use(refuseUnsafeInput);
   api.use(sessionSetup.middleware);
   api.use(passport.session());
   api.use(requireCsrfToken);
