@@ -11,6 +11,7 @@
 # uploads folder is UPLOAD_DIR (default .data/uploads), as the server reads them.
 set -euo pipefail
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
+load_dotenv
 
 mode="${1:-}"; shift || true
 

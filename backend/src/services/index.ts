@@ -17,7 +17,10 @@ import { createReviewReader, type ReviewReader } from './review-detail';
 import { createCageRecordService, type CageRecordService } from './cage-records.service';
 import { createVerificationService, type VerificationService } from './verification.service';
 import { createRulebookAdminService, type RulebookAdminService } from './rulebook-admin.service';
+import { createTubeStockService, type TubeStockService } from './tube-stock.service';
+import { createTubeChoiceService, type TubeChoiceService } from './tube-choice.service';
 import { createFabricationService, type FabricationService } from './fabrication.service';
+import { createFabricationSettingsService } from './fabrication-settings.service';
 
 export interface Services {
   accounts: AccountService;
@@ -37,6 +40,8 @@ export interface Services {
   cageRecords: CageRecordService;
   verification: VerificationService;
   rulebookAdmin: RulebookAdminService;
+  tubeStock: TubeStockService;
+  tubeChoice: TubeChoiceService;
   fabrication: FabricationService;
 }
 
@@ -53,7 +58,9 @@ export function createServices(
   const photos = createPhotoService(ds, options.photoStorage ?? new LocalDiskPhotoStorage(options.uploadDir ?? '.data/uploads'));
   const mail = createMailService(ds);
   const cageRecords = createCageRecordService(ds, { mail, audit, publicUrl: options.publicUrl });
-  const reports = createReportService(ds, { checks, sheets: buildSheets, photos });
+  const fabricationSettings = createFabricationSettingsService(ds);
+  const reports = createReportService(ds, { checks, sheets: buildSheets, photos, fabricationSettings });
+  const tubeStock = createTubeStockService(ds, { audit });
   return {
     accounts: createAccountService(ds),
     members,
@@ -72,6 +79,8 @@ export function createServices(
     cageRecords,
     verification: createVerificationService(ds),
     rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit }),
-    fabrication: createFabricationService(),
+    tubeStock,
+    tubeChoice: createTubeChoiceService(ds, { rulesets, stock: tubeStock }),
+    fabrication: createFabricationService({ buildSheets, settings: fabricationSettings }),
   };
 }

@@ -20,11 +20,13 @@ export interface NavEntry {
 export const navEntries: readonly NavEntry[] = [
   { label: 'Overview', icon: 'pi pi-gauge', route: 'home' },
   { label: 'Garage', icon: 'pi pi-car', route: 'garage', roles: ['builder'] },
+  { label: 'Tube stock', icon: 'pi pi-box', route: 'tube-stock', roles: ['builder', 'admin'] },
   { label: 'Review queue', icon: 'pi pi-check-square', route: 'review-queue', roles: ['steward'] },
   { label: 'Members', icon: 'pi pi-users', route: 'club-members', roles: ['admin'] },
   { label: 'Rulebooks', icon: 'pi pi-book', route: 'rulebooks', roles: ['admin'] },
   { label: 'Activity log', icon: 'pi pi-history', route: 'club-activity', roles: ['admin'] },
   { label: 'Mailbox', icon: 'pi pi-inbox', route: 'dev-mailbox', roles: ['admin'], feature: 'mailbox' },
+  { label: 'Bench tools', icon: 'pi pi-wrench', route: 'fabrication' },
   { label: 'Account', icon: 'pi pi-user', route: 'account' },
 ];
 

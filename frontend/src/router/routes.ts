@@ -8,7 +8,9 @@ export type RouteName = 'sign-in' | 'invitation' | 'home' | 'account' | 'club-me
   | 'garage' | 'car' | 'build-sheet' | 'check-run'
   | 'review-queue' | 'submission' | 'cage-record' | 'verify' | 'verify-code'
   | 'dev-mailbox' | 'club-activity'
-  | 'rulebooks' | 'rulebook-version' | 'rulebook-compare';
+  | 'rulebooks' | 'rulebook-version' | 'rulebook-compare'
+  | 'tube-choice' | 'tube-stock'
+  | 'fabrication';
 
 declare module 'vue-router' {
   interface RouteMeta {
@@ -61,9 +63,12 @@ export const routes: NamedRoute[] = [
         component: () => import('@/views/ClubMembersView.vue'),
         meta: { roles: ['admin'], title: 'Members' },
       },
+      { path: 'bench', name: 'fabrication', component: () => import('@/views/FabricationView.vue'), meta: { title: 'Bench tools' } },
       { path: 'garage', name: 'garage', component: () => import('@/views/GarageView.vue'), meta: { title: 'Garage' } },
       { path: 'cars/:carId', name: 'car', component: () => import('@/views/CarView.vue'), meta: { title: 'Car' } },
       { path: 'build-sheets/:sheetId', name: 'build-sheet', component: () => import('@/views/BuildSheetView.vue'), meta: { title: 'Build sheet' } },
+      { path: 'build-sheets/:sheetId/tubes', name: 'tube-choice', component: () => import('@/views/TubeChoiceView.vue'), meta: { title: 'Lightest legal tubes' } },
+      { path: 'clubs/:clubId/tube-stock', name: 'tube-stock', component: () => import('@/views/TubeStockView.vue'), meta: { roles: ['builder', 'steward', 'admin'], title: 'Tube stock' } },
       { path: 'dev/mailbox', name: 'dev-mailbox', component: () => import('@/views/MailboxView.vue'), meta: { roles: ['admin'], title: 'Mailbox' } },
       { path: 'clubs/:clubId/activity', name: 'club-activity', component: () => import('@/views/AuditLogView.vue'), meta: { roles: ['admin'], title: 'Activity log' } },
       { path: 'check-runs/:checkRunId', name: 'check-run', component: () => import('@/views/CheckRunView.vue'), meta: { title: 'Check run' } },
