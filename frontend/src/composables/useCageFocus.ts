@@ -2,7 +2,8 @@
 // findings and its member rows without threading props through every level: `selectedId` is the
 // member the builder clicked (its row opens, its findings show), `highlightId` the one a finding asked
 // the drawing to show. Pages without a drawing provide nothing, and findings then offer no "show" button.
-import { inject, provide, ref, type InjectionKey, type Ref } from 'vue';
+import { inject, provide, ref, shallowRef, type InjectionKey, type Ref } from 'vue';
+import type { Finding } from '@contracts/report';
 
 export interface CageFocus {
   selectedId: Ref<string | null>;
@@ -11,6 +12,8 @@ export interface CageFocus {
   drawnIds: Ref<ReadonlySet<string>>;
   /** The builder's names of the members (memberNames), for words about the selection. */
   names: Ref<ReadonlyMap<string, string>>;
+  /** The member a finding is about: its own, or the one the model read a whole-car value from. */
+  memberOf: Ref<(f: Finding) => string | null>;
   select(memberId: string | null): void;
   highlight(memberId: string | null): void;
 }
@@ -23,6 +26,7 @@ export function provideCageFocus(onSelect?: (memberId: string) => void): CageFoc
     highlightId: ref(null),
     drawnIds: ref(new Set<string>()),
     names: ref(new Map<string, string>()),
+    memberOf: shallowRef((f: Finding) => f.member?.id ?? null),
     select(memberId) {
       focus.selectedId.value = memberId;
       focus.highlightId.value = memberId;

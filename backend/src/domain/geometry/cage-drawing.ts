@@ -100,10 +100,28 @@ export function drawingFacts(spec: CageSpecLike, shapes: readonly MemberShape[] 
   }
 }
 
+/**
+ * The member a whole-car finding is about, when the model derived the value it measured: the first
+ * member the derived fact names (the worst one: the steeper backstay, the brace attached lowest).
+ */
+export function factMembers(facts: GeometryFactValues, drawn: readonly DrawnMember[]): (f: Pick<Finding, 'measured'>) => string[] {
+  const byName = new Map(drawn.map((d) => [d.name, d.id]));
+  return (f) => {
+    const ids = new Set<string>();
+    for (const m of f.measured) {
+      const fact = facts[m.fact as keyof GeometryFactValues];
+      const id = fact && m.source !== 'sheet' ? byName.get(fact.members[0] ?? '') : undefined;
+      if (id) ids.add(id);
+    }
+    return [...ids];
+  };
+}
+
 export function drawCage(input: CageDrawingInput): CageDrawing {
   const shapes = modelShapes(input.spec);
   const drawn = drawnMembers(input.spec, shapes);
-  const marks = memberMarks(input.findings, input.waivedKeys);
+  const facts = drawingFacts(input.spec, shapes);
+  const marks = memberMarks(input.findings, input.waivedKeys, factMembers(facts, drawn));
   const byId = new Map(input.spec.members.map((m) => [m.id, m]));
   const members = new Map<string, SvgMemberInfo>();
   for (const d of drawn) {
@@ -111,7 +129,6 @@ export function drawCage(input: CageDrawingInput): CageDrawing {
     const mark = marks.get(d.id);
     members.set(d.id, { name: d.name, sizeText: tubeSizeWords(m.odMm, m.wallMm, input.units), verdict: mark?.verdict ?? 'unchecked', rule: mark?.worstRule ?? null });
   }
-  const facts = drawingFacts(input.spec, shapes);
   const geometry = cageGeometryMarks(input.spec, drawn, facts, input.units);
   const svgs = {} as Record<ViewName, string>;
   for (const view of VIEW_NAMES) {

@@ -40,7 +40,7 @@ export const VERDICT_MARKS: Readonly<Record<MarkVerdict, VerdictMark>> = {
 /** Marks in legend order, worst first. */
 export const LEGEND_MARKS: readonly VerdictMark[] = MARK_VERDICTS.map((v) => VERDICT_MARKS[v]);
 
-type MarkedFinding = Pick<Finding, 'requirementId' | 'verdict' | 'severity' | 'title' | 'reason' | 'citation' | 'member' | 'plate'>;
+type MarkedFinding = Pick<Finding, 'requirementId' | 'verdict' | 'severity' | 'title' | 'reason' | 'citation' | 'member' | 'plate' | 'measured'>;
 
 /**
  * A finding's own mark. Only mandatory findings can fail or need a measurement: an advisory finding
@@ -65,17 +65,28 @@ export interface MemberMark<F extends MarkedFinding = MarkedFinding> {
   worstRule: string | null;
 }
 
-/** Each member's mark from its worst finding; a member no finding is about is "unchecked". */
-export function memberMarks<F extends MarkedFinding>(findings: readonly F[], waivedKeys: ReadonlySet<string> = new Set()): Map<string, MemberMark<F>> {
+/**
+ * Each member's mark from its worst finding; a member no finding is about is "unchecked". A finding
+ * about the whole car (the brace angle, say) counts for the members `attribute` names: the drawing
+ * passes the member the model read that value from, so a steep backstay is the tube that shows it.
+ */
+export function memberMarks<F extends MarkedFinding>(
+  findings: readonly F[],
+  waivedKeys: ReadonlySet<string> = new Set(),
+  attribute: (f: F) => readonly string[] = () => [],
+): Map<string, MemberMark<F>> {
   const out = new Map<string, MemberMark<F>>();
   for (const f of findings) {
-    if (!f.member) continue;
+    const ids = f.member ? [f.member.id] : attribute(f);
+    if (ids.length === 0) continue;
     const verdict = findingMark(f, waivedKeys);
     if (verdict === 'unchecked') continue;
-    const entry = out.get(f.member.id) ?? { verdict: 'unchecked' as MarkVerdict, findings: [], worstRule: null };
-    entry.verdict = worseOf(entry.verdict, verdict);
-    entry.findings.push(f);
-    out.set(f.member.id, entry);
+    for (const id of ids) {
+      const entry = out.get(id) ?? { verdict: 'unchecked' as MarkVerdict, findings: [], worstRule: null };
+      entry.verdict = worseOf(entry.verdict, verdict);
+      entry.findings.push(f);
+      out.set(id, entry);
+    }
   }
   for (const entry of out.values()) {
     entry.findings.sort((a, b) => VERDICT_MARKS[findingMark(a, waivedKeys)].rank - VERDICT_MARKS[findingMark(b, waivedKeys)].rank);

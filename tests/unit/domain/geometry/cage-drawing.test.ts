@@ -55,3 +55,20 @@ describe('drawCage', () => {
     expect(drawCage({ spec: { members: spec.members }, findings: [], units: 'metric' }).drawn).toEqual([]);
   });
 });
+
+describe('a whole-car geometry finding on the drawing', () => {
+  it('marks the backstay the model read the brace angle from', () => {
+    const spec = sampleModelSpecification();
+    const angleFinding: Finding = {
+      ...failing, member: null, requirementId: 'braces',
+      measured: [{ fact: 'geometry.rearBraceAngleFromVerticalDeg', label: 'rear brace angle', value: 20, dimension: 'angle', source: 'model' }],
+    };
+    const d = drawCage({ spec, findings: [angleFinding], units: 'metric' });
+    const name = d.facts['geometry.rearBraceAngleFromVerticalDeg']!.members[0];
+    const marked = [...d.members].filter(([, m]) => m.verdict === 'fail').map(([, m]) => m.name);
+    expect(marked).toEqual([name]);
+    // A typed value (source "sheet") is not the model's, so it marks no tube.
+    const typed = { ...angleFinding, measured: [{ ...angleFinding.measured[0]!, source: 'sheet' as const }] };
+    expect([...drawCage({ spec, findings: [typed], units: 'metric' }).members.values()].some((m) => m.verdict === 'fail')).toBe(false);
+  });
+});

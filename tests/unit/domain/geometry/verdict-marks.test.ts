@@ -8,7 +8,7 @@ type F = Parameters<typeof memberMarks>[0][number];
 const f = (requirementId: string, memberId: string | null, verdict: Finding['verdict'], severity: Finding['severity'] = 'mandatory'): F => ({
   requirementId, verdict, severity, title: `Rule ${requirementId}`, reason: `why ${requirementId}`,
   citation: { publisher: 'Demo', rulebookTitle: 'Demo', edition: '1', section: requirementId },
-  member: memberId ? { id: memberId, kind: 'rear_brace', index: 0 } : null, plate: null,
+  member: memberId ? { id: memberId, kind: 'rear_brace', index: 0 } : null, plate: null, measured: [],
 });
 
 /** WCAG relative luminance contrast of a colour against white. */
