@@ -167,6 +167,15 @@ test('a builder takes a car from empty garage to a kept check and its PDF', asyn
     expect(text.toLowerCase()).toContain('pre-check');
     expect(text.toLowerCase()).toContain('inspector');
     expect(text.toLowerCase()).toMatch(overall.includes('not met') ? /not met|fail/ : overall.includes('measurement') ? /needs|information|measure/ : /pass|met/);
+    // Issue 9 §5: the code on the PDF leads to the public page, and both say what it is.
+    expect(text).toContain('not a cage record');
+    await page.goto(`${baseUrl}/verify/${encodeURIComponent(code)}`);
+    const answer = page.locator('.vc');
+    await answer.waitFor();
+    expect(await answer.innerText()).toContain('not a cage record');
+    expect(await page.locator('[data-test="verify-kind"]').innerText()).toMatch(/^Pre-check of \d{4}-\d{2}-\d{2}$/);
+    expect(text).toContain(`pre-check made on ${(await page.locator('[data-test="verify-kind"]').innerText()).slice('Pre-check of '.length)}`);
+    await screenshot(page, 'garage-verify-check-run-desktop');
     expect(browser.pageErrors.map((e) => e.message)).toEqual([]);
 
     // The same screens at phone width.

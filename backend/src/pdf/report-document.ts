@@ -32,6 +32,8 @@ export interface ReportDocumentInput {
   sheetName: string | null;
   revisionNumber: number | null;
   verificationCode: string;
+  /** Where anyone may look the code up (the public /verify page), printed beside the code. */
+  lookUpUrl?: string;
   checkedAt: Date;
   /** Tube data with the cut list, computed from the specification that was checked. */
   tubeData: TubeDataWire;
@@ -354,6 +356,9 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
     },
     labelValueTable([
       ['Verification code', input.verificationCode],
+      ...(input.lookUpUrl
+        ? ([['Look it up at', `${input.lookUpUrl}: the page says this is a pre-check made on ${dateText}, with its result, and not a cage record.`]] as [string, string][])
+        : []),
       ['Checked on', dateText],
       ['Units', units === 'metric' ? 'metric (mm, kg)' : 'imperial (in, lb)'],
     ]),

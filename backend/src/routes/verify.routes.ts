@@ -1,5 +1,5 @@
-// The public verification of a cage record by its code (docs/api.md, "Review and cage records"): no
-// sign-in, rate-limited per IP, and one plain 404 for every code that does not name a record.
+// The public verification of a code (docs/api.md, "Review and cage records"): a cage record's or a
+// check run's. No sign-in, rate-limited per IP, and one plain 404 for every code that names neither.
 import { Router } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import { verifyParamsSchema } from '../contracts/review';
@@ -25,8 +25,8 @@ export function createVerifyRouter({ services, limits = defaultVerifyLimit }: { 
         const result = await services.verification.verify(params.code);
         // Nobody caches a status that can change (a revocation must show at once).
         res.setHeader('Cache-Control', 'no-store');
-        if (!result) throw new NotFoundError('No cage record has this code.');
-        res.json({ record: result });
+        if (!result) throw new NotFoundError('No cage record or check run has this code.');
+        res.json(result.kind === 'cage_record' ? { kind: result.kind, record: result.record } : { kind: result.kind, checkRun: result.checkRun });
       },
     }),
   ]);

@@ -51,7 +51,7 @@ export function createServices(
   const photos = createPhotoService(ds, options.photoStorage ?? new LocalDiskPhotoStorage(options.uploadDir ?? '.data/uploads'));
   const mail = createMailService(ds);
   const cageRecords = createCageRecordService(ds, { mail, audit, publicUrl: options.publicUrl });
-  const reports = createReportService(ds, { checks, sheets: buildSheets, photos });
+  const reports = createReportService(ds, { checks, sheets: buildSheets, photos, publicUrl: options.publicUrl });
   return {
     accounts: createAccountService(ds),
     members,

@@ -15,10 +15,11 @@ import type { CheckService } from './checks.service';
 import { sheetFor } from './garage.service';
 import type { PhotoService } from './photos.service';
 import { tubeDataFor } from './garage/tube-data';
+import { verificationUrl } from './cage-records.service';
 
 export type ReportService = ReturnType<typeof createReportService>;
 
-export function createReportService(ds: DataSource, deps: { checks: CheckService; sheets: BuildSheetService; photos: PhotoService }) {
+export function createReportService(ds: DataSource, deps: { checks: CheckService; sheets: BuildSheetService; photos: PhotoService; publicUrl: string }) {
   async function unitsOf(userId: string): Promise<UnitSystem> {
     return (await ds.getRepository(User).findOneBy({ id: userId }))?.preferredUnits ?? 'imperial';
   }
@@ -105,6 +106,7 @@ export function createReportService(ds: DataSource, deps: { checks: CheckService
         sheetName: context.sheetName,
         revisionNumber: revision?.number ?? null,
         verificationCode: run.verificationCode,
+        lookUpUrl: verificationUrl(deps.publicUrl, run.verificationCode),
         checkedAt: run.createdAt,
         tubeData: tubeDataFor(run.specification),
         photos: context.photos,
