@@ -33,8 +33,10 @@ import { createReviewRouter } from './routes/review.routes';
 import { createCageRecordsRouter } from './routes/cage-records.routes';
 import { createVerifyRouter, defaultVerifyLimit } from './routes/verify.routes';
 import { createRulebookAdminRouter } from './routes/rulebook-admin.routes';
+import { createFabricationRouter } from './routes/fabrication.routes';
 import type { RepublishQueue } from './services/rulebook-admin.service';
 import { createServices, type Services } from './services';
+import type { JobControl } from './services/jobs';
 
 export interface CreateAppOptions {
   /** An initialized DataSource (the session store shares its pool). */
@@ -52,6 +54,8 @@ export interface CreateAppOptions {
   verifyLimits?: { windowMs: number; limit: number };
   /** Where a publish sends its re-check job (pg-boss in server.ts); without it publishing queues nothing. */
   republishQueue?: RepublishQueue | null;
+  /** Runs a failed job again (POST /api/jobs/:id/retry); pg-boss in server.ts. Without it that route answers 409. */
+  jobControl?: JobControl | null;
 }
 
 export const jsonBodyLimit = '100kb';
@@ -150,10 +154,11 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(createCheckRunsReportRouter({ services }));
   api.use(createMetaRouter({ mailboxEnabled: config.fakeSmtp }));
   api.use(createAuditRouter({ services }));
-  api.use(createJobsRouter({ services }));
+  api.use(createJobsRouter({ services, control: options.jobControl ?? null }));
   api.use(createSubmissionsRouter({ services }));
   api.use(createReviewRouter({ services }));
   api.use(createCageRecordsRouter({ services }));
+  api.use(createFabricationRouter({ services }));
   api.use(createVerifyRouter({ services, limits: options.verifyLimits ?? defaultVerifyLimit }));
   // The development mailbox exists only while the fake SMTP server does; otherwise its routes are 404.
   if (config.fakeSmtp) api.use(createMailboxRouter({ services }));

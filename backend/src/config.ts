@@ -37,6 +37,10 @@ const envSchema = z.object({
     .regex(/^([^<>]*<[^\s<>@]+@[^\s<>@]+>|[^\s<>@]+@[^\s<>@]+)$/, 'must be an address, e.g. Name <no-reply@example.org>')
     .default('Cagewright <no-reply@cagewright.example>'),
   FAKE_SMTP: z.enum(['true', 'false', '1', '0'], 'must be true or false').optional(),
+  // Background jobs (docs/decisions/0007-jobs-that-finish.md): a running job whose heartbeat stands
+  // still this long is handed to another attempt; build sheets re-checked per stored page.
+  JOB_STALE_AFTER_SECONDS: z.coerce.number().int().min(1).max(3600).default(30),
+  RECHECK_BATCH_SIZE: z.coerce.number().int().min(1).max(1000).default(200),
 });
 
 export interface Config {
@@ -55,6 +59,10 @@ export interface Config {
   mailFrom: string;
   /** Run the local fake SMTP server and the mailbox page (development and test by default). */
   fakeSmtp: boolean;
+  /** A running job whose heartbeat stood still this long (seconds) is retried by another attempt. */
+  jobStaleAfterSeconds: number;
+  /** Build sheets per page of a re-check (each page stored in one transaction). */
+  recheckBatchSize: number;
 }
 
 export class ConfigError extends Error {
@@ -128,5 +136,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, options: LoadCo
     publicUrl: e.PUBLIC_URL,
     logLevel: e.LOG_LEVEL ?? (e.NODE_ENV === 'test' ? 'silent' : 'info'),
     ...mailSettings(e),
+    jobStaleAfterSeconds: e.JOB_STALE_AFTER_SECONDS,
+    recheckBatchSize: e.RECHECK_BATCH_SIZE,
   };
 }

@@ -74,7 +74,7 @@ if (config.smtpUrl) {
 } else {
   logger.warn('SMTP_URL is not set: e-mails wait in the outbox until it is');
 }
-const jobs = createJobs(config, logger);
+const jobs = createJobs(config, logger, { staleAfterSeconds: config.jobStaleAfterSeconds });
 try {
   await jobs.start();
 } catch (err) {
@@ -84,8 +84,8 @@ try {
 
 // One set of services for the app and the publish job, so both share the compiled-ruleset cache.
 const services = createServices(dataSource, { publicUrl: config.publicUrl, uploadDir: config.uploadDir });
-await registerRepublishWorker(jobs, { ds: dataSource, rulesets: services.rulesets, mail: services.mail, audit: services.audit, publicUrl: config.publicUrl });
-const app = createApp({ dataSource, config, logger, services, republishQueue: jobs });
+await registerRepublishWorker(jobs, { ds: dataSource, rulesets: services.rulesets, mail: services.mail, audit: services.audit, publicUrl: config.publicUrl, batchSize: config.recheckBatchSize });
+const app = createApp({ dataSource, config, logger, services, republishQueue: jobs, jobControl: jobs });
 const server = createServer(app);
 server.keepAliveTimeout = 5000;
 server.on('error', (err) => {

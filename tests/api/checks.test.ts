@@ -75,7 +75,7 @@ const validSpecs: Record<string, () => Json> = {
     const foot = (id: string, location: string, memberId: string, sidesMm: number[]) => ({ id, location, memberId, fixing: 'bolted', thicknessMm: 3, sidesMm, boltCount: 3, boltDiameterMm: 10, boltGrade: '8.8' });
     return {
       vehicle: { classId: 'hill-saloon', weightWithoutDriverKg: 1100, cockpit: 'closed', chassis: 'unibody' },
-      members: [cds('mh', 'main_hoop', 45, 2.5), cds('fh', 'front_hoop', 45, 2.5), cds('rb1', 'rear_brace', 45, 2.5), cds('rb2', 'rear_brace', 50, 2.0), cds('dg', 'diagonal', 38, 2.5)],
+      members: [cds('mh', 'main_hoop', 45, 2.5), cds('fh', 'front_hoop', 45, 2.5), { ...cds('rb1', 'rear_brace', 45, 2.5), side: 'left' }, { ...cds('rb2', 'rear_brace', 50, 2.0), side: 'right' }, cds('dg', 'diagonal', 38, 2.5)],
       geometry: { rearBraceAngleFromVerticalDeg: 35 },
       plates: [foot('pl', 'main_hoop_foot', 'mh', [120, 120]), foot('pf', 'front_hoop_foot', 'fh', [120, 110])],
     };

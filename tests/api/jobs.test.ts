@@ -1,10 +1,11 @@
 // Background jobs on pg-boss: a demo job reports its progress (total, done, failed) and ends completed;
-// a throwing handler ends failed with its message; admins of the job's club read the progress over the
-// API, other roles are refused and other clubs' jobs do not exist for them.
+// a throwing handler is retried and then ends failed with its message; an admin can run it again; a
+// changed queue option reaches a queue an older deployment created; admins of the job's club read the
+// progress over the API, other roles are refused and other clubs' jobs do not exist for them.
 import type { Express } from 'express';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createLogger } from '../../backend/src/logger';
-import { createJobs, type Jobs } from '../../backend/src/services/jobs';
+import { createJobs, defaultQueueOptions, type Jobs } from '../../backend/src/services/jobs';
 import type { JobProgressWire } from '../../backend/src/contracts/jobs';
 import { agentFor, demo, demoClubId, makeTestApp, signIn, testConfig, useTestDatabase } from './helpers';
 
@@ -12,6 +13,8 @@ const db = useTestDatabase();
 let jobs: Jobs;
 let app: Express;
 let clubId: string;
+/** While true, an `explode` job throws (so a retried run can succeed once it is turned off). */
+let exploding = true;
 
 /** The demo: counts through `items`, failing the ones listed, yielding between items as handlers must. */
 interface CountJob {
@@ -21,17 +24,17 @@ interface CountJob {
 }
 
 beforeAll(async () => {
-  jobs = createJobs(testConfig(), createLogger('silent'), { pollingIntervalSeconds: 0.5 });
+  jobs = createJobs(testConfig(), createLogger('silent'), { pollingIntervalSeconds: 0.5, queues: { 'demo.count': { retryLimit: 1, retryDelaySeconds: 1 } } });
   await jobs.start();
   await jobs.work<CountJob>('demo.count', async ({ data, progress }) => {
-    if (data.explode) throw new Error('the rulebook edition could not be read');
+    if (data.explode && exploding) throw new Error('the rulebook edition could not be read');
     await progress.setTotal(data.items);
     for (let i = 1; i <= data.items; i++) {
       await new Promise((r) => setImmediate(r));
       await progress.advance(data.failOn?.includes(i) ? { failed: 1 } : { done: 1 });
     }
   });
-  app = makeTestApp(db.ds);
+  app = makeTestApp(db.ds, { jobControl: jobs });
   clubId = await demoClubId(db.ds);
 }, 60_000);
 
@@ -70,13 +73,34 @@ describe('jobs', () => {
     expect(done.finishedAt).not.toBeNull();
   });
 
-  it('marks a job failed with the handler’s message', async () => {
+  it('retries a throwing job, then marks it failed with the handler’s message', async () => {
     const id = await jobs.send<CountJob>('demo.count', { items: 1, explode: true }, { clubId });
     expect(await settled(id)).toMatchObject({
       state: 'failed',
-      error: 'the rulebook edition could not be read',
+      error: 'the rulebook edition could not be read (tried 2 times)',
       done: 0,
+      attempts: 2,
     });
+  });
+
+  it('brings a queue an older deployment created, and the jobs waiting in it, up to the current options', async () => {
+    // The old deployment: no retries, as the queues were once created.
+    const old = createJobs(testConfig(), createLogger('silent'), { queues: { 'demo.upgrade': { retryLimit: 0, retryDelaySeconds: 0 } } });
+    await old.start();
+    const waiting = await old.send('demo.upgrade', { n: 1 }, { clubId });
+    expect(await old.queueInfo('demo.upgrade')).toMatchObject({ retryLimit: 0 });
+    await old.stop();
+
+    const current = createJobs(testConfig(), createLogger('silent'));
+    await current.start();
+    try {
+      await current.send('demo.upgrade', { n: 2 }, { clubId });
+      expect(await current.queueInfo('demo.upgrade')).toMatchObject({ retryLimit: defaultQueueOptions.retryLimit, retryDelay: defaultQueueOptions.retryDelaySeconds });
+      const rows: { retry_limit: number }[] = await db.ds.query(`SELECT retry_limit FROM pgboss.job WHERE name = 'demo.upgrade' AND id = $1`, [waiting]);
+      expect(rows).toEqual([{ retry_limit: defaultQueueOptions.retryLimit }]);
+    } finally {
+      await current.stop();
+    }
   });
 
   it('creates a queue on first use (pg-boss 10 needs createQueue before send)', async () => {
@@ -105,11 +129,29 @@ describe('GET /api/jobs/:id', () => {
         done: 2,
         failed: 0,
         error: null,
+        attempts: 1,
         createdAt: expect.any(String),
         updatedAt: expect.any(String),
         finishedAt: expect.any(String),
       },
     });
+  });
+
+  it('lets an admin run a finally failed job again, from the API, and only a failed one', async () => {
+    exploding = true;
+    const failedId = await jobs.send<CountJob>('demo.count', { items: 3, explode: true }, { clubId });
+    expect((await settled(failedId)).state).toBe('failed');
+    const agent = agentFor(app);
+    const token = await signIn(agent, demo.admin);
+    exploding = false;
+    const res = await agent.post(`/api/jobs/${failedId}/retry`).set('X-CSRF-Token', token).expect(202);
+    expect(res.body.job).toMatchObject({ id: failedId, state: 'queued', error: null });
+    expect(await settled(failedId)).toMatchObject({ state: 'completed', done: 3, error: null, attempts: 3 });
+    // A job that did not fail cannot be run again.
+    await agent.post(`/api/jobs/${jobId}/retry`).set('X-CSRF-Token', token).expect(409);
+    const builder = agentFor(app);
+    const builderToken = await signIn(builder, demo.builder);
+    await builder.post(`/api/jobs/${failedId}/retry`).set('X-CSRF-Token', builderToken).expect(403);
   });
 
   it.each([demo.builder, demo.steward])('refuses %s (member, not admin) with 403', async (email) => {

@@ -163,8 +163,7 @@ export default async function setup(project: TestProject): Promise<() => Promise
   };
 
   try {
-    // Generous: on a loaded two-core machine tsx alone can take a minute before the server listens.
-    await waitForHealth(server, () => log, 180_000);
+    await waitForHealth(server, () => log, 60_000);
   } catch (err) {
     await teardown();
     throw err;

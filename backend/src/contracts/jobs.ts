@@ -2,7 +2,9 @@
 import { z } from 'zod';
 import { uuidSchema } from './common';
 
-export const jobStates = ['queued', 'running', 'completed', 'failed'] as const;
+// `retrying`: an attempt failed (its reason in `error`) and another is coming; `failed` is final until an
+// admin runs the job again (POST /api/jobs/:id/retry).
+export const jobStates = ['queued', 'running', 'retrying', 'completed', 'failed'] as const;
 export type JobState = (typeof jobStates)[number];
 
 export const jobParamsSchema = z.object({ id: uuidSchema });
@@ -16,6 +18,8 @@ export interface JobProgressWire {
   done: number;
   failed: number;
   error: string | null;
+  /** How many times a worker started it (a retry or a resumed run counts again). */
+  attempts: number;
   createdAt: string;
   updatedAt: string;
   finishedAt: string | null;

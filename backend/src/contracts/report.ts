@@ -25,7 +25,8 @@ export const requiredValueSchema = z.object({
   label: z.string(),
   path: z.string().optional(),
   operator: z.enum(['atLeast', 'atMost', 'above', 'below', 'equals', 'notEquals', 'oneOf', 'noneOf', 'includes', 'excludes']),
-  value: z.union([scalar, z.array(z.string()), z.object({ fact: z.string() })]),
+  /** A number, text, a list, or another fact (`times`: k × that fact, canonical; `timesDimension`: k's dimension, null for a plain factor). */
+  value: z.union([scalar, z.array(z.string()), z.object({ fact: z.string(), times: z.number().optional(), timesDimension: dimension.optional() })]),
   dimension,
 });
 

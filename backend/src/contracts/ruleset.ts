@@ -5,7 +5,7 @@
 // This file is the structural schema; `validateRulesetDocument` (domain/rules/validate.ts) adds the
 // semantic checks (facts, operators, units, duplicate ids) and reports every problem with its path.
 import { z } from 'zod';
-import { MATERIALS, MEMBER_KINDS, PLATE_LOCATIONS, PROCESSES } from '../domain/vocabulary.js';
+import { MATERIALS, MEMBER_KINDS, PLATE_LOCATIONS, PROCESSES, WALL_METHODS } from '../domain/vocabulary.js';
 
 export const RULESET_FORMAT_VERSION = 1;
 export const RULESET_LIMITS = {
@@ -36,6 +36,11 @@ export const classSchema = z.object({
   name: shortText,
   weightBasis: z.enum(['with_driver', 'without_driver']),
   description: longText.optional(),
+  /**
+   * The class's listed weight (e.g. the GCR vehicle weight), in the document's mass unit or `unit`:
+   * when given, tube-table bands and `vehicle.weightKg` use it instead of the measured weight.
+   */
+  listedWeight: z.object({ value: positive, unit: unitName.optional() }).optional(),
 });
 
 export const tubeSizeSchema = z.object({
@@ -60,6 +65,8 @@ export const tubeRowSchema = z.object({
   materials: z.array(z.enum(MATERIALS)).min(1).max(MATERIALS.length).optional(),
   /** Tube processes this row accepts; omitted = any process. */
   processes: z.array(z.enum(PROCESSES)).min(1).max(PROCESSES.length).optional(),
+  /** The row counts only for cages approved before this date (YYYY-MM-DD), e.g. a legacy size. */
+  approvedBefore: z.string().regex(/^\d{4}-\d{2}-\d{2}$/, 'A date as YYYY-MM-DD').optional(),
   alternatives: z.array(tubeAlternativeSchema).min(1, 'List at least one size').max(L.alternativesPerRow),
 });
 
@@ -70,19 +77,52 @@ export const weightBandSchema = z.object({
   rows: z.array(tubeRowSchema).min(1).max(L.rowsPerBand),
 });
 
+export const THIN_WALL_READINGS = ['smallest_listed', 'largest_listed'] as const;
+
+/** A wall tolerance for measured walls: an absolute length, or a percent of the table's wall. */
+export const wallToleranceSchema = z.union([
+  z.object({ value: nonNegative, unit: unitName.optional() }).strict(),
+  z.object({ percent: nonNegative }).strict(),
+]);
+
+export const measuredWallSchema = z
+  .object({
+    /** Only readings taken this way count (the thinnest of them). */
+    method: z.enum(WALL_METHODS),
+    /** Omitted: 0 (the reading must reach the table's wall). */
+    tolerance: wallToleranceSchema.optional(),
+  })
+  .strict();
+
 export const tubeTableSchema = z.object({
   template: z.literal('tube_table'),
+  /** Opt-in: a member also needs a measured wall, by `method`, of at least the table's wall less `tolerance`. */
+  measuredWall: measuredWallSchema.optional(),
   weightUnit: unitName.optional(),
   bands: z.array(weightBandSchema).min(1).max(L.bands),
   allowances: z
     .object({
       /** "If the OD is at least `odMargin` above the band minimum, the wall may be `minWall`." */
-      thinWallWhenOdExceedsMinimum: z.object({ odMargin: nonNegative, minWall: positive, unit: unitName.optional() }).optional(),
+      thinWallWhenOdExceedsMinimum: z
+        .object({
+          odMargin: nonNegative,
+          minWall: positive,
+          unit: unitName.optional(),
+          /**
+           * Which OD is "the minimum diameter required for the weight": the smallest OD the row lists
+           * (default, the behaviour of every document written before the option) or the largest.
+           */
+          minimumDiameter: z.enum(THIN_WALL_READINGS).optional(),
+        })
+        .optional(),
       /** Subtracted from every wall in the table (e.g. −0.010 in: write 0.010). */
       wallAllowance: z.object({ value: nonNegative, unit: unitName.optional() }).optional(),
     })
     .optional(),
 });
+
+export const MEMBER_COUNT_SIDES = ['each', 'left', 'right', 'driver', 'passenger'] as const;
+export type MemberCountSide = (typeof MEMBER_COUNT_SIDES)[number];
 
 export const requiredMembersSchema = z.object({
   template: z.literal('required_members'),
@@ -93,6 +133,11 @@ export const requiredMembersSchema = z.object({
         min: z.number().int().min(0).max(50),
         max: z.number().int().min(0).max(50).optional(),
         label: shortText.optional(),
+        /**
+         * Count per side instead of in total: "each" (left and right each need min..max), or one
+         * side: left, right, driver, passenger. Omitted: counted in total, whatever the sides.
+         */
+        side: z.enum(MEMBER_COUNT_SIDES).optional(),
       }),
     )
     .min(1)
@@ -102,13 +147,22 @@ export const requiredMembersSchema = z.object({
 export const LIMIT_OPERATORS = ['atLeast', 'atMost', 'above', 'below', 'equals', 'notEquals'] as const;
 export type LimitOperator = (typeof LIMIT_OPERATORS)[number];
 
+/**
+ * "k × another fact": `times` is k, a plain number when both facts have the same dimension, or a
+ * quantity with `unit` when the dimensions differ (area ≥ 10 in × OD: k is a length).
+ */
+export const proportionalValueSchema = z
+  .object({ times: positive, of: z.string().min(1).max(80), unit: unitName.optional() })
+  .strict();
+
 export const limitCheckSchema = z.object({
   fact: z.string().min(1).max(80),
   /** For facts with `path` (vehicle.memberCounts): the member kind. */
   path: z.string().max(40).optional(),
   params: z.record(z.string(), z.unknown()).optional(),
   operator: z.enum(LIMIT_OPERATORS),
-  value: z.union([finite, z.boolean()]),
+  /** A number in document units, true/false, a date "YYYY-MM-DD" (date facts), a grade name (grade facts), or k × another fact. */
+  value: z.union([finite, z.boolean(), z.string().trim().min(1).max(60), proportionalValueSchema]),
   unit: unitName.optional(),
   label: shortText.optional(),
 });
@@ -131,7 +185,20 @@ export const conditionsSchema = z.object({
   conditions: z.unknown(),
 });
 
-export const requiresSchema = z.discriminatedUnion('template', [tubeTableSchema, requiredMembersSchema, limitSchema, allowedValuesSchema, conditionsSchema]);
+export const MATCH_MEASURES = ['od', 'wall'] as const;
+export const MATCH_OPERATORS = ['equals', 'atLeast', 'atMost'] as const;
+
+/** Member against member: this member's OD / wall compared with every member of the kinds in `of`. */
+export const memberMatchSchema = z.object({
+  template: z.literal('member_match'),
+  of: z.array(z.enum(MEMBER_KINDS)).min(1).max(MEMBER_KINDS.length),
+  checks: z
+    .array(z.object({ measure: z.enum(MATCH_MEASURES), operator: z.enum(MATCH_OPERATORS) }))
+    .min(1)
+    .max(MATCH_MEASURES.length),
+});
+
+export const requiresSchema = z.discriminatedUnion('template', [tubeTableSchema, requiredMembersSchema, limitSchema, allowedValuesSchema, conditionsSchema, memberMatchSchema]);
 
 export const AREAS = ['tubes', 'members', 'geometry', 'mounting', 'padding', 'welding', 'material'] as const;
 
@@ -158,6 +225,11 @@ export const requirementSchema = z.object({
     .optional(),
   requires: requiresSchema,
   explanation: longText,
+  /**
+   * The rulebook accepts a cage certified by its maker (certificate or homologation number on the
+   * sheet) in place of this rule: such a cage is not checked against it, and the finding says why.
+   */
+  acceptsMakerCertificate: z.boolean().optional(),
 });
 
 export const measurementToleranceSchema = z
@@ -189,6 +261,8 @@ export type RequirementScope = z.infer<typeof scopeSchema>;
 export type Requires = z.infer<typeof requiresSchema>;
 export type TubeTable = z.infer<typeof tubeTableSchema>;
 export type LimitCheck = z.infer<typeof limitCheckSchema>;
+export type ProportionalValue = z.infer<typeof proportionalValueSchema>;
+export type MemberMatch = z.infer<typeof memberMatchSchema>;
 export type TubeSizeInDocument = z.infer<typeof tubeSizeSchema>;
 export type RequirementArea = (typeof AREAS)[number];
 

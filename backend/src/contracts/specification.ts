@@ -3,10 +3,11 @@
 // clients convert at the edges. Every measurement is optional except what makes a member a member.
 import { z } from 'zod';
 import {
-  CHASSIS_TYPES, COCKPIT_TYPES, FUELS, JOINT_KINDS, MATERIALS, MEMBER_KINDS, PADDING_STANDARDS,
-  PLATE_FIXINGS, PLATE_LOCATIONS, PROCESSES, WALL_METHODS, WELDING_PROCESSES,
+  CHASSIS_TYPES, COCKPIT_TYPES, DRIVER_SIDES, FUELS, JOINT_KINDS, MATERIALS, MEMBER_KINDS, MEMBER_KIND_LABELS, MEMBER_SIDES,
+  PADDING_STANDARDS, PLATE_FIXINGS, PLATE_LOCATIONS, PROCESSES, SIDED_MEMBER_KINDS, WALL_METHODS, WELDING_PROCESSES,
 } from '../domain/vocabulary.js';
 import { tubeSizeProblems } from '../domain/tube.js';
+import { addDays, formatIsoDate, isIsoDate, isoDateOf } from '../domain/dates.js';
 import { MODEL_LIMITS, NODE_ROLES } from '../domain/geometry/model.js';
 import { analysePath } from '../domain/geometry/member-path.js';
 
@@ -62,9 +63,6 @@ export const pathEntrySchema = z.object({
   clrMm: positive(5000).optional(),
 });
 
-export const MEMBER_SIDES = ['left', 'right', 'centre'] as const;
-export const DRIVER_SIDES = ['left', 'right'] as const;
-
 export const memberSchema = z.object({
   id,
   kind: z.enum(MEMBER_KINDS),
@@ -89,6 +87,8 @@ export const memberSchema = z.object({
     .optional(),
 }).superRefine((m, ctx) => {
   // Cross-field checks per member, so one bad member does not hide another's problems.
+  if (m.side !== undefined && !SIDED_MEMBER_KINDS.includes(m.kind))
+    ctx.addIssue({ code: 'custom', path: ['side'], message: `A ${MEMBER_KIND_LABELS[m.kind]} spans the car and has no side; leave the side empty.` });
   // Sizes outside the field bounds already failed above; add only what those bounds cannot see.
   for (const p of tubeSizeProblems(m)) if (m[p.field] > 0 && m[p.field] <= TUBE_FIELD_MAX_MM[p.field]) ctx.addIssue({ code: 'custom', path: [p.field], message: p.message });
   m.wallReadings?.forEach((r, j) => {
@@ -152,7 +152,12 @@ export const plateSchema = z.object({
   sidesMm: z.tuple([positive(2000), positive(2000)]).optional(),
   /** Measured area when the plate is not a rectangle. */
   areaMm2: positive(4_000_000).optional(),
+  /** Older sheets: one fixing for the plate; read as the plate's fixing to the body when `plateFixing` is absent. */
   fixing: z.enum(PLATE_FIXINGS).optional(),
+  /** How the plate is fixed to the body or chassis. */
+  plateFixing: z.enum(PLATE_FIXINGS).optional(),
+  /** How the hoop or brace foot is fixed to the plate. */
+  footFixing: z.enum(PLATE_FIXINGS).optional(),
   backingPlate: z.boolean().optional(),
   backingThicknessMm: positive(50).optional(),
   boltCount: z.number().int('Must be a whole number').min(0).max(50).optional(),
@@ -175,6 +180,30 @@ export const weldingSchema = z.object({
   process: z.enum(WELDING_PROCESSES).optional(),
 });
 
+const isoDate = z.string().refine(isIsoDate, 'A date as YYYY-MM-DD');
+
+/** A day of slack so a builder a timezone ahead of UTC can enter today's date. */
+export function latestAcceptedDate(now: Date = new Date()): string {
+  return addDays(isoDateOf(now), 1);
+}
+
+/** The cage's own history: approval and build dates, and a maker's certificate or homologation. */
+export const cageSchema = z.object({
+  /** When the cage (or bar) was approved by the sanctioning body: legacy allowances depend on it. */
+  approvedOn: isoDate.optional(),
+  builtOn: isoDate.optional(),
+  certificate: z.object({
+    issuer: text(120).optional(),
+    number: z.string().trim().min(1, 'Required').max(80, 'At most 80 characters'),
+  }).optional(),
+}).superRefine((c, ctx) => {
+  const latest = latestAcceptedDate();
+  if (c.approvedOn !== undefined && isIsoDate(c.approvedOn) && c.approvedOn > latest)
+    ctx.addIssue({ code: 'custom', path: ['approvedOn'], message: `An approval date cannot be in the future (${formatIsoDate(c.approvedOn)}).` });
+  if (c.builtOn !== undefined && isIsoDate(c.builtOn) && c.builtOn > latest)
+    ctx.addIssue({ code: 'custom', path: ['builtOn'], message: `A build date cannot be in the future (${formatIsoDate(c.builtOn)}).` });
+});
+
 export const specificationSchema = z
   .object({
     vehicle: vehicleSchema,
@@ -184,6 +213,7 @@ export const specificationSchema = z
     inspectionHoles: z.array(inspectionHoleSchema).max(SPEC_LIMITS.holes).optional(),
     padding: paddingSchema.optional(),
     welding: weldingSchema.optional(),
+    cage: cageSchema.optional(),
     model: modelSchema.optional(),
   })
   .superRefine((spec, ctx) => {
@@ -236,6 +266,7 @@ function modelProblems(spec: { members: z.infer<typeof memberSchema>[]; model?: 
 export type Specification = z.infer<typeof specificationSchema>;
 export type SpecMember = z.infer<typeof memberSchema>;
 export type SpecPlate = z.infer<typeof plateSchema>;
+export type SpecCage = z.infer<typeof cageSchema>;
 export type SpecModel = z.infer<typeof modelSchema>;
 export type SpecCageNode = z.infer<typeof cageNodeSchema>;
 export type SpecPathEntry = z.infer<typeof pathEntrySchema>;

@@ -9,14 +9,29 @@ import {
 } from './tube.js';
 import type { Material } from './tube.js';
 import {
-  CHASSIS_TYPES, COCKPIT_TYPES, FUELS, MATERIALS, MEMBER_KINDS, PADDING_STANDARDS, PLATE_FIXINGS,
+  CHASSIS_TYPES, COCKPIT_TYPES, DRIVER_SIDES, FUELS, MATERIALS, MEMBER_KINDS, MEMBER_SIDES, PADDING_STANDARDS, PLATE_FIXINGS,
   PLATE_LOCATIONS, PROCESSES, WELDING_PROCESSES,
 } from './vocabulary.js';
-import type { MemberKind } from './vocabulary.js';
+import type { MemberKind, WallMethod } from './vocabulary.js';
+import { findGrade } from './grades.js';
+import { isIsoDate } from './dates.js';
+import { memberShapes, memberSide } from './geometry/derive.js';
+import { SIDED_MEMBER_KINDS } from './vocabulary.js';
+import type { MemberSide } from './vocabulary.js';
+
+/** The fact that holds the thinnest wall reading of each measuring method. */
+export const WALL_METHOD_FACTS: Readonly<Record<WallMethod, string>> = {
+  ultrasonic: 'member.minUltrasonicWallMm',
+  inspection_hole: 'member.minInspectionHoleWallMm',
+  callipers: 'member.minCalliperWallMm',
+};
 
 export type FactScope = 'vehicle' | 'member' | 'plate';
-/** number: compared with a dimension; enum/text: strings; list: contains; counts: object keyed by member kind (use `path`). */
-export type FactType = 'number' | 'boolean' | 'enum' | 'text' | 'list' | 'counts';
+/**
+ * number: compared with a dimension; enum/text: strings; list: contains; counts: object keyed by
+ * member kind (use `path`); date: a calendar date "YYYY-MM-DD", compared before / after.
+ */
+export type FactType = 'number' | 'boolean' | 'enum' | 'text' | 'list' | 'counts' | 'date';
 
 export interface FactDefinition {
   name: string;
@@ -28,7 +43,7 @@ export interface FactDefinition {
   description: string;
   derived: boolean;
   /** Facts computed by the engine from params (see `params` in the docs). */
-  params?: 'kinds' | 'tableMinimumOdMm';
+  params?: 'kinds' | 'tableMinimumOdMm' | 'kindsOnSide';
 }
 
 type Def = Omit<FactDefinition, 'derived'> & { derived?: boolean };
@@ -53,11 +68,14 @@ const DEFS: Def[] = [
   { name: 'vehicle.memberCounts', scope: 'vehicle', type: 'counts', dimension: 'count', label: 'number of members of a kind', description: 'How many members of each kind the cage has; give the kind as `path` (e.g. "rear_brace").', derived: true },
   { name: 'vehicle.memberCountOfKinds', scope: 'vehicle', type: 'number', dimension: 'count', label: 'number of members of these kinds', description: 'How many members of any of the kinds in `params.kinds` the cage has.', derived: true, params: 'kinds' },
   { name: 'vehicle.memberKindsPresent', scope: 'vehicle', type: 'list', values: MEMBER_KINDS, label: 'member kinds present', description: 'The member kinds the cage has; test with contains / doesNotContain.', derived: true },
+  { name: 'vehicle.memberCountOnSide', scope: 'vehicle', type: 'number', dimension: 'count', label: 'number of members on a side', description: 'How many members of the kinds in `params.kinds` are on `params.side` (left, right, driver or passenger); unknown while any of them has no side, or for driver/passenger without the driver\'s side.', derived: true, params: 'kindsOnSide' },
+  en('vehicle.driverSide', 'vehicle', DRIVER_SIDES, "driver's side", 'Which side of the car the driver sits on.'),
   bool('vehicle.anyChromoly', 'vehicle', 'any member in 4130 chromoly', 'True when any member is 4130 chromoly; unknown when none is and some material is not stated.', true),
   num('vehicle.estimatedTubeMassKg', 'vehicle', 'mass', 'estimated tube mass of the cage', 'Sum of member masses; unknown unless every member has a length.', true),
   // Geometry
   num('geometry.rearBraceAttachBelowTopMm', 'vehicle', 'length', 'rear brace attachment below main hoop top', 'How far below the top of the main hoop the rear braces attach.'),
   num('geometry.rearBraceAngleFromVerticalDeg', 'vehicle', 'angle', 'rear brace angle from vertical', 'Angle of the rear braces from the vertical (the smaller, if they differ).'),
+  num('geometry.rearBraceIncludedAngleDeg', 'vehicle', 'angle', 'included angle between rear brace and main hoop', 'Included angle between each rear brace and the main hoop where they meet (the smaller, if they differ).'),
   num('geometry.hoopAboveHelmetMm', 'vehicle', 'length', 'main hoop top above helmet top', 'Height of the main hoop top above the helmet top in the driving position (negative: helmet higher).'),
   num('geometry.helmetBelowHoopLineMm', 'vehicle', 'length', 'helmet below the line joining the hoop tops', 'Distance of the helmet top below the line from the main hoop top to the front hoop top (negative: above it).'),
   num('geometry.hoopBehindHelmetMm', 'vehicle', 'length', 'main hoop behind the helmet', 'Horizontal distance from the back of the helmet to the main hoop.'),
@@ -69,14 +87,23 @@ const DEFS: Def[] = [
   bool('padding.nearHelmet', 'vehicle', 'padding on tubes near the helmet', 'Energy-absorbing padding is fitted on the tubes the helmet could touch.'),
   en('padding.standard', 'vehicle', PADDING_STANDARDS, 'padding standard', 'Standard the padding is made to.'),
   en('welding.process', 'vehicle', WELDING_PROCESSES, 'welding process', 'Process used for the cage welds.'),
+  { name: 'cage.approvedOn', scope: 'vehicle', type: 'date', label: 'cage approval date', description: 'When the cage was approved by the sanctioning body (YYYY-MM-DD).', derived: false },
+  { name: 'cage.builtOn', scope: 'vehicle', type: 'date', label: 'cage build date', description: 'When the cage was built (YYYY-MM-DD).', derived: false },
+  bool('cage.hasMakerCertificate', 'vehicle', "maker's certificate on the sheet", "True when the sheet gives a maker's certificate or homologation number; false when it gives none.", true),
   // Member
   en('member.kind', 'member', MEMBER_KINDS, 'member kind', 'Kind of the member.'),
+  en('member.side', 'member', MEMBER_SIDES, 'side of the car', 'left, right or centre; hoops and bars that span the car have none.'),
   num('member.odMm', 'member', 'length', 'outside diameter', 'Nominal outside diameter.'),
   num('member.wallMm', 'member', 'length', 'wall thickness', 'Nominal wall thickness.'),
   num('member.minMeasuredWallMm', 'member', 'length', 'thinnest measured wall', 'The thinnest wall reading (ultrasonic or at an inspection hole); unknown without readings.', true),
+  num('member.minUltrasonicWallMm', 'member', 'length', 'thinnest ultrasonic wall reading', 'The thinnest wall reading taken with an ultrasonic (sonic) gauge; unknown without one.', true),
+  num('member.minInspectionHoleWallMm', 'member', 'length', 'thinnest wall reading at an inspection hole', 'The thinnest wall reading taken at an inspection hole; unknown without one.', true),
+  num('member.minCalliperWallMm', 'member', 'length', 'thinnest wall reading by callipers', 'The thinnest wall reading taken with callipers at a tube end; unknown without one.', true),
   num('member.wallReadingCount', 'member', 'count', 'number of wall readings', 'How many wall readings were taken.', true),
   en('member.material', 'member', MATERIALS, 'material', 'mild_steel, chromoly_4130 or other.'),
   { name: 'member.grade', scope: 'member', type: 'text', label: 'material grade', description: 'Grade as written (e.g. "1020", "AS 1163 C350").', derived: false },
+  num('member.gradeMinYieldMpa', 'member', 'stress', 'minimum yield of the material grade', 'The minimum yield strength of `member.grade` in the grade vocabulary (docs: ordered grades); unknown for a grade not in it.', true),
+  num('member.gradeMinTensileMpa', 'member', 'stress', 'minimum tensile strength of the material grade', 'The minimum tensile strength of `member.grade` in the grade vocabulary; unknown for a grade not in it.', true),
   en('member.process', 'member', PROCESSES, 'tube process', 'dom, erw, seamless, cds or other.'),
   num('member.yieldMpa', 'member', 'stress', 'yield strength', 'Minimum yield strength from the mill certificate or standard.'),
   num('member.lengthMm', 'member', 'length', 'member length', 'Length of tube in the member.'),
@@ -105,12 +132,16 @@ const DEFS: Def[] = [
   num('plate.areaMm2', 'plate', 'area', 'plate area', 'Plate area (measured, or side × side).', true),
   num('plate.leastSideMm', 'plate', 'length', 'shortest plate side', 'Shorter side of the plate.', true),
   num('plate.longestSideMm', 'plate', 'length', 'longest plate side', 'Longer side of the plate.', true),
-  en('plate.fixing', 'plate', PLATE_FIXINGS, 'plate fixing', 'welded or bolted.'),
+  en('plate.fixing', 'plate', PLATE_FIXINGS, 'plate fixing', 'welded or bolted: as older sheets give it, else the plate\'s fixing to the body.'),
+  en('plate.plateFixing', 'plate', PLATE_FIXINGS, 'plate fixing to the body', 'How the plate is fixed to the body or chassis: welded or bolted through.'),
+  en('plate.footFixing', 'plate', PLATE_FIXINGS, 'foot fixing to the plate', 'How the hoop or brace foot is fixed to the plate: welded or bolted.'),
   bool('plate.backingPlate', 'plate', 'backing plate fitted', 'A backing plate sits on the other side of the panel.'),
   num('plate.backingThicknessMm', 'plate', 'length', 'backing plate thickness', 'Thickness of the backing plate.'),
-  num('plate.boltCount', 'plate', 'count', 'number of bolts', 'Bolts through the plate.'),
+  num('plate.boltCount', 'plate', 'count', 'number of bolts', 'Bolts fixing the foot to the plate, or the plate through the body.'),
   num('plate.boltDiameterMm', 'plate', 'length', 'bolt diameter', 'Nominal bolt diameter.'),
   { name: 'plate.boltGrade', scope: 'plate', type: 'text', label: 'bolt grade', description: 'Bolt grade as written (e.g. "8.8", "Grade 8").', derived: false },
+  num('plate.boltGradeMinYieldMpa', 'plate', 'stress', 'minimum yield of the bolt grade', 'The minimum yield strength of `plate.boltGrade` in the bolt grade vocabulary; unknown for a grade not in it.', true),
+  num('plate.boltGradeMinTensileMpa', 'plate', 'stress', 'minimum tensile strength of the bolt grade', 'The minimum tensile strength of `plate.boltGrade` in the bolt grade vocabulary; unknown for a grade not in it.', true),
   num('plate.attachedWallMm', 'plate', 'length', 'wall of the attached member', 'Wall thickness of the member the plate carries (needs memberId).', true),
   num('plate.attachedOdMm', 'plate', 'length', 'OD of the attached member', 'Outside diameter of the member the plate carries (needs memberId).', true),
 ];
@@ -128,6 +159,33 @@ export type FactSet = Record<string, FactValue | undefined>;
 
 export interface ClassBasis {
   weightBasis: 'with_driver' | 'without_driver';
+  /** The class's listed weight (canonical kg): when set, it is the class's weight instead of the measured one. */
+  listedWeightKg?: number;
+}
+
+/** Internal fact (not in the catalogue): members per kind and side, keyed "kind:side" (side or "unstated"). */
+export const SIDE_COUNTS_FACT = 'vehicle.memberSideCounts';
+
+export type SideParam = 'left' | 'right' | 'driver' | 'passenger';
+export const SIDE_PARAMS: readonly SideParam[] = ['left', 'right', 'driver', 'passenger'];
+
+/**
+ * How many members of `kinds` are on `side`, or the facts that must be given first: a member of
+ * those kinds without a side, or the driver's side for "driver" / "passenger".
+ */
+export function countOnSide(facts: FactSet, kinds: readonly string[], side: SideParam): { count: number } | { absent: string[] } {
+  const counts = facts[SIDE_COUNTS_FACT] as Readonly<Record<string, number>> | undefined;
+  const absent: string[] = [];
+  let actual: 'left' | 'right' | undefined;
+  if (side === 'left' || side === 'right') actual = side;
+  else {
+    const driver = facts['vehicle.driverSide'];
+    if (driver === 'left' || driver === 'right') actual = side === 'driver' ? driver : driver === 'left' ? 'right' : 'left';
+    else absent.push('vehicle.driverSide');
+  }
+  if (kinds.some((k) => (counts?.[`${k}:unstated`] ?? 0) > 0)) absent.push('member.side');
+  if (absent.length > 0 || actual === undefined) return { absent };
+  return { count: kinds.reduce((s, k) => s + (counts?.[`${k}:${actual}`] ?? 0), 0) };
 }
 
 const minOf = (xs: number[]): number | undefined => (xs.length === 0 ? undefined : Math.min(...xs));
@@ -174,8 +232,15 @@ export function vehicleFacts(spec: Specification, cls: ClassBasis, tubes: readon
   const anyChromoly = materials.includes('chromoly_4130') ? true : materials.includes(undefined) ? undefined : false;
   const masses = tubes.map((t) => t.massKg);
   const estimated = masses.length > 0 && masses.every((x) => x !== null) ? masses.reduce<number>((s, x) => s + (x ?? 0), 0) : undefined;
+  const sideCounts: Record<string, number> = {};
+  const sides = memberSides(spec);
+  for (const [i, m] of spec.members.entries()) {
+    const key = `${m.kind}:${sides[i] ?? 'unstated'}`;
+    sideCounts[key] = (sideCounts[key] ?? 0) + 1;
+  }
+  const measuredWeight = cls.weightBasis === 'with_driver' ? v.weightWithDriverKg : v.weightWithoutDriverKg;
   return {
-    'vehicle.weightKg': cls.weightBasis === 'with_driver' ? v.weightWithDriverKg : v.weightWithoutDriverKg,
+    'vehicle.weightKg': cls.listedWeightKg ?? measuredWeight,
     'vehicle.weightWithDriverKg': v.weightWithDriverKg,
     'vehicle.weightWithoutDriverKg': v.weightWithoutDriverKg,
     'vehicle.chassis': v.chassis,
@@ -183,10 +248,13 @@ export function vehicleFacts(spec: Specification, cls: ClassBasis, tubes: readon
     'vehicle.fuel': v.fuel,
     'vehicle.memberCounts': counts,
     'vehicle.memberKindsPresent': MEMBER_KINDS.filter((k) => counts[k] > 0),
+    [SIDE_COUNTS_FACT]: sideCounts,
+    'vehicle.driverSide': v.driverSide,
     'vehicle.anyChromoly': anyChromoly,
     'vehicle.estimatedTubeMassKg': estimated,
     'geometry.rearBraceAttachBelowTopMm': g.rearBraceAttachBelowTopMm,
     'geometry.rearBraceAngleFromVerticalDeg': g.rearBraceAngleFromVerticalDeg,
+    'geometry.rearBraceIncludedAngleDeg': g.rearBraceIncludedAngleDeg,
     'geometry.hoopAboveHelmetMm': g.hoopAboveHelmetMm,
     'geometry.helmetBelowHoopLineMm': g.helmetBelowHoopLineMm,
     'geometry.hoopBehindHelmetMm': g.hoopBehindHelmetMm,
@@ -198,12 +266,31 @@ export function vehicleFacts(spec: Specification, cls: ClassBasis, tubes: readon
     'padding.nearHelmet': spec.padding?.nearHelmet,
     'padding.standard': spec.padding?.standard,
     'welding.process': spec.welding?.process,
+    'cage.approvedOn': spec.cage?.approvedOn,
+    'cage.builtOn': spec.cage?.builtOn,
+    'cage.hasMakerCertificate': spec.cage?.certificate?.number !== undefined,
   };
 }
 
+/**
+ * Each member's side: as typed on the sheet, else derived from its path in the cage model (y > 0 is
+ * the car's left). Kinds that span the car never get one.
+ */
+export function memberSides(spec: Specification): (MemberSide | undefined)[] {
+  const sides: (MemberSide | undefined)[] = spec.members.map((m) => (SIDED_MEMBER_KINDS.includes(m.kind) ? m.side : undefined));
+  if (spec.model && spec.members.some((m, i) => m.path && sides[i] === undefined && SIDED_MEMBER_KINDS.includes(m.kind))) {
+    for (const shape of memberShapes(spec)) {
+      if (sides[shape.index] === undefined && SIDED_MEMBER_KINDS.includes(shape.kind)) sides[shape.index] = memberSide(shape.geometry.points);
+    }
+  }
+  return sides;
+}
+
 /** Member-scope facts of one member (vehicle facts are merged in by the evaluator). */
-export function memberFacts(spec: Specification, m: SpecMember, tube: MemberTubeData): FactSet {
+export function memberFacts(spec: Specification, m: SpecMember, tube: MemberTubeData, side: MemberSide | undefined = m.side): FactSet {
   const readings = (m.wallReadings ?? []).map((r) => r.wallMm);
+  const byMethod = (method: WallMethod) => minOf((m.wallReadings ?? []).filter((r) => r.method === method).map((r) => r.wallMm));
+  const grade = findGrade('material', m.grade);
   const bends = m.bends;
   const clrs = (bends ?? []).map((b) => b.clrMm);
   const ovals = (bends ?? []).flatMap((b) => (b.minOdMm !== undefined && b.maxOdMm !== undefined ? [ovalityRatio(b.minOdMm, b.maxOdMm)] : []));
@@ -213,12 +300,18 @@ export function memberFacts(spec: Specification, m: SpecMember, tube: MemberTube
   const minClr = minOf(clrs);
   return {
     'member.kind': m.kind,
+    'member.side': side,
     'member.odMm': m.odMm,
     'member.wallMm': m.wallMm,
     'member.minMeasuredWallMm': minOf(readings),
+    'member.minUltrasonicWallMm': byMethod('ultrasonic'),
+    'member.minInspectionHoleWallMm': byMethod('inspection_hole'),
+    'member.minCalliperWallMm': byMethod('callipers'),
     'member.wallReadingCount': readings.length,
     'member.material': m.material,
     'member.grade': m.grade,
+    'member.gradeMinYieldMpa': grade?.minYieldMpa,
+    'member.gradeMinTensileMpa': grade?.minTensileMpa,
     'member.process': m.process,
     'member.yieldMpa': m.yieldMpa,
     'member.lengthMm': m.lengthMm,
@@ -247,26 +340,50 @@ export function memberFacts(spec: Specification, m: SpecMember, tube: MemberTube
 export function plateFacts(spec: Specification, p: SpecPlate): FactSet {
   const attached = p.memberId === undefined ? undefined : spec.members.find((m) => m.id === p.memberId);
   const shape = p.sidesMm ? { sidesMm: p.sidesMm, areaMm2: p.areaMm2 } : undefined;
+  const boltGrade = findGrade('bolt', p.boltGrade);
   return {
     'plate.location': p.location,
     'plate.thicknessMm': p.thicknessMm,
     'plate.areaMm2': shape ? plateArea(shape) : p.areaMm2,
     'plate.leastSideMm': shape ? plateLeastSide(shape) : undefined,
     'plate.longestSideMm': shape ? plateLongestSide(shape) : undefined,
-    'plate.fixing': p.fixing,
+    // Older sheets gave one fixing; newer ones give two facts, and rulebooks that read the one
+    // fixing (welded or bolted plates) mean the plate's fixing to the body.
+    'plate.fixing': p.fixing ?? p.plateFixing,
+    'plate.plateFixing': p.plateFixing ?? p.fixing,
+    'plate.footFixing': p.footFixing,
     'plate.backingPlate': p.backingPlate,
     'plate.backingThicknessMm': p.backingThicknessMm,
     'plate.boltCount': p.boltCount,
     'plate.boltDiameterMm': p.boltDiameterMm,
     'plate.boltGrade': p.boltGrade,
+    'plate.boltGradeMinYieldMpa': boltGrade?.minYieldMpa,
+    'plate.boltGradeMinTensileMpa': boltGrade?.minTensileMpa,
     'plate.attachedWallMm': attached?.wallMm,
     'plate.attachedOdMm': attached?.odMm,
   };
 }
 
+/**
+ * The facts a comparison still needs before it can be decided: empty when `name` has a value in
+ * this run. Dynamic facts depend on their params (a per-side count needs every member's side).
+ */
+export function absentFacts(facts: FactSet, name: string, params?: unknown): string[] {
+  if (name === 'vehicle.memberCountOfKinds') return [];
+  if (name === 'member.odMarginOverTableMinimumMm') return facts['member.odMm'] !== undefined ? [] : [name];
+  if (name === 'vehicle.memberCountOnSide') {
+    const p = (params ?? {}) as { kinds?: unknown; side?: unknown };
+    const kinds = Array.isArray(p.kinds) ? (p.kinds as string[]) : [];
+    const r = countOnSide(facts, kinds, (p.side as SideParam) ?? 'left');
+    return 'absent' in r ? r.absent : [];
+  }
+  const v = facts[name];
+  if (v === undefined) return [name];
+  if (FACTS_BY_NAME.get(name)?.type === 'date' && !isIsoDate(v)) return [name];
+  return [];
+}
+
 /** Whether a fact has a value in a run (dynamic facts depend on facts that are always present). */
-export function factPresent(facts: FactSet, name: string): boolean {
-  if (name === 'vehicle.memberCountOfKinds') return true;
-  if (name === 'member.odMarginOverTableMinimumMm') return facts['member.odMm'] !== undefined;
-  return facts[name] !== undefined;
+export function factPresent(facts: FactSet, name: string, params?: unknown): boolean {
+  return absentFacts(facts, name, params).length === 0;
 }

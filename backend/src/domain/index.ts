@@ -4,6 +4,7 @@ export * from './typed-number.js';
 export * from './field-ranges.js';
 export * from './tube.js';
 export * from './vocabulary.js';
+export * from './dates.js';
 export * from './facts.js';
 export { compileRuleset, RulesetInvalidError } from './rules/compile.js';
 export { validateRulesetDocument } from './rules/validate.js';

@@ -6,9 +6,11 @@
 // choice); it exists because an engine run per stock size would be far too slow for hundreds of sizes.
 // Pure: canonical units in and out (mm, kg/m).
 import type { Specification, SpecMember } from '../contracts/specification.js';
-import { memberFacts, memberTubeData, plateFacts, vehicleFacts } from './facts.js';
+import { WALL_METHOD_FACTS, memberFacts, memberTubeData, plateFacts, vehicleFacts } from './facts.js';
 import type { FactSet } from './facts.js';
-import { chooseVariant } from './rules/evaluate.js';
+import { chooseVariant, peerNamesOf } from './rules/evaluate.js';
+import { peerFacts } from './rules/references.js';
+import { findGrade } from './grades.js';
 import { evaluatePlain } from './rules/plain.js';
 import type { PlainNode } from './rules/plain.js';
 import type { AlternativeMeta, CompiledRequirement, CompiledRuleset, CompiledVariant } from './rules/types.js';
@@ -48,6 +50,8 @@ export interface ListedSize {
   odOrLarger: boolean;
   materials?: readonly string[];
   processes?: readonly string[];
+  /** A legacy size: only for cages approved before this date. */
+  approvedBefore?: string;
   /** Of the printed size, steel density (F-ENG-1, F-ENG-6). */
   massPerMetreKg: number;
 }
@@ -59,6 +63,8 @@ export interface BandQuery {
   weightKg?: number;
   material?: Material;
   process?: Process;
+  /** The cage's approval date (YYYY-MM-DD): legacy rows count only for cages approved before theirs. */
+  approvedOn?: string;
 }
 
 export type ListedSizes =
@@ -96,7 +102,8 @@ export function listedSizesForBand(compiled: CompiledRuleset, query: BandQuery):
   if (tables.length === 0) return { status: 'no_table', requirementIds: [] };
   const chosen: { req: CompiledRequirement; variant: CompiledVariant }[] = [];
   for (const req of tables) {
-    const c = chooseVariant(req, query.weightKg);
+    // A class with a listed weight bands on it, whatever the car weighs.
+    const c = chooseVariant(req, compiled.listedWeightsKg[query.classId] ?? query.weightKg);
     if ('missingWeight' in c) return { status: 'needs_weight', requirementIds: ids };
     if ('outsideTable' in c) return { status: 'outside_table', requirementIds: ids };
     chosen.push({ req, variant: c.variant });
@@ -107,14 +114,17 @@ export function listedSizesForBand(compiled: CompiledRuleset, query: BandQuery):
       const meta = alt.name ? req.alternatives[alt.name] : undefined;
       if (!meta) continue;
       if (!restrictionFits(meta.materials, query.material) || !restrictionFits(meta.processes, query.process)) continue;
+      // A legacy row is a size only for a cage known to be approved before its date.
+      if (meta.approvedBefore && !(query.approvedOn !== undefined && query.approvedOn < meta.approvedBefore)) continue;
       const size: ListedSize = {
         requirementId: req.id, ...(variant.bandLabel ? { bandLabel: variant.bandLabel } : {}), label: meta.label,
         odMm: meta.odMm, wallMm: meta.wallMm, minWallMm: meta.requiredWallMm, source: meta.source, odOrLarger: meta.source === 'allowance',
         ...(meta.materials ? { materials: meta.materials } : {}), ...(meta.processes ? { processes: meta.processes } : {}),
+        ...(meta.approvedBefore ? { approvedBefore: meta.approvedBefore } : {}),
         massPerMetreKg: tubeSectionProperties({ odMm: meta.odMm, wallMm: meta.wallMm }, query.material ?? 'mild_steel').massPerMetreKg,
       };
       const others = chosen.filter((c) => c.req !== req);
-      const facts: FactSet = { 'member.odMm': size.odMm, 'member.wallMm': size.wallMm, 'member.material': query.material, 'member.process': query.process };
+      const facts: FactSet = { 'member.odMm': size.odMm, 'member.wallMm': size.wallMm, 'member.material': query.material, 'member.process': query.process, 'cage.approvedOn': query.approvedOn };
       // Unknown here only means "material or process not given": keep the size, its row says which.
       if (others.every((o) => evaluatePlain(partsOf(o.variant).requires, facts, new Set()) !== false)) sizes.push(size);
     }
@@ -136,6 +146,8 @@ export const TUBE_DEPENDENT_FACTS: ReadonlySet<string> = new Set([
   'member.massKg', 'member.areaMm2', 'member.secondMomentMm4', 'member.sectionModulusMm3', 'member.radiusOfGyrationMm',
   'member.torsionalConstantMm4', 'member.massPerMetreKg', 'member.odMarginOverTableMinimumMm', 'member.minBendRadiusOverOd',
   'vehicle.anyChromoly', 'vehicle.estimatedTubeMassKg', 'plate.attachedWallMm', 'plate.attachedOdMm',
+  'member.minUltrasonicWallMm', 'member.minInspectionHoleWallMm', 'member.minCalliperWallMm',
+  'member.gradeMinYieldMpa', 'member.gradeMinTensileMpa',
 ]);
 
 export type CandidateStatus = 'legal' | 'fails' | 'undecided';
@@ -185,6 +197,8 @@ function prepare(compiled: CompiledRuleset, classId: string, spec: Specification
   const member = spec.members[index];
   const tubes = spec.members.map((m, i) => memberTubeData(m, i));
   const vfacts = vehicleFacts(spec, cls, tubes);
+  // Other members' sizes (member against member); a member is never compared with its own kind.
+  Object.assign(vfacts, peerFacts(spec, peerNamesOf(compiled)));
   const reqs = compiled.requirements.filter((r) => applies(r, classId) && dependsOnTube(r));
   const memberReqs = reqs.filter((r) => r.scope.kind === 'member' && r.scope.memberKinds.includes(member.kind));
   const vehicleReqs = reqs.filter((r) => r.scope.kind === 'vehicle');
@@ -292,6 +306,11 @@ function judge(p: Prepared, tube: StockTube): RankedCandidate {
   mf['member.odMm'] = tube.odMm;
   mf['member.wallMm'] = tube.wallMm;
   mf['member.minMeasuredWallMm'] = (p.member.wallReadings?.length ?? 0) > 0 ? tube.wallMm : undefined;
+  for (const [method, fact] of Object.entries(WALL_METHOD_FACTS))
+    mf[fact] = p.member.wallReadings?.some((r) => r.method === method) ? tube.wallMm : undefined;
+  const grade = findGrade('material', tube.grade);
+  mf['member.gradeMinYieldMpa'] = grade?.minYieldMpa;
+  mf['member.gradeMinTensileMpa'] = grade?.minTensileMpa;
   mf['member.material'] = tube.material;
   mf['member.grade'] = tube.grade;
   mf['member.process'] = tube.process;

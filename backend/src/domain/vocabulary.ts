@@ -31,6 +31,19 @@ export const PLATE_FIXINGS = ['welded', 'bolted'] as const;
 export const PLATE_LOCATIONS = ['main_hoop_foot', 'front_hoop_foot', 'rear_brace_foot', 'lateral_hoop_foot', 'other'] as const;
 export const WELDING_PROCESSES = ['tig', 'mig', 'stick', 'gas', 'other'] as const;
 export const PADDING_STANDARDS = ['sfi_45_1', 'fia_8857_2001', 'non_homologated', 'none'] as const;
-export const WALL_METHODS = ['ultrasonic', 'inspection_hole'] as const;
+export const WALL_METHODS = ['ultrasonic', 'inspection_hole', 'callipers'] as const;
+export type WallMethod = (typeof WALL_METHODS)[number];
 
 export type PlateLocation = (typeof PLATE_LOCATIONS)[number];
+
+/** Which side of the car a member is on (y > 0 is the car's left in the cage frame). */
+export const MEMBER_SIDES = ['left', 'right', 'centre'] as const;
+export type MemberSide = (typeof MEMBER_SIDES)[number];
+export const DRIVER_SIDES = ['left', 'right'] as const;
+export type DriverSide = (typeof DRIVER_SIDES)[number];
+/**
+ * Member kinds that can sit on one side of the car. Hoops, the harness bar and the dash bar span
+ * the car from side to side, so a side on them is a mistake on the sheet, not a fact.
+ */
+export const SIDED_MEMBER_KINDS: readonly MemberKind[] = ['lateral_hoop', 'rear_brace', 'door_bar', 'diagonal', 'roof_bar', 'a_pillar', 'gusset', 'other'];
+export const MEMBER_SIDE_LABELS: Readonly<Record<MemberSide, string>> = { left: 'left', right: 'right', centre: 'centre' };

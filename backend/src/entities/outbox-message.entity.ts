@@ -1,6 +1,6 @@
 // One e-mail waiting to go out, or gone. Services insert rows inside their own transaction (so a decision
 // and the mail announcing it commit together); the dispatcher (services/mail/dispatcher.ts) sends them.
-import { Check, Column, CreateDateColumn, Entity, Index, PrimaryGeneratedColumn } from 'typeorm';
+import { Check, Column, CreateDateColumn, Entity, Index, PrimaryGeneratedColumn, Unique } from 'typeorm';
 
 export const outboxStatuses = ['pending', 'sending', 'sent', 'failed_permanently'] as const;
 export type OutboxStatus = (typeof outboxStatuses)[number];
@@ -8,6 +8,7 @@ export type OutboxStatus = (typeof outboxStatuses)[number];
 @Entity({ name: 'outbox_messages' })
 @Check('CHK_outbox_messages_status', `"status" IN ('pending', 'sending', 'sent', 'failed_permanently')`)
 @Index('IDX_outbox_messages_due', ['status', 'nextAttemptAt'])
+@Unique('UQ_outbox_messages_idempotency_key', ['idempotencyKey'])
 export class OutboxMessage {
   @PrimaryGeneratedColumn('uuid')
   id!: string;
@@ -50,4 +51,8 @@ export class OutboxMessage {
 
   @Column({ name: 'sent_at', type: 'timestamptz', nullable: true })
   sentAt!: Date | null;
+
+  /** Set by callers that may enqueue the same mail again (a retried job): one row per key, ever. */
+  @Column({ name: 'idempotency_key', type: 'varchar', length: 200, nullable: true })
+  idempotencyKey!: string | null;
 }

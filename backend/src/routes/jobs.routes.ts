@@ -3,9 +3,10 @@ import { Router } from 'express';
 import { jobParamsSchema } from '../contracts/jobs';
 import { requireSignedIn, signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
+import type { JobControl } from '../services/jobs';
 import { mountRoutes, route } from './route-table';
 
-export function createJobsRouter({ services }: { services: Services }): Router {
+export function createJobsRouter({ services, control }: { services: Services; control: JobControl | null }): Router {
   return mountRoutes(Router(), [
     route({
       method: 'get',
@@ -15,6 +16,15 @@ export function createJobsRouter({ services }: { services: Services }): Router {
       handler: async ({ req, res, params }) => {
         res.set('Cache-Control', 'no-store');
         res.json({ job: await services.jobProgress.forAdmin(signedInUserId(req), params.id) });
+      },
+    }),
+    route({
+      method: 'post',
+      path: '/jobs/:id/retry',
+      guards: [requireSignedIn],
+      params: jobParamsSchema,
+      handler: async ({ req, res, params }) => {
+        res.status(202).json({ job: await services.jobProgress.retryForAdmin(signedInUserId(req), params.id, control) });
       },
     }),
   ]);

@@ -17,6 +17,7 @@ import { createReviewReader, type ReviewReader } from './review-detail';
 import { createCageRecordService, type CageRecordService } from './cage-records.service';
 import { createVerificationService, type VerificationService } from './verification.service';
 import { createRulebookAdminService, type RulebookAdminService } from './rulebook-admin.service';
+import { createFabricationService, type FabricationService } from './fabrication.service';
 
 export interface Services {
   accounts: AccountService;
@@ -36,6 +37,7 @@ export interface Services {
   cageRecords: CageRecordService;
   verification: VerificationService;
   rulebookAdmin: RulebookAdminService;
+  fabrication: FabricationService;
 }
 
 export function createServices(
@@ -70,5 +72,6 @@ export function createServices(
     cageRecords,
     verification: createVerificationService(ds),
     rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit }),
+    fabrication: createFabricationService(),
   };
 }

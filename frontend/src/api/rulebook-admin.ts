@@ -54,3 +54,8 @@ export function exportUrl(versionId: string): string {
 export async function jobProgress(jobId: string): Promise<JobProgressWire> {
   return (await http.get<{ job: JobProgressWire }>(`/jobs/${enc(jobId)}`)).job;
 }
+
+/** Runs a job that finally failed again; it resumes from what it stored. */
+export async function retryJob(jobId: string): Promise<JobProgressWire> {
+  return (await http.post<{ job: JobProgressWire }>(`/jobs/${enc(jobId)}/retry`)).job;
+}

@@ -1,7 +1,7 @@
 // The draft's impact on the club's build sheets, publishing it, and following the re-check job's
 // progress until it is done (polled once a second; polling stops when the page goes).
 import { onBeforeUnmount, ref, type Ref } from 'vue';
-import { draftImpact, jobProgress, publishDraft, type ImpactWire, type JobProgressWire } from '@/api/rulebook-admin';
+import { draftImpact, jobProgress, publishDraft, retryJob, type ImpactWire, type JobProgressWire } from '@/api/rulebook-admin';
 import { errorMessage } from '@/api/errors';
 
 export function useRulebookPublish(versionId: Ref<string>, lockVersion: Ref<number>, options: { pollMs?: number } = {}) {
@@ -34,7 +34,24 @@ export function useRulebookPublish(versionId: Ref<string>, lockVersion: Ref<numb
       publishError.value = `The re-check's progress cannot be read: ${errorMessage(err)}`;
       return;
     }
-    if (job.value.state === 'queued' || job.value.state === 'running') timer = setTimeout(() => void poll(jobId), options.pollMs ?? 1000);
+    if (job.value.state !== 'completed' && job.value.state !== 'failed') timer = setTimeout(() => void poll(jobId), options.pollMs ?? 1000);
+  }
+
+  const rerunning = ref(false);
+  /** Runs the re-check again after it finally failed; it continues from the sheets already done. */
+  async function rerun(): Promise<void> {
+    const current = job.value;
+    if (!current || current.state !== 'failed') return;
+    rerunning.value = true;
+    publishError.value = null;
+    try {
+      job.value = await retryJob(current.id);
+      await poll(current.id);
+    } catch (err) {
+      publishError.value = `The re-check could not be started again: ${errorMessage(err)}`;
+    } finally {
+      rerunning.value = false;
+    }
   }
 
   async function publish(effectiveDate: string): Promise<boolean> {
@@ -57,5 +74,5 @@ export function useRulebookPublish(versionId: Ref<string>, lockVersion: Ref<numb
     if (timer) clearTimeout(timer);
   });
 
-  return { impact, impactLoading, impactError, loadImpact, publishing, publishError, publish, job, published };
+  return { impact, impactLoading, impactError, loadImpact, publishing, publishError, publish, job, published, rerun, rerunning };
 }

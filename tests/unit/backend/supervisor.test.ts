@@ -1,7 +1,7 @@
 // The supervisor `npm start` runs (backend/src/supervisor.ts): a server that exits unexpectedly is
 // started again and the log says so; a stop signal reaches the server and ends both; a server that
 // refuses its configuration (exit 78) is not restarted.
-import { mkdtempSync, readFileSync } from 'node:fs';
+import { existsSync, mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -21,6 +21,7 @@ const n = (fs.existsSync(file) ? Number(fs.readFileSync(file, 'utf8')) : 0) + 1;
 fs.writeFileSync(file, String(n));
 if (n <= 2) process.exit(3);
 process.on('SIGTERM', () => { fs.writeFileSync(file + '.stopped', 'yes'); process.exit(0); });
+fs.writeFileSync(file + '.ready', 'yes');
 setInterval(() => {}, 1000);
 `;
 
@@ -30,12 +31,13 @@ describe('supervisor', () => {
     const counter = join(dir, 'starts');
     const { lines, logger } = captured();
     const sup = supervise({ command: process.execPath, args: ['-e', script, counter], logger, initialDelayMs: 50, maxDelayMs: 200 });
-    const deadline = Date.now() + 10_000;
-    while (sup.restarts < 2 || !sup.pid) {
-      if (Date.now() > deadline) throw new Error('no second restart');
+    // The third run is up once it has installed its SIGTERM handler (the machine may be slow).
+    const deadline = Date.now() + 20_000;
+    while (!existsSync(`${counter}.ready`)) {
+      if (Date.now() > deadline) throw new Error('no third run');
       await new Promise((r) => setTimeout(r, 20));
     }
-    await new Promise((r) => setTimeout(r, 300));
+    expect(sup.restarts).toBe(2);
     expect(readFileSync(counter, 'utf8')).toBe('3');
     const unexpected = lines.filter((l) => l.msg === 'supervisor: server exited unexpectedly, restarting');
     expect(unexpected).toHaveLength(2);

@@ -3,6 +3,9 @@
 // document rewritten in other units reads as unchanged where the rule is unchanged.
 import type { LimitCheck, Requires, TubeTable } from '../../contracts/ruleset.js';
 import { FACTS_BY_NAME } from '../facts.js';
+import { findGrade } from '../grades.js';
+import { GRADE_FACTS } from '../rules/limit-values.js';
+import { formatIsoDate } from '../dates.js';
 import { TEMPLATE_KINDS, TEMPLATE_NAMES } from '../rules/template-kinds.js';
 import type { TemplateName, TemplateOf } from '../rules/template-kinds.js';
 import {
@@ -42,6 +45,7 @@ const DIFFERS: { readonly [K in TemplateName]: Differ<K> } = {
   required_members: (a, _sa, b, _sb, emit) => requiredMembers(a, b, emit),
   limit: (a, sa, b, sb, emit) => limits(a.checks, sa, b.checks, sb, emit),
   allowed_values: (a, _sa, b, _sb, emit) => allowedValues(a, b, emit),
+  member_match: (a, _sa, b, _sb, emit) => memberMatch(a, b, emit),
   conditions: (a, _sa, b, _sb, emit) => {
     const paths = changedJsonPaths(a.conditions, b.conditions);
     if (paths.length > 0) emit('changed', `conditions changed (${pathsText(paths)})`, { paths });
@@ -78,13 +82,14 @@ function bandName(bands: readonly Band[], i: number, side: Side, unit?: string):
 }
 
 const rowKey = (r: Row): string =>
-  `${[...(r.materials ?? [])].sort().join('+')}|${[...(r.processes ?? [])].sort().join('+')}`;
+  `${[...(r.materials ?? [])].sort().join('+')}|${[...(r.processes ?? [])].sort().join('+')}|${r.approvedBefore ?? ''}`;
 
 function rowName(r: Row): string {
   const materials = r.materials
     ? r.materials.map((m) => (m === 'other' ? 'other material' : valueWord(m))).join(' or ')
     : 'any material';
-  return r.processes ? `${materials} (${r.processes.map(valueWord).join(', ')})` : materials;
+  const named = r.processes ? `${materials} (${r.processes.map(valueWord).join(', ')})` : materials;
+  return r.approvedBefore ? `${named}, cages approved before ${formatIsoDate(r.approvedBefore)}` : named;
 }
 
 const sizesText = (r: Row, side: Side): string => r.alternatives.map((s) => sizeText(s, side)).join(', ');
@@ -192,6 +197,33 @@ function sameOd(a: SizeDoc, sa: Side, b: SizeDoc, sb: Side): boolean {
   return sameNumber(canonical(a.od, 'length', sa, a.unit), canonical(b.od, 'length', sb, b.unit));
 }
 
+const THIN_WALL_WORDS = { smallest_listed: 'smallest listed OD', largest_listed: 'largest listed OD' } as const;
+const METHOD_WORDS = { ultrasonic: 'ultrasonic gauge', inspection_hole: 'inspection hole', callipers: 'callipers' } as const;
+
+function measuredWallText(m: NonNullable<TubeTable['measuredWall']>, s: Side): string {
+  const tol = m.tolerance;
+  const less = tol === undefined ? 'the table wall' : 'percent' in tol ? `the table wall less ${tol.percent} %` : `the table wall less ${quantity(tol.value, 'length', s, tol.unit)}`;
+  return `thinnest ${METHOD_WORDS[m.method]} reading at least ${less}`;
+}
+
+function measuredWall(a: TubeTable, sa: Side, b: TubeTable, sb: Side, emit: Emit): void {
+  const ma = a.measuredWall;
+  const mb = b.measuredWall;
+  if (!ma && !mb) return;
+  if (!ma && mb) return emit('added', `measured wall now required: ${measuredWallText(mb, sb)}`, { after: measuredWallText(mb, sb) });
+  if (ma && !mb) return emit('removed', `measured wall no longer required (was ${measuredWallText(ma, sa)})`, { before: measuredWallText(ma, sa) });
+  const ta = ma!.tolerance;
+  const tb = mb!.tolerance;
+  const sameTol =
+    ta === undefined || tb === undefined
+      ? (ta === undefined || ('value' in ta && ta.value === 0)) && (tb === undefined || ('value' in tb && tb.value === 0))
+      : 'percent' in ta || 'percent' in tb
+        ? 'percent' in ta && 'percent' in tb && ta.percent === tb.percent
+        : sameNumber(canonical(ta.value, 'length', sa, ta.unit), canonical(tb.value, 'length', sb, tb.unit));
+  if (ma!.method !== mb!.method || !sameTol)
+    emit('changed', `measured wall ${measuredWallText(ma!, sa)} → ${measuredWallText(mb!, sb)}`, { before: measuredWallText(ma!, sa), after: measuredWallText(mb!, sb) });
+}
+
 function allowances(a: TubeTable, sa: Side, b: TubeTable, sb: Side, emit: Emit): void {
   const ta = a.allowances?.thinWallWhenOdExceedsMinimum;
   const tb = b.allowances?.thinWallWhenOdExceedsMinimum;
@@ -212,7 +244,15 @@ function allowances(a: TubeTable, sa: Side, b: TubeTable, sb: Side, emit: Emit):
     };
     field('OD margin', ta.odMargin, tb.odMargin);
     field('wall', ta.minWall, tb.minWall);
+    const ra = ta.minimumDiameter ?? 'smallest_listed';
+    const rb = tb.minimumDiameter ?? 'smallest_listed';
+    if (ra !== rb)
+      emit('changed', `thin-wall allowance now counts from the ${THIN_WALL_WORDS[rb]} (was the ${THIN_WALL_WORDS[ra]})`, {
+        before: THIN_WALL_WORDS[ra],
+        after: THIN_WALL_WORDS[rb],
+      });
   }
+  measuredWall(a, sa, b, sb, emit);
   const wa = a.allowances?.wallAllowance;
   const wb = b.allowances?.wallAllowance;
   const wallText = (w: NonNullable<typeof wa>, s: Side) => quantity(w.value, 'length', s, w.unit);
@@ -236,14 +276,17 @@ function allowances(a: TubeTable, sa: Side, b: TubeTable, sb: Side, emit: Emit):
 
 type MemberEntry = Extract<Requires, { template: 'required_members' }>['members'][number];
 const entryKey = (e: MemberEntry) => [...new Set(e.kinds)].sort().join('+');
+const SIDE_COUNT_WORDS: Readonly<Record<NonNullable<MemberEntry['side']>, string>> = {
+  each: 'on each side', left: 'on the left', right: 'on the right', driver: "on the driver's side", passenger: "on the passenger's side",
+};
 const countText = (e: MemberEntry) =>
-  e.max === undefined
+  `${e.max === undefined
     ? `at least ${e.min}`
     : e.min === e.max
       ? `exactly ${e.min}`
       : e.min === 0
         ? `at most ${e.max}`
-        : `${e.min} to ${e.max}`;
+        : `${e.min} to ${e.max}`}${e.side ? ` ${SIDE_COUNT_WORDS[e.side]}` : ''}`;
 
 function requiredMembers(
   a: Extract<Requires, { template: 'required_members' }>,
@@ -271,7 +314,7 @@ function requiredMembers(
         before: countText(old),
         after: countText(e),
       });
-    else if (old.min !== e.min || old.max !== e.max)
+    else if (old.min !== e.min || old.max !== e.max || old.side !== e.side)
       emit('changed', `${kinds}: ${countText(old)} → ${countText(e)}`, {
         before: countText(old),
         after: countText(e),
@@ -315,17 +358,45 @@ function checkSubject(c: LimitCheck): string {
   return c.path ? `${fact.label}: ${valueWord(c.path)}` : fact.label;
 }
 
-function checkValue(c: LimitCheck, side: Side): { value: string; canonical?: number } {
-  if (typeof c.value === 'boolean') return { value: c.value ? 'yes' : 'no' };
+const DATE_OPERATOR_WORDS: Readonly<Record<LimitCheck['operator'], string>> = {
+  atLeast: 'on or after', atMost: 'on or before', above: 'after', below: 'before', equals: 'on', notEquals: 'not on',
+};
+
+function checkValue(c: LimitCheck, side: Side): { value: string; canonical?: number; key: string } {
+  const v = c.value;
+  if (typeof v === 'boolean') return { value: v ? 'yes' : 'no', key: String(v) };
+  if (typeof v === 'string') {
+    if (FACTS_BY_NAME.get(c.fact)?.type === 'date') return { value: formatIsoDate(v), key: `date|${v}` };
+    // A grade: the same grade however it is written.
+    const family = GRADE_FACTS[c.fact]?.family;
+    const grade = family ? findGrade(family, v) : undefined;
+    if (grade) return { value: grade.name, key: `grade|${grade.id}` };
+    return { value: valueWord(v), key: `text|${v}` };
+  }
+  if (typeof v === 'object') {
+    const k = v.unit === undefined ? v.times : canonical(v.times, 'length', side, v.unit);
+    const kText = v.unit === undefined ? String(v.times) : quantity(v.times, 'length', side, v.unit);
+    const of = FACTS_BY_NAME.get(v.of)?.label ?? v.of;
+    return { value: `${kText} × ${of}`, key: `times|${v.of}|${k}` };
+  }
   const dimension = FACTS_BY_NAME.get(c.fact)?.dimension;
-  if (!dimension) return { value: String(c.value), canonical: c.value };
-  return {
-    value: quantity(c.value, dimension, side, c.unit),
-    canonical: canonical(c.value, dimension, side, c.unit),
-  };
+  if (!dimension) return { value: String(v), canonical: v, key: String(v) };
+  const value = canonical(v, dimension, side, c.unit);
+  return { value: quantity(v, dimension, side, c.unit), canonical: value, key: String(value) };
 }
 
-const checkText = (c: LimitCheck, side: Side) => `${OPERATOR_WORDS[c.operator]} ${checkValue(c, side).value}`;
+/** Two proportional limits with the same other fact: k compared as numbers (a unit change alone is no change). */
+function sameProportional(a: LimitCheck, sa: Side, b: LimitCheck, sb: Side): boolean | undefined {
+  const x = a.value;
+  const y = b.value;
+  if (typeof x !== 'object' || typeof y !== 'object' || x.of !== y.of || (x.unit === undefined) !== (y.unit === undefined)) return undefined;
+  const kx = x.unit === undefined ? x.times : canonical(x.times, 'length', sa, x.unit);
+  const ky = y.unit === undefined ? y.times : canonical(y.times, 'length', sb, y.unit);
+  return sameNumber(kx, ky);
+}
+
+const checkText = (c: LimitCheck, side: Side) =>
+  `${(FACTS_BY_NAME.get(c.fact)?.type === 'date' ? DATE_OPERATOR_WORDS : OPERATOR_WORDS)[c.operator]} ${checkValue(c, side).value}`;
 
 function limits(ca: readonly LimitCheck[], sa: Side, cb: readonly LimitCheck[], sb: Side, emit: Emit): void {
   const used = new Set<number>();
@@ -345,9 +416,9 @@ function limits(ca: readonly LimitCheck[], sa: Side, cb: readonly LimitCheck[], 
     const va = checkValue(old, sa);
     const vb = checkValue(c, sb);
     const sameValue =
-      typeof old.value === 'boolean' || typeof c.value === 'boolean'
-        ? old.value === c.value
-        : sameNumber(va.canonical, vb.canonical);
+      va.canonical !== undefined && vb.canonical !== undefined
+        ? sameNumber(va.canonical, vb.canonical)
+        : sameProportional(old, sa, c, sb) ?? va.key === vb.key;
     if (old.operator !== c.operator || !sameValue) {
       emit(
         'changed',
@@ -396,4 +467,30 @@ function allowedValues(a: Extract<Requires, { template: 'allowed_values' }>, b: 
   for (const v of a.values)
     if (!b.values.includes(v))
       emit('removed', `${subject}: ${valueWord(v)} no longer ${word}`, { before: valueWord(v) });
+}
+
+// Member against member ------------------------------------------------------------------------
+
+const MATCH_WORDS = { equals: 'equal to', atLeast: 'at least', atMost: 'at most' } as const;
+const MEASURE_WORDS = { od: 'OD', wall: 'wall' } as const;
+
+export function memberMatchText(m: Extract<Requires, { template: 'member_match' }>): string {
+  return m.checks.map((c) => `${MEASURE_WORDS[c.measure]} ${MATCH_WORDS[c.operator]} the ${kindsText(m.of)}'s`).join(', ');
+}
+
+function memberMatch(a: Extract<Requires, { template: 'member_match' }>, b: typeof a, emit: Emit): void {
+  const kindsA = [...new Set(a.of)].sort().join('+');
+  const kindsB = [...new Set(b.of)].sort().join('+');
+  if (kindsA !== kindsB) {
+    emit('changed', `now compared with the ${kindsText(b.of)} (was the ${kindsText(a.of)})`, { before: kindsText(a.of), after: kindsText(b.of) });
+  }
+  for (const measure of ['od', 'wall'] as const) {
+    const x = a.checks.find((c) => c.measure === measure);
+    const y = b.checks.find((c) => c.measure === measure);
+    const word = MEASURE_WORDS[measure];
+    if (!x && y) emit('added', `${word} must now be ${MATCH_WORDS[y.operator]} the ${kindsText(b.of)}'s`, { after: MATCH_WORDS[y.operator] });
+    else if (x && !y) emit('removed', `${word} no longer compared with the ${kindsText(a.of)}'s (was ${MATCH_WORDS[x.operator]})`, { before: MATCH_WORDS[x.operator] });
+    else if (x && y && x.operator !== y.operator)
+      emit('changed', `${word} ${MATCH_WORDS[x.operator]} → ${MATCH_WORDS[y.operator]} the ${kindsText(b.of)}'s`, { before: MATCH_WORDS[x.operator], after: MATCH_WORDS[y.operator] });
+  }
 }

@@ -64,7 +64,7 @@ export function describeRulesetChanges(
   };
   identity(before, after, push);
   policy(before, sa, after, sb, push);
-  classes(before.classes, after.classes, push);
+  classes(before.classes, sa, after.classes, sb, push);
   requirements(before, sa, after, sb, push);
   return out;
 }
@@ -190,7 +190,7 @@ function policy(a: RulesetDocument, sa: Side, b: RulesetDocument, sb: Side, push
 
 const BASIS_WORDS = { with_driver: 'with driver', without_driver: 'without driver' } as const;
 
-function classes(ca: readonly RulesetClass[], cb: readonly RulesetClass[], push: Push): void {
+function classes(ca: readonly RulesetClass[], sa: Side, cb: readonly RulesetClass[], sb: Side, push: Push): void {
   const pairs = pairUp(ca, cb, [(x, y) => x.id === y.id, (x, y) => x.name === y.name]);
   for (const [x, y] of pairs) {
     if (!x && y) push('class', 'added', `Class ${quoted(y.name)} added`, { classId: y.id, after: y.name });
@@ -221,6 +221,19 @@ function classes(ca: readonly RulesetClass[], cb: readonly RulesetClass[], push:
           },
         );
       }
+      const listed = (c: RulesetClass, side: Side) => (c.listedWeight ? quantity(c.listedWeight.value, 'mass', side, c.listedWeight.unit) : undefined);
+      const la = listed(x, sa);
+      const lb = listed(y, sb);
+      const laKg = x.listedWeight ? canonical(x.listedWeight.value, 'mass', sa, x.listedWeight.unit) : undefined;
+      const lbKg = y.listedWeight ? canonical(y.listedWeight.value, 'mass', sb, y.listedWeight.unit) : undefined;
+      if (!sameNumber(laKg, lbKg))
+        push(
+          'class', 'changed',
+          lb === undefined
+            ? `Class ${quoted(y.name)} tube sizes now follow the measured weight (was the listed weight ${la})`
+            : `Class ${quoted(y.name)} tube sizes now follow the listed weight ${lb}${la === undefined ? ' (was the measured weight)' : ` (was ${la})`}`,
+          { classId: y.id, before: la ?? 'measured weight', after: lb ?? 'measured weight' },
+        );
       if ((x.description ?? '') !== (y.description ?? ''))
         push('class', 'changed', `Description of class ${quoted(y.name)} changed`, {
           classId: y.id,
@@ -337,6 +350,14 @@ function requirements(a: RulesetDocument, sa: Side, b: RulesetDocument, sb: Side
     describeRequiresChanges(x.requires, sa, y.requires, sb, (kind, detail, values = {}) =>
       at(kind, `${head} ${detail}`, values),
     );
+    if ((x.acceptsMakerCertificate ?? false) !== (y.acceptsMakerCertificate ?? false))
+      at(
+        'changed',
+        y.acceptsMakerCertificate
+          ? `${y.section} now accepts a cage certified by its maker in its place`
+          : `${y.section} no longer accepts a maker's certificate in its place`,
+        { before: x.acceptsMakerCertificate ? 'certificate accepted' : 'certificate not accepted', after: y.acceptsMakerCertificate ? 'certificate accepted' : 'certificate not accepted' },
+      );
     if (x.explanation !== y.explanation)
       at('changed', `Explanation of ${y.section} changed`, { before: x.explanation, after: y.explanation });
   }

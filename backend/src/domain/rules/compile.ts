@@ -40,9 +40,18 @@ export function compileDocument(doc: RulesetDocument, problems: Problems & { lis
     if (v !== undefined) tolerance[dim] = toCanonical(v, DEFAULT_UNIT[system][dim]);
   }
   const classIds = new Map<string, number>();
+  const listedWeightsKg: Record<string, number> = {};
   doc.classes.forEach((c, i) => {
     if (classIds.has(c.id)) problems.add(['classes', i, 'id'], `Class id "${c.id}" is already used by class ${classIds.get(c.id)! + 1}.`);
     else classIds.set(c.id, i);
+    if (c.listedWeight) {
+      const unit = resolveUnit('mass', c.listedWeight.unit, ['classes', i, 'listedWeight', 'unit'], { system, problems });
+      if (unit) {
+        const kg = toCanonical(c.listedWeight.value, unit);
+        if (kg > 10000) problems.add(['classes', i, 'listedWeight', 'value'], 'A listed class weight over 10,000 kg is not a race car: check the unit.');
+        else listedWeightsKg[c.id] = kg;
+      }
+    }
   });
 
   const equivalents: CanonicalEquivalent[] = [];
@@ -85,6 +94,7 @@ export function compileDocument(doc: RulesetDocument, problems: Problems & { lis
     requirements.push({
       id: req.id, index, title: req.title, section: req.section, severity: req.severity, area: req.area, scope: req.scope,
       template: req.requires.template, classes: req.appliesTo?.classes ?? null, explanation: req.explanation,
+      acceptsMakerCertificate: req.acceptsMakerCertificate ?? false,
       leaves: ctx.leaves, alternatives: ctx.alternatives, factsUsed: [...ctx.factsUsed].sort(),
       variants: requires.variants.map((v) => ({
         aboveKg: v.aboveKg, upToKg: v.upToKg, ...(v.bandLabel ? { bandLabel: v.bandLabel } : {}),
@@ -100,7 +110,7 @@ export function compileDocument(doc: RulesetDocument, problems: Problems & { lis
     });
   });
   const policy: CompiledPolicy = { acceptPrintedEquivalents: doc.acceptPrintedEquivalents, tolerance };
-  return { document: doc, classes: Object.fromEntries(doc.classes.map((c) => [c.id, c])), requirements, policy };
+  return { document: doc, classes: Object.fromEntries(doc.classes.map((c) => [c.id, c])), listedWeightsKg, requirements, policy };
 }
 
 /** Compiles a validated document. Throws RulesetInvalidError (with every problem) otherwise. */

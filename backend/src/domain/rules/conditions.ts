@@ -4,11 +4,12 @@
 // gets a name so the evaluator can find its metadata in the engine's result tree.
 import type { Dimension, UnitSystem } from '../units.js';
 import { DEFAULT_UNIT, isUnitName, toCanonical, unitDimension } from '../units.js';
-import { FACTS_BY_NAME, factAvailableIn } from '../facts.js';
+import { FACTS_BY_NAME, SIDE_PARAMS, factAvailableIn } from '../facts.js';
+import { isIsoDate } from '../dates.js';
 import type { FactDefinition, FactScope } from '../facts.js';
 import { MEMBER_KINDS, MEMBER_KIND_LABELS } from '../vocabulary.js';
 import type { MemberKind } from '../vocabulary.js';
-import { ENGINE_OPERATORS, EQUALITY_OPERATORS, FRIENDLY_FROM_ENGINE, LIST_OPERATORS, MEMBERSHIP_OPERATORS, NUMERIC_OPERATORS, numericComparison } from './operators.js';
+import { DATE_OPERATORS, ENGINE_OPERATORS, EQUALITY_OPERATORS, FRIENDLY_FROM_ENGINE, LIST_OPERATORS, MEMBERSHIP_OPERATORS, NUMERIC_OPERATORS, numericComparison } from './operators.js';
 import type { EngineOperator } from './operators.js';
 import type { LeafMeta } from './types.js';
 import { RULESET_LIMITS } from '../../contracts/ruleset.js';
@@ -76,6 +77,18 @@ function factAddressing(fact: FactDefinition, node: Record<string, unknown>, pat
       ctx.problems.add([...path, 'params', 'kinds'], `"${fact.name}" needs params.kinds: a list of member kinds.`);
       ok = false;
     } else out.params = { kinds: [...new Set(kinds as string[])].sort() };
+  } else if (fact.params === 'kindsOnSide') {
+    const kinds = isRecord(node.params) ? node.params.kinds : undefined;
+    const side = isRecord(node.params) ? node.params.side : undefined;
+    if (!Array.isArray(kinds) || kinds.length === 0 || !kinds.every((k) => (MEMBER_KINDS as readonly unknown[]).includes(k))) {
+      ctx.problems.add([...path, 'params', 'kinds'], `"${fact.name}" needs params.kinds: a list of member kinds.`);
+      ok = false;
+    }
+    if (typeof side !== 'string' || !(SIDE_PARAMS as readonly string[]).includes(side)) {
+      ctx.problems.add([...path, 'params', 'side'], `"${fact.name}" needs params.side: one of ${SIDE_PARAMS.join(', ')}.`);
+      ok = false;
+    }
+    if (ok) out.params = { kinds: [...new Set(kinds as string[])].sort(), side };
   } else if (fact.params === 'tableMinimumOdMm') {
     const min = isRecord(node.params) ? node.params.tableMinimumOdMm : undefined;
     if (typeof min !== 'number' || !(min > 0)) {
@@ -87,6 +100,11 @@ function factAddressing(fact: FactDefinition, node: Record<string, unknown>, pat
     ok = false;
   }
   return ok ? out : undefined;
+}
+
+/** "on the left", "on the driver's side"… for per-side counts. */
+export function sideWords(side: string): string {
+  return side === 'driver' ? "on the driver's side" : side === 'passenger' ? "on the passenger's side" : `on the ${side}`;
 }
 
 /** Resolves the unit a numeric value is written in; reports a bad one. */
@@ -129,8 +147,14 @@ export function compileLeaf(input: LeafInput, path: Path, ctx: CompileContext, l
   const name = ctx.nextLeaf();
   const base: EngineNode = { fact: fact.name, name, ...addressing };
   if (typeof input.priority === 'number' && Number.isInteger(input.priority) && input.priority > 0) base.priority = input.priority;
-  const defaultLabel = addressing.path ? `number of ${MEMBER_KIND_LABELS[addressing.path as MemberKind]} members` : fact.label;
-  const metaBase = { fact: fact.name, label: label ?? defaultLabel, operator: FRIENDLY_FROM_ENGINE[operator], ...(addressing.path ? { path: addressing.path } : {}) };
+  const onSide = fact.params === 'kindsOnSide' && addressing.params ? (addressing.params as { kinds: MemberKind[]; side: string }) : undefined;
+  const defaultLabel = addressing.path
+    ? `number of ${MEMBER_KIND_LABELS[addressing.path as MemberKind]} members`
+    : onSide ? `number of ${onSide.kinds.map((k) => MEMBER_KIND_LABELS[k]).join(' / ')} ${sideWords(onSide.side)}` : fact.label;
+  const metaBase = {
+    fact: fact.name, label: label ?? defaultLabel, operator: FRIENDLY_FROM_ENGINE[operator], ...(addressing.path ? { path: addressing.path } : {}),
+    ...(onSide ? { paramsKey: `${onSide.kinds.join(',')}@${onSide.side}` } : {}),
+  };
   const value = input.value;
   const isNumericFact = fact.type === 'number' || fact.type === 'counts';
 
@@ -153,6 +177,22 @@ export function compileLeaf(input: LeafInput, path: Path, ctx: CompileContext, l
     }
     ctx.leaves[name] = { ...metaBase, dimension: fact.dimension ?? null, value: { fact: other.name } };
     return { ...base, operator, value: { fact: other.name } };
+  }
+  if (fact.type === 'date') {
+    if (input.unit !== undefined) {
+      ctx.problems.add([...path, 'unit'], `"${fact.name}" is a date and has no unit.`);
+      return undefined;
+    }
+    if (!DATE_OPERATORS[operator]) {
+      ctx.problems.add([...path, 'operator'], `"${operator}" does not apply to the date "${fact.name}": compare it before / after a date.`);
+      return undefined;
+    }
+    if (!isIsoDate(value)) {
+      ctx.problems.add(valuePath, `"${fact.name}" is compared with a date written YYYY-MM-DD (got ${JSON.stringify(value)}).`);
+      return undefined;
+    }
+    ctx.leaves[name] = { ...metaBase, dimension: null, value, date: true };
+    return { ...base, operator: DATE_OPERATORS[operator], value };
   }
   if (input.unit !== undefined && !(isNumericFact && fact.dimension)) {
     ctx.problems.add([...path, 'unit'], `"${fact.name}" has no unit.`);

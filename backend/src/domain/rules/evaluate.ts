@@ -8,14 +8,17 @@ import type { Almanac, RuleProperties } from 'json-rules-engine';
 import type { Specification } from '../../contracts/specification.js';
 import type { CheckReport, Finding, MeasuredValue, MissingFact, RequiredValue } from '../../contracts/report.js';
 import { PRE_CHECK_DISCLAIMER } from '../../contracts/report.js';
-import { FACTS_BY_NAME, factPresent, memberFacts, memberTubeData, plateFacts, vehicleFacts } from '../facts.js';
-import type { FactSet, MemberTubeData } from '../facts.js';
+import { FACTS_BY_NAME, SIDE_COUNTS_FACT, countOnSide, factPresent, memberFacts, memberSides, memberTubeData, plateFacts, vehicleFacts } from '../facts.js';
+import type { FactSet, MemberTubeData, SideParam } from '../facts.js';
+import { formatIsoDate } from '../dates.js';
 import { formatQuantity } from '../units.js';
 import type { Dimension, UnitSystem } from '../units.js';
 import { MATERIAL_LABELS, MEMBER_KIND_LABELS, PROCESS_LABELS } from '../vocabulary.js';
 import type { MemberKind, PlateLocation } from '../vocabulary.js';
 import { customOperators } from './operators.js';
 import { TEMPLATE_KINDS } from './template-kinds.js';
+import { REF_FACT, describeReference, peerFacts, referenceLabel, referencedFact, referenceValue } from './references.js';
+import type { RefParams } from './references.js';
 import type { CompiledRequirement, CompiledRuleset, CompiledVariant, LeafMeta } from './types.js';
 import { leavesOf, namedPart, triState } from './verdict.js';
 import type { ResultNode, Tri } from './verdict.js';
@@ -50,6 +53,19 @@ function newEngine(rules: RuleProperties[]): Engine {
   engine.addFact('member.odMarginOverTableMinimumMm', async (params: Record<string, unknown>, almanac: Almanac) => {
     const od = await almanac.factValue<number | undefined>('member.odMm');
     return typeof od === 'number' ? od - Number(params.tableMinimumOdMm) : undefined;
+  }, { cache: false });
+  // k × another value, or another member's size (references.ts): read at run time, never cached.
+  engine.addFact(REF_FACT, async (params: Record<string, unknown>, almanac: Almanac) => {
+    const p = params as unknown as RefParams;
+    return referenceValue(p, await almanac.factValue(p.fact));
+  }, { cache: false });
+  engine.addFact('vehicle.memberCountOnSide', async (params: Record<string, unknown>, almanac: Almanac) => {
+    const facts: FactSet = {
+      [SIDE_COUNTS_FACT]: await almanac.factValue<Record<string, number>>(SIDE_COUNTS_FACT),
+      'vehicle.driverSide': await almanac.factValue<string | undefined>('vehicle.driverSide'),
+    };
+    const r = countOnSide(facts, params.kinds as string[], params.side as SideParam);
+    return 'count' in r ? r.count : undefined;
   }, { cache: false });
   engine.addFact('vehicle.memberCountOfKinds', async (params: Record<string, unknown>, almanac: Almanac) => {
     const counts = await almanac.factValue<Record<string, number>>('vehicle.memberCounts');
@@ -142,8 +158,13 @@ function factsNeeded(reqs: readonly CompiledRequirement[]): Set<string> {
   for (const r of reqs) for (const f of r.factsUsed) names.add(f);
   if (names.has('member.odMarginOverTableMinimumMm')) names.add('member.odMm');
   if (names.has('vehicle.memberCountOfKinds')) names.add('vehicle.memberCounts');
+  if (names.has('vehicle.memberCountOnSide')) {
+    names.add(SIDE_COUNTS_FACT);
+    names.add('vehicle.driverSide');
+  }
   names.delete('member.odMarginOverTableMinimumMm');
   names.delete('vehicle.memberCountOfKinds');
+  names.delete('vehicle.memberCountOnSide');
   return names;
 }
 
@@ -151,6 +172,10 @@ interface Ctx {
   compiled: CompiledRuleset;
   system: UnitSystem;
   weightKg: number | undefined;
+  /** The maker's certificate on the sheet, for requirements that accept one in their place. */
+  certificate?: { issuer?: string; number: string };
+  /** The weight is the class's listed weight, not a measured one. */
+  listedWeight: boolean;
 }
 
 export async function evaluateSpecification(
@@ -164,8 +189,14 @@ export async function evaluateSpecification(
   const doc = compiled.document;
   const plan = planFor(compiled, classId);
   const tubes = spec.members.map((m, i) => memberTubeData(m, i));
-  const vfacts = vehicleFacts(spec, cls, tubes);
-  const ctx: Ctx = { compiled, system: options.unitSystem ?? doc.unitSystem, weightKg: vfacts['vehicle.weightKg'] as number | undefined };
+  const listedWeightKg = compiled.listedWeightsKg[classId];
+  const vfacts = vehicleFacts(spec, { weightBasis: cls.weightBasis, ...(listedWeightKg !== undefined ? { listedWeightKg } : {}) }, tubes);
+  Object.assign(vfacts, peerFacts(spec, peerNamesOf(compiled)));
+  const certificate = spec.cage?.certificate;
+  const ctx: Ctx = {
+    compiled, system: options.unitSystem ?? doc.unitSystem, weightKg: vfacts['vehicle.weightKg'] as number | undefined,
+    ...(certificate ? { certificate } : {}), listedWeight: listedWeightKg !== undefined,
+  };
   const findings: { order: [number, number]; finding: Finding }[] = [];
 
   // Runs one engine over several subjects of the same group, one after another (never concurrently).
@@ -174,7 +205,12 @@ export async function evaluateSpecification(
     const rules: RuleProperties[] = [];
     const direct: { req: CompiledRequirement; choice: VariantChoice }[] = [];
     const chosen = new Map<string, CompiledVariant>();
+    const waived: CompiledRequirement[] = [];
     for (const req of reqs) {
+      if (req.acceptsMakerCertificate && ctx.certificate) {
+        waived.push(req);
+        continue;
+      }
       const choice = chooseVariant(req, ctx.weightKg);
       if ('variant' in choice) {
         rules.push(choice.variant.rule);
@@ -195,6 +231,7 @@ export async function evaluateSpecification(
     for (const { subject, facts } of subjects) {
       const order = subject.kind === 'vehicle' ? 0 : subject.index;
       for (const { req, choice } of direct) findings.push({ order: [req.index, order], finding: bandFinding(ctx, req, subject, choice) });
+      for (const req of waived) findings.push({ order: [req.index, order], finding: certifiedFinding(ctx, req, subject) });
       if (!engine) continue;
       // Left/right pairs and repeated bars often have identical facts: run the engine once for
       // them (the result trees are only read, never changed).
@@ -228,10 +265,11 @@ export async function evaluateSpecification(
   await runGroup(plan.vehicle, [{ subject: { kind: 'vehicle' }, facts: vfacts }]);
 
   const membersByKind = new Map<MemberKind, { subject: Subject; facts: FactSet }[]>();
+  const sides = memberSides(spec);
   spec.members.forEach((m, index) => {
     if (!plan.byKind.has(m.kind)) return;
     const list = membersByKind.get(m.kind) ?? [];
-    list.push({ subject: { kind: 'member', id: m.id, memberKind: m.kind, index }, facts: layered(vfacts, memberFacts(spec, m, tubes[index])) });
+    list.push({ subject: { kind: 'member', id: m.id, memberKind: m.kind, index }, facts: layered(vfacts, memberFacts(spec, m, tubes[index], sides[index])) });
     membersByKind.set(m.kind, list);
   });
   for (const [kind, subjects] of membersByKind) await runGroup(plan.byKind.get(kind) ?? [], subjects);
@@ -281,11 +319,31 @@ function baseFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, verdi
   };
 }
 
+/** The rulebook accepts a maker-certified cage in place of this rule: say so, with the certificate. */
+function certifiedFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject): Finding {
+  const c = ctx.certificate!;
+  const by = c.issuer ? ` from ${c.issuer}` : '';
+  return baseFinding(ctx, req, subject, 'not_applicable',
+    `Not checked: the sheet gives maker's certificate ${c.number}${by}, which this rulebook accepts in place of this rule. The inspector checks the certificate and the cage against it.`);
+}
+
 function missingList(names: Iterable<string>): MissingFact[] {
   return [...new Set(names)].sort().map((fact) => {
     const def = FACTS_BY_NAME.get(fact);
-    return { fact, label: def?.label ?? fact, dimension: def?.dimension ?? null };
+    const other = def ? undefined : referenceLabel(fact);
+    return { fact, label: def?.label ?? other ?? fact, dimension: def?.dimension ?? (other ? 'length' : null) };
   });
+}
+
+// Other members' sizes a compiled ruleset compares with, found once per compiled ruleset.
+const peerNames = new WeakMap<CompiledRuleset, string[]>();
+export function peerNamesOf(compiled: CompiledRuleset): string[] {
+  let names = peerNames.get(compiled);
+  if (!names) {
+    names = [...new Set(compiled.requirements.flatMap((r) => r.factsUsed.filter((f) => referenceLabel(f) !== undefined)))];
+    peerNames.set(compiled, names);
+  }
+  return names;
 }
 
 function bandFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, choice: VariantChoice): Finding {
@@ -295,15 +353,15 @@ function bandFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, choic
     return f;
   }
   const w = ctx.weightKg ?? 0;
-  const f = baseFinding(ctx, req, subject, 'fail', `The table lists no tube size for a vehicle weight of ${formatQuantity(w, 'mass', ctx.system).text}.`);
+  const f = baseFinding(ctx, req, subject, 'fail', `The table lists no tube size for a ${ctx.listedWeight ? 'listed class weight' : 'vehicle weight'} of ${formatQuantity(w, 'mass', ctx.system).text}.`);
   f.measured = [{ fact: 'vehicle.weightKg', label: FACTS_BY_NAME.get('vehicle.weightKg')!.label, value: w, dimension: 'mass' }];
   return f;
 }
 
-function display(value: unknown, dimension: Dimension | null, system: UnitSystem): string {
+function display(value: unknown, dimension: Dimension | null, system: UnitSystem, facts: FactSet = {}): string {
   if (typeof value === 'number' && dimension) return formatQuantity(value, dimension, system).text;
   if (Array.isArray(value)) return value.join(', ');
-  if (typeof value === 'object' && value !== null && 'fact' in value) return FACTS_BY_NAME.get(String((value as { fact: string }).fact))?.label ?? String(value);
+  if (typeof value === 'object' && value !== null && 'fact' in value) return describeReference(value as { fact: string; times?: number }, facts, dimension, system);
   return String(value);
 }
 
@@ -343,7 +401,7 @@ function summarise(req: CompiledRequirement, key: string, leaves: ResultNode[]):
   leaves.forEach((leaf, index) => {
     const meta = req.leaves[String(leaf.name)];
     if (!meta) return;
-    const factKey = `${meta.fact}|${meta.path ?? ''}`;
+    const factKey = `${meta.fact}|${meta.path ?? ''}${meta.paramsKey ? `|${meta.paramsKey}` : ''}`;
     if (!seenM.has(factKey)) {
       seenM.add(factKey);
       measured.push({ index, meta });
@@ -376,9 +434,12 @@ function measuredValues(summary: LeafSummary, leaves: ResultNode[], facts: FactS
   return measured;
 }
 
+const DATE_WORDS: Record<string, string> = { atLeast: 'on or after', atMost: 'on or before', above: 'after', below: 'before', equals: 'on', notEquals: 'not on' };
+
 function describeLeaf(req: CompiledRequirement, leaf: ResultNode, facts: FactSet, system: UnitSystem): string {
   const meta = req.leaves[String(leaf.name)];
-  return `${meta.label} ${display(factValueOf(facts, leaf, meta), meta.dimension, system)} (required ${OP_WORDS[meta.operator]} ${display(meta.value, meta.dimension, system)})`;
+  if (meta.date) return `${meta.label} ${formatIsoDate(String(factValueOf(facts, leaf, meta)))} (required ${DATE_WORDS[meta.operator]} ${formatIsoDate(String(meta.value))})`;
+  return `${meta.label} ${display(factValueOf(facts, leaf, meta), meta.dimension, system)} (required ${OP_WORDS[meta.operator]} ${display(meta.value, meta.dimension, system, facts)})`;
 }
 
 function buildFinding(ctx: Ctx, req: CompiledRequirement, variant: CompiledVariant, subject: Subject, tree: ResultNode, facts: FactSet): Finding {
@@ -421,9 +482,8 @@ function buildFinding(ctx: Ctx, req: CompiledRequirement, variant: CompiledVaria
 }
 
 function factPresentFor(facts: FactSet, leaf: ResultNode): boolean {
-  const ref = leaf.value;
-  const refFact = typeof ref === 'object' && ref !== null && !Array.isArray(ref) ? (ref as { fact?: unknown }).fact : undefined;
-  return factPresent(facts, String(leaf.fact)) && (typeof refFact !== 'string' || factPresent(facts, refFact));
+  const refFact = referencedFact(leaf.value);
+  return factPresent(facts, String(leaf.fact), leaf.params) && (refFact === undefined || factPresent(facts, refFact));
 }
 
 function bandText(ctx: Ctx, v: CompiledVariant): string {
@@ -443,12 +503,17 @@ function tubeTableFinding(
   const wall = facts['member.wallMm'] as number;
   const material = facts['member.material'] as string | undefined;
   const process = facts['member.process'] as string | undefined;
+  const approvedOn = facts['cage.approvedOn'] as string | undefined;
   const measured: MeasuredValue[] = [
     { fact: 'member.odMm', label: 'outside diameter', value: od, dimension: 'length' },
     { fact: 'member.wallMm', label: 'wall thickness', value: wall, dimension: 'length' },
   ];
   if (material !== undefined) measured.push({ fact: 'member.material', label: 'material', value: material, dimension: null });
   if (process !== undefined) measured.push({ fact: 'member.process', label: 'tube process', value: process, dimension: null });
+  // With a measured-wall rule: the thinnest reading by its method, when there is one.
+  const readingFact = Object.values(req.alternatives).find((a) => a.readingFact)?.readingFact;
+  const reading = readingFact ? (facts[readingFact] as number | undefined) : undefined;
+  if (readingFact && reading !== undefined) measured.push({ fact: readingFact, label: FACTS_BY_NAME.get(readingFact)?.label ?? readingFact, value: reading, dimension: 'length' });
   const band = bandText(ctx, variant);
   const forBand = band === 'all weights' ? '' : ` for ${band}`;
   const matched = alts.find((a) => triState(a, facts, new Set()) === true);
@@ -458,8 +523,10 @@ function tubeTableFinding(
     const a = req.alternatives[name];
     const wallReq = a.requiredWallMm;
     let s = Math.max(0, a.odMm - od) / a.odMm + Math.max(0, wallReq - wall) / wallReq;
+    if (a.requiredReadingMm !== undefined && reading !== undefined) s += Math.max(0, a.requiredReadingMm - reading) / a.requiredReadingMm;
     if (a.materials && material !== undefined && !a.materials.includes(material)) s += 1;
     if (a.processes && process !== undefined && !a.processes.includes(process)) s += 1;
+    if (a.approvedBefore && approvedOn !== undefined && !(approvedOn < a.approvedBefore)) s += 1;
     return s;
   };
   const pick = matched ?? [...alts].sort((x, y) => score(String(x.name)) - score(String(y.name)))[0];
@@ -471,18 +538,30 @@ function tubeTableFinding(
       ? [
           a.materials ? ` in ${a.materials.map((m) => MATERIAL_LABELS[m as keyof typeof MATERIAL_LABELS] ?? m).join(' or ')}` : '',
           a.processes ? ` (${a.processes.map((x) => PROCESS_LABELS[x as keyof typeof PROCESS_LABELS] ?? x).join(', ')})` : '',
+          a.approvedBefore ? `, for cages approved before ${formatIsoDate(a.approvedBefore)}` : '',
         ].join('')
       : '';
   let reason: string;
-  if (v === 'pass' && pickMeta) reason = `Matches ${pickMeta.label}${restrictions(pickMeta)}${forBand}.`;
+  const readingWords = (a: NonNullable<typeof pickMeta>) =>
+    a.requiredReadingMm !== undefined && reading !== undefined && a.readingFact
+      ? `${FACTS_BY_NAME.get(a.readingFact)?.label ?? a.readingFact} ${display(reading, 'length', ctx.system)}`
+      : '';
+  if (v === 'pass' && pickMeta) {
+    const r = readingWords(pickMeta);
+    reason = `Matches ${pickMeta.label}${restrictions(pickMeta)}${forBand}${r ? `, with ${r} (at least ${display(pickMeta.requiredReadingMm!, 'length', ctx.system)} needed)` : ''}.`;
+  }
   else if (v === 'needs_information') reason = `Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')} ${band === 'all weights' ? '' : ` (band ${band})`}.`;
   else if (pickMeta) {
     const gaps: string[] = [];
     const wallReq = required.find((r) => r.fact === 'member.wallMm');
     if (od < pickMeta.odMm - 1e-9) gaps.push(`OD ${display(od, 'length', ctx.system)} is under ${display(pickMeta.odMm, 'length', ctx.system)}`);
     if (wallReq && typeof wallReq.value === 'number' && wall < wallReq.value - 1e-9) gaps.push(`wall ${display(wall, 'length', ctx.system)} is under ${display(wallReq.value, 'length', ctx.system)}`);
+    if (pickMeta.requiredReadingMm !== undefined && reading !== undefined && reading < pickMeta.requiredReadingMm - 1e-9)
+      gaps.push(`${readingWords(pickMeta)} is under ${display(pickMeta.requiredReadingMm, 'length', ctx.system)}`);
     if (pickMeta.materials && material !== undefined && !pickMeta.materials.includes(material)) gaps.push(`material ${material} is not ${pickMeta.materials.join(' or ')}`);
     if (pickMeta.processes && process !== undefined && !pickMeta.processes.includes(process)) gaps.push(`process ${process} is not ${pickMeta.processes.join(' or ')}`);
+    if (pickMeta.approvedBefore && approvedOn !== undefined && !(approvedOn < pickMeta.approvedBefore))
+      gaps.push(`the cage was approved on ${formatIsoDate(approvedOn)}, not before ${formatIsoDate(pickMeta.approvedBefore)}`);
     reason = `No listed size fits${forBand}. Nearest: ${pickMeta.label}${restrictions(pickMeta)}${gaps.length ? ` (${gaps.join('; ')})` : ''}.`;
   } else reason = `No listed size fits${forBand}.`;
   const f = baseFinding(ctx, req, subject, v, reason);

@@ -35,10 +35,27 @@ export const NOT_NEAR = 'cwNotNear';
 const isNumber = (x: unknown): x is number => typeof x === 'number' && Number.isFinite(x);
 const near = (a: number, v: unknown): boolean => Array.isArray(v) && isNumber(v[0]) && isNumber(v[1]) && Math.abs(a - v[0]) <= v[1];
 
+/**
+ * Dates are "YYYY-MM-DD" text, which orders correctly as text; the engine's own lessThan only
+ * takes numbers, so date comparisons get operators of their own.
+ */
+export const DATE_OPERATORS: Readonly<Partial<Record<EngineOperator, string>>> = {
+  lessThan: 'cwDateBefore', lessThanInclusive: 'cwDateOnOrBefore', greaterThan: 'cwDateAfter', greaterThanInclusive: 'cwDateOnOrAfter',
+  equal: 'cwDateOn', notEqual: 'cwDateNotOn',
+};
+export const isDateText = (x: unknown): x is string => typeof x === 'string' && /^\d{4}-\d{2}-\d{2}$/.test(x);
+
+/** The date operators' comparisons, shared by the engine and the plain-code reader (plain.ts). */
+export const DATE_COMPARISONS: Readonly<Record<string, (a: string, b: string) => boolean>> = {
+  cwDateBefore: (a, b) => a < b, cwDateOnOrBefore: (a, b) => a <= b, cwDateAfter: (a, b) => a > b,
+  cwDateOnOrAfter: (a, b) => a >= b, cwDateOn: (a, b) => a === b, cwDateNotOn: (a, b) => a !== b,
+};
+
 export function customOperators(): Operator[] {
   return [
     new Operator<number, unknown>(NEAR, (a, v) => near(a, v), isNumber),
     new Operator<number, unknown>(NOT_NEAR, (a, v) => !near(a, v), isNumber),
+    ...Object.entries(DATE_COMPARISONS).map(([name, cmp]) => new Operator<string, unknown>(name, (a, v) => cmp(a, String(v)), isDateText)),
   ];
 }
 

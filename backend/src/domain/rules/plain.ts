@@ -2,11 +2,13 @@
 // applies to engine results (verdict.ts): a comparison whose fact is missing is "unknown". Used where
 // running json-rules-engine per candidate would be too slow (the tube chooser tries hundreds of
 // sizes); the engine stays the authority for every report, and tests compare the two.
-import { factPresent } from '../facts.js';
-import type { FactSet } from '../facts.js';
-import { NEAR, NOT_NEAR } from './operators.js';
+import { absentFacts, countOnSide, factPresent } from '../facts.js';
+import type { FactSet, SideParam } from '../facts.js';
+import { DATE_COMPARISONS, NEAR, NOT_NEAR, isDateText } from './operators.js';
 import type { Tri } from './verdict.js';
 import { walkPath } from './evaluate.js';
+import { REF_FACT, referencedFact, referenceValue } from './references.js';
+import type { RefParams } from './references.js';
 
 /** A compiled node as compile.ts/templates.ts build it (all / any / not / comparison). */
 export interface PlainNode {
@@ -32,6 +34,10 @@ function factValue(facts: FactSet, node: PlainNode): unknown {
   if (name === 'member.odMarginOverTableMinimumMm') {
     const od = facts['member.odMm'];
     return typeof od === 'number' ? od - Number(node.params?.tableMinimumOdMm) : undefined;
+  }
+  if (name === 'vehicle.memberCountOnSide') {
+    const r = countOnSide(facts, (node.params?.kinds as string[] | undefined) ?? [], (node.params?.side as SideParam | undefined) ?? 'left');
+    return 'count' in r ? r.count : undefined;
   }
   if (name === 'vehicle.memberCountOfKinds') {
     const counts = (facts['vehicle.memberCounts'] ?? {}) as Record<string, number>;
@@ -59,7 +65,11 @@ function compare(op: string, a: unknown, b: unknown): boolean {
       const near = Math.abs(a - b[0]) <= b[1];
       return op === NEAR ? near : !near;
     }
-    default: throw new Error(`Unknown compiled operator "${op}"`);
+    default: {
+      const date = DATE_COMPARISONS[op];
+      if (date) return isDateText(a) && isDateText(b) && date(a, b);
+      throw new Error(`Unknown compiled operator "${op}"`);
+    }
   }
 }
 
@@ -89,15 +99,20 @@ export function evaluatePlain(node: PlainNode, facts: FactSet, missing: Set<stri
   }
   const fact = node.fact as string;
   let absent = false;
-  if (!factPresent(facts, fact)) {
-    missing.add(fact);
+  const needed = absentFacts(facts, fact, node.params);
+  if (needed.length > 0) {
+    for (const n of needed) missing.add(n);
     absent = true;
   }
-  if (isFactRef(node.value) && !factPresent(facts, node.value.fact)) {
-    missing.add(node.value.fact);
+  const ref = referencedFact(node.value);
+  if (ref !== undefined && !factPresent(facts, ref)) {
+    missing.add(ref);
     absent = true;
   }
   if (absent) return 'unknown';
-  const b = isFactRef(node.value) ? facts[node.value.fact] : node.value;
+  // k × another fact / another member's size: the same value the engine's REF_FACT computes.
+  const b = isFactRef(node.value)
+    ? node.value.fact === REF_FACT ? referenceValue((node.value as unknown as { params: RefParams }).params, facts[ref!]) : facts[node.value.fact]
+    : node.value;
   return compare(node.operator as string, factValue(facts, node), b);
 }

@@ -47,6 +47,10 @@ export const TEMPLATE_KINDS: Readonly<Record<TemplateName, TemplateKind>> = {
   conditions: {
     words: 'conditions', editorGroup: 'other', docsHeading: '### `conditions`', scopes: ANY_SCOPE, scopeMessage: '', findings: 'comparisons',
   },
+  member_match: {
+    words: 'member against member', editorGroup: 'members', docsHeading: '### `member_match`', scopes: ['member'],
+    scopeMessage: 'Member against member compares each member of the scope with others: scope it to member kinds.', findings: 'comparisons',
+  },
 };
 
 export const TEMPLATE_NAMES = Object.keys(TEMPLATE_KINDS) as TemplateName[];

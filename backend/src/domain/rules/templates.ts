@@ -3,12 +3,18 @@
 import type { Requirement, TubeTable } from '../../contracts/ruleset.js';
 import { toCanonical } from '../units.js';
 import { tubeSizeProblems } from '../tube.js';
-import { MEMBER_KIND_LABELS } from '../vocabulary.js';
-import { compileConditionTree, compileLeaf, resolveUnit } from './conditions.js';
+import { isIsoDate } from '../dates.js';
+import { MEMBER_KIND_LABELS, SIDED_MEMBER_KINDS } from '../vocabulary.js';
+import type { SideParam } from '../facts.js';
+import { compileConditionTree, compileLeaf, resolveUnit, sideWords } from './conditions.js';
 import type { CompileContext, EngineNode, Path, Problems } from './conditions.js';
 import { ENGINE_FROM_LIMIT } from './operators.js';
 import type { AlternativeMeta } from './types.js';
 import { TEMPLATE_KINDS } from './template-kinds.js';
+import { GRADE_FACTS, compileGradeFloor, compileProportional, isProportional } from './limit-values.js';
+import { compileMemberMatch } from './member-match.js';
+import { WALL_METHOD_FACTS } from '../facts.js';
+import { MEASURED_WALL_MAX_PERCENT } from './measured-wall.js';
 import type { TemplateName, TemplateOf } from './template-kinds.js';
 
 export interface CanonicalEquivalent {
@@ -47,6 +53,29 @@ export function lengthLabel(mm: number, system: 'imperial' | 'metric'): string {
   return system === 'imperial' ? `${(mm / 25.4).toFixed(3)} in` : `${Math.round(mm * 100) / 100} mm`;
 }
 
+/**
+ * A tube table's `measuredWall`, resolved: the reading fact and the wall a reading needs for a
+ * table wall. Undefined when the table has none; null when it is invalid (problems reported).
+ */
+function measuredWallRule(t: TubeTable, path: Path, ctx: TemplateContext): { fact: string; percent?: number; required: (wallMm: number) => number } | undefined | null {
+  const mw = t.measuredWall;
+  if (!mw) return undefined;
+  const fact = WALL_METHOD_FACTS[mw.method];
+  const tol = mw.tolerance;
+  if (tol === undefined) return { fact, required: (w) => w };
+  if ('percent' in tol) {
+    if (tol.percent >= MEASURED_WALL_MAX_PERCENT) {
+      ctx.problems.add([...path, 'measuredWall', 'tolerance', 'percent'], `A reading tolerance of ${tol.percent} % would accept a wall ${tol.percent >= 100 ? 'of nothing' : 'half as thick or thinner'}: it must be under ${MEASURED_WALL_MAX_PERCENT} %.`);
+      return null;
+    }
+    return { fact, percent: tol.percent, required: (w) => w * (1 - tol.percent / 100) };
+  }
+  const unit = resolveUnit('length', tol.unit, [...path, 'measuredWall', 'tolerance', 'unit'], ctx);
+  if (!unit) return null;
+  const tolMm = toCanonical(tol.value, unit);
+  return { fact, required: (w) => w - tolMm };
+}
+
 function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): CompiledRequires | undefined {
   let ok = true;
   const massUnit = resolveUnit('mass', t.weightUnit, [...path, 'weightUnit'], ctx);
@@ -55,6 +84,22 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
   const thinUnit = resolveUnit('length', thin?.unit, [...path, 'allowances', 'thinWallWhenOdExceedsMinimum', 'unit'], ctx);
   if (!massUnit || !wallAllowanceUnit || !thinUnit) return undefined;
   const wallAllowanceMm = t.allowances?.wallAllowance ? toCanonical(t.allowances.wallAllowance.value, wallAllowanceUnit) : 0;
+  const reading = measuredWallRule(t, path, ctx);
+  if (reading === null) return undefined;
+  // The reading is compared with the table's wall less the rulebook's reading tolerance only: not
+  // less the wall allowance (for nominal sizes) and without the measurement tolerance, which would
+  // otherwise widen a limit the rulebook already states for readings (docs/rulesets.md).
+  const readingLeaf = (wallMm: number, where: Path): { node: EngineNode; requiredMm: number; fact: string } | undefined => {
+    if (!reading) return undefined;
+    const requiredMm = reading.required(wallMm);
+    if (reading.percent === undefined && requiredMm <= wallMm / 2) {
+      ctx.problems.add([...path, 'measuredWall', 'tolerance', 'value'], `The tolerance leaves ${lengthLabel(requiredMm, ctx.system)} of a ${lengthLabel(wallMm, ctx.system)} wall: it must leave more than half of every wall in the table.`);
+      ok = false;
+      return undefined;
+    }
+    const node = compileLeaf({ fact: reading.fact, operator: 'greaterThanInclusive', value: requiredMm, unit: 'mm' }, where, { ...ctx, tolerance: {} });
+    return node ? { node, requiredMm, fact: reading.fact } : undefined;
+  };
 
   let previousUpTo: number | null = null;
   const variants: CompiledRequires['variants'] = [];
@@ -73,6 +118,11 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
     const alternatives: EngineNode[] = [];
     band.rows.forEach((row, r) => {
       const rowPath = [...bandPath, 'rows', r];
+      if (row.approvedBefore !== undefined && !isIsoDate(row.approvedBefore)) {
+        ctx.problems.add([...rowPath, 'approvedBefore'], `"${row.approvedBefore}" is not a date: write it YYYY-MM-DD.`);
+        ok = false;
+        return;
+      }
       const sizes: { odMm: number; wallMm: number; label?: string }[] = [];
       row.alternatives.forEach((alt, a) => {
         const altPath = [...rowPath, 'alternatives', a];
@@ -96,14 +146,24 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
           const leaf = compileLeaf({ fact: 'member.process', operator: 'in', value: row.processes }, [...rowPath, 'processes'], ctx);
           if (leaf) out.push(leaf);
         }
+        // A legacy row: unknown (so "needs information", never a pass) until the sheet gives the date.
+        if (row.approvedBefore !== undefined) {
+          const leaf = compileLeaf({ fact: 'cage.approvedOn', operator: 'lessThan', value: row.approvedBefore }, [...rowPath, 'approvedBefore'], ctx);
+          if (leaf) out.push(leaf);
+        }
         return out;
       };
       const sizeNode = (odMm: number, wallMm: number, meta: Omit<AlternativeMeta, 'materials' | 'processes' | 'requiredWallMm'>): EngineNode => {
         const name = ctx.nextAlternative();
-        ctx.alternatives[name] = { ...meta, requiredWallMm: Math.max(wallMm - wallAllowanceMm, 0), ...(row.materials ? { materials: row.materials } : {}), ...(row.processes ? { processes: row.processes } : {}) };
         const od = compileLeaf({ fact: 'member.odMm', operator: 'greaterThanInclusive', value: odMm, unit: 'mm' }, rowPath, ctx);
         const wall = compileLeaf({ fact: 'member.wallMm', operator: 'greaterThanInclusive', value: Math.max(wallMm - wallAllowanceMm, 0), unit: 'mm' }, rowPath, ctx);
-        return { all: [...restrictions(), od, wall], name };
+        const measured = readingLeaf(wallMm, [...path, 'measuredWall']);
+        ctx.alternatives[name] = {
+          ...meta, requiredWallMm: Math.max(wallMm - wallAllowanceMm, 0), ...(row.materials ? { materials: row.materials } : {}), ...(row.processes ? { processes: row.processes } : {}),
+          ...(row.approvedBefore ? { approvedBefore: row.approvedBefore } : {}),
+          ...(measured ? { requiredReadingMm: measured.requiredMm, readingFact: measured.fact } : {}),
+        };
+        return { all: [...restrictions(), od, wall, ...(measured ? [measured.node] : [])], name };
       };
       for (const s of sizes) {
         const label = s.label ?? sizeLabel(s.odMm, s.wallMm, ctx.system);
@@ -121,21 +181,27 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
         }
       }
       if (thin && thinUnit) {
-        const minOd = Math.min(...sizes.map((s) => s.odMm));
+        // Two readings of "the minimum diameter required for the weight" (F-SCCA-T1): the smallest OD
+        // the row lists (today's default) or the largest.
+        const ods = sizes.map((s) => s.odMm);
+        const minOd = thin.minimumDiameter === 'largest_listed' ? Math.max(...ods) : Math.min(...ods);
         const marginMm = toCanonical(thin.odMargin, thinUnit);
         const minWallMm = toCanonical(thin.minWall, thinUnit);
         const name = ctx.nextAlternative();
         const label = `${lengthLabel(minOd + marginMm, ctx.system)} OD or larger with ${lengthLabel(minWallMm, ctx.system)} wall (thin-wall allowance)`;
+        const measured = readingLeaf(minWallMm, [...path, 'measuredWall']);
         ctx.alternatives[name] = {
           label, odMm: minOd + marginMm, wallMm: minWallMm, requiredWallMm: Math.max(minWallMm - wallAllowanceMm, 0), source: 'allowance',
           ...(row.materials ? { materials: row.materials } : {}), ...(row.processes ? { processes: row.processes } : {}),
+          ...(measured ? { requiredReadingMm: measured.requiredMm, readingFact: measured.fact } : {}),
+          ...(row.approvedBefore ? { approvedBefore: row.approvedBefore } : {}),
         };
         const margin = compileLeaf(
           { fact: 'member.odMarginOverTableMinimumMm', operator: 'greaterThanInclusive', value: marginMm, unit: 'mm', params: { tableMinimumOdMm: minOd } },
           [...path, 'allowances', 'thinWallWhenOdExceedsMinimum'], ctx,
         );
         const wall = compileLeaf({ fact: 'member.wallMm', operator: 'greaterThanInclusive', value: Math.max(minWallMm - wallAllowanceMm, 0), unit: 'mm' }, [...path, 'allowances'], ctx);
-        alternatives.push({ all: [...restrictions(), margin, wall], name });
+        alternatives.push({ all: [...restrictions(), margin, wall, ...(measured ? [measured.node] : [])], name });
       }
     });
     // Descending priorities make the engine try alternatives one at a time and stop at the first
@@ -156,21 +222,37 @@ function compileRequiredMembers(r: TemplateOf<'required_members'>, path: Path, c
   r.members.forEach((entry, i) => {
     const p = [...path, 'members', i];
     const kinds = [...new Set(entry.kinds)];
-    const label = entry.label ?? `number of ${kinds.map((k) => MEMBER_KIND_LABELS[k]).join(' / ')}`;
-    const addressing = kinds.length === 1 ? { fact: 'vehicle.memberCounts', path: kinds[0] } : { fact: 'vehicle.memberCountOfKinds', params: { kinds } };
-    leaves.push(compileLeaf({ ...addressing, operator: 'greaterThanInclusive', value: entry.min }, p, ctx, label));
-    if (entry.max !== undefined) {
-      if (entry.max < entry.min) ctx.problems.add([...p, 'max'], 'The maximum must not be below the minimum.');
-      leaves.push(compileLeaf({ ...addressing, operator: 'lessThanInclusive', value: entry.max }, p, ctx, label));
+    const kindWords = kinds.map((k) => MEMBER_KIND_LABELS[k]).join(' / ');
+    if (entry.max !== undefined && entry.max < entry.min) ctx.problems.add([...p, 'max'], 'The maximum must not be below the minimum.');
+    // Per side (opt-in): each side is its own count, so two door bars on one side do not stand
+    // in for none on the other.
+    const sides: (SideParam | undefined)[] = entry.side === undefined ? [undefined] : entry.side === 'each' ? ['left', 'right'] : [entry.side];
+    if (entry.side !== undefined) {
+      const sideless = kinds.filter((k) => !SIDED_MEMBER_KINDS.includes(k));
+      if (sideless.length > 0) ctx.problems.add([...p, 'side'], `A ${MEMBER_KIND_LABELS[sideless[0]]} spans the car and has no side; count it in total.`);
+    }
+    for (const side of sides) {
+      const label = entry.label
+        ? (side && entry.side === 'each' ? `${entry.label} ${sideWords(side)}` : entry.label)
+        : `number of ${kindWords}${side ? ` ${sideWords(side)}` : ''}`;
+      const addressing = side !== undefined
+        ? { fact: 'vehicle.memberCountOnSide', params: { kinds, side } }
+        : kinds.length === 1 ? { fact: 'vehicle.memberCounts', path: kinds[0] } : { fact: 'vehicle.memberCountOfKinds', params: { kinds } };
+      leaves.push(compileLeaf({ ...addressing, operator: 'greaterThanInclusive', value: entry.min }, p, ctx, label));
+      if (entry.max !== undefined) leaves.push(compileLeaf({ ...addressing, operator: 'lessThanInclusive', value: entry.max }, p, ctx, label));
     }
   });
   return leaves.every((l) => l) ? single({ all: leaves }) : undefined;
 }
 
 function compileLimit(r: TemplateOf<'limit'>, path: Path, ctx: TemplateContext): CompiledRequires | undefined {
-  const leaves = r.checks.map((c, i) =>
-    compileLeaf({ fact: c.fact, operator: ENGINE_FROM_LIMIT[c.operator], value: c.value, unit: c.unit, path: c.path, params: c.params }, [...path, 'checks', i], ctx, c.label),
-  );
+  const leaves = r.checks.flatMap((c, i): (EngineNode | undefined)[] => {
+    const p = [...path, 'checks', i];
+    if (GRADE_FACTS[c.fact]) return compileGradeFloor(c, p, ctx) ?? [undefined];
+    const v = c.value;
+    if (isProportional(v)) return [compileProportional({ ...c, value: v }, p, ctx)];
+    return [compileLeaf({ fact: c.fact, operator: ENGINE_FROM_LIMIT[c.operator], value: v, unit: c.unit, path: c.path, params: c.params }, p, ctx, c.label)];
+  });
   return leaves.every((l) => l) ? single({ all: leaves }) : undefined;
 }
 
@@ -191,6 +273,7 @@ const COMPILERS: { readonly [K in TemplateName]: Compiler<K> } = {
   limit: (_req, r, path, ctx) => compileLimit(r, path, ctx),
   allowed_values: (_req, r, path, ctx) => compileAllowedValues(r, path, ctx),
   conditions: (_req, r, path, ctx) => single(compileConditionTree(r.conditions, [...path, 'conditions'], ctx)),
+  member_match: (req, r, path, ctx) => single(compileMemberMatch(req, r, path, ctx)),
 };
 
 export function compileRequires(req: Requirement, path: Path, ctx: TemplateContext): CompiledRequires | undefined {

@@ -6,7 +6,8 @@ import type { Dimension } from '../units.js';
 import type { FriendlyOperator } from './operators.js';
 import type { TemplateName } from './template-kinds.js';
 
-export type LeafValue = number | string | boolean | readonly string[] | { fact: string };
+/** `{ fact }`: another value of the check; `times`: k × it (canonical; `timesDimension` null for a plain factor). */
+export type LeafValue = number | string | boolean | readonly string[] | { fact: string; times?: number; timesDimension?: Dimension | null };
 
 export interface LeafMeta {
   fact: string;
@@ -16,6 +17,10 @@ export interface LeafMeta {
   /** Nominal required value, canonical units (before tolerance). */
   value: LeafValue;
   path?: string;
+  /** Tells apart comparisons of one dynamic fact with different params (left vs right counts). */
+  paramsKey?: string;
+  /** A calendar-date comparison (words "before" / "on or after", dates shown as "1 Jan 1995"). */
+  date?: true;
 }
 
 export interface AlternativeMeta {
@@ -26,7 +31,12 @@ export interface AlternativeMeta {
   requiredWallMm: number;
   materials?: readonly string[];
   processes?: readonly string[];
+  /** Counts only for cages approved before this date (YYYY-MM-DD). */
+  approvedBefore?: string;
   source: 'table' | 'allowance' | 'printed_equivalent';
+  /** With a tube table's `measuredWall`: the thinnest reading the member needs, and its fact. */
+  requiredReadingMm?: number;
+  readingFact?: string;
   note?: string;
 }
 
@@ -49,6 +59,8 @@ export interface CompiledRequirement {
   template: TemplateName;
   classes: readonly string[] | null;
   explanation: string;
+  /** A maker's certificate on the sheet stands in for this requirement. */
+  acceptsMakerCertificate: boolean;
   /** One per weight band for a banded tube table, else exactly one. */
   variants: CompiledVariant[];
   leaves: Readonly<Record<string, LeafMeta>>;
@@ -65,6 +77,8 @@ export interface CompiledPolicy {
 export interface CompiledRuleset {
   document: RulesetDocument;
   classes: Readonly<Record<string, RulesetClass>>;
+  /** Listed class weights (canonical kg) for the classes that give one. */
+  listedWeightsKg: Readonly<Record<string, number>>;
   requirements: readonly CompiledRequirement[];
   policy: CompiledPolicy;
 }

@@ -1,8 +1,9 @@
 // Three-valued reading of a json-rules-engine result tree. The engine treats a missing fact as a
 // failed comparison, and `not` would turn that into a pass; here a comparison whose fact is missing
 // is "unknown", so a finding can never pass on a value nobody measured (Kleene logic).
-import { factPresent } from '../facts.js';
+import { absentFacts, factPresent } from '../facts.js';
 import type { FactSet } from '../facts.js';
+import { referencedFact } from './references.js';
 
 export type Tri = true | false | 'unknown';
 
@@ -17,7 +18,6 @@ export type ResultNode = Record<string, unknown> & {
   factResult?: unknown;
 };
 
-const isFactRef = (v: unknown): v is { fact: string } => typeof v === 'object' && v !== null && !Array.isArray(v) && typeof (v as { fact?: unknown }).fact === 'string';
 
 /** Evaluates a result node; every leaf whose fact is missing is added to `missing`. */
 export function triState(node: ResultNode, facts: FactSet, missing: Set<string>): Tri {
@@ -45,12 +45,14 @@ export function triState(node: ResultNode, facts: FactSet, missing: Set<string>)
   }
   const fact = node.fact as string;
   let absent = false;
-  if (!factPresent(facts, fact)) {
-    missing.add(fact);
+  const needed = absentFacts(facts, fact, node.params);
+  if (needed.length > 0) {
+    for (const n of needed) missing.add(n);
     absent = true;
   }
-  if (isFactRef(node.value) && !factPresent(facts, node.value.fact)) {
-    missing.add(node.value.fact);
+  const ref = referencedFact(node.value);
+  if (ref !== undefined && !factPresent(facts, ref)) {
+    missing.add(ref);
     absent = true;
   }
   if (absent) return 'unknown';

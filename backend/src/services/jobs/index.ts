@@ -7,6 +7,9 @@ export {
   type ProgressReporter,
   type SendOptions,
   type JobsOptions,
+  type QueueOptions,
+  defaultQueueOptions,
+  JobSupersededError,
 } from './jobs';
 export {
   createJobProgressReader,
@@ -15,4 +18,5 @@ export {
   type JobProgressReader,
   type JobProgressStore,
   type SqlQuery,
+  type JobControl,
 } from './progress';

@@ -7,36 +7,62 @@ import { OutboxMessage } from '../../entities';
 export interface EnqueueOptions {
   /** The caller's transaction; without it the mail is inserted on its own. */
   manager?: EntityManager;
+  /**
+   * The same mail enqueued again under this key (a retried job, a repeated request) is stored once:
+   * the first row's id comes back and nothing new is sent. At most 200 characters.
+   */
+  idempotencyKey?: string;
 }
 
 export type MailService = ReturnType<typeof createMailService>;
 
 export function createMailService(ds: DataSource) {
   return {
-    /** Checks and stores one mail; returns its outbox id. A bad mail is a bug in the caller: it throws. */
-    async enqueue(mail: OutgoingMail, options: EnqueueOptions = {}): Promise<{ id: string }> {
+    /**
+     * Checks and stores one mail; returns its outbox id, and `created: false` when a mail with the same
+     * idempotency key was already there (then nothing was stored). A bad mail is a bug in the caller: it throws.
+     */
+    async enqueue(
+      mail: OutgoingMail,
+      options: EnqueueOptions = {},
+    ): Promise<{ id: string; created: boolean }> {
       const parsed = outgoingMailSchema.safeParse(mail);
       if (!parsed.success) {
         const fields = parsed.error.issues.map((i) => `${i.path.join('.')}: ${i.message}`).join('; ');
         throw new Error(`mail.enqueue refused a mail of kind "${String(mail.kind)}": ${fields}`);
       }
       const m = parsed.data;
-      const repo = (options.manager ?? ds.manager).getRepository(OutboxMessage);
-      const row = await repo.save(
-        repo.create({
-          toAddress: m.to,
-          subject: m.subject,
-          textBody: m.text,
-          htmlBody: m.html ?? null,
-          kind: m.kind,
-          related: m.related,
-          status: 'pending',
-          attempts: 0,
-          lastError: null,
-          sentAt: null,
-        }),
-      );
-      return { id: row.id };
+      const key = options.idempotencyKey ?? null;
+      if (key !== null && (key.length === 0 || key.length > 200))
+        throw new Error('mail.enqueue: an idempotency key has 1 to 200 characters');
+      const manager = options.manager ?? ds.manager;
+      const repo = manager.getRepository(OutboxMessage);
+      const values = {
+        toAddress: m.to,
+        subject: m.subject,
+        textBody: m.text,
+        htmlBody: m.html ?? null,
+        kind: m.kind,
+        related: m.related,
+        status: 'pending' as const,
+        attempts: 0,
+        lastError: null,
+        sentAt: null,
+        idempotencyKey: key,
+      };
+      if (key === null) return { id: (await repo.save(repo.create(values))).id, created: true };
+      // ON CONFLICT DO NOTHING: a concurrent or earlier insert under the key wins, and this one is a no-op.
+      const inserted = await repo
+        .createQueryBuilder()
+        .insert()
+        .values(values)
+        .orIgnore()
+        .returning(['id'])
+        .execute();
+      const id = (inserted.raw as { id: string }[])[0]?.id;
+      if (id) return { id, created: true };
+      const existing = await repo.findOneOrFail({ where: { idempotencyKey: key }, select: { id: true } });
+      return { id: existing.id, created: false };
     },
   };
 }

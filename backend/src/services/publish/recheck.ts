@@ -45,6 +45,8 @@ export interface RecheckOptions {
   onTotal?: (total: number) => Promise<void> | void;
   /** Called with each page's results (store them, count them, mail about them). */
   onPage: (page: RecheckedSheet[], failed: number) => Promise<void> | void;
+  /** Skip the sheets this publish job already stored a result for (a resumed job continues). */
+  skipStoredForJob?: string;
 }
 
 interface SheetRow {
@@ -62,14 +64,16 @@ interface SheetRow {
 }
 
 const sheetFilter = `s.archived_at IS NULL AND s.rulebook_id = $1 AND s.class_id = ANY($2::text[])`;
+const notStored = (param: string) =>
+  `(${param}::uuid IS NULL OR NOT EXISTS (SELECT 1 FROM ruleset_recheck_results x WHERE x.job_id = ${param}::uuid AND x.build_sheet_id = s.id))`;
 
-/** Active sheets of the rulebook in those classes (by their latest revision). */
-export async function countSheets(ds: DataSource, rulebookId: string, classIds: readonly string[]): Promise<number> {
-  const rows: { n: string }[] = await ds.query(`SELECT count(*) AS n FROM build_sheets s WHERE ${sheetFilter}`, [rulebookId, classIds]);
+/** Active sheets of the rulebook in those classes (by their latest revision), less those the job stored. */
+export async function countSheets(ds: DataSource, rulebookId: string, classIds: readonly string[], skipStoredForJob: string | null = null): Promise<number> {
+  const rows: { n: string }[] = await ds.query(`SELECT count(*) AS n FROM build_sheets s WHERE ${sheetFilter} AND ${notStored('$3')}`, [rulebookId, classIds, skipStoredForJob]);
   return Number(rows[0]?.n ?? 0);
 }
 
-async function page(ds: DataSource, rulebookId: string, classIds: readonly string[], afterId: string | null, limit: number): Promise<SheetRow[]> {
+async function page(ds: DataSource, rulebookId: string, classIds: readonly string[], afterId: string | null, limit: number, skipStoredForJob: string | null): Promise<SheetRow[]> {
   return ds.query(
     `SELECT s.id, s.name AS sheet_name, c.name AS car_name, u.id AS owner_id, u.display_name AS owner_name, u.email AS owner_email,
             r.class_id, r.number AS revision_number, r.ruleset_version_id AS revision_version_id,
@@ -79,9 +83,9 @@ async function page(ds: DataSource, rulebookId: string, classIds: readonly strin
      JOIN build_sheet_revisions r ON r.build_sheet_id = s.id AND r.number = s.current_revision
      JOIN cars c ON c.id = s.car_id
      JOIN users u ON u.id = c.owner_id
-     WHERE ${sheetFilter} AND ($3::uuid IS NULL OR s.id > $3::uuid)
+     WHERE ${sheetFilter} AND ($3::uuid IS NULL OR s.id > $3::uuid) AND ${notStored('$5')}
      ORDER BY s.id LIMIT $4`,
-    [rulebookId, classIds, afterId, limit],
+    [rulebookId, classIds, afterId, limit, skipStoredForJob],
   );
 }
 
@@ -91,13 +95,14 @@ export async function recheckSheets(options: RecheckOptions): Promise<{ checked:
   const batchSize = options.batchSize ?? 200;
   const yieldEvery = options.yieldEvery ?? 20;
   const known = classIds.filter((id) => compiled.classes[id] !== undefined);
-  await options.onTotal?.(known.length === 0 ? 0 : await countSheets(ds, rulebookId, known));
+  const skip = options.skipStoredForJob ?? null;
+  await options.onTotal?.(known.length === 0 ? 0 : await countSheets(ds, rulebookId, known, skip));
   let checked = 0;
   let failedTotal = 0;
   let afterId: string | null = null;
   if (known.length === 0) return { checked, failed: failedTotal };
   for (;;) {
-    const rows = await page(ds, rulebookId, known, afterId, batchSize);
+    const rows = await page(ds, rulebookId, known, afterId, batchSize, skip);
     if (rows.length === 0) break;
     const results: RecheckedSheet[] = [];
     let failed = 0;

@@ -2,13 +2,15 @@
 // classes against the newly published edition, stores each result in ruleset_recheck_results
 // (verdict before and after; the builders' own check runs stay as they were) and, for each sheet
 // whose verdict changed, puts an e-mail to its builder into the outbox in the same transaction as
-// the result. Sending is the outbox dispatcher's: with the SMTP server down the job still completes
-// and the mail goes out when it returns.
+// the result, only when that result row is new, under an idempotency key. So the job can be killed at
+// any point and retried (pg-boss retries it; docs/decisions/0007-jobs-that-finish.md): a retry
+// continues with the sheets not stored yet. Sending is the outbox dispatcher's: with the SMTP server
+// down the job still completes and the mail goes out when it returns.
 import type { DataSource, EntityManager } from 'typeorm';
 import type { RulesetDocument } from '../../contracts/ruleset';
 import { validateRulesetDocument } from '../../domain/rules/validate';
 import { describeRulesetChanges, type RulesetChange } from '../../domain/rulebook/diff';
-import type { Jobs } from '../jobs';
+import type { Jobs, ProgressReporter } from '../jobs';
 import { renderMail, type MailService } from '../mail';
 import type { AuditService } from '../audit.service';
 import type { RulesetService } from '../rulesets.service';
@@ -60,69 +62,119 @@ function verdictMail(sheet: RecheckedSheet, doc: RulesetDocument, changes: Rules
   });
 }
 
-async function storePage(tx: EntityManager, deps: RepublishDeps, jobId: string, versionId: string, page: RecheckedSheet[], doc: RulesetDocument, changes: RulesetChange[]): Promise<number> {
-  let mailed = 0;
-  const mailIds = new Map<string, string>();
-  for (const s of page) {
-    // A sheet never checked before has nothing to change from; only a verdict the builder saw can change.
-    if (s.storedVerdict === null || s.storedVerdict === s.after) continue;
-    const { id } = await deps.mail.enqueue(
-      { to: s.ownerEmail, kind: 'verdict.changed', related: { buildSheetId: s.buildSheetId, rulesetVersionId: versionId }, ...verdictMail(s, doc, changes, deps.publicUrl) },
-      { manager: tx },
-    );
-    mailIds.set(s.buildSheetId, id);
-    mailed++;
-  }
-  if (page.length > 0) {
-    // One multi-row insert per page: 200 sheets in one round trip.
-    const values: unknown[] = [];
-    const tuples = page.map((s, i) => {
-      values.push(jobId, versionId, s.buildSheetId, s.revisionNumber, s.classId, s.storedVerdict, s.after, mailIds.get(s.buildSheetId) ?? null);
-      const b = i * 8;
-      return `($${b + 1}, $${b + 2}, $${b + 3}, $${b + 4}, $${b + 5}, $${b + 6}, $${b + 7}, $${b + 8})`;
-    });
-    await tx.query(
-      `INSERT INTO ruleset_recheck_results (job_id, ruleset_version_id, build_sheet_id, revision_number, class_id, verdict_before, verdict_after, mail_id)
-       VALUES ${tuples.join(', ')} ON CONFLICT (job_id, build_sheet_id) DO NOTHING`,
-      values,
-    );
-  }
-  return mailed;
+/** The mail about one sheet's new verdict under one edition: one row per key, whatever retries happen. */
+export function verdictMailKey(versionId: string, buildSheetId: string): string {
+  return `verdict.changed:${versionId}:${buildSheetId}`;
 }
 
-/** Runs one publish job; exported for tests and the bench, which call it without pg-boss. */
-export async function runRepublish(
-  deps: RepublishDeps,
-  job: { id: string; data: RepublishJobData; progress: { setTotal(n: number): Promise<void>; advance(c: { done?: number; failed?: number }): Promise<void> } },
-): Promise<{ checked: number; failed: number; changed: number; mailed: number }> {
+/**
+ * Stores one page in the caller's transaction: the results first (ON CONFLICT DO NOTHING, so a page a
+ * dead attempt or a concurrent one already stored is skipped), then a mail for each result that is new
+ * here and whose verdict changed, under an idempotency key. Returns how many results were new.
+ */
+async function storePage(tx: EntityManager, deps: RepublishDeps, jobId: string, versionId: string, page: RecheckedSheet[], doc: RulesetDocument, changes: RulesetChange[]): Promise<number> {
+  if (page.length === 0) return 0;
+  // One multi-row insert per page: 200 sheets in one round trip.
+  const values: unknown[] = [];
+  const tuples = page.map((s, i) => {
+    values.push(jobId, versionId, s.buildSheetId, s.revisionNumber, s.classId, s.storedVerdict, s.after);
+    const b = i * 7;
+    return `($${b + 1}, $${b + 2}, $${b + 3}, $${b + 4}, $${b + 5}, $${b + 6}, $${b + 7})`;
+  });
+  const inserted: { build_sheet_id: string }[] = await tx.query(
+    `INSERT INTO ruleset_recheck_results (job_id, ruleset_version_id, build_sheet_id, revision_number, class_id, verdict_before, verdict_after)
+     VALUES ${tuples.join(', ')} ON CONFLICT (job_id, build_sheet_id) DO NOTHING RETURNING build_sheet_id`,
+    values,
+  );
+  const isNew = new Set(inserted.map((r) => r.build_sheet_id));
+  const sheets: string[] = [];
+  const mails: string[] = [];
+  for (const s of page) {
+    // A sheet never checked before has nothing to change from; only a verdict the builder saw can change.
+    if (!isNew.has(s.buildSheetId) || s.storedVerdict === null || s.storedVerdict === s.after) continue;
+    const { id } = await deps.mail.enqueue(
+      { to: s.ownerEmail, kind: 'verdict.changed', related: { buildSheetId: s.buildSheetId, rulesetVersionId: versionId }, ...verdictMail(s, doc, changes, deps.publicUrl) },
+      { manager: tx, idempotencyKey: verdictMailKey(versionId, s.buildSheetId) },
+    );
+    sheets.push(s.buildSheetId);
+    mails.push(id);
+  }
+  if (sheets.length > 0) {
+    await tx.query(
+      `UPDATE ruleset_recheck_results r SET mail_id = m.mail_id FROM unnest($2::uuid[], $3::uuid[]) AS m(build_sheet_id, mail_id)
+       WHERE r.job_id = $1 AND r.build_sheet_id = m.build_sheet_id`,
+      [jobId, sheets, mails],
+    );
+  }
+  return isNew.size;
+}
+
+/** What the job has stored so far, over all its attempts. */
+async function storedTotals(ds: DataSource | EntityManager, jobId: string): Promise<{ checked: number; changed: number; mailed: number }> {
+  const rows: { checked: number; changed: number; mailed: number }[] = await ds.query(
+    `SELECT count(*)::int AS checked,
+            count(*) FILTER (WHERE verdict_before IS NOT NULL AND verdict_before <> verdict_after)::int AS changed,
+            count(mail_id)::int AS mailed
+     FROM ruleset_recheck_results WHERE job_id = $1`,
+    [jobId],
+  );
+  return rows[0] ?? { checked: 0, changed: 0, mailed: 0 };
+}
+
+export interface RepublishJob {
+  id: string;
+  data: RepublishJobData;
+  progress: Pick<ProgressReporter, 'setTotal' | 'advance'> & Partial<Pick<ProgressReporter, 'resumeFrom'>>;
+}
+
+/**
+ * Runs one publish job, or resumes it: sheets the job already stored a result for are skipped, so a
+ * retry after a crash re-checks each sheet once and mails each builder once, and the completion entry in
+ * the activity log is written once. Exported for tests and the bench, which call it without pg-boss.
+ */
+export async function runRepublish(deps: RepublishDeps, job: RepublishJob): Promise<{ checked: number; failed: number; changed: number; mailed: number }> {
   const current = await documentOf(deps.ds, job.data.versionId);
   if (!current) throw new Error('The published version could not be read or is invalid.');
   const previous = job.data.previousVersionId ? await documentOf(deps.ds, job.data.previousVersionId) : null;
   const changes = previous ? describeRulesetChanges(previous.document, current.document) : [];
   const compiled = await deps.rulesets.loadCompiled(job.data.versionId);
-  let mailed = 0;
-  let changed = 0;
+  const before = await storedTotals(deps.ds, job.id);
+  if (before.checked > 0) await job.progress.resumeFrom?.({ done: before.checked });
   const result = await recheckSheets({
     ds: deps.ds,
     rulebookId: current.rulebookId,
     classIds: job.data.classIds,
     compiled,
+    skipStoredForJob: job.id,
     ...(deps.batchSize ? { batchSize: deps.batchSize } : {}),
-    onTotal: (n) => job.progress.setTotal(n),
+    onTotal: (remaining) => job.progress.setTotal(before.checked + remaining),
     onPage: async (page, failed) => {
-      changed += page.filter((s) => s.storedVerdict !== null && s.storedVerdict !== s.after).length;
-      mailed += await deps.ds.transaction((tx) => storePage(tx, deps, job.id, job.data.versionId, page, current.document, changes));
-      await job.progress.advance({ done: page.length, failed });
+      const stored = await deps.ds.transaction((tx) => storePage(tx, deps, job.id, job.data.versionId, page, current.document, changes));
+      await job.progress.advance({ done: stored, failed });
     },
   });
-  await deps.audit.record({
-    clubId: current.clubId,
-    actorId: null,
-    action: 'ruleset.recheck_completed',
-    entity: { type: 'ruleset_version', id: job.data.versionId },
-    details: { versionNumber: current.versionNumber, jobId: job.id, checked: result.checked, failed: result.failed, changed, mailed },
+  return deps.ds.transaction(async (tx) => {
+    // One completion entry per job, even when two attempts reach this point.
+    await tx.query(`SELECT pg_advisory_xact_lock(hashtext($1))`, [`recheck-completed:${job.id}`]);
+    const totals = await storedTotals(tx, job.id);
+    const logged: unknown[] = await tx.query(
+      `SELECT 1 FROM audit_entries WHERE action = 'ruleset.recheck_completed' AND entity_id = $1 AND details->>'jobId' = $2`,
+      [job.data.versionId, job.id],
+    );
+    if (logged.length === 0) {
+      await deps.audit.record(
+        {
+          clubId: current.clubId,
+          actorId: null,
+          action: 'ruleset.recheck_completed',
+          entity: { type: 'ruleset_version', id: job.data.versionId },
+          details: { versionNumber: current.versionNumber, jobId: job.id, checked: totals.checked, failed: result.failed, changed: totals.changed, mailed: totals.mailed },
+        },
+        { manager: tx },
+      );
+    }
+    return { checked: totals.checked, failed: result.failed, changed: totals.changed, mailed: totals.mailed };
   });
-  return { ...result, changed, mailed };
 }
 
 /** Registers the publish job's worker on pg-boss (server.ts calls this after jobs.start()). */

@@ -37,6 +37,7 @@ const WORDS: Record<string, string> = {
   none: 'No padding',
   ultrasonic: 'Ultrasonic gauge',
   inspection_hole: 'Inspection hole',
+  callipers: 'Callipers at a tube end',
 };
 
 const kindLabel = (k: string) => MEMBER_KIND_LABELS[k as keyof typeof MEMBER_KIND_LABELS];

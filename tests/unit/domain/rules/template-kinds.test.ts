@@ -37,6 +37,11 @@ const EXAMPLES: Record<TemplateName, { scope: Requirement['scope']; requires: Re
     requires: { template: 'conditions', conditions: { all: [{ fact: 'padding.nearHelmet', operator: 'equal', value: true }] } },
     changed: { template: 'conditions', conditions: { all: [{ fact: 'padding.nearHelmet', operator: 'equal', value: false }] } },
   },
+  member_match: {
+    scope: { kind: 'member', memberKinds: ['rear_brace'] },
+    requires: { template: 'member_match', of: ['main_hoop'], checks: [{ measure: 'od', operator: 'equals' }] },
+    changed: { template: 'member_match', of: ['main_hoop'], checks: [{ measure: 'od', operator: 'equals' }, { measure: 'wall', operator: 'equals' }] },
+  },
 };
 
 const doc = (scope: Requirement['scope'], requires: Requires) => ({
