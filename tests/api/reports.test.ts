@@ -127,6 +127,12 @@ describe('the PDF report', () => {
     const text = await pdfText(res.body as Buffer);
     expect(text).toContain('38.1 × 1.65 mm');
     expect(text).not.toContain('1.500 × 0.065 in');
+    // Issue 9 §4: the run was checked in the builder's inch units; its reasons are written again from
+    // their stored parts in the reader's metric, sizes included, and a failing one says what to change.
+    const flat = text.replace(/\s+/g, ' ');
+    expect(flat).toContain('To pass, use');
+    expect(flat).toMatch(/Nearest: 38\.1 × 2\.41 mm/); // 1.500 × 0.095 in (F-UNIT-1, computed)
+    expect(flat).not.toMatch(/\d in (is|\(|;|in )/);
     await who.builder.agent.get(`/api/check-runs/${runId}/report.pdf?units=furlongs`).expect(400);
   });
 

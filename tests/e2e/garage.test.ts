@@ -171,7 +171,12 @@ test('a builder takes a car from empty garage to a kept check and its PDF', asyn
     expect(text).toContain('not a cage record');
     await page.goto(`${baseUrl}/verify/${encodeURIComponent(code)}`);
     const answer = page.locator('.vc');
-    await answer.waitFor();
+    const verifyError = page.locator('[data-test="verify-error"]');
+    await Promise.race([answer.waitFor(), verifyError.waitFor()]).catch(async (e: unknown) => {
+      await screenshot(page, 'garage-verify-check-run-failed-desktop');
+      throw new Error(`No answer on the verify page: ${(await page.locator('main').innerText().catch(() => '')).slice(0, 400)}`, { cause: e });
+    });
+    if (await verifyError.count()) throw new Error(`The verify page refused the run's code ${code}: ${await verifyError.innerText()}`);
     expect(await answer.innerText()).toContain('not a cage record');
     expect(await page.locator('[data-test="verify-kind"]').innerText()).toMatch(/^Pre-check of \d{4}-\d{2}-\d{2}$/);
     expect(text).toContain(`pre-check made on ${(await page.locator('[data-test="verify-kind"]').innerText()).slice('Pre-check of '.length)}`);

@@ -2,6 +2,7 @@
 // check run and what the garage knows about the car (rendering is pdf-engine's job). Every number
 // is formatted from canonical units with the domain's formatQuantity in the reader's units. Noto
 // Sans has no "≥", "≤" or "→" glyphs, so text passes through pdfSafe before it reaches the page.
+import { findingReason } from '../domain/rules/reason-text';
 import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interfaces';
 import type { CutListRowWire, TubeDataWire } from '../contracts/garage';
 import type { CheckReport, Finding, MeasuredValue, RequiredValue } from '../contracts/report';
@@ -164,7 +165,9 @@ function requirementBlock(findings: readonly Finding[], units: UnitSystem, waive
     if (f.measured.length) details.push({ text: [{ text: 'Measured ', color: COLOURS.muted }, f.measured.map((m) => measuredText(m, units)).join('; ')] });
     if (f.required.length) details.push({ text: [{ text: 'Required ', color: COLOURS.muted }, f.required.map((r) => requiredText(r, units)).join('; ')] });
     if (f.missing.length) details.push({ text: [{ text: 'Missing ', color: COLOURS.muted }, f.missing.map((m) => pdfSafe(m.label)).join('; ')] });
-    if (f.reason) details.push({ text: pdfSafe(f.reason) });
+    // Written from the stored parts in this PDF's units; a run stored before parts keeps its text.
+    const reason = findingReason(f, units);
+    if (reason) details.push({ text: pdfSafe(reason) });
     return [
       { text: isWaived ? `${VERDICT_WORDS[f.verdict]}, waived` : VERDICT_WORDS[f.verdict], bold: true, color: isWaived ? COLOURS.info : VERDICT_COLOURS[f.verdict] },
       { text: subjectText(f) },

@@ -40,7 +40,7 @@ describe('per-side counts ("at least one door bar on each side")', () => {
     expect(finding(await check(each, { vehicle: { classId: 'c' }, members: [bar('l', 'left'), bar('r', 'right')] }), 'doors').verdict).toBe('pass');
     const f = finding(await check(each, { vehicle: { classId: 'c' }, members: [bar('l1', 'left'), bar('l2', 'left')] }), 'doors');
     expect(f.verdict).toBe('fail');
-    expect(f.reason).toBe('Does not meet it: number of door bar on the right 0 (required at least 1).');
+    expect(f.reason).toBe('Does not meet it: number of door bar on the right 0 (required at least 1). To pass: number of door bar on the right at least 1.');
   });
   test('a centre member counts on neither side', async () => {
     expect(finding(await check(each, { vehicle: { classId: 'c' }, members: [bar('l', 'left'), bar('c', 'centre')] }), 'doors').verdict).toBe('fail');
@@ -107,7 +107,7 @@ describe('dates (F-MSUK-3: "accepted only for cages approved before 1 Jan 1995")
     expect((await at({ approvedOn: '1994-12-31' })).verdict).toBe('pass');
     const f = await at({ approvedOn: '1995-01-01' });
     expect(f.verdict).toBe('fail');
-    expect(f.reason).toBe('Does not meet it: cage approval date 1 Jan 1995 (required before 1 Jan 1995).');
+    expect(f.reason).toBe('Does not meet it: cage approval date 1 Jan 1995 (required before 1 Jan 1995). To pass: cage approval date before 1 Jan 1995.');
     expect((await at({})).verdict).toBe('needs_information');
   });
   test.each([
