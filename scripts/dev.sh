@@ -3,6 +3,7 @@
 # /api to the API) together against the durable dev cluster. Ctrl-C stops both; the database keeps running.
 set -euo pipefail
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
+load_dotenv
 
 require_node
 ensure_node_modules

@@ -4,6 +4,14 @@
 root="$(cd "$(dirname "${BASH_SOURCE[0]}")/.." && pwd)"
 cd "$root"
 
+# The project's .env, when present: its variables for everything the script runs, the environment winning.
+load_dotenv() {
+  [ -f "$root/.env" ] || return 0
+  local exports
+  exports="$(node "$root/scripts/dotenv-exports.mjs" "$root/.env")" || fail "could not read .env"
+  eval "$exports"
+}
+
 step() { printf '\n\033[1m==> %s\033[0m\n' "$*"; }
 info() { printf '    %s\n' "$*"; }
 fail() { printf '\n\033[31mcagewright: %s\033[0m\n' "$*" >&2; exit 1; }

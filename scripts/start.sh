@@ -6,6 +6,7 @@
 # (backend/src/supervisor.ts: restarts the server after an unexpected exit; Ctrl-C stops both).
 set -euo pipefail
 source "$(dirname "${BASH_SOURCE[0]}")/lib.sh"
+load_dotenv
 
 require_node
 step "Checking npm packages"

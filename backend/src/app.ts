@@ -20,6 +20,7 @@ import { createCarsRouter } from './routes/cars.routes';
 import { createCheckRunsReportRouter } from './routes/check-runs-report.routes';
 import { createPhotosRouter } from './routes/photos.routes';
 import { createChecksRouter } from './routes/checks.routes';
+import { createGeometryRouter } from './routes/geometry.routes';
 import { createHealthProbe, createHealthRouter, type HealthProbe } from './routes/health.routes';
 import { createInvitationsRouter } from './routes/invitations.routes';
 import { createMembersRouter } from './routes/members.routes';
@@ -33,6 +34,7 @@ import { createReviewRouter } from './routes/review.routes';
 import { createCageRecordsRouter } from './routes/cage-records.routes';
 import { createVerifyRouter, defaultVerifyLimit } from './routes/verify.routes';
 import { createRulebookAdminRouter } from './routes/rulebook-admin.routes';
+import { createTubeStockRouter } from './routes/tube-stock.routes';
 import { createFabricationRouter } from './routes/fabrication.routes';
 import type { RepublishQueue } from './services/rulebook-admin.service';
 import { createServices, type Services } from './services';
@@ -82,8 +84,13 @@ function securityHeaders(config: Config) {
       },
     },
     strictTransportSecurity: overTls ? { maxAge: 180 * 24 * 3600 } : false,
+    // One framing policy: the CSP's frame-ancestors 'none' says it, so no X-Frame-Options beside it.
+    xFrameOptions: false,
   });
 }
+
+/** Paths that name a file rather than a screen of the app (screens never end in an extension). */
+const staticFileName = /\.(?:m?js|css|map|json|webmanifest|png|jpe?g|gif|svg|ico|webp|avif|woff2?|ttf|otf|txt|xml|html?)$/i;
 
 function serveFrontend(app: Express, dist: string): void {
   const indexHtml = join(dist, 'index.html');
@@ -98,6 +105,12 @@ function serveFrontend(app: Express, dist: string): void {
   );
   app.get('/{*splat}', (req, res, next) => {
     if (req.path === '/api' || req.path.startsWith('/api/')) return next();
+    // A file that is not in the build (a source map, an old chunk) is a 404, not the app page: a stale
+    // client asking for a renamed chunk would otherwise get HTML and fail with a confusing MIME error.
+    if (req.path.startsWith('/assets/') || staticFileName.test(req.path)) {
+      res.status(404).type('text/plain').send('Not found');
+      return;
+    }
     res.setHeader('Cache-Control', 'no-cache');
     res.sendFile(indexHtml, (err) => err && next(err));
   });
@@ -130,6 +143,12 @@ export function createApp(options: CreateAppOptions): Express {
   const { perIp, perEmail } = createLoginLimiters(limits);
 
   const api = express.Router();
+  // Answers are personal (a session's clubs, sheets, photos): no shared cache may keep them, and no
+  // browser cache either unless a route says otherwise (photos and PDFs set their own).
+  api.use((_req, res, next) => {
+    res.setHeader('Cache-Control', 'private, no-store');
+    next();
+  });
   api.use(express.json({ limit: jsonBodyLimit }));
   api.use(sessionSetup.middleware);
   api.use(passport.session());
@@ -148,6 +167,7 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(createRulebooksRouter({ services }));
   api.use(createRulebookAdminRouter({ services, republishQueue: options.republishQueue ?? null }));
   api.use(createChecksRouter({ services }));
+  api.use(createGeometryRouter());
   api.use(createCarsRouter({ services }));
   api.use(createBuildSheetsRouter({ services }));
   api.use(createPhotosRouter({ services }));
@@ -158,6 +178,7 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(createSubmissionsRouter({ services }));
   api.use(createReviewRouter({ services }));
   api.use(createCageRecordsRouter({ services }));
+  api.use(createTubeStockRouter({ services }));
   api.use(createFabricationRouter({ services }));
   api.use(createVerifyRouter({ services, limits: options.verifyLimits ?? defaultVerifyLimit }));
   // The development mailbox exists only while the fake SMTP server does; otherwise its routes are 404.

@@ -7,6 +7,7 @@ import { createServer } from 'node:http';
 import type { DataSource } from 'typeorm';
 import { closeApp, createApp } from './app';
 import { ConfigError, loadConfig, type Config } from './config';
+import { loadDotEnv } from './dotenv';
 import { createDataSource } from './db/data-source';
 import { migrate } from './db/migrate';
 import { startFakeSmtp, type FakeSmtp } from './dev/fake-smtp';
@@ -44,6 +45,7 @@ async function connect(ds: DataSource, logger: Logger, attempts = 30): Promise<v
   }
 }
 
+loadDotEnv();
 const config = readConfig();
 const logger = createLogger(config.logLevel);
 process.on('unhandledRejection', (err) => logger.error('unhandled rejection', errorFields(err)));

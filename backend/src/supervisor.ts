@@ -7,6 +7,7 @@
 // it would fail the same way every time.
 import { spawn, type ChildProcess } from 'node:child_process';
 import { loadConfig } from './config';
+import { loadDotEnv } from './dotenv';
 import { createLogger, type Logger } from './logger';
 
 export const exitCodeConfig = 78;
@@ -107,6 +108,7 @@ if (process.argv[1] && /supervisor\.ts$/.test(process.argv[1])) {
   const [command, ...args] = sep >= 0 ? process.argv.slice(sep + 1) : [];
   let level: Parameters<typeof createLogger>[0] = 'info';
   try {
+    loadDotEnv();
     level = loadConfig().logLevel;
   } catch {
     // The server itself reports a bad configuration; the supervisor logs at info meanwhile.

@@ -45,6 +45,16 @@ try {
 }
 
 try {
+  const { runTubeChoiceBench, TUBE_CHOICE_TARGET_MS } = await import('./tube-choice');
+  const t = await runTubeChoiceBench({ log: true });
+  lines.push({ name: `tube chooser, one member (${t.stockSizes} stock sizes, ${t.requirements} requirements), median`, value: `${t.memberMs.toFixed(2)} ms (one full engine check: ${t.engineCheckMs.toFixed(2)} ms, ${(t.memberMs / t.engineCheckMs).toFixed(2)}×)`, target: `≤ ${TUBE_CHOICE_TARGET_MS} ms`, ok: t.memberMs <= TUBE_CHOICE_TARGET_MS });
+  lines.push({ name: `tube chooser, whole sheet (${t.members} members), median`, value: `${t.sheetMs.toFixed(1)} ms (an engine run per size would take ${(t.enginePerSizeMs * t.stockSizes).toFixed(0)} ms for one member)`, target: 'reported', ok: true });
+} catch (err) {
+  console.error('tube chooser bench failed:', err instanceof Error ? err.message : err);
+  failed = true;
+}
+
+try {
   const { runRepublishBench, REPUBLISH_TARGET_SECONDS } = await import('./republish');
   const r = await runRepublishBench({ log: true });
   lines.push({ name: `re-check after a publish (${r.sheets} sheets, database included)`, value: `${r.seconds.toFixed(1)} s, ${r.sheetsPerSecond.toFixed(0)} sheets/s`, target: `< ${REPUBLISH_TARGET_SECONDS} s`, ok: r.pass });

@@ -127,6 +127,8 @@ export default async function setup(project: TestProject): Promise<() => Promise
     UPLOAD_DIR: resolve(root, '.artifacts/e2e-uploads'),
     // The server runs its fake SMTP server on a port of its own, so journeys can read the mail it sends.
     FAKE_SMTP: 'true',
+    // A developer's own .env must not reach the server under test.
+    CAGEWRIGHT_DOTENV: 'off',
     SMTP_URL: `smtp://127.0.0.1:${smtpPort}`,
   };
   runBackendScript('backend/src/db/migrate.ts', env);

@@ -6,6 +6,7 @@ import { DIMENSIONS } from '../domain/units.js';
 import { MEMBER_KINDS, PLATE_LOCATIONS } from '../domain/vocabulary.js';
 import { AREAS } from './ruleset.js';
 import type { ReasonSegment } from '../domain/rules/reason-text.js';
+import { cageGeometrySchema } from './geometry.js';
 
 export const VERDICTS = ['pass', 'fail', 'not_applicable', 'needs_information'] as const;
 export type FindingVerdict = (typeof VERDICTS)[number];
@@ -19,6 +20,8 @@ export const measuredValueSchema = z.object({
   path: z.string().optional(),
   value: scalar,
   dimension,
+  /** "model" when the value was derived from the cage model; "sheet" marks a typed value beside it. */
+  source: z.enum(['model', 'sheet']).optional(),
 });
 
 export const requiredValueSchema = z.object({
@@ -51,7 +54,8 @@ export const findingSchema = z.object({
   verdict: z.enum(VERDICTS),
   severity: z.enum(['mandatory', 'advisory']),
   area: z.enum(AREAS),
-  member: z.object({ id: z.string(), kind: z.enum(MEMBER_KINDS), index: z.number().int() }).nullable(),
+  /** `name` is the builder's own name for the member (their label, else the kind's words). */
+  member: z.object({ id: z.string(), kind: z.enum(MEMBER_KINDS), index: z.number().int(), name: z.string().optional() }).nullable(),
   plate: z.object({ id: z.string(), location: z.enum(PLATE_LOCATIONS), index: z.number().int() }).nullable(),
   measured: z.array(measuredValueSchema),
   required: z.array(requiredValueSchema),
@@ -64,6 +68,8 @@ export const findingSchema = z.object({
    */
   reasonParts: z.array(reasonSegmentSchema).optional(),
   explanation: z.string(),
+  /** Set when the rulebook accepts the sheet's maker's certificate in place of this rule (not checked). */
+  acceptedOnCertificate: z.object({ number: z.string(), issuer: z.string().optional() }).optional(),
 });
 
 export const memberTubeDataSchema = z.object({
@@ -108,6 +114,8 @@ export const checkReportSchema = z.object({
     /** Canonical units per dimension. */
     measurementTolerance: z.record(z.string(), z.number()),
   }),
+  /** Derived values of the cage model, when the specification has one (docs/geometry.md). */
+  geometry: cageGeometrySchema.optional(),
   disclaimer: z.string(),
 });
 

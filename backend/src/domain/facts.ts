@@ -209,14 +209,16 @@ export interface MemberTubeData {
   densityAssumed: boolean;
 }
 
-export function memberTubeData(m: SpecMember, index: number): MemberTubeData {
+/** `modelLengthMm`: the developed length from the cage model, which is the member's when it has a path. */
+export function memberTubeData(m: SpecMember, index: number, modelLengthMm?: number): MemberTubeData {
   const material: Material = m.material ?? 'mild_steel';
   const p = tubeSectionProperties({ odMm: m.odMm, wallMm: m.wallMm }, material);
-  const massKg = m.lengthMm === undefined ? null : tubeMassKg(p, m.lengthMm);
+  const lengthMm = modelLengthMm ?? m.lengthMm;
+  const massKg = lengthMm === undefined ? null : tubeMassKg(p, lengthMm);
   return {
     memberId: m.id, kind: m.kind, index, odMm: m.odMm, wallMm: m.wallMm, areaMm2: p.areaMm2,
     secondMomentMm4: p.secondMomentMm4, sectionModulusMm3: p.sectionModulusMm3, radiusOfGyrationMm: p.radiusOfGyrationMm,
-    torsionalConstantMm4: p.torsionalConstantMm4, massPerMetreKg: p.massPerMetreKg, lengthMm: m.lengthMm ?? null, massKg,
+    torsionalConstantMm4: p.torsionalConstantMm4, massPerMetreKg: p.massPerMetreKg, lengthMm: lengthMm ?? null, massKg,
     densityAssumed: m.material === undefined || m.material === 'other',
   };
 }

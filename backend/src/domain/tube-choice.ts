@@ -152,6 +152,9 @@ export const TUBE_DEPENDENT_FACTS: ReadonlySet<string> = new Set([
 
 export type CandidateStatus = 'legal' | 'fails' | 'undecided';
 
+/** A tube being judged: a stock size, or the sheet's own tube, whose material or process may be unstated. */
+export type CandidateTube = Omit<StockTube, 'material' | 'process'> & { material?: Material; process?: Process };
+
 export interface RequirementOutcome {
   requirementId: string;
   title: string;
@@ -166,7 +169,7 @@ export interface RequirementOutcome {
 }
 
 export interface RankedCandidate {
-  tube: StockTube;
+  tube: CandidateTube;
   massPerMetreKg: number;
   status: CandidateStatus;
   outcomes: RequirementOutcome[];
@@ -221,11 +224,11 @@ function prepare(compiled: CompiledRuleset, classId: string, spec: Specification
 }
 
 /** The member as it would be with this tube; readings re-taken on the new tube are its catalogue wall. */
-export function memberWithTube(member: SpecMember, tube: StockTube): SpecMember {
-  const { grade, yieldMpa, wallReadings, ...rest } = member;
-  void grade; void yieldMpa;
+export function memberWithTube(member: SpecMember, tube: CandidateTube): SpecMember {
+  const { grade, yieldMpa, wallReadings, material, process, ...rest } = member;
+  void grade; void yieldMpa; void material; void process;
   return {
-    ...rest, odMm: tube.odMm, wallMm: tube.wallMm, material: tube.material, process: tube.process,
+    ...rest, odMm: tube.odMm, wallMm: tube.wallMm, ...(tube.material ? { material: tube.material } : {}), ...(tube.process ? { process: tube.process } : {}),
     ...(tube.grade !== undefined ? { grade: tube.grade } : {}), ...(tube.yieldMpa !== undefined ? { yieldMpa: tube.yieldMpa } : {}),
     ...(wallReadings ? { wallReadings: wallReadings.map((r) => ({ ...r, wallMm: tube.wallMm })) } : {}),
   };
@@ -290,8 +293,8 @@ function statusOf(outcomes: readonly RequirementOutcome[]): CandidateStatus {
  * Judges one candidate. Requirements run tube tables first and stop at the first failure, so a
  * failing candidate lists the requirement that turned it away (not every one it breaks).
  */
-function judge(p: Prepared, tube: StockTube): RankedCandidate {
-  const props = tubeSectionProperties(tube, tube.material);
+function judge(p: Prepared, tube: CandidateTube): RankedCandidate {
+  const props = tubeSectionProperties(tube, tube.material ?? 'mild_steel');
   const massKg = p.member.lengthMm === undefined ? undefined : (props.massPerMetreKg * p.member.lengthMm) / 1000;
   // Only the facts a tube changes are set on the candidate; the rest come through the prototype
   // (spreading these dotted-key objects per candidate is slow, see evaluate.ts). Must match
@@ -329,7 +332,7 @@ function judge(p: Prepared, tube: StockTube): RankedCandidate {
 }
 
 /** Fills `outcomes`, stopping at the first failure. */
-function judgeAll(p: Prepared, tube: StockTube, v: FactSet, mf: FactSet, outcomes: RequirementOutcome[]): void {
+function judgeAll(p: Prepared, tube: CandidateTube, v: FactSet, mf: FactSet, outcomes: RequirementOutcome[]): void {
   for (const r of p.memberReqs) {
     const o = outcomeOf(r, mf);
     outcomes.push(o);
@@ -360,20 +363,29 @@ export interface RankOptions {
 
 const usable = (t: StockTube) => tubeSizeProblems(t).length === 0;
 
-/** Every usable stock size judged for one member of a sheet, lightest first. */
-export function rankStockForMember(compiled: CompiledRuleset, spec: Specification, memberIndex: number, stock: readonly StockTube[], options: RankOptions = {}): RankedCandidate[] {
-  const p = prepare(compiled, spec.vehicle.classId, spec, memberIndex);
+function rankPrepared(p: Prepared, stock: readonly StockTube[], materials: readonly Material[] | undefined): RankedCandidate[] {
   const out: RankedCandidate[] = [];
-  for (const t of stock) if (usable(t) && (!options.materials || options.materials.includes(t.material))) out.push(judge(p, t));
+  for (const t of stock) if (usable(t) && (!materials || materials.includes(t.material))) out.push(judge(p, t));
   out.sort((a, b) => a.massPerMetreKg - b.massPerMetreKg || a.tube.odMm - b.tube.odMm || a.tube.wallMm - b.tube.wallMm);
   return out;
 }
 
+/** Every usable stock size judged for one member of a sheet, lightest first. */
+export function rankStockForMember(compiled: CompiledRuleset, spec: Specification, memberIndex: number, stock: readonly StockTube[], options: RankOptions = {}): RankedCandidate[] {
+  return rankPrepared(prepare(compiled, spec.vehicle.classId, spec, memberIndex), stock, options.materials);
+}
+
+/** The member's own tube as a candidate, with only what the sheet states (as the check reads it). */
+function currentTube(m: SpecMember): CandidateTube {
+  return {
+    odMm: m.odMm, wallMm: m.wallMm, ...(m.material ? { material: m.material } : {}), ...(m.process ? { process: m.process } : {}),
+    ...(m.grade ? { grade: m.grade } : {}), ...(m.yieldMpa !== undefined ? { yieldMpa: m.yieldMpa } : {}),
+  };
+}
+
 /** The current tube of a member judged the same way (so the saving compares like with like). */
 export function judgeCurrentTube(compiled: CompiledRuleset, spec: Specification, memberIndex: number): RankedCandidate {
-  const m = spec.members[memberIndex];
-  const p = prepare(compiled, spec.vehicle.classId, spec, memberIndex);
-  return judge(p, { odMm: m.odMm, wallMm: m.wallMm, material: m.material ?? 'mild_steel', process: m.process ?? 'other', ...(m.grade ? { grade: m.grade } : {}), ...(m.yieldMpa ? { yieldMpa: m.yieldMpa } : {}) });
+  return judge(prepare(compiled, spec.vehicle.classId, spec, memberIndex), currentTube(spec.members[memberIndex]));
 }
 
 export interface TubeQuery extends BandQuery {
@@ -426,11 +438,24 @@ export interface MemberTubeChoice {
 
 /** The chooser for a whole sheet: per member, legal stock sizes in the member's material. */
 export function chooseTubesForSheet(compiled: CompiledRuleset, spec: Specification, stock: readonly StockTube[], options: { anyMaterial?: boolean } = {}): MemberTubeChoice[] {
+  // Left/right pairs and repeated bars have the same facts: judge them once. A member's holes and
+  // plates are part of what it is judged on, so they are part of the key.
+  const seen = new Map<string, { ranked: RankedCandidate[]; current: RankedCandidate }>();
   return spec.members.map((m, i) => {
-    const ranked = rankStockForMember(compiled, spec, i, stock, !options.anyMaterial && m.material ? { materials: [m.material] } : {});
+    const key = JSON.stringify([
+      { ...m, id: '', label: '' }, (spec.inspectionHoles ?? []).filter((h) => h.memberId === m.id), (spec.plates ?? []).filter((p) => p.memberId === m.id).map((p) => ({ ...p, id: '' })),
+    ]);
+    let judged = seen.get(key);
+    if (!judged) {
+      const p = prepare(compiled, spec.vehicle.classId, spec, i);
+      const materials = !options.anyMaterial && m.material ? [m.material] : undefined;
+      const ranked = rankPrepared(p, stock, materials);
+      judged = { ranked, current: judge(p, currentTube(m)) };
+      seen.set(key, judged);
+    }
+    const { ranked, current } = judged;
     const legal = ranked.filter((c) => c.status === 'legal');
     const lightest = legal[0] ?? null;
-    const current = judgeCurrentTube(compiled, spec, i);
     const saving = lightest ? current.massPerMetreKg - lightest.massPerMetreKg : null;
     return {
       memberId: m.id, memberKind: m.kind, ...(m.label ? { label: m.label } : {}), current, lightest,

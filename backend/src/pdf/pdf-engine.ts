@@ -17,8 +17,13 @@ const FONT_FILES = {
 } as const;
 
 // pdfmake's server build keeps an in-memory file system that its typings do not describe.
-const virtualFs = (pdfmake as unknown as { virtualfs: { writeFileSync(name: string, data: Buffer): void } })
-  .virtualfs;
+const virtualFs = (pdfmake as unknown as { virtualfs: VirtualFs }).virtualfs;
+
+interface VirtualFs {
+  writeFileSync(name: string, data: Buffer): void;
+  existsSync(name: string): boolean;
+  readFileSync(name: string): Buffer;
+}
 
 let ready = false;
 
@@ -87,6 +92,27 @@ function reuseParsedFonts(buffers: Buffer[]): void {
   fontkit.registerFormat(ParsedFont);
 }
 
+type FontMethod = (this: unknown, src: unknown, family?: unknown, size?: unknown) => unknown;
+
+/**
+ * Text inside an SVG (the cage views) reaches pdfkit as the font's file name, not its bytes:
+ * pdfmake 0.3's SVG font callback returns the name it was given in setFonts, and pdfkit then reads
+ * that name from the real disk, where it does not exist. Names of our own fonts in the virtual file
+ * system are resolved to their bytes here; pdfkit then finds the font already
+ * embedded for the body text (same PostScript name) and reuses it. Nothing else changes meaning.
+ */
+function letSvgTextUseOurFonts(): void {
+  const pdfkit = createRequire(require.resolve('pdfmake'))('pdfkit') as { prototype: { font: FontMethod } };
+  const font = pdfkit.prototype.font;
+  pdfkit.prototype.font = function (this: unknown, src, family, size) {
+    if (typeof src === 'string' && Object.values(FONT_FILES).includes(src as (typeof FONT_FILES)[keyof typeof FONT_FILES]) && virtualFs.existsSync(src)) {
+      // No family argument: for pdfkit that names a face inside a collection, which a TTF has not.
+      return font.call(this, virtualFs.readFileSync(src), typeof family === 'number' ? family : size);
+    }
+    return font.call(this, src, family, size);
+  };
+}
+
 function fontFolder(): string {
   // The package's entry sits at its root; each weight lives in a folder named after it.
   return dirname(require.resolve('@expo-google-fonts/noto-sans/package.json'));
@@ -104,6 +130,7 @@ export function preparePdfEngine(): void {
     buffers.push(bytes);
   }
   reuseParsedFonts(buffers);
+  letSvgTextUseOurFonts();
   pdfmake.setFonts({ NotoSans: { ...FONT_FILES } });
   pdfmake.setUrlAccessPolicy(() => false);
   pdfmake.setLocalAccessPolicy(() => false);

@@ -10,7 +10,11 @@ import { AREAS } from '../contracts/ruleset';
 import { FACTS_BY_NAME } from '../domain/facts';
 import { findingKey } from '../domain/review/waivers';
 import { formatQuantity, type Dimension, type UnitSystem } from '../domain/units';
+import { formatIsoDate } from '../domain/dates';
 import { MEMBER_KIND_LABELS } from '../domain/vocabulary';
+import { LEGEND_MARKS } from '../domain/geometry/verdict-marks';
+import { legendSwatchSvg } from '../domain/geometry/view-svg';
+import type { ViewName } from '../domain/geometry/projection';
 
 export const REPORT_TITLE = 'Cagewright pre-check report';
 export const SAFETY_CAUTION =
@@ -41,6 +45,20 @@ export interface ReportDocumentInput {
   photos: ReportPhoto[];
   /** A steward's approval of the submitted check: record number, decision, waivers, QR of the verification link. */
   review?: ReportReview;
+  /** The cage views (domain/geometry drawCage, the same SVG strings as the screen), when the sheet has a model. */
+  cage?: { svgs: Record<ViewName, string>; drawnMembers: number; totalMembers: number };
+  /** The checked sheet's approval and build dates and maker's certificate, when it gives them. */
+  cageHistory?: { approvedOn?: string; builtOn?: string; certificate?: { issuer?: string; number: string } };
+}
+
+/** Rows for the cage's dates and certificate; none for a sheet that gives none. */
+export function cageRows(cage: ReportDocumentInput['cageHistory']): [string, string][] {
+  if (!cage) return [];
+  const rows: [string, string][] = [];
+  if (cage.approvedOn) rows.push(['Cage approved on', formatIsoDate(cage.approvedOn)]);
+  if (cage.builtOn) rows.push(['Cage built on', formatIsoDate(cage.builtOn)]);
+  if (cage.certificate) rows.push(["Maker's certificate", `${cage.certificate.number}${cage.certificate.issuer ? `, ${cage.certificate.issuer}` : ''}`]);
+  return rows;
 }
 
 export interface ReportReview {
@@ -253,6 +271,37 @@ function photoGrid(photos: readonly ReportPhoto[]): Content {
 
 const heading = (text: string): Content => ({ text, style: 'h2' });
 
+/** The cage page: the side view across the page, top and front views below it, and the legend. */
+function cageBlock(cage: NonNullable<ReportDocumentInput['cage']>): Content[] {
+  const legend: Content = {
+    table: {
+      widths: LEGEND_MARKS.map(() => '*'),
+      body: [LEGEND_MARKS.map((m) => ({ columns: [{ svg: legendSwatchSvg(m.verdict), width: 32 }, { text: m.label, fontSize: 7.5, width: '*', margin: [3, -1, 0, 0] }] }))],
+    },
+    layout: 'noBorders',
+    margin: [0, 2, 0, 4],
+  };
+  const missing = cage.totalMembers - cage.drawnMembers;
+  return [
+    { text: 'The cage, drawn from its model', style: 'h2', pageBreak: 'before' },
+    {
+      text: 'Each tube is drawn to scale at its outside diameter and marked by its worst finding: the mark has its own line pattern and symbol as well as its colour.' +
+        (missing > 0 ? ` ${missing} member${missing === 1 ? ' has' : 's have'} no path in the model and ${missing === 1 ? 'is' : 'are'} not drawn.` : ''),
+      color: COLOURS.muted, fontSize: 8.5, margin: [0, 0, 0, 4],
+    },
+    legend,
+    { text: 'Side view, from the left (front of the car to the left)', style: 'h3' },
+    { svg: cage.svgs.side, fit: [515, 300] },
+    {
+      columns: [
+        { width: '*', stack: [{ text: 'Top view, from above', style: 'h3' }, { svg: cage.svgs.top, fit: [250, 230] }] },
+        { width: '*', stack: [{ text: 'Front view', style: 'h3' }, { svg: cage.svgs.front, fit: [250, 230] }] },
+      ],
+      columnGap: 14,
+    },
+  ];
+}
+
 /** The steward's decision: the record number, who approved it and when, waivers, and the QR to check it. */
 function reviewBlock(review: ReportReview, findings: readonly Finding[]): Content[] {
   const byKey = new Map(findings.map((f) => [findingKey(f), f]));
@@ -323,6 +372,7 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
               ['Year', car?.year ? String(car.year) : 'not given'],
               ['Build sheet', input.sheetName ? `${input.sheetName}${input.revisionNumber ? `, revision ${input.revisionNumber}` : ''}` : 'none'],
               ['Builder', input.builderName ?? 'unknown'],
+              ...cageRows(input.cageHistory),
             ]),
           ],
         },
@@ -397,7 +447,8 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
     });
   }
 
-  // The first page is the summary a steward reads first; the findings follow from page 2.
+  // The first page is the summary a steward reads first; the drawing, then the findings, follow.
+  if (input.cage && input.cage.drawnMembers > 0) content.push(...cageBlock(input.cage));
   content.push({ text: 'Findings', style: 'h2', pageBreak: 'before' });
   if (report.findings.length === 0) content.push({ text: 'This ruleset has no requirements for this class.', color: COLOURS.muted });
   for (const group of findingsByArea(report.findings)) {

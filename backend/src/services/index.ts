@@ -17,6 +17,8 @@ import { createReviewReader, type ReviewReader } from './review-detail';
 import { createCageRecordService, type CageRecordService } from './cage-records.service';
 import { createVerificationService, type VerificationService } from './verification.service';
 import { createRulebookAdminService, type RulebookAdminService } from './rulebook-admin.service';
+import { createTubeStockService, type TubeStockService } from './tube-stock.service';
+import { createTubeChoiceService, type TubeChoiceService } from './tube-choice.service';
 import { createFabricationService, type FabricationService } from './fabrication.service';
 
 export interface Services {
@@ -37,6 +39,8 @@ export interface Services {
   cageRecords: CageRecordService;
   verification: VerificationService;
   rulebookAdmin: RulebookAdminService;
+  tubeStock: TubeStockService;
+  tubeChoice: TubeChoiceService;
   fabrication: FabricationService;
 }
 
@@ -54,6 +58,7 @@ export function createServices(
   const mail = createMailService(ds);
   const cageRecords = createCageRecordService(ds, { mail, audit, publicUrl: options.publicUrl });
   const reports = createReportService(ds, { checks, sheets: buildSheets, photos, publicUrl: options.publicUrl });
+  const tubeStock = createTubeStockService(ds, { audit });
   return {
     accounts: createAccountService(ds),
     members,
@@ -72,6 +77,8 @@ export function createServices(
     cageRecords,
     verification: createVerificationService(ds),
     rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit }),
+    tubeStock,
+    tubeChoice: createTubeChoiceService(ds, { rulesets, stock: tubeStock }),
     fabrication: createFabricationService(),
   };
 }

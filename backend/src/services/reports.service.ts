@@ -10,6 +10,7 @@ import { BuildSheet, BuildSheetRevision, CheckRun, User } from '../entities';
 import { ConflictError, NotFoundError } from '../errors';
 import { renderPdf } from '../pdf/pdf-engine';
 import { buildReportDocument, type ReportPhoto, type ReportReview } from '../pdf/report-document';
+import { cageFor } from '../pdf/report-cage';
 import type { BuildSheetService } from './build-sheets.service';
 import type { CheckService } from './checks.service';
 import { sheetFor } from './garage.service';
@@ -98,9 +99,10 @@ export function createReportService(ds: DataSource, deps: { checks: CheckService
         const wire = await deps.checks.getRun(checkRunId, userId);
         context = { car: null, builderName: wire.createdBy?.displayName ?? null, sheetName: null, photos: [], builderId: run.createdById };
       }
+      const shownUnits = units ?? (await unitsOf(context.builderId));
       const doc = buildReportDocument({
         report: run.report,
-        units: units ?? (await unitsOf(context.builderId)),
+        units: shownUnits,
         car: context.car,
         builderName: context.builderName,
         sheetName: context.sheetName,
@@ -110,7 +112,9 @@ export function createReportService(ds: DataSource, deps: { checks: CheckService
         checkedAt: run.createdAt,
         tubeData: tubeDataFor(run.specification),
         photos: context.photos,
+        ...(run.specification.cage ? { cageHistory: run.specification.cage } : {}),
         ...(review ? { review } : {}),
+        cage: cageFor(run.specification, run.report, shownUnits, review),
       });
       return { pdf: await renderPdf(doc), verificationCode: run.verificationCode };
     },

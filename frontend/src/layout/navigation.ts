@@ -20,6 +20,7 @@ export interface NavEntry {
 export const navEntries: readonly NavEntry[] = [
   { label: 'Overview', icon: 'pi pi-gauge', route: 'home' },
   { label: 'Garage', icon: 'pi pi-car', route: 'garage', roles: ['builder'] },
+  { label: 'Tube stock', icon: 'pi pi-box', route: 'tube-stock', roles: ['builder', 'admin'] },
   { label: 'Review queue', icon: 'pi pi-check-square', route: 'review-queue', roles: ['steward'] },
   { label: 'Members', icon: 'pi pi-users', route: 'club-members', roles: ['admin'] },
   { label: 'Rulebooks', icon: 'pi pi-book', route: 'rulebooks', roles: ['admin'] },

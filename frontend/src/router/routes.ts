@@ -8,7 +8,8 @@ export type RouteName = 'sign-in' | 'invitation' | 'home' | 'account' | 'club-me
   | 'garage' | 'car' | 'build-sheet' | 'check-run'
   | 'review-queue' | 'submission' | 'cage-record' | 'verify' | 'verify-code'
   | 'dev-mailbox' | 'club-activity'
-  | 'rulebooks' | 'rulebook-version' | 'rulebook-compare';
+  | 'rulebooks' | 'rulebook-version' | 'rulebook-compare'
+  | 'tube-choice' | 'tube-stock';
 
 declare module 'vue-router' {
   interface RouteMeta {
@@ -64,6 +65,8 @@ export const routes: NamedRoute[] = [
       { path: 'garage', name: 'garage', component: () => import('@/views/GarageView.vue'), meta: { title: 'Garage' } },
       { path: 'cars/:carId', name: 'car', component: () => import('@/views/CarView.vue'), meta: { title: 'Car' } },
       { path: 'build-sheets/:sheetId', name: 'build-sheet', component: () => import('@/views/BuildSheetView.vue'), meta: { title: 'Build sheet' } },
+      { path: 'build-sheets/:sheetId/tubes', name: 'tube-choice', component: () => import('@/views/TubeChoiceView.vue'), meta: { title: 'Lightest legal tubes' } },
+      { path: 'clubs/:clubId/tube-stock', name: 'tube-stock', component: () => import('@/views/TubeStockView.vue'), meta: { roles: ['builder', 'steward', 'admin'], title: 'Tube stock' } },
       { path: 'dev/mailbox', name: 'dev-mailbox', component: () => import('@/views/MailboxView.vue'), meta: { roles: ['admin'], title: 'Mailbox' } },
       { path: 'clubs/:clubId/activity', name: 'club-activity', component: () => import('@/views/AuditLogView.vue'), meta: { roles: ['admin'], title: 'Activity log' } },
       { path: 'check-runs/:checkRunId', name: 'check-run', component: () => import('@/views/CheckRunView.vue'), meta: { title: 'Check run' } },

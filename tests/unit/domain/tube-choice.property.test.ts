@@ -14,7 +14,7 @@ import type { CheckReport } from '@backend/contracts/report';
 import { MEMBER_KINDS } from '@backend/domain/vocabulary';
 import { COMMON_STOCK } from '@backend/domain/common-stock';
 import { memberWithTube, rankStockForMember } from '@backend/domain/tube-choice';
-import type { RankedCandidate, StockTube } from '@backend/domain/tube-choice';
+import type { CandidateTube, RankedCandidate, StockTube } from '@backend/domain/tube-choice';
 import { compileFile } from './helpers';
 
 const RULESETS: { compiled: CompiledRuleset; classes: string[] }[] = [
@@ -95,7 +95,7 @@ function relevant(report: CheckReport): Map<string, string> {
   return out;
 }
 
-function withTube(spec: Specification, tube: StockTube): Specification {
+function withTube(spec: Specification, tube: CandidateTube): Specification {
   return { ...spec, members: spec.members.map((m, i) => (i === 0 ? memberWithTube(m, tube) : m)) };
 }
 

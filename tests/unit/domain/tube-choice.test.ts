@@ -166,4 +166,18 @@ describe('chooseTubesForSheet', () => {
     expect(db.lightest!.massPerMetreKg).toBe(Math.min(...db.legal.map((c) => c.massPerMetreKg)));
     expect(db.savingKg).toBeNull();
   });
+
+  test('the tube on the sheet is judged on what the sheet states: no material is undecided under a material rule (F-MSUK-1)', () => {
+    const spec = { vehicle: { classId: 'new_cage' }, members: [
+      { id: 'l', kind: 'door_bar' as const, odMm: 40, wallMm: 2, process: 'cds' as const, yieldMpa: 355, bends: [], joints: [] },
+      { id: 'r', kind: 'door_bar' as const, odMm: 40, wallMm: 2, process: 'cds' as const, yieldMpa: 355, bends: [], joints: [] },
+    ] };
+    const [l, r] = chooseTubesForSheet(msuk, spec, [cds(38, 2.5), cds(40, 2.0)]);
+    expect(l.current.status).toBe('undecided');
+    expect(l.current.outcomes.find((o) => o.requirementId === 'msuk-material')!.missing).toEqual(['member.material']);
+    // Without a material on the sheet every material of the stock is considered; 40 × 2.0 is the lighter (F-ENG-5).
+    expect(l.lightest && [l.lightest.tube.odMm, l.lightest.tube.wallMm]).toEqual([40, 2]);
+    // The right-hand twin has the same facts and gets the same answer.
+    expect(r.lightest).toEqual(l.lightest);
+  });
 });

@@ -10,12 +10,12 @@ const labels = (roles: Role[], club: string | null = clubId) =>
 describe('the app menu', () => {
   test.each<[Role[], string[]]>([
     [[], ['Overview', 'Account']],
-    [['builder'], ['Overview', 'Garage', 'Account']],
+    [['builder'], ['Overview', 'Garage', 'Tube stock', 'Account']],
     [['steward'], ['Overview', 'Review queue', 'Account']],
-    [['admin'], ['Overview', 'Members', 'Rulebooks', 'Activity log', 'Account']],
+    [['admin'], ['Overview', 'Tube stock', 'Members', 'Rulebooks', 'Activity log', 'Account']],
     [
       ['builder', 'steward', 'admin'],
-      ['Overview', 'Garage', 'Review queue', 'Members', 'Rulebooks', 'Activity log', 'Account'],
+      ['Overview', 'Garage', 'Tube stock', 'Review queue', 'Members', 'Rulebooks', 'Activity log', 'Account'],
     ],
   ])('roles %j in the current club show %j', (roles, expected) => {
     expect(labels(roles)).toEqual(expected);

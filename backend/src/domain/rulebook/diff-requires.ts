@@ -4,7 +4,7 @@
 import type { LimitCheck, Requires, TubeTable } from '../../contracts/ruleset.js';
 import { FACTS_BY_NAME } from '../facts.js';
 import { findGrade } from '../grades.js';
-import { GRADE_FACTS } from '../rules/limit-values.js';
+import { GRADE_FACTS } from '../rules/limit-forms.js';
 import { formatIsoDate } from '../dates.js';
 import { TEMPLATE_KINDS, TEMPLATE_NAMES } from '../rules/template-kinds.js';
 import type { TemplateName, TemplateOf } from '../rules/template-kinds.js';

@@ -11,6 +11,11 @@ import { PRE_CHECK_DISCLAIMER } from '../../contracts/report.js';
 import { FACTS_BY_NAME, SIDE_COUNTS_FACT, countOnSide, factPresent, memberFacts, memberSides, memberTubeData, plateFacts, vehicleFacts } from '../facts.js';
 import type { FactSet, MemberTubeData, SideParam } from '../facts.js';
 import { formatIsoDate } from '../dates.js';
+import { deriveCageGeometry } from '../geometry/derive.js';
+import type { CageGeometry } from '../geometry/derive.js';
+import { memberNames } from '../geometry/names.js';
+import { memberReadings, modelLengths, vehicleReadings } from '../model-facts.js';
+import type { Disagreement } from '../model-facts.js';
 import { formatQuantity } from '../units.js';
 import type { Dimension, UnitSystem } from '../units.js';
 import { MATERIAL_LABELS, MEMBER_KIND_LABELS, PROCESS_LABELS } from '../vocabulary.js';
@@ -114,6 +119,22 @@ type Subject =
   | { kind: 'member'; id: string; memberKind: MemberKind; index: number }
   | { kind: 'plate'; id: string; location: PlateLocation; index: number };
 
+/** A subject's facts for one run, and which of them came from the model. */
+interface SubjectRun {
+  subject: Subject;
+  facts: FactSet;
+  fromModel: ReadonlySet<string>;
+}
+
+type Ordered = { order: [number, number]; finding: Finding };
+
+const VERDICT_RANK: Record<Finding['verdict'], number> = { not_applicable: 0, pass: 1, needs_information: 2, fail: 3 };
+
+/** The same requirements run on the model's and on the sheet's readings: the less favourable decides. */
+function lessFavourable(a: readonly Ordered[], b: readonly Ordered[]): Ordered[] {
+  return a.map((x, i) => (b[i] && VERDICT_RANK[b[i].finding.verdict] > VERDICT_RANK[x.finding.verdict] ? b[i] : x));
+}
+
 export type VariantChoice = { variant: CompiledVariant } | { missingWeight: true } | { outsideTable: true };
 
 export function chooseVariant(req: CompiledRequirement, weightKg: number | undefined): VariantChoice {
@@ -175,6 +196,8 @@ interface Ctx {
   compiled: CompiledRuleset;
   system: UnitSystem;
   weightKg: number | undefined;
+  /** The builder's name for each member, by index (findings say it, never an id). */
+  names: readonly string[];
   /** The maker's certificate on the sheet, for requirements that accept one in their place. */
   certificate?: { issuer?: string; number: string };
   /** The weight is the class's listed weight, not a measured one. */
@@ -191,20 +214,25 @@ export async function evaluateSpecification(
   if (!cls) throw new UnknownClassError(classId, Object.keys(compiled.classes));
   const doc = compiled.document;
   const plan = planFor(compiled, classId);
-  const tubes = spec.members.map((m, i) => memberTubeData(m, i));
+  const geo = spec.model ? deriveCageGeometry(spec) : null;
+  const lengths = modelLengths(spec, geo);
+  const tubes = spec.members.map((m, i) => memberTubeData(m, i, lengths.get(m.id)));
   const listedWeightKg = compiled.listedWeightsKg[classId];
   const vfacts = vehicleFacts(spec, { weightBasis: cls.weightBasis, ...(listedWeightKg !== undefined ? { listedWeightKg } : {}) }, tubes);
   Object.assign(vfacts, peerFacts(spec, peerNamesOf(compiled)));
+  const vr = vehicleReadings(vfacts, geo);
   const certificate = spec.cage?.certificate;
   const ctx: Ctx = {
     compiled, system: options.unitSystem ?? doc.unitSystem, weightKg: vfacts['vehicle.weightKg'] as number | undefined,
-    ...(certificate ? { certificate } : {}), listedWeight: listedWeightKg !== undefined,
+    ...(certificate ? { certificate } : {}), listedWeight: listedWeightKg !== undefined, names: memberNames(spec.members),
   };
-  const findings: { order: [number, number]; finding: Finding }[] = [];
+  const findings: Ordered[] = [];
+  const disagreements: Disagreement[] = [...vr.disagreements];
 
   // Runs one engine over several subjects of the same group, one after another (never concurrently).
-  const runGroup = async (reqs: readonly CompiledRequirement[], subjects: { subject: Subject; facts: FactSet }[]) => {
-    if (reqs.length === 0 || subjects.length === 0) return;
+  const runGroup = async (reqs: readonly CompiledRequirement[], subjects: SubjectRun[]): Promise<Ordered[]> => {
+    const findings: Ordered[] = [];
+    if (reqs.length === 0 || subjects.length === 0) return findings;
     const rules: RuleProperties[] = [];
     const direct: { req: CompiledRequirement; choice: VariantChoice }[] = [];
     const chosen = new Map<string, CompiledVariant>();
@@ -231,7 +259,7 @@ export async function evaluateSpecification(
     const engine = rules.length > 0 ? newEngine([bundle]) : undefined;
     const needed = factsNeeded(reqs);
     const seen = new Map<string, Map<string, ResultNode>>();
-    for (const { subject, facts } of subjects) {
+    for (const { subject, facts, fromModel } of subjects) {
       const order = subject.kind === 'vehicle' ? 0 : subject.index;
       for (const { req, choice } of direct) findings.push({ order: [req.index, order], finding: bandFinding(ctx, req, subject, choice) });
       for (const req of waived) findings.push({ order: [req.index, order], finding: certifiedFinding(ctx, req, subject) });
@@ -260,31 +288,62 @@ export async function evaluateSpecification(
         const tree = trees.get(req.id);
         const variant = chosen.get(req.id);
         if (!tree || !variant) continue;
-        findings.push({ order: [req.index, order], finding: buildFinding(ctx, req, variant, subject, tree, facts) });
+        findings.push({ order: [req.index, order], finding: buildFinding(ctx, req, variant, subject, tree, facts, fromModel) });
       }
     }
+    return findings;
   };
+  // With both a model reading and a sheet reading, run each; per finding the less favourable decides.
+  const runReadings = async (reqs: readonly CompiledRequirement[], model: SubjectRun[], sheet: SubjectRun[] | null) => {
+    const a = await runGroup(reqs, model);
+    findings.push(...(sheet ? lessFavourable(a, await runGroup(reqs, sheet)) : a));
+  };
+  const vehicleSubject: Subject = { kind: 'vehicle' };
+  await runReadings(
+    plan.vehicle,
+    [{ subject: vehicleSubject, facts: vr.model.facts, fromModel: vr.model.fromModel }],
+    vr.sheet ? [{ subject: vehicleSubject, facts: vr.sheet.facts, fromModel: vr.sheet.fromModel }] : null,
+  );
 
-  await runGroup(plan.vehicle, [{ subject: { kind: 'vehicle' }, facts: vfacts }]);
-
-  const membersByKind = new Map<MemberKind, { subject: Subject; facts: FactSet }[]>();
+  const membersByKind = new Map<MemberKind, { model: SubjectRun[]; sheet: SubjectRun[]; differs: boolean }>();
+  const derivedById = new Map((geo?.members ?? []).map((d) => [d.memberId, d]));
   const sides = memberSides(spec);
   spec.members.forEach((m, index) => {
     if (!plan.byKind.has(m.kind)) return;
-    const list = membersByKind.get(m.kind) ?? [];
-    list.push({ subject: { kind: 'member', id: m.id, memberKind: m.kind, index }, facts: layered(vfacts, memberFacts(spec, m, tubes[index], sides[index])) });
-    membersByKind.set(m.kind, list);
+    const group = membersByKind.get(m.kind) ?? { model: [], sheet: [], differs: false };
+    const subject: Subject = { kind: 'member', id: m.id, memberKind: m.kind, index };
+    const mr = memberReadings(memberFacts(spec, m, tubes[index], sides[index]), m, derivedById.get(m.id));
+    disagreements.push(...mr.disagreements);
+    const union = (a: ReadonlySet<string>, b: ReadonlySet<string>) => new Set([...a, ...b]);
+    group.model.push({ subject, facts: layered(vr.model.facts, mr.model.facts), fromModel: union(vr.model.fromModel, mr.model.fromModel) });
+    const vs = vr.sheet ?? vr.model;
+    const ms = mr.sheet ?? mr.model;
+    // A copy: `layered` re-parents its object, and the model run keeps its own.
+    group.sheet.push({ subject, facts: layered({ ...vs.facts }, { ...ms.facts }), fromModel: union(vs.fromModel, ms.fromModel) });
+    group.differs ||= vr.sheet !== null || mr.sheet !== null;
+    membersByKind.set(m.kind, group);
   });
-  for (const [kind, subjects] of membersByKind) await runGroup(plan.byKind.get(kind) ?? [], subjects);
+  for (const [kind, g] of membersByKind) await runReadings(plan.byKind.get(kind) ?? [], g.model, g.differs ? g.sheet : null);
 
-  const platesByLocation = new Map<PlateLocation, { subject: Subject; facts: FactSet }[]>();
+  const platesByLocation = new Map<PlateLocation, SubjectRun[]>();
   (spec.plates ?? []).forEach((p, index) => {
     if (!plan.byLocation.has(p.location)) return;
     const list = platesByLocation.get(p.location) ?? [];
-    list.push({ subject: { kind: 'plate', id: p.id, location: p.location, index }, facts: layered(vfacts, plateFacts(spec, p)) });
+    list.push({ subject: { kind: 'plate', id: p.id, location: p.location, index }, facts: layered(vr.model.facts, plateFacts(spec, p)), fromModel: vr.model.fromModel });
     platesByLocation.set(p.location, list);
   });
-  for (const [loc, subjects] of platesByLocation) await runGroup(plan.byLocation.get(loc) ?? [], subjects);
+  for (const [loc, subjects] of platesByLocation) findings.push(...(await runGroup(plan.byLocation.get(loc) ?? [], subjects)));
+
+  // A typed value the model disagrees with: an advisory finding under each requirement that reads it.
+  for (const d of disagreements) {
+    const member = d.memberId === null ? null : spec.members.findIndex((m) => m.id === d.memberId);
+    const reqs = member === null ? plan.vehicle : (plan.byKind.get(spec.members[member].kind) ?? []);
+    for (const req of reqs) {
+      if (!req.factsUsed.includes(d.fact)) continue;
+      const subject: Subject = member === null ? vehicleSubject : { kind: 'member', id: d.memberId!, memberKind: spec.members[member].kind, index: member };
+      findings.push({ order: [req.index, (member ?? 0) + 0.5], finding: disagreementFinding(ctx, req, subject, d) });
+    }
+  }
 
   // A scoped requirement with nothing to check still shows in the report, as not applicable.
   for (const req of [...plan.member, ...plan.plate]) {
@@ -300,7 +359,21 @@ export async function evaluateSpecification(
 
   findings.sort((a, b) => a.order[0] - b.order[0] || a.order[1] - b.order[1]);
   const list = findings.map((f) => f.finding);
-  return assembleReport(ctx, cls.id, cls.name, list, tubes);
+  return assembleReport(ctx, cls.id, cls.name, list, tubes, geo, disagreements);
+}
+
+function disagreementFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, d: Disagreement): Finding {
+  const q = (v: number) => display(v, d.dimension, ctx.system);
+  const f = baseFinding(ctx, req, subject, 'fail',
+    `The model gives ${q(d.modelValue)}, the sheet says ${q(d.sheetValue)} for the ${d.label} (they should agree within ${q(d.toleranceCanonical)}). ` +
+    'The less favourable of the two decides; check the measurement or the model.');
+  f.severity = 'advisory';
+  f.title = `${req.title}: the model and the sheet disagree`;
+  f.measured = [
+    { fact: d.fact, label: d.label, value: d.modelValue, dimension: d.dimension, source: 'model' },
+    { fact: d.fact, label: d.label, value: d.sheetValue, dimension: d.dimension, source: 'sheet' },
+  ];
+  return f;
 }
 
 function baseFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, verdict: Finding['verdict'], reason: string): Finding {
@@ -312,7 +385,7 @@ function baseFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, verdi
     verdict,
     severity: req.severity,
     area: req.area,
-    member: subject.kind === 'member' ? { id: subject.id, kind: subject.memberKind, index: subject.index } : null,
+    member: subject.kind === 'member' ? { id: subject.id, kind: subject.memberKind, index: subject.index, name: ctx.names[subject.index] } : null,
     plate: subject.kind === 'plate' ? { id: subject.id, location: subject.location, index: subject.index } : null,
     measured: [],
     required: [],
@@ -334,8 +407,10 @@ function withReason(ctx: Ctx, f: Finding, parts: ReasonSegment[]): Finding {
 function certifiedFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject): Finding {
   const c = ctx.certificate!;
   const by = c.issuer ? ` from ${c.issuer}` : '';
-  return baseFinding(ctx, req, subject, 'not_applicable',
+  const f = baseFinding(ctx, req, subject, 'not_applicable',
     `Not checked: the sheet gives maker's certificate ${c.number}${by}, which this rulebook accepts in place of this rule. The inspector checks the certificate and the cage against it.`);
+  f.acceptedOnCertificate = { number: c.number, ...(c.issuer ? { issuer: c.issuer } : {}) };
+  return f;
 }
 
 function missingList(names: Iterable<string>): MissingFact[] {
@@ -442,14 +517,20 @@ function copyRequired(summary: LeafSummary): RequiredValue[] {
   return out;
 }
 
-function measuredValues(summary: LeafSummary, leaves: ResultNode[], facts: FactSet): MeasuredValue[] {
+function measuredValues(summary: LeafSummary, leaves: ResultNode[], facts: FactSet, fromModel: ReadonlySet<string>): MeasuredValue[] {
   const measured: MeasuredValue[] = [];
   for (const { index, meta } of summary.measured) {
     const value = factValueOf(facts, leaves[index], meta);
     if (typeof value === 'number' || typeof value === 'string' || typeof value === 'boolean')
-      measured.push({ fact: meta.fact, label: meta.label, ...(meta.path ? { path: meta.path } : {}), value, dimension: meta.dimension });
+      measured.push({ fact: meta.fact, label: meta.label, ...(meta.path ? { path: meta.path } : {}), value, dimension: meta.dimension, ...(fromModel.has(meta.fact) ? { source: 'model' as const } : {}) });
   }
   return measured;
+}
+
+/** "(… from the model)" after a reason, naming the values the model gave. */
+function modelNote(measured: readonly MeasuredValue[]): string {
+  const labels = [...new Set(measured.filter((m) => m.source === 'model').map((m) => m.label))];
+  return labels.length === 0 ? '' : ` From the model: ${labels.join(', ')}.`;
 }
 
 const DATE_WORDS: Record<string, string> = { atLeast: 'on or after', atMost: 'on or before', above: 'after', below: 'before', equals: 'on', notEquals: 'not on' };
@@ -511,7 +592,9 @@ function toPassParts(req: CompiledRequirement, failing: ResultNode[], facts: Fac
   return out;
 }
 
-function buildFinding(ctx: Ctx, req: CompiledRequirement, variant: CompiledVariant, subject: Subject, tree: ResultNode, facts: FactSet): Finding {
+function buildFinding(
+  ctx: Ctx, req: CompiledRequirement, variant: CompiledVariant, subject: Subject, tree: ResultNode, facts: FactSet, fromModel: ReadonlySet<string>,
+): Finding {
   const when = namedPart(tree, 'when');
   const requires = namedPart(tree, 'requires');
   if (!requires) throw new Error(`Rule ${req.id} has no "requires" part`);
@@ -530,10 +613,11 @@ function buildFinding(ctx: Ctx, req: CompiledRequirement, variant: CompiledVaria
   if (TEMPLATE_KINDS[req.template].findings === 'tube_sizes') return tubeTableFinding(ctx, req, variant, subject, requires, facts, verdict, missing);
   const leaves = leavesOf(requires);
   const summary = summarise(req, 'requires', leaves);
-  const measured = measuredValues(summary, leaves, facts);
+  const measured = measuredValues(summary, leaves, facts, fromModel);
   const required = copyRequired(summary);
   const v: Finding['verdict'] = verdict === 'unknown' ? 'needs_information' : verdict ? 'pass' : 'fail';
   const parts: ReasonSegment[] = [];
+  const toPass: ReasonSegment[] = [];
   if (v === 'pass') {
     // A pass shows the numbers it passed on, not only that it passed.
     const passed = leaves.filter((l) => l.result === true && req.leaves[String(l.name)] && factPresentFor(facts, l));
@@ -552,8 +636,10 @@ function buildFinding(ctx: Ctx, req: CompiledRequirement, variant: CompiledVaria
       parts.push('.');
     } else parts.push('Does not meet the requirement.');
     if (missing.size > 0) parts.push(` Also not given: ${missingList(missing).map((m) => m.label).join(', ')}.`);
-    parts.push(...toPassParts(req, failing, facts));
+    toPass.push(...toPassParts(req, failing, facts));
   }
+  // Which values came from the cage model, then (for a fail) what to change, last.
+  parts.push(modelNote(measured), ...toPass);
   const f = withReason(ctx, baseFinding(ctx, req, subject, v, ''), parts);
   f.measured = measured;
   f.required = required;
@@ -682,7 +768,9 @@ function bandTextIn(v: CompiledVariant, system: UnitSystem): string {
   return renderReason([bandPart(v.aboveKg, v.upToKg)], system);
 }
 
-function assembleReport(ctx: Ctx, classId: string, className: string, findings: Finding[], tubes: MemberTubeData[]): CheckReport {
+function assembleReport(
+  ctx: Ctx, classId: string, className: string, findings: Finding[], tubes: MemberTubeData[], geo: CageGeometry | null, disagreements: Disagreement[],
+): CheckReport {
   const mandatory = findings.filter((f) => f.severity === 'mandatory');
   const verdict: CheckReport['verdict'] = mandatory.some((f) => f.verdict === 'fail')
     ? 'fail'
@@ -723,6 +811,7 @@ function assembleReport(ctx: Ctx, classId: string, className: string, findings: 
       membersWithoutLength: tubes.filter((t) => t.massKg === null).map((t) => t.memberId),
     },
     policy: { acceptPrintedEquivalents: ctx.compiled.policy.acceptPrintedEquivalents, measurementTolerance: { ...ctx.compiled.policy.tolerance } },
+    ...(geo ? { geometry: { ...geo, disagreements } } : {}),
     disclaimer: PRE_CHECK_DISCLAIMER,
   };
 }

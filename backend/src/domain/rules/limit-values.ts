@@ -1,30 +1,17 @@
 // The `limit` template's two richer value forms: k × another fact (proportional limits) and a
 // grade from the ordered grade vocabulary. Plain numbers and yes/no go through compileLeaf.
 import type { LimitCheck, ProportionalValue } from '../../contracts/ruleset.js';
-import type { Dimension } from '../units.js';
 import { toCanonical } from '../units.js';
 import { GRADES, findGrade } from '../grades.js';
-import type { GradeFamily } from '../grades.js';
 import { compileLeaf, resolveFact, resolveUnit } from './conditions.js';
 import type { CompileContext, EngineNode, Path } from './conditions.js';
 import { ENGINE_FROM_LIMIT, FRIENDLY_FROM_ENGINE } from './operators.js';
+import { GRADE_FACTS, factorDimension } from './limit-forms.js';
 import { REF_FACT } from './references.js';
 import type { RefParams } from './references.js';
 
 type Limit = LimitCheck['operator'];
 const ORDER_OPERATORS: ReadonlySet<Limit> = new Set(['atLeast', 'atMost', 'above', 'below']);
-
-/**
- * The dimension k must have so that `fact` (dimension a) can be k × `of` (dimension b): none (a plain
- * factor) when a = b, a length when an area is compared with a length. Anything else is refused.
- */
-export function factorDimension(a: Dimension, b: Dimension): 'ratio' | 'length' | undefined {
-  if (a === b) return 'ratio';
-  if (a === 'area' && b === 'length') return 'length';
-  return undefined;
-}
-
-export const isProportional = (v: LimitCheck['value']): v is ProportionalValue => typeof v === 'object' && v !== null;
 
 export function compileProportional(c: LimitCheck & { value: ProportionalValue }, path: Path, ctx: CompileContext): EngineNode | undefined {
   const valuePath = [...path, 'value'];
@@ -78,12 +65,6 @@ export function compileProportional(c: LimitCheck & { value: ProportionalValue }
   };
   return { fact: fact.name, name, operator: op, value: { fact: REF_FACT, params } };
 }
-
-/** Facts a rule may compare with a grade, the grade family and the derived strength facts. */
-export const GRADE_FACTS: Readonly<Record<string, { family: GradeFamily; yieldFact: string; tensileFact: string }>> = {
-  'member.grade': { family: 'material', yieldFact: 'member.gradeMinYieldMpa', tensileFact: 'member.gradeMinTensileMpa' },
-  'plate.boltGrade': { family: 'bolt', yieldFact: 'plate.boltGradeMinYieldMpa', tensileFact: 'plate.boltGradeMinTensileMpa' },
-};
 
 /** "At least grade G": the grade's minimum yield and tensile strength must both reach G's. */
 export function compileGradeFloor(c: LimitCheck, path: Path, ctx: CompileContext): EngineNode[] | undefined {

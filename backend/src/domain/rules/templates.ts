@@ -11,7 +11,8 @@ import type { CompileContext, EngineNode, Path, Problems } from './conditions.js
 import { ENGINE_FROM_LIMIT } from './operators.js';
 import type { AlternativeMeta } from './types.js';
 import { TEMPLATE_KINDS } from './template-kinds.js';
-import { GRADE_FACTS, compileGradeFloor, compileProportional, isProportional } from './limit-values.js';
+import { compileGradeFloor, compileProportional } from './limit-values.js';
+import { GRADE_FACTS, isProportional } from './limit-forms.js';
 import { compileMemberMatch } from './member-match.js';
 import { WALL_METHOD_FACTS } from '../facts.js';
 import { MEASURED_WALL_MAX_PERCENT } from './measured-wall.js';

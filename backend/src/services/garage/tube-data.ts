@@ -4,9 +4,13 @@
 import type { Specification } from '../../contracts/specification';
 import type { CutListRowWire, TubeDataWire } from '../../contracts/garage';
 import { memberTubeData } from '../../domain/facts';
+import { deriveCageGeometry } from '../../domain/geometry/derive';
+import { modelLengths } from '../../domain/model-facts';
 
 export function tubeDataFor(spec: Specification): TubeDataWire {
-  const members = spec.members.map((m, i) => memberTubeData(m, i));
+  // With a model, a member's developed centreline length is its length.
+  const lengths = modelLengths(spec, spec.model ? deriveCageGeometry(spec) : null);
+  const members = spec.members.map((m, i) => memberTubeData(m, i, lengths.get(m.id)));
   const rows = new Map<string, CutListRowWire>();
   spec.members.forEach((m, i) => {
     const tube = members[i]!;

@@ -20,6 +20,10 @@ export const actionLabels: Record<string, string> = {
   'cage_record.revoked': 'Cage record revoked',
   'club.record_settings_changed': 'Cage record settings changed',
   'submission.annotated': 'Finding annotated',
+  'tube_stock.added': 'Stock size added',
+  'tube_stock.changed': 'Stock size changed',
+  'tube_stock.removed': 'Stock size removed',
+  'tube_stock.common_added': 'Common stock sizes added back',
 };
 
 /** `ruleset.version_published` → "Ruleset: version published" for actions without a label yet. */
@@ -49,6 +53,16 @@ export function auditSummary(entry: AuditEntry): string {
       return `${text(d.email)} (was ${roles(d.roles)})`;
     case 'invitation.accepted':
       return `${text(d.email)} joined as ${roles(d.roles)}`;
+    case 'tube_stock.added':
+    case 'tube_stock.removed':
+      return text(d.label);
+    case 'tube_stock.changed': {
+      const before = d.before as { label?: unknown } | undefined;
+      const after = d.after as { label?: unknown } | undefined;
+      return before?.label === after?.label ? text(after?.label) : `${text(before?.label)} → ${text(after?.label)}`;
+    }
+    case 'tube_stock.common_added':
+      return `${String(d.added)} size${d.added === 1 ? '' : 's'}`;
     default:
       return entry.entityId ? `${entry.entityType} ${entry.entityId}` : entry.entityType;
   }

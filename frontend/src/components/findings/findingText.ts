@@ -71,3 +71,30 @@ export function groupByArea(findings: readonly Finding[]): { area: RequirementAr
     (g) => g.findings.length > 0,
   );
 }
+
+export type VerdictFilter = 'all' | 'not_met' | 'needs_information' | 'met' | 'not_applicable';
+
+/** The verdict groups in the order a builder fixes things: what is not met first. */
+export const VERDICT_GROUPS: readonly { value: Exclude<VerdictFilter, 'all'>; label: string; verdicts: readonly Finding['verdict'][] }[] = [
+  { value: 'not_met', label: 'Not met', verdicts: ['fail'] },
+  { value: 'needs_information', label: 'Needs a measurement', verdicts: ['needs_information'] },
+  { value: 'met', label: 'Met', verdicts: ['pass'] },
+  { value: 'not_applicable', label: 'Do not apply', verdicts: ['not_applicable'] },
+];
+
+/**
+ * Findings by verdict group, not met first (a mandatory fail before an advisory one), each group in
+ * the areas' order. "All" leaves out the rules that do not apply; they have a filter of their own.
+ */
+export function groupByVerdict(findings: readonly Finding[], filter: VerdictFilter): { value: string; label: string; findings: Finding[] }[] {
+  const area = (f: Finding) => AREA_ORDER.indexOf(f.area);
+  return VERDICT_GROUPS.filter((g) => (filter === 'all' ? g.value !== 'not_applicable' : g.value === filter))
+    .map((g) => ({
+      value: g.value,
+      label: g.label,
+      findings: findings
+        .filter((f) => g.verdicts.includes(f.verdict))
+        .sort((a, b) => Number(a.severity === 'advisory') - Number(b.severity === 'advisory') || area(a) - area(b)),
+    }))
+    .filter((g) => g.findings.length > 0);
+}

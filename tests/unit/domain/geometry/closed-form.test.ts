@@ -3,7 +3,7 @@
 import { describe, expect, test } from 'vitest';
 import { analysePath, deriveCageGeometry, memberCentreline, vec3 } from '@backend/domain/geometry/index';
 import type { PathGeometry } from '@backend/domain/geometry/index';
-import { HOOP, cageSpec } from './cage-fixture';
+import { HOOP, cageSpec } from '../../../fixtures/cage-model';
 
 const analyse = (pts: [number, number, number][], clrs: (number | undefined)[], od = 45): PathGeometry => {
   const r = analysePath(pts.map(([x, y, z]) => vec3(x, y, z)), clrs, od);
@@ -115,7 +115,7 @@ describe('node stars: members meeting at a node and the angles between them', ()
     const jl = geo.nodes.find((n) => n.nodeId === 'jl')!;
     expect(jl.members.map((m) => m.name)).toEqual(['main hoop', 'backstay left', 'hoop diagonal']);
     const hoopBrace = jl.angles.find((a) => a.names.join() === 'main hoop,backstay left')!;
-    // Brace (0,600,1000)→(−900,550,300): down-ray of the hoop is −z; angle = acos(700/√(900²+50²+700²)) = 38.02°, computed.
+    // Brace (0,600,1000)→(−900,550,300): down-ray of the hoop is −z; angle = acos(700/√(900²+50²+700²)) = 52.16°, computed.
     expect(hoopBrace.angleDeg).toBeCloseTo((Math.acos(700 / Math.hypot(900, 50, 700)) * 180) / Math.PI, 9);
   });
 });

@@ -1,7 +1,7 @@
 // The cage model on the wire: every bad input refused at its field path with a clear message.
 import { describe, expect, test } from 'vitest';
 import { parseSpecification } from '@backend/contracts/specification';
-import { cageSpec } from './cage-fixture';
+import { cageSpec } from '../../../fixtures/cage-model';
 
 type Spec = ReturnType<typeof cageSpec>;
 const problems = (mutate: (s: Spec) => void) => {

@@ -1,0 +1,103 @@
+// The cage views of one specification and its findings, as three SVG strings: what the build sheet,
+// the review page, the PDF and the bench all call, so each draws exactly the same thing. Members
+// without a path (a sheet typed the old way) are simply not drawn; the sheet works as before.
+import { formatQuantity, type UnitSystem } from '../units.js';
+import type { MemberKind } from '../vocabulary.js';
+import { memberCentreline } from './centreline.js';
+import { deriveCageGeometry, type GeometryInput } from './derive.js';
+import type { GeometryFactValues } from './derived-facts.js';
+import type { CageNode, PathEntry } from './model.js';
+import { memberNames } from './names.js';
+import { cageGeometryMarks } from './cage-marks.js';
+import { projectView, VIEW_NAMES, type DrawnMember, type ViewName } from './projection.js';
+import { memberMarks } from './verdict-marks.js';
+import type { Finding } from '../../contracts/report.js';
+import { cageViewSvg, type SvgMemberInfo } from './view-svg.js';
+
+export interface CageMemberLike {
+  id: string;
+  kind: MemberKind;
+  label?: string;
+  odMm?: number;
+  wallMm?: number;
+  path?: readonly PathEntry[];
+}
+
+/** The parts of a specification (or of the editor's draft, where a size may still be missing) the drawing reads. */
+export interface CageSpecLike {
+  members: readonly CageMemberLike[];
+  model?: { nodes: readonly CageNode[] };
+  vehicle?: GeometryInput['vehicle'];
+}
+
+/** Members that can be drawn: a path of known nodes and an OD. */
+export function drawnMembers(spec: CageSpecLike): DrawnMember[] {
+  const nodes = spec.model?.nodes ?? [];
+  if (nodes.length === 0) return [];
+  const known = new Set(nodes.map((n) => n.id));
+  const names = memberNames(spec.members);
+  const out: DrawnMember[] = [];
+  for (const [i, m] of spec.members.entries()) {
+    if (!m.path || m.path.length < 2 || !m.odMm || m.odMm <= 0 || m.path.some((p) => !known.has(p.nodeId))) continue;
+    const centreline = memberCentreline(nodes, m.path, m.odMm);
+    if (centreline.length >= 2) out.push({ id: m.id, name: names[i]!, odMm: m.odMm, centreline });
+  }
+  return out;
+}
+
+export function tubeSizeWords(odMm: number | undefined, wallMm: number | undefined, units: UnitSystem): string {
+  if (odMm === undefined) return 'size not given';
+  const od = formatQuantity(odMm, 'length', units);
+  if (wallMm === undefined) return `${od.text} OD`;
+  return `${od.value.toFixed(od.decimals)} × ${formatQuantity(wallMm, 'length', units).text}`;
+}
+
+export interface CageDrawingInput {
+  spec: CageSpecLike;
+  findings: readonly Finding[];
+  units: UnitSystem;
+  /** findingKey()s a steward waived. */
+  waivedKeys?: ReadonlySet<string>;
+  highlightId?: string | null;
+  labels?: boolean;
+}
+
+export interface CageDrawing {
+  svgs: Record<ViewName, string>;
+  /** Per drawn member: name, size, verdict and rule (for hover text and lists beside the drawing). */
+  members: Map<string, SvgMemberInfo>;
+  drawn: DrawnMember[];
+  /** The model's derived geometry facts the drawing labels (the same values the rules read). */
+  facts: GeometryFactValues;
+}
+
+/** The model's facts, from the members that have a size (a draft may still lack one). */
+export function drawingFacts(spec: CageSpecLike): GeometryFactValues {
+  if (!spec.model || spec.model.nodes.length === 0) return {};
+  const members = spec.members.filter((m): m is CageMemberLike & { odMm: number } => typeof m.odMm === 'number' && m.odMm > 0);
+  try {
+    return deriveCageGeometry({ vehicle: spec.vehicle, members, model: spec.model }).facts;
+  } catch {
+    // A draft mid-edit may hold a path the contract will refuse; the drawing still shows, unlabelled.
+    return {};
+  }
+}
+
+export function drawCage(input: CageDrawingInput): CageDrawing {
+  const drawn = drawnMembers(input.spec);
+  const marks = memberMarks(input.findings, input.waivedKeys);
+  const byId = new Map(input.spec.members.map((m) => [m.id, m]));
+  const members = new Map<string, SvgMemberInfo>();
+  for (const d of drawn) {
+    const m = byId.get(d.id)!;
+    const mark = marks.get(d.id);
+    members.set(d.id, { name: d.name, sizeText: tubeSizeWords(m.odMm, m.wallMm, input.units), verdict: mark?.verdict ?? 'unchecked', rule: mark?.worstRule ?? null });
+  }
+  const facts = drawingFacts(input.spec);
+  const geometry = cageGeometryMarks(input.spec, drawn, facts, input.units);
+  const svgs = {} as Record<ViewName, string>;
+  for (const view of VIEW_NAMES) {
+    svgs[view] = cageViewSvg(projectView(drawn, view), { members, marks: geometry, units: input.units, highlightId: input.highlightId ?? null, labels: input.labels ?? false });
+  }
+  return { svgs, members, drawn, facts };
+}

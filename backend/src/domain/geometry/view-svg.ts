@@ -1,0 +1,151 @@
+// One SVG string per view of the cage, shared by the build sheet, the review page and the PDF: the
+// viewBox is in millimetres so the drawing is to scale, each tube is stroked at its OD, each member is
+// marked by its worst finding (tint, centreline pattern and symbol from VERDICT_MARKS), and the
+// measured geometry is drawn over it. Presentation attributes only, text in Noto Sans: pdfmake's SVG
+// converter ignores classes, and this way the PDF and the screen draw the same thing.
+import { formatQuantity, type UnitSystem } from '../units.js';
+import { geometryMarkSvg, markBounds, type GeometryMark } from './geometry-marks.js';
+import { pageMidpoint, VIEW_TITLES, type Bounds, type Point2, type ProjectedView } from './projection.js';
+import { attrs, escapeXml, INK, MUTED, n, pathData, symbol, text } from './svg-parts.js';
+import { dashArrayMm, VERDICT_MARKS, type MarkVerdict } from './verdict-marks.js';
+
+export interface SvgMemberInfo {
+  /** The name the builder gave the member ("backstay left"). */
+  name: string;
+  /** "45.0 × 2.50 mm" in the reader's units. */
+  sizeText: string;
+  verdict: MarkVerdict;
+  /** The worst finding's rule when it does not pass. */
+  rule: string | null;
+}
+
+export interface CageSvgOptions {
+  /** Marks and words per member id; a member without an entry is drawn unchecked. */
+  members: ReadonlyMap<string, SvgMemberInfo>;
+  marks?: readonly GeometryMark[];
+  units: UnitSystem;
+  /** The member to draw with a halo (a finding asked to show it). */
+  highlightId?: string | null;
+  /** Names beside the tubes (the PDF has no hover); on screen the hover names them. */
+  labels?: boolean;
+  /** Replaces the view's own title (role="img" needs one). */
+  title?: string;
+}
+
+const NEUTRAL: SvgMemberInfo = { name: '', sizeText: '', verdict: 'unchecked', rule: null };
+
+/** The frame around the drawing: its bounds, the marks, the floor and room for the scale bar. */
+function frameOf(view: ProjectedView, marks: readonly GeometryMark[]): Bounds {
+  let b = view.bounds ?? { minU: -500, maxU: 500, minV: 0, maxV: 1000 };
+  for (const m of marks) b = markBounds(m, view.view, b) ?? b;
+  // The floor (v = 0) shows in the side and front views, so the hoop's height reads at a glance.
+  if (view.view !== 'top') b = { ...b, minV: Math.min(b.minV, 0) };
+  const span = Math.max(b.maxU - b.minU, b.maxV - b.minV, 200);
+  const pad = span * 0.1;
+  return { minU: b.minU - pad, maxU: b.maxU + pad * 2.2, minV: b.minV - pad * 1.6, maxV: b.maxV + pad };
+}
+
+/** A round scale-bar length near a fifth of the drawing's width, in the reader's units. */
+function scaleBar(widthMm: number, units: UnitSystem): { mm: number; label: string } {
+  const unitMm = units === 'imperial' ? 25.4 : 1;
+  const target = widthMm / 5 / unitMm;
+  const steps = units === 'imperial' ? [6, 12, 18, 24, 36, 48] : [100, 200, 250, 500, 1000];
+  const pick = steps.reduce((best, s) => (Math.abs(s - target) < Math.abs(best - target) ? s : best), steps[0]!);
+  const mm = pick * unitMm;
+  return { mm, label: formatQuantity(mm, 'length', units, { decimals: 0 }).text };
+}
+
+function memberSvg(m: ProjectedView['members'][number], info: SvgMemberInfo, highlighted: boolean): string {
+  const mark = VERDICT_MARKS[info.verdict];
+  const d = pathData(m.points);
+  const round = { fill: 'none', 'stroke-linecap': 'round', 'stroke-linejoin': 'round', d };
+  const hover = [info.name || m.name, info.sizeText, mark.label, info.rule].filter(Boolean).join(' · ');
+  const dash = dashArrayMm(mark, m.odMm);
+  return (
+    `<g${attrs({ 'data-member-id': m.id, 'data-verdict': info.verdict, cursor: 'pointer' })}>` +
+    `<title>${escapeXml(hover)}</title>` +
+    (highlighted ? `<path${attrs({ ...round, stroke: '#f2b705', 'stroke-width': m.odMm * 2.6, 'stroke-opacity': 0.75 })}/>` : '') +
+    `<path${attrs({ ...round, stroke: INK, 'stroke-width': m.odMm * 1.16 })}/>` +
+    `<path${attrs({ ...round, stroke: mark.tint, 'stroke-width': m.odMm * 0.96 })}/>` +
+    (info.verdict === 'unchecked'
+      ? ''
+      : `<path${attrs({ fill: 'none', d, stroke: mark.colour, 'stroke-width': m.odMm * 0.3, 'stroke-linejoin': 'round', 'stroke-dasharray': dash.length ? dash.join(' ') : undefined })}/>`) +
+    '</g>'
+  );
+}
+
+interface MarkGroup {
+  at: Point2;
+  ids: string[];
+  names: string[];
+  verdict: MarkVerdict;
+  odMm: number;
+}
+
+/** Members' marks gathered where they would overlap on the page, worst member first in each group. */
+function markGroups(view: ProjectedView, members: ReadonlyMap<string, SvgMemberInfo>, fontMm: number): MarkGroup[] {
+  const ordered = [...view.members].sort((a, b) => VERDICT_MARKS[(members.get(a.id) ?? NEUTRAL).verdict].rank - VERDICT_MARKS[(members.get(b.id) ?? NEUTRAL).verdict].rank);
+  const groups: MarkGroup[] = [];
+  for (const m of ordered) {
+    const info = members.get(m.id) ?? NEUTRAL;
+    const at = pageMidpoint(m.points);
+    const near = groups.find((g) => Math.hypot(g.at.u - at.u, g.at.v - at.v) < fontMm * 1.6);
+    if (near) {
+      near.ids.push(m.id);
+      near.names.push(info.name || m.name);
+    } else groups.push({ at, ids: [m.id], names: [info.name || m.name], verdict: info.verdict, odMm: m.odMm });
+  }
+  return groups;
+}
+
+/** The SVG document of one view. */
+export function cageViewSvg(view: ProjectedView, options: CageSvgOptions): string {
+  const marks = options.marks ?? [];
+  const f = frameOf(view, marks);
+  const width = f.maxU - f.minU;
+  const height = f.maxV - f.minV;
+  const fontMm = Math.max(width, height) * 0.02;
+  const title = options.title ?? VIEW_TITLES[view.view];
+  const out: string[] = [];
+  out.push(
+    `<svg xmlns="http://www.w3.org/2000/svg"${attrs({ viewBox: `${n(f.minU)} ${n(-f.maxV)} ${n(width)} ${n(height)}`, role: 'img', 'aria-label': title, 'font-family': 'Noto Sans, NotoSans, sans-serif' })}>`,
+    `<title>${escapeXml(title)}</title>`,
+    `<rect${attrs({ x: f.minU, y: -f.maxV, width, height, fill: '#ffffff' })}/>`,
+  );
+  if (view.view !== 'top') {
+    out.push(`<path${attrs({ d: `M${n(f.minU)} 0 L${n(f.maxU)} 0`, stroke: MUTED, 'stroke-width': fontMm * 0.08 })}/>`);
+    out.push(text({ u: f.minU + fontMm * 0.4, v: fontMm * 0.35 }, 'floor', fontMm * 0.7, { fill: MUTED }));
+  }
+  if (view.view !== 'side') {
+    // The car's centreline (y = 0): vertical in the front view, horizontal in the top view.
+    const d = view.view === 'front' ? `M0 ${n(-f.maxV)} L0 ${n(-f.minV)}` : `M${n(f.minU)} 0 L${n(f.maxU)} 0`;
+    out.push(`<path${attrs({ d, stroke: MUTED, 'stroke-width': fontMm * 0.06, 'stroke-dasharray': `${n(fontMm * 1.2)} ${n(fontMm * 0.3)} ${n(fontMm * 0.2)} ${n(fontMm * 0.3)}` })}/>`);
+  }
+  if (view.members.length === 0) {
+    out.push(text({ u: (f.minU + f.maxU) / 2, v: (f.minV + f.maxV) / 2 }, 'No members with a path to draw yet', fontMm, { 'text-anchor': 'middle', fill: MUTED }));
+  }
+  for (const m of view.members) out.push(memberSvg(m, options.members.get(m.id) ?? NEUTRAL, options.highlightId === m.id));
+  for (const mark of marks) out.push(geometryMarkSvg(mark, view.view, fontMm));
+  // Symbols and names last, so no tube hides them. Members whose marks would land on one another (the
+  // left and right backstays in the side view) share one symbol, the worst, and one label naming them all.
+  for (const group of markGroups(view, options.members, fontMm)) {
+    const r = Math.max(group.odMm * 0.9, fontMm * 0.65);
+    out.push(`<g${attrs({ 'data-member-id': group.ids[0], cursor: 'pointer' })}>${symbol(group.verdict, group.at, r)}</g>`);
+    if (options.labels) out.push(text({ u: group.at.u + r * 1.3, v: group.at.v - r * 0.35 }, group.names.join(' / '), fontMm * 0.8, { fill: INK }));
+  }
+  const bar = scaleBar(width, options.units);
+  const y = f.minV + fontMm * 1.2;
+  const x0 = f.maxU - bar.mm - fontMm;
+  out.push(`<path${attrs({ d: `M${n(x0)} ${n(-y)} L${n(x0 + bar.mm)} ${n(-y)} M${n(x0)} ${n(-y - fontMm * 0.3)} L${n(x0)} ${n(-y + fontMm * 0.3)} M${n(x0 + bar.mm)} ${n(-y - fontMm * 0.3)} L${n(x0 + bar.mm)} ${n(-y + fontMm * 0.3)}`, stroke: INK, 'stroke-width': fontMm * 0.1, fill: 'none' })}/>`);
+  out.push(text({ u: x0 + bar.mm / 2, v: y + fontMm * 0.45 }, bar.label, fontMm * 0.75, { 'text-anchor': 'middle' }));
+  out.push('</svg>');
+  return out.join('');
+}
+
+/** A short length of tube with a verdict's mark and symbol, for the legend (screen and PDF alike). */
+export function legendSwatchSvg(verdict: MarkVerdict, title: string = VERDICT_MARKS[verdict].label): string {
+  const od = 10;
+  const member = { id: `legend-${verdict}`, name: title, odMm: od, points: [{ u: 6, v: -8 }, { u: 54, v: -8 }], depthMm: 0 };
+  const body = memberSvg(member, { name: title, sizeText: '', verdict, rule: null }, false).replace(/ cursor="pointer"/g, '');
+  return `<svg xmlns="http://www.w3.org/2000/svg"${attrs({ viewBox: '0 0 80 16', width: 40, height: 8, role: 'img', 'aria-label': title })}>${body}${symbol(verdict, { u: 70, v: -8 }, 7)}</svg>`;
+}
