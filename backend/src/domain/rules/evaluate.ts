@@ -446,6 +446,7 @@ function bandFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, choic
 
 /** A vocabulary value in the words people use ("mild steel", "DOM"), anything else as it is. */
 function word(value: unknown): string {
+  if (typeof value === 'boolean') return value ? 'yes' : 'no';
   const v = String(value);
   return (MATERIAL_LABELS as Record<string, string>)[v] ?? (PROCESS_LABELS as Record<string, string>)[v] ?? v;
 }
@@ -453,7 +454,7 @@ function word(value: unknown): string {
 function display(value: unknown, dimension: Dimension | null, system: UnitSystem, facts: FactSet = {}): string {
   if (typeof value === 'number' && dimension) return formatQuantity(value, dimension, system).text;
   if (Array.isArray(value)) return value.map(word).join(', ');
-  if (typeof value === 'string') return word(value);
+  if (typeof value === 'string' || typeof value === 'boolean') return word(value);
   if (typeof value === 'object' && value !== null && 'fact' in value) return describeReference(value as { fact: string; times?: number }, facts, dimension, system);
   return String(value);
 }
@@ -535,10 +536,11 @@ function modelNote(measured: readonly MeasuredValue[]): string {
 
 const DATE_WORDS: Record<string, string> = { atLeast: 'on or after', atMost: 'on or before', above: 'after', below: 'before', equals: 'on', notEquals: 'not on' };
 
-function describeLeaf(req: CompiledRequirement, leaf: ResultNode, facts: FactSet, system: UnitSystem): string {
+function describeLeaf(req: CompiledRequirement, leaf: ResultNode, facts: FactSet, system: UnitSystem, met = false): string {
   const meta = req.leaves[String(leaf.name)];
-  if (meta.date) return `${meta.label} ${formatIsoDate(String(factValueOf(facts, leaf, meta)))} (required ${DATE_WORDS[meta.operator]} ${formatIsoDate(String(meta.value))})`;
-  return `${meta.label} ${display(factValueOf(facts, leaf, meta), meta.dimension, system)} (required ${OP_WORDS[meta.operator]} ${display(meta.value, meta.dimension, system, facts)})`;
+  const required = met ? '' : 'required ';
+  if (meta.date) return `${meta.label} ${formatIsoDate(String(factValueOf(facts, leaf, meta)))} (${required}${DATE_WORDS[meta.operator]} ${formatIsoDate(String(meta.value))})`;
+  return `${meta.label} ${display(factValueOf(facts, leaf, meta), meta.dimension, system)} (${required}${OP_WORDS[meta.operator]} ${display(meta.value, meta.dimension, system, facts)})`;
 }
 
 const NUMERIC_OPS: ReadonlySet<string> = new Set(['atLeast', 'atMost', 'above', 'below', 'equals', 'notEquals']);
@@ -569,7 +571,7 @@ function leafParts(req: CompiledRequirement, leaf: ResultNode, facts: FactSet, m
       ')',
     ];
   }
-  return [bySystem((s) => describeLeaf(req, leaf, facts, s))];
+  return [bySystem((s) => describeLeaf(req, leaf, facts, s, met))];
 }
 
 /** What to change, as one sentence: every failing limit the member or vehicle must reach. */
