@@ -52,11 +52,13 @@ const validSpecs: Record<string, () => Json> = {
   // 3,000 lb, 4130 at 1.625 × 0.083 in, TIG welded (F-NHRA-1's 4130 size; F-NHRA-W1: 4130 by TIG only).
   'heavy-special': () => {
     const cm = { material: 'chromoly_4130' };
+    // The Heavy Special table asks for each hoop's and brace's thinnest sonic reading (demo C4.2.3).
+    const sonic = { wallReadings: [{ wallMm: 0.082 * IN, method: 'ultrasonic' }] };
     return {
       vehicle: { classId: 'heavy-special', weightWithDriverKg: 3000 * LB, cockpit: 'closed', chassis: 'tube_frame' },
       members: [
-        tube('mh', 'main_hoop', 1.625, 0.083, { ...cm, continuousPiece: true, ...hoopBends }), tube('fh', 'front_hoop', 1.625, 0.083, { ...cm, ...hoopBends }),
-        tube('rb1', 'rear_brace', 1.625, 0.083, cm), tube('rb2', 'rear_brace', 1.625, 0.083, cm),
+        tube('mh', 'main_hoop', 1.625, 0.083, { ...cm, ...sonic, continuousPiece: true, ...hoopBends }), tube('fh', 'front_hoop', 1.625, 0.083, { ...cm, ...sonic, ...hoopBends }),
+        tube('rb1', 'rear_brace', 1.625, 0.083, { ...cm, ...sonic }), tube('rb2', 'rear_brace', 1.625, 0.083, { ...cm, ...sonic }),
         tube('db1', 'door_bar', 1.375, 0.083, { ...cm, bends: [] }), tube('db2', 'door_bar', 1.375, 0.083, { ...cm, bends: [] }),
         tube('dg', 'diagonal', 1.375, 0.083, cm), tube('hb', 'harness_bar', 1.375, 0.083, cm),
       ],
@@ -70,7 +72,8 @@ const validSpecs: Record<string, () => Json> = {
   // Metric hillclimb schedule: 45 × 2.5 / 50 × 2.0 mm hoops (F-MSUK-2), 38 × 2.5 mm diagonal (F-MSUK-4),
   // 3 mm feet plates of ≥ 120 cm² with 3 bolts (F-FIA-M1).
   'hill-saloon': () => {
-    const cds = (id: string, kind: string, odMm: number, wallMm: number) => ({ id, kind, odMm, wallMm, material: 'mild_steel', process: 'cds' });
+    // Hoops and backstays carry a sonic reading 0.1 mm under the wall (demo H2.1.1 allows 0.25 mm).
+    const cds = (id: string, kind: string, odMm: number, wallMm: number) => ({ id, kind, odMm, wallMm, material: 'mild_steel', process: 'cds', wallReadings: [{ wallMm: wallMm - 0.1, method: 'ultrasonic' }] });
     const foot = (id: string, location: string, memberId: string, sidesMm: number[]) => ({ id, location, memberId, fixing: 'bolted', thicknessMm: 3, sidesMm, boltCount: 3, boltDiameterMm: 10, boltGrade: '8.8' });
     return {
       vehicle: { classId: 'hill-saloon', weightWithoutDriverKg: 1100, cockpit: 'closed', chassis: 'unibody' },

@@ -21,6 +21,7 @@ import { createTubeStockService, type TubeStockService } from './tube-stock.serv
 import { createTubeChoiceService, type TubeChoiceService } from './tube-choice.service';
 import { createJournalService, type JournalService } from './journal.service';
 import { createFabricationService, type FabricationService } from './fabrication.service';
+import { createFabricationSettingsService } from './fabrication-settings.service';
 
 export interface Services {
   accounts: AccountService;
@@ -61,7 +62,8 @@ export function createServices(
   const photos = createPhotoService(ds, photoStorage);
   const mail = createMailService(ds);
   const cageRecords = createCageRecordService(ds, { mail, audit, publicUrl: options.publicUrl });
-  const reports = createReportService(ds, { checks, sheets: buildSheets, photos });
+  const fabricationSettings = createFabricationSettingsService(ds);
+  const reports = createReportService(ds, { checks, sheets: buildSheets, photos, fabricationSettings });
   const tubeStock = createTubeStockService(ds, { audit });
   return {
     accounts: createAccountService(ds),
@@ -84,6 +86,6 @@ export function createServices(
     tubeStock,
     tubeChoice: createTubeChoiceService(ds, { rulesets, stock: tubeStock }),
     journal: createJournalService(ds, { storage: photoStorage, audit }),
-    fabrication: createFabricationService(),
+    fabrication: createFabricationService({ buildSheets, settings: fabricationSettings }),
   };
 }

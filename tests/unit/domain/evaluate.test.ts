@@ -93,7 +93,8 @@ describe('the demo ruleset on a complete Club Saloon', () => {
   });
 
   test('class filters apply: Open Sprint forbids 4130, Heavy Special accepts it', async () => {
-    const mh = { id: 'mh', kind: 'main_hoop', odMm: 1.625 * IN, wallMm: 0.083 * IN, material: 'chromoly_4130', process: 'dom', continuousPiece: true };
+    // The Heavy Special table asks for a sonic reading (demo rulebook C4.2.3).
+    const mh = { id: 'mh', kind: 'main_hoop', odMm: 1.625 * IN, wallMm: 0.083 * IN, material: 'chromoly_4130', process: 'dom', continuousPiece: true, wallReadings: [{ wallMm: 0.083 * IN, method: 'ultrasonic' }] };
     const heavy = await check(demo, { vehicle: { classId: 'heavy-special', weightWithDriverKg: 3000 * LB }, welding: { process: 'tig' }, members: [mh] });
     expect(finding(heavy, 'tv-heavy-tubes', 'mh').verdict).toBe('pass');
     expect(finding(heavy, 'tv-4130-tig').verdict).toBe('pass');
@@ -103,10 +104,20 @@ describe('the demo ruleset on a complete Club Saloon', () => {
   });
 
   test('wall allowance: 1.750 × 0.078 in 4130 passes against 0.083 − 0.005 (Heavy Special); 0.075 fails even with the 0.002 in tolerance', async () => {
-    const r = await check(demo, { vehicle: { classId: 'heavy-special', weightWithDriverKg: 3000 * LB }, members: [{ id: 'mh', kind: 'main_hoop', odMm: 1.75 * IN, wallMm: 0.078 * IN, material: 'chromoly_4130' }] });
+    const hoop = (wallIn: number, sonicIn: number) => ({ id: 'mh', kind: 'main_hoop', odMm: 1.75 * IN, wallMm: wallIn * IN, material: 'chromoly_4130', wallReadings: [{ wallMm: sonicIn * IN, method: 'ultrasonic' }] });
+    const r = await check(demo, { vehicle: { classId: 'heavy-special', weightWithDriverKg: 3000 * LB }, members: [hoop(0.078, 0.078)] });
     expect(finding(r, 'tv-heavy-tubes', 'mh').verdict).toBe('pass');
-    const r2 = await check(demo, { vehicle: { classId: 'heavy-special', weightWithDriverKg: 3000 * LB }, members: [{ id: 'mh', kind: 'main_hoop', odMm: 1.75 * IN, wallMm: 0.075 * IN, material: 'chromoly_4130' }] });
+    const r2 = await check(demo, { vehicle: { classId: 'heavy-special', weightWithDriverKg: 3000 * LB }, members: [hoop(0.075, 0.075)] });
     expect(finding(r2, 'tv-heavy-tubes', 'mh').verdict).toBe('fail');
+  });
+
+  test('sonic walls (demo C4.2.3): the thinnest ultrasonic reading must be 90 % of the listed wall, without the mill allowance', async () => {
+    const run = async (sonicIn: number | undefined) =>
+      finding(await check(demo, { vehicle: { classId: 'heavy-special', weightWithDriverKg: 3000 * LB }, members: [{ id: 'mh', kind: 'main_hoop', odMm: 1.625 * IN, wallMm: 0.083 * IN, material: 'chromoly_4130', ...(sonicIn === undefined ? {} : { wallReadings: [{ wallMm: sonicIn * IN, method: 'ultrasonic' }] }) }] }), 'tv-heavy-tubes', 'mh');
+    // 90 % of 0.083 in = 0.0747 in (computed).
+    expect((await run(0.075)).verdict).toBe('pass');
+    expect((await run(0.074)).verdict).toBe('fail');
+    expect((await run(undefined)).verdict).toBe('needs_information');
   });
 
   test('bolted plate compared with the attached tube wall (fact-to-fact comparison)', async () => {
@@ -115,13 +126,21 @@ describe('the demo ruleset on a complete Club Saloon', () => {
     expect(finding(await check(demo, s), 'tv-plates-bolted', 'p1').verdict).toBe('fail');
   });
 
+  test('proportional welded plates (demo C6.1.1, after F-SCCA-M3): a 4 × 4 in plate under a 1.750 in hoop fails on area (16 < 17.5 in²)', async () => {
+    const s = fullSaloon();
+    s.plates = [{ id: 'p1', location: 'main_hoop_foot', memberId: 'mh', fixing: 'welded', sidesMm: [4 * IN, 4 * IN], thicknessMm: 0.125 * IN } as never];
+    const f = finding(await check(demo, s), 'tv-plates-welded', 'p1');
+    expect(f.verdict).toBe('fail');
+    expect(f.reason).toContain('10.000 in × OD of the attached member (1.750 in) = 17.50 in²');
+  });
+
   test('unknown class is an error naming the classes', async () => {
     const s = fullSaloon();
     await expect(evaluateSpecification(demo, 'nope', s as never)).rejects.toThrow(UnknownClassError);
   });
 
   test('metric document: 1.75 × 0.095 in hoop passes via its printed equivalence; the policy is in the report', async () => {
-    const r = await check(metric, { vehicle: { classId: 'hill-saloon' }, members: [{ id: 'mh', kind: 'main_hoop', odMm: 1.75 * IN, wallMm: 0.095 * IN, material: 'mild_steel' }] });
+    const r = await check(metric, { vehicle: { classId: 'hill-saloon' }, members: [{ id: 'mh', kind: 'main_hoop', odMm: 1.75 * IN, wallMm: 0.095 * IN, material: 'mild_steel', wallReadings: [{ wallMm: 2.3, method: 'ultrasonic' }] }] });
     expect(finding(r, 'hc-main-tubes', 'mh').verdict).toBe('pass');
     expect(r.policy).toEqual({ acceptPrintedEquivalents: true, measurementTolerance: { length: 0.05 } });
   });

@@ -165,11 +165,12 @@ describe('rulebook identity and policy', () => {
         }
         if (q.allowances?.wallAllowance) q.allowances.wallAllowance.value *= 25.4;
       }
+      // Proportional limits (k × another fact) carry k's unit inside their value, if any, and keep it.
       if (q.template === 'limit')
-        for (const c of q.checks) if (/Mm$/.test(c.fact) && c.unit === undefined) c.unit = 'in';
+        for (const c of q.checks) if (/Mm$/.test(c.fact) && c.unit === undefined && typeof c.value === 'number') c.unit = 'in';
       if (q.template === 'limit')
         for (const c of q.checks)
-          if (/Mm2$/.test(c.fact)) {
+          if (/Mm2$/.test(c.fact) && typeof c.value === 'number') {
             c.value *= 645.16;
             c.unit = 'mm2';
           }
