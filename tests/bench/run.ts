@@ -25,6 +25,15 @@ try {
 }
 
 try {
+  const { runGeometryBench, GEOMETRY_TARGET_MS } = await import('./geometry');
+  const g = await runGeometryBench({ log: true });
+  lines.push({ name: `cage geometry, every derived value (${g.members} members), 10th percentile`, value: `${g.deriveMs.toFixed(3)} ms, median ${g.deriveMedianMs.toFixed(3)} ms (bare loop over the same paths ${(g.bareMs * 1000).toFixed(2)} µs, ${g.ratio.toFixed(0)}×)`, target: `≤ ${GEOMETRY_TARGET_MS} ms`, ok: g.deriveMs <= GEOMETRY_TARGET_MS });
+} catch (err) {
+  console.error('geometry bench failed:', err instanceof Error ? err.message : err);
+  failed = true;
+}
+
+try {
   const api = await runApiBench({ log: true });
   lines.push({ name: 'dry run through the API, one client, p99', value: `${api.dryRun.p99Ms} ms (p50 ${api.dryRun.p50Ms} ms)`, target: `< ${TARGETS.dryRunP99Ms} ms`, ok: api.dryRun.p99Ms < TARGETS.dryRunP99Ms });
   lines.push({ name: `checks/s through the API, ${api.load.connections} clients`, value: api.load.checksPerSecond.toFixed(0), target: 'reported', ok: api.load.non2xx === 0 && api.load.errors === 0 });
