@@ -51,6 +51,8 @@ export const findingSchema = z.object({
   /** Why the verdict: which alternative matched, which was nearest, what is missing. */
   reason: z.string(),
   explanation: z.string(),
+  /** Set when the rulebook accepts the sheet's maker's certificate in place of this rule (not checked). */
+  acceptedOnCertificate: z.object({ number: z.string(), issuer: z.string().optional() }).optional(),
 });
 
 export const memberTubeDataSchema = z.object({

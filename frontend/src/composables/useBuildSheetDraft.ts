@@ -18,12 +18,17 @@ export interface SheetDraft {
   inspectionHoles: NonNullable<Specification['inspectionHoles']>;
   padding: NonNullable<Specification['padding']>;
   welding: NonNullable<Specification['welding']>;
+  /** Approval and build dates and a maker's certificate (issue 9). */
+  cage: CageDraft;
   /** The cage model's nodes (issue 10); absent on a sheet typed the old way. */
   model?: NonNullable<Specification['model']>;
 }
 
+/** The certificate's number may be blank while typing; the schema asks for it once an issuer is given. */
+export type CageDraft = Omit<NonNullable<Specification['cage']>, 'certificate'> & { certificate?: { issuer?: string; number?: string } };
+
 export function emptyDraft(classId: string): SheetDraft {
-  return { vehicle: { classId }, members: [], geometry: {}, plates: [], inspectionHoles: [], padding: {}, welding: {} };
+  return { vehicle: { classId }, members: [], geometry: {}, plates: [], inspectionHoles: [], padding: {}, welding: {}, cage: {} };
 }
 
 /** A saved specification as an editable draft (deep copy: the draft never aliases a saved revision). */
@@ -37,6 +42,7 @@ export function draftFromSpecification(spec: Specification, classId = spec.vehic
     inspectionHoles: copy.inspectionHoles ?? [],
     padding: copy.padding ?? {},
     welding: copy.welding ?? {},
+    cage: copy.cage ?? {},
     ...(copy.model ? { model: copy.model } : {}),
   };
 }
@@ -98,6 +104,8 @@ export function checkDraft(draft: SheetDraft, units: UnitSystem = 'metric'): Dra
     if (p.sidesMm && (p.sidesMm[0] === undefined || p.sidesMm[1] === undefined))
       problems.push({ path: `plates.${i}.sidesMm`, message: 'Enter both sides, or neither.' });
   });
+  if (draft.cage.certificate && !draft.cage.certificate.number)
+    problems.push({ path: 'cage.certificate.number', message: 'Enter the certificate number, or clear the issuer.' });
   const candidate = prune({
     vehicle: draft.vehicle,
     members: draft.members,
@@ -106,6 +114,7 @@ export function checkDraft(draft: SheetDraft, units: UnitSystem = 'metric'): Dra
     inspectionHoles: draft.inspectionHoles.length ? draft.inspectionHoles : undefined,
     padding: draft.padding,
     welding: draft.welding,
+    cage: draft.cage,
     model: draft.model,
   });
   // members must stay even when empty: an empty cage is a valid (if failing) specification.

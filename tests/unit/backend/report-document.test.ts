@@ -116,3 +116,14 @@ describe('buildReportDocument', () => {
     expect(text).toContain('not from a build sheet');
   });
 });
+
+describe('the cage’s approval and certificate on the report', () => {
+  it('shows the approval and build dates and the maker’s certificate the sheet gives, and nothing when it gives none', async () => {
+    const input = await sampleReportInput('metric', 0);
+    const withCage = textsOf(buildReportDocument({ ...input, cageHistory: { approvedOn: '1998-05-14', builtOn: '1998-03-01', certificate: { issuer: 'Example Cage Works', number: 'ECW-0457' } } }).content).join('\n');
+    for (const expected of ['Cage approved on', '14 May 1998', 'Cage built on', '1 Mar 1998', "Maker's certificate", 'ECW-0457, Example Cage Works']) expect(withCage).toContain(expected);
+    const without = textsOf(buildReportDocument(input).content).join('\n');
+    expect(without).not.toContain("Maker's certificate");
+    expect(without).not.toContain('Cage approved on');
+  });
+});

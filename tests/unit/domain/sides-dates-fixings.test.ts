@@ -157,6 +157,7 @@ describe("a cage certified by its maker, where the rulebook accepts one", () => 
     const f = finding(r, 'sizes', 'mh');
     expect(f.verdict).toBe('not_applicable');
     expect(f.reason).toMatch(/maker's certificate EC-2041 from Example Cages Ltd/);
+    expect(f.acceptedOnCertificate).toEqual({ number: 'EC-2041', issuer: 'Example Cages Ltd' });
     expect(finding(r, 'sizes-strict', 'mh').verdict).toBe('fail');
     expect(r.verdict).toBe('fail');
   });

@@ -396,8 +396,10 @@ function baseFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, verdi
 function certifiedFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject): Finding {
   const c = ctx.certificate!;
   const by = c.issuer ? ` from ${c.issuer}` : '';
-  return baseFinding(ctx, req, subject, 'not_applicable',
+  const f = baseFinding(ctx, req, subject, 'not_applicable',
     `Not checked: the sheet gives maker's certificate ${c.number}${by}, which this rulebook accepts in place of this rule. The inspector checks the certificate and the cage against it.`);
+  f.acceptedOnCertificate = { number: c.number, ...(c.issuer ? { issuer: c.issuer } : {}) };
+  return f;
 }
 
 function missingList(names: Iterable<string>): MissingFact[] {

@@ -1,6 +1,6 @@
 // Plain trade words for every closed list the specification uses, for selects and for findings.
 import {
-  CHASSIS_TYPES, COCKPIT_TYPES, FUELS, MATERIALS, MEMBER_KINDS, MEMBER_KIND_LABELS, PADDING_STANDARDS, PLATE_FIXINGS,
+  CHASSIS_TYPES, COCKPIT_TYPES, DRIVER_SIDES, FUELS, MEMBER_SIDES, MATERIALS, MEMBER_KINDS, MEMBER_KIND_LABELS, PADDING_STANDARDS, PLATE_FIXINGS,
   PLATE_LOCATIONS, PROCESSES, WALL_METHODS, WELDING_PROCESSES,
 } from '@domain/vocabulary';
 
@@ -37,6 +37,9 @@ const WORDS: Record<string, string> = {
   none: 'No padding',
   ultrasonic: 'Ultrasonic gauge',
   inspection_hole: 'Inspection hole',
+  left: 'Left',
+  right: 'Right',
+  centre: 'Centre',
   callipers: 'Callipers at a tube end',
 };
 
@@ -76,4 +79,6 @@ export const OPTIONS = {
   welding: options(WELDING_PROCESSES),
   padding: options(PADDING_STANDARDS),
   wallMethod: options(WALL_METHODS),
+  side: options(MEMBER_SIDES),
+  driverSide: options(DRIVER_SIDES),
 } as const;
