@@ -5,8 +5,7 @@ import type { Requires } from '@backend/contracts/ruleset';
 import { describeRequiresChanges } from '@backend/domain/rulebook/diff-requires';
 
 const imperial = { system: 'imperial', display: 'imperial' } as const;
-const metric = { system: 'metric', display: 'metric' } as const;
-type Side = typeof imperial | typeof metric;
+type Side = { system: 'imperial' | 'metric'; display: 'imperial' | 'metric' };
 const changes = (a: Requires, b: Requires, sa: Side = imperial, sb: Side = sa) => {
   const out: string[] = [];
   describeRequiresChanges(a, sa, b, sb, (kind, detail) => out.push(`${kind}: ${detail}`));
