@@ -10,6 +10,7 @@ import type { DataSource } from 'typeorm';
 import { projectRoot, type Config } from './config';
 import { createLogger, type Logger } from './logger';
 import { requireCsrfToken } from './middleware/csrf';
+import { refuseUnsafeInput } from './middleware/safe-input';
 import { apiNotFound, createErrorHandler } from './middleware/error-handler';
 import { createFailureLimiter, createLoginLimiters, defaultLoginLimits, type LoginLimits } from './middleware/rate-limit';
 import { createPassport, createSessionMiddleware, type SessionSetup } from './middleware/session';
@@ -35,6 +36,7 @@ import { createCageRecordsRouter } from './routes/cage-records.routes';
 import { createVerifyRouter, defaultVerifyLimit } from './routes/verify.routes';
 import { createRulebookAdminRouter } from './routes/rulebook-admin.routes';
 import { createTubeStockRouter } from './routes/tube-stock.routes';
+import { createJournalRouter } from './routes/journal.routes';
 import { createFabricationRouter } from './routes/fabrication.routes';
 import type { RepublishQueue } from './services/rulebook-admin.service';
 import { createServices, type Services } from './services';
@@ -150,6 +152,8 @@ export function createApp(options: CreateAppOptions): Express {
     next();
   });
   api.use(express.json({ limit: jsonBodyLimit }));
+  // NUL, lone surrogates, over-deep nesting and `__proto__` keys: 400 at their path, before anything reads them.
+  api.use(refuseUnsafeInput);
   api.use(sessionSetup.middleware);
   api.use(passport.session());
   api.use(requireCsrfToken);
@@ -179,6 +183,7 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(createReviewRouter({ services }));
   api.use(createCageRecordsRouter({ services }));
   api.use(createTubeStockRouter({ services }));
+  api.use(createJournalRouter({ services }));
   api.use(createFabricationRouter({ services }));
   api.use(createVerifyRouter({ services, limits: options.verifyLimits ?? defaultVerifyLimit }));
   // The development mailbox exists only while the fake SMTP server does; otherwise its routes are 404.
