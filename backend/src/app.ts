@@ -10,6 +10,7 @@ import type { DataSource } from 'typeorm';
 import { projectRoot, type Config } from './config';
 import { createLogger, type Logger } from './logger';
 import { requireCsrfToken } from './middleware/csrf';
+import { refuseUnsafeInput } from './middleware/safe-input';
 import { apiNotFound, createErrorHandler } from './middleware/error-handler';
 import { createFailureLimiter, createLoginLimiters, defaultLoginLimits, type LoginLimits } from './middleware/rate-limit';
 import { createPassport, createSessionMiddleware, type SessionSetup } from './middleware/session';
@@ -84,8 +85,13 @@ function securityHeaders(config: Config) {
       },
     },
     strictTransportSecurity: overTls ? { maxAge: 180 * 24 * 3600 } : false,
+    // One framing policy: the CSP's frame-ancestors 'none' says it, so no X-Frame-Options beside it.
+    xFrameOptions: false,
   });
 }
+
+/** Paths that name a file rather than a screen of the app (screens never end in an extension). */
+const staticFileName = /\.(?:m?js|css|map|json|webmanifest|png|jpe?g|gif|svg|ico|webp|avif|woff2?|ttf|otf|txt|xml|html?)$/i;
 
 function serveFrontend(app: Express, dist: string): void {
   const indexHtml = join(dist, 'index.html');
@@ -100,6 +106,12 @@ function serveFrontend(app: Express, dist: string): void {
   );
   app.get('/{*splat}', (req, res, next) => {
     if (req.path === '/api' || req.path.startsWith('/api/')) return next();
+    // A file that is not in the build (a source map, an old chunk) is a 404, not the app page: a stale
+    // client asking for a renamed chunk would otherwise get HTML and fail with a confusing MIME error.
+    if (req.path.startsWith('/assets/') || staticFileName.test(req.path)) {
+      res.status(404).type('text/plain').send('Not found');
+      return;
+    }
     res.setHeader('Cache-Control', 'no-cache');
     res.sendFile(indexHtml, (err) => err && next(err));
   });
@@ -132,7 +144,15 @@ export function createApp(options: CreateAppOptions): Express {
   const { perIp, perEmail } = createLoginLimiters(limits);
 
   const api = express.Router();
+  // Answers are personal (a session's clubs, sheets, photos): no shared cache may keep them, and no
+  // browser cache either unless a route says otherwise (photos and PDFs set their own).
+  api.use((_req, res, next) => {
+    res.setHeader('Cache-Control', 'private, no-store');
+    next();
+  });
   api.use(express.json({ limit: jsonBodyLimit }));
+  // NUL, lone surrogates, over-deep nesting and `__proto__` keys: 400 at their path, before anything reads them.
+  api.use(refuseUnsafeInput);
   api.use(sessionSetup.middleware);
   api.use(passport.session());
   api.use(requireCsrfToken);

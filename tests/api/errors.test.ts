@@ -97,5 +97,16 @@ describe('security headers', () => {
     expect(csp).toContain("frame-ancestors 'none'");
     expect(res.headers['x-content-type-options']).toBe('nosniff');
     expect(res.headers['x-powered-by']).toBeUndefined();
+    // One framing policy: the CSP says it, so X-Frame-Options is not sent beside it.
+    expect(res.headers['x-frame-options']).toBeUndefined();
+  });
+
+  it('keeps personal JSON out of every cache', async () => {
+    const agent = request.agent(makeTestApp(db.ds));
+    await signIn(agent, demo.builder);
+    for (const path of ['/api/auth/me', '/api/cars', '/api/not-a-route']) {
+      const res = await agent.get(path);
+      expect([path, res.headers['cache-control']]).toEqual([path, 'private, no-store']);
+    }
   });
 });

@@ -3,6 +3,8 @@
 import { execFileSync } from 'node:child_process';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { agentFor, demo, makeTestApp, signIn, useTestDatabase, type Agent } from './helpers';
+import { carWithSheet, everyone, garageFixture } from './garage-fixtures';
+import { modelSpec } from '../fixtures/fabrication-model';
 
 const db = useTestDatabase();
 let app: ReturnType<typeof makeTestApp>;
@@ -81,5 +83,68 @@ describe('POST /api/fabrication/leg-trim', () => {
     const res = await builder.post('/api/fabrication/leg-trim').set('X-CSRF-Token', token)
       .send({ legs: [{ uncutMm: 1250, padHeightMm: 0 }, { uncutMm: 1250, padHeightMm: 0 }], leanDeg: 0, topHeightMm: 1300, odMm: 44.45 }).expect(400);
     expect(res.body.error.details).toContainEqual({ path: 'legs.0.padHeightMm', message: 'The left leg cannot reach this pad: it is 50 mm short.' });
+  });
+});
+
+describe('fabrication settings, per user', () => {
+  it('starts from defaults in the builder’s units and keeps what is saved', async () => {
+    const fresh = await builder.get('/api/fabrication/settings').expect(200);
+    expect(fresh.body.settings).toMatchObject({ dies: [], saved: false, kerfMm: 2 });
+    const settings = { dies: [{ name: '150 mm die', clrMm: 150, setDeg: 93, heldDeg: 90 }], trimAllowanceMm: 4, stickLengthMm: 6000, kerfMm: 1.5 };
+    const saved = await builder.put('/api/fabrication/settings').set('X-CSRF-Token', token).send(settings).expect(200);
+    expect(saved.body.settings).toEqual({ ...settings, saved: true });
+    expect((await builder.get('/api/fabrication/settings').expect(200)).body.settings).toEqual({ ...settings, saved: true });
+  });
+  it.each([
+    [{ dies: [{ name: 'd', clrMm: 150, setDeg: 88, heldDeg: 90 }], trimAllowanceMm: 4, stickLengthMm: 6000, kerfMm: 2 }, 'dies.0.heldDeg'],
+    [{ dies: [], trimAllowanceMm: -1, stickLengthMm: 6000, kerfMm: 2 }, 'trimAllowanceMm'],
+    [{ dies: [], trimAllowanceMm: 4, stickLengthMm: 60000, kerfMm: 2 }, 'stickLengthMm'],
+    [{ dies: [], trimAllowanceMm: 4, stickLengthMm: 6000, kerfMm: -2 }, 'kerfMm'],
+  ])('refuses %o at %s and keeps the saved settings', async (body, path) => {
+    const before = (await builder.get('/api/fabrication/settings').expect(200)).body.settings;
+    const res = await builder.put('/api/fabrication/settings').set('X-CSRF-Token', token).send(body).expect(400);
+    expect((res.body.error.details as { path: string }[]).map((d) => d.path)).toContain(path);
+    expect((await builder.get('/api/fabrication/settings').expect(200)).body.settings).toEqual(before);
+  });
+});
+
+describe('a build sheet’s fabrication', () => {
+  let sheetId: string;
+  let who: Awaited<ReturnType<typeof everyone>>;
+  beforeAll(async () => {
+    const fx = await garageFixture(db.ds);
+    who = await everyone(app);
+    await who.builder.agent.put('/api/fabrication/settings').set('X-CSRF-Token', who.builder.token).send({ dies: [], trimAllowanceMm: 3, stickLengthMm: 6000, kerfMm: 2 }).expect(200);
+    ({ sheetId } = await carWithSheet(who.builder, fx, modelSpec));
+  });
+  it('gives the schedule per member from the model, copes per end and the buying list', async () => {
+    const res = await who.builder.agent.get(`/api/build-sheets/${sheetId}/fabrication`).expect(200);
+    const fab = res.body.fabrication;
+    const hb = fab.members.find((m: { memberId: string }) => m.memberId === 'hb');
+    expect(hb).toMatchObject({ source: 'model', name: 'harness bar', ends: [{ kind: 'saddle' }, { kind: 'saddle' }] });
+    expect(fab.members.find((m: { memberId: string }) => m.memberId === 'br').ends[0].kind).toBe('not_a_saddle');
+    expect(fab.buyingList.groups.length).toBeGreaterThan(0);
+  });
+  it('lets the club’s steward read it and refuses someone outside the club', async () => {
+    await who.steward.agent.get(`/api/build-sheets/${sheetId}/fabrication`).expect(200);
+    await who.outsider.agent.get(`/api/build-sheets/${sheetId}/fabrication`).expect(404);
+  });
+  it('offers the buying list as CSV', async () => {
+    const res = await who.builder.agent.get(`/api/build-sheets/${sheetId}/buying-list.csv?units=metric`).expect(200);
+    expect(res.headers['content-type']).toBe('text/csv; charset=utf-8');
+    expect(res.headers['content-disposition']).toMatch(/attachment; filename="cagewright-buying-list-Full-cage-2027.csv"/);
+    expect(res.text.split('\r\n')[0]).toBe('tube,material,stick,member,piece length (mm),offcut of stick (mm),mass per metre (kg/m)');
+    expect(res.text).toContain('harness bar');
+  });
+  it('puts the buying list on a page of the PDF report', async () => {
+    const run = await who.builder.agent.post(`/api/build-sheets/${sheetId}/check-runs`).set('X-CSRF-Token', who.builder.token).expect(201);
+    const pdf = await who.builder.agent.get(`/api/check-runs/${run.body.checkRun.id}/report.pdf?units=metric`).buffer(true).parse((r, done) => {
+      const chunks: Buffer[] = [];
+      r.on('data', (c: Buffer) => chunks.push(c));
+      r.on('end', () => done(null, Buffer.concat(chunks)));
+    }).expect(200);
+    const text = execFileSync('pdftotext', ['-', '-'], { input: pdf.body as Buffer, encoding: 'utf8' }).replace(/\s+/g, ' ');
+    expect(text).toContain('Buying list');
+    expect(text).toMatch(/Tube bought: [\d.]+ kg/);
   });
 });

@@ -26,6 +26,11 @@ describe('front-end build', () => {
       expect(page.text).toContain('<div id="app">');
       expect(page.headers['cache-control']).toBe('no-cache');
     }
+    // Files that are not in the build are 404s, not the app page.
+    for (const path of ['/assets/main-abc123.js.map', '/assets/old-chunk-9f8e7d.js', '/favicon.ico', '/robots.txt']) {
+      const missing = await request(app).get(path).expect(404);
+      expect(missing.text).not.toContain('<div id="app">');
+    }
     const api = await request(app).get('/api/not-a-route').expect(404);
     expect(api.body).toEqual({ error: { code: 'not_found', message: 'No such API route.' } });
   });

@@ -7,10 +7,10 @@ import { demoUsers, mainNavLabels, signIn, type DemoRole } from './demo';
 const baseUrl = inject('e2eBaseUrl');
 
 test.for<[DemoRole, string[]]>([
-  ['builder', ['Overview', 'Garage', 'Account']],
-  ['steward', ['Overview', 'Review queue', 'Account']],
+  ['builder', ['Overview', 'Garage', 'Tube stock', 'Bench tools', 'Account']],
+  ['steward', ['Overview', 'Review queue', 'Bench tools', 'Account']],
   // The demo admin is a steward too.
-  ['admin', ['Overview', 'Review queue', 'Members', 'Rulebooks', 'Activity log', 'Mailbox', 'Account']],
+  ['admin', ['Overview', 'Tube stock', 'Review queue', 'Members', 'Rulebooks', 'Activity log', 'Mailbox', 'Bench tools', 'Account']],
 ])('signed in as the demo %s, the menu shows exactly %j', async ([role, expected], { browser }) => {
   const { page } = browser;
   await signIn(page, baseUrl, demoUsers[role]);

@@ -65,6 +65,8 @@ export const fabricationSettingsSchema = z
     });
   });
 export type FabricationSettings = z.infer<typeof fabricationSettingsSchema>;
+/** The settings as read back: `saved` is false until the builder saves settings of their own. */
+export type FabricationSettingsWire = FabricationSettings & { saved: boolean };
 
 export const bendScheduleBodySchema = z
   .object({

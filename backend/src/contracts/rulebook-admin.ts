@@ -19,10 +19,24 @@ export const saveDraftBodySchema = z.object({
 });
 export type SaveDraftBody = z.infer<typeof saveDraftBodySchema>;
 
-/** An import: the file's text as it was read, so bad JSON can be named precisely. */
+/**
+ * An import: the file's text as it was read, so bad JSON can be named precisely. The contract unpacks
+ * it, so the boundary's text check also sees what the text carries (`text.requirements.0.section`).
+ */
 export const importDraftBodySchema = z.object({
   lockVersion: lockVersionSchema,
-  text: z.string('Must be the file text').min(1, 'The file is empty').max(90_000, 'The file is larger than 90 kB'),
+  text: z
+    .string('Must be the file text')
+    .min(1, 'The file is empty')
+    .max(90_000, 'The file is larger than 90 kB')
+    .transform((text, ctx): unknown => {
+      try {
+        return JSON.parse(text) as unknown;
+      } catch (err) {
+        ctx.addIssue({ code: 'custom', message: `The file is not valid JSON: ${(err as Error).message}` });
+        return z.NEVER;
+      }
+    }),
 });
 export type ImportDraftBody = z.infer<typeof importDraftBodySchema>;
 

@@ -11,6 +11,7 @@ import { findingKey } from '../domain/review/waivers';
 import { formatQuantity, type Dimension, type UnitSystem } from '../domain/units';
 import { formatIsoDate } from '../domain/dates';
 import { MEMBER_KIND_LABELS } from '../domain/vocabulary';
+import type { BuyingList } from '../domain/fabrication/nesting';
 import { LEGEND_MARKS } from '../domain/geometry/verdict-marks';
 import { legendSwatchSvg } from '../domain/geometry/view-svg';
 import type { ViewName } from '../domain/geometry/projection';
@@ -42,6 +43,8 @@ export interface ReportDocumentInput {
   photos: ReportPhoto[];
   /** A steward's approval of the submitted check: record number, decision, waivers, QR of the verification link. */
   review?: ReportReview;
+  /** The tube to buy, nested into sticks (from the model's cut lengths where there is one). */
+  buyingList?: BuyingList;
   /** The cage views (domain/geometry drawCage, the same SVG strings as the screen), when the sheet has a model. */
   cage?: { svgs: Record<ViewName, string>; drawnMembers: number; totalMembers: number };
   /** The checked sheet's approval and build dates and maker's certificate, when it gives them. */
@@ -266,6 +269,37 @@ function photoGrid(photos: readonly ReportPhoto[]): Content {
 
 const heading = (text: string): Content => ({ text, style: 'h2' });
 
+/** A page of the tube to buy: per size, each stick's pieces and offcut, then the masses. */
+export function buyingListPage(list: BuyingList, units: UnitSystem): Content[] {
+  const q = (v: number, d: Dimension) => formatQuantity(v, d, units).text;
+  const out: Content[] = [
+    { text: 'Buying list', style: 'h2', pageBreak: 'before' },
+    {
+      text: `Cut lengths nested first-fit-decreasing into sticks of ${q(list.stickLengthMm, 'length')}, with ${q(list.kerfMm, 'length')} of kerf between pieces. The numbers are an aid, not a substitute for measuring the car.`,
+      color: COLOURS.muted, fontSize: 8.5, margin: [0, 0, 0, 4],
+    },
+  ];
+  if (list.groups.length === 0) out.push({ text: 'No member has a cut length yet: give members a path in the model or a length.', color: COLOURS.muted });
+  for (const g of list.groups) {
+    const body: TableCell[][] = [['Stick', 'Pieces (member, cut length)', 'Offcut'].map((h, i) => headerCell(h, i === 2 ? 'right' : 'left'))];
+    g.sticks.forEach((st, i) => body.push([
+      { text: String(i + 1), fontSize: 8.5 },
+      { text: pdfSafe(st.pieces.map((p) => `${p.label} ${q(p.lengthMm, 'length')}`).join('; ')), fontSize: 8.5 },
+      numberCell(q(st.offcutMm, 'length')),
+    ]));
+    for (const p of g.tooLong) body.push([{ text: 'longer', fontSize: 8.5, color: COLOURS.fail }, { text: pdfSafe(`${p.label} ${q(p.lengthMm, 'length')}: longer than a stick; buy a longer stick or plan a joint`), fontSize: 8.5 }, numberCell('')]);
+    out.push(
+      { text: pdfSafe(`${tubeSizeText(g.odMm, g.wallMm, units)} ${humanize(g.material)}: ${g.sticks.length} stick${g.sticks.length === 1 ? '' : 's'}, ${q(g.boughtMassKg, 'mass')}`), style: 'h3' },
+      { table: { headerRows: 1, dontBreakRows: true, widths: [34, '*', 60], body }, layout: 'lightHorizontalLines', fontSize: 8.5, margin: [0, 0, 0, 4] },
+    );
+  }
+  out.push({
+    text: `Tube bought: ${q(list.tubeMassKg, 'mass')} (${q(list.cutTubeMassKg, 'mass')} of it in the cage). Plates: ${q(list.plateMassKg, 'mass')}${list.platesWithoutSize.length ? `, without ${list.platesWithoutSize.join(', ')} (no thickness or size given)` : ''}. Total: ${q(list.totalMassKg, 'mass')}.`,
+    bold: true, margin: [0, 4, 0, 0],
+  });
+  return out;
+}
+
 /** The cage page: the side view across the page, top and front views below it, and the legend. */
 function cageBlock(cage: NonNullable<ReportDocumentInput['cage']>): Content[] {
   const legend: Content = {
@@ -464,6 +498,8 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
     }
     content.push({ text: 'Cut list', style: 'h3' }, cutListTable(input.tubeData.cutList, units));
   }
+
+  if (input.buyingList) content.push(...buyingListPage(input.buyingList, units));
 
   content.push(heading('Photos'));
   content.push(input.photos.length ? photoGrid(input.photos) : { text: 'No photos were added to this build sheet.', color: COLOURS.muted });

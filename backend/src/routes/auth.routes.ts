@@ -26,7 +26,6 @@ export function createAuthRouter(deps: {
         const token = csrfTokenFor(req.session);
         // Anonymous sessions are only stored once they hold a token (saveUninitialized is off).
         await saveSession(req);
-        res.set('Cache-Control', 'no-store');
         res.json({ token });
       },
     }),
@@ -59,7 +58,6 @@ export function createAuthRouter(deps: {
       path: '/auth/me',
       guards: [requireSignedIn],
       handler: async ({ req, res }) => {
-        res.set('Cache-Control', 'no-store');
         res.json(await accounts.sessionView(signedInUserId(req)));
       },
     }),

@@ -1,8 +1,9 @@
 // Fabrication sheets (docs/api.md, "Fabrication"): the cope and its 1:1 template PDF, the hoop leg
 // trim. Signed in; no build sheet needed.
 import { Router } from 'express';
-import { copeBodySchema, copePdfBodySchema, legTrimBodySchema, unitsSchema } from '../contracts/fabrication';
-import { requireSignedIn } from '../middleware/guards';
+import { bendScheduleBodySchema, copeBodySchema, copePdfBodySchema, fabricationSettingsSchema, legTrimBodySchema, unitsSchema } from '../contracts/fabrication';
+import { sheetParamsSchema } from '../contracts/garage';
+import { requireSignedIn, signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
 import { mountRoutes, route } from './route-table';
 import { z } from 'zod';
@@ -32,6 +33,41 @@ export function createFabricationRouter({ services }: { services: Services }): R
       method: 'post', path: '/fabrication/leg-trim', guards: [requireSignedIn], body: legTrimBodySchema, query: unitsQuery,
       handler: ({ res, body, query }) => {
         res.json({ legTrim: fabrication.legTrim(body, query.units) });
+      },
+    }),
+    route({
+      method: 'post', path: '/fabrication/bend-schedule', guards: [requireSignedIn], body: bendScheduleBodySchema,
+      handler: async ({ req, res, body }) => {
+        res.json({ plan: await fabrication.bendSchedule(body, signedInUserId(req)) });
+      },
+    }),
+    route({
+      method: 'get', path: '/fabrication/settings', guards: [requireSignedIn],
+      handler: async ({ req, res }) => {
+        res.json({ settings: await fabrication.settings(signedInUserId(req)) });
+      },
+    }),
+    route({
+      method: 'put', path: '/fabrication/settings', guards: [requireSignedIn], body: fabricationSettingsSchema,
+      handler: async ({ req, res, body }) => {
+        res.json({ settings: await fabrication.saveSettings(signedInUserId(req), body) });
+      },
+    }),
+    route({
+      method: 'get', path: '/build-sheets/:sheetId/fabrication', guards: [requireSignedIn], params: sheetParamsSchema,
+      handler: async ({ req, res, params }) => {
+        res.json({ fabrication: await fabrication.forSheet(params.sheetId, signedInUserId(req)) });
+      },
+    }),
+    route({
+      method: 'get', path: '/build-sheets/:sheetId/buying-list.csv', guards: [requireSignedIn], params: sheetParamsSchema, query: unitsQuery,
+      handler: async ({ req, res, params, query }) => {
+        const { csv, sheetName } = await fabrication.buyingListCsv(params.sheetId, signedInUserId(req), query.units);
+        const safeName = sheetName.replace(/[^A-Za-z0-9_-]+/g, '-').replace(/^-|-$/g, '').slice(0, 60) || 'sheet';
+        res.setHeader('Content-Type', 'text/csv; charset=utf-8');
+        res.setHeader('Content-Disposition', `attachment; filename="cagewright-buying-list-${safeName}.csv"`);
+        res.setHeader('Cache-Control', 'private, no-cache');
+        res.end(csv);
       },
     }),
   ]);

@@ -14,7 +14,6 @@ export function createJobsRouter({ services, control }: { services: Services; co
       guards: [requireSignedIn],
       params: jobParamsSchema,
       handler: async ({ req, res, params }) => {
-        res.set('Cache-Control', 'no-store');
         res.json({ job: await services.jobProgress.forAdmin(signedInUserId(req), params.id) });
       },
     }),

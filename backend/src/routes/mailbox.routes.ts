@@ -28,7 +28,6 @@ export function createMailboxRouter({ services }: { services: Services }): Route
       path: '/dev/mailbox',
       guards: [adminOfAnyClub],
       handler: async ({ res }) => {
-        res.set('Cache-Control', 'no-store');
         res.json({ messages: await mailbox.list() });
       },
     }),
@@ -38,7 +37,6 @@ export function createMailboxRouter({ services }: { services: Services }): Route
       guards: [adminOfAnyClub],
       params: mailboxParamsSchema,
       handler: async ({ res, params }) => {
-        res.set('Cache-Control', 'no-store');
         res.json({ message: await mailbox.get(params.id) });
       },
     }),

@@ -103,7 +103,6 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
         const file = await admin.exportVersion(params.versionId, signedInUserId(req));
         res.set('Content-Type', 'application/json; charset=utf-8');
         res.set('Content-Disposition', `attachment; filename="${file.fileName}"`);
-        res.set('Cache-Control', 'no-store');
         res.send(file.json);
       },
     }),

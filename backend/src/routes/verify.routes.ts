@@ -1,6 +1,6 @@
 // The public verification of a cage record by its code (docs/api.md, "Review and cage records"): no
 // sign-in, rate-limited per IP, and one plain 404 for every code that does not name a record.
-import { Router } from 'express';
+import { Router, type ErrorRequestHandler } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import { verifyParamsSchema } from '../contracts/review';
 import { NotFoundError, RateLimitedError } from '../errors';
@@ -18,16 +18,24 @@ export function createVerifyRouter({ services, limits = defaultVerifyLimit }: { 
     legacyHeaders: false,
     handler: (_req, _res, next) => next(new RateLimitedError('Too many look-ups from here. Wait a minute and try again.')),
   });
-  return mountRoutes(Router(), [
+  const notFound = () => new NotFoundError('No cage record has this code.');
+  const router = mountRoutes(Router(), [
     route({
-      method: 'get', path: '/verify/:code', guards: [publicRoute], before: [limiter], params: verifyParamsSchema,
+      method: 'get', path: '/verify/:code', guards: [publicRoute], before: [limiter], params: verifyParamsSchema, unsafeParams: notFound,
       handler: async ({ res, params }) => {
         const result = await services.verification.verify(params.code);
         // Nobody caches a status that can change (a revocation must show at once).
         res.setHeader('Cache-Control', 'no-store');
-        if (!result) throw new NotFoundError('No cage record has this code.');
+        if (!result) throw notFound();
         res.json({ record: result });
       },
     }),
   ]);
+  // A code whose percent-encoding cannot be decoded (`%E0`, `%`) fails in the router before the route
+  // runs; it names no record either, so it gets the same 404 as any other code.
+  const undecodable: ErrorRequestHandler = (err, req, _res, next) => {
+    next(err instanceof URIError && req.path.startsWith('/verify/') ? notFound() : err);
+  };
+  router.use(undecodable);
+  return router;
 }

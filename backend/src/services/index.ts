@@ -20,6 +20,7 @@ import { createRulebookAdminService, type RulebookAdminService } from './ruleboo
 import { createTubeStockService, type TubeStockService } from './tube-stock.service';
 import { createTubeChoiceService, type TubeChoiceService } from './tube-choice.service';
 import { createFabricationService, type FabricationService } from './fabrication.service';
+import { createFabricationSettingsService } from './fabrication-settings.service';
 
 export interface Services {
   accounts: AccountService;
@@ -57,7 +58,8 @@ export function createServices(
   const photos = createPhotoService(ds, options.photoStorage ?? new LocalDiskPhotoStorage(options.uploadDir ?? '.data/uploads'));
   const mail = createMailService(ds);
   const cageRecords = createCageRecordService(ds, { mail, audit, publicUrl: options.publicUrl });
-  const reports = createReportService(ds, { checks, sheets: buildSheets, photos });
+  const fabricationSettings = createFabricationSettingsService(ds);
+  const reports = createReportService(ds, { checks, sheets: buildSheets, photos, fabricationSettings });
   const tubeStock = createTubeStockService(ds, { audit });
   return {
     accounts: createAccountService(ds),
@@ -79,6 +81,6 @@ export function createServices(
     rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit }),
     tubeStock,
     tubeChoice: createTubeChoiceService(ds, { rulesets, stock: tubeStock }),
-    fabrication: createFabricationService(),
+    fabrication: createFabricationService({ buildSheets, settings: fabricationSettings }),
   };
 }

@@ -16,10 +16,12 @@ import type { CheckService } from './checks.service';
 import { sheetFor } from './garage.service';
 import type { PhotoService } from './photos.service';
 import { tubeDataFor } from './garage/tube-data';
+import { sheetFabrication } from '../domain/fabrication/sheet-fabrication';
+import { asDomainSettings, type FabricationSettingsService } from './fabrication-settings.service';
 
 export type ReportService = ReturnType<typeof createReportService>;
 
-export function createReportService(ds: DataSource, deps: { checks: CheckService; sheets: BuildSheetService; photos: PhotoService }) {
+export function createReportService(ds: DataSource, deps: { checks: CheckService; sheets: BuildSheetService; photos: PhotoService; fabricationSettings?: FabricationSettingsService }) {
   async function unitsOf(userId: string): Promise<UnitSystem> {
     return (await ds.getRepository(User).findOneBy({ id: userId }))?.preferredUnits ?? 'imperial';
   }
@@ -112,6 +114,10 @@ export function createReportService(ds: DataSource, deps: { checks: CheckService
         photos: context.photos,
         ...(run.specification.cage ? { cageHistory: run.specification.cage } : {}),
         ...(review ? { review } : {}),
+        // A sheet's report carries what to buy, with the builder's own stick length and kerf.
+        ...(revision && deps.fabricationSettings
+          ? { buyingList: sheetFabrication(run.specification, asDomainSettings(await deps.fabricationSettings.get(context.builderId))).buyingList }
+          : {}),
         cage: cageFor(run.specification, run.report, shownUnits, review),
       });
       return { pdf: await renderPdf(doc), verificationCode: run.verificationCode };

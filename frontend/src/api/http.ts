@@ -80,6 +80,25 @@ export function createHttpClient(options: HttpClientOptions = {}) {
     throw error;
   }
 
+  /** A POST whose answer is a file (a PDF); a refusal still arrives as the API's JSON error. */
+  async function postForBlob(path: string, body: unknown, opts: RequestOptions = {}): Promise<Blob> {
+    let response = await send('POST', path, body, opts.signal);
+    if (response.ok) return response.blob();
+    let parsed = await readBody(response);
+    if (response.status === 403 && errorCode(parsed) === 'csrf_failed') {
+      csrfToken = null;
+      response = await send('POST', path, body, opts.signal);
+      if (response.ok) return response.blob();
+      parsed = await readBody(response);
+    }
+    const error = apiErrorFromBody(response.status, parsed);
+    if (response.status === 401 && error.code === 'unauthenticated') {
+      csrfToken = null;
+      if (!opts.allowUnauthenticated) unauthenticatedHandlers.forEach((handler) => handler());
+    }
+    throw error;
+  }
+
   function getCsrfToken(): Promise<string> {
     csrfToken ??= fetchCsrfToken();
     return csrfToken;
@@ -106,6 +125,7 @@ export function createHttpClient(options: HttpClientOptions = {}) {
     put: <T>(path: string, body?: unknown, opts?: RequestOptions) => request<T>('PUT', path, body, opts),
     patch: <T>(path: string, body?: unknown, opts?: RequestOptions) => request<T>('PATCH', path, body, opts),
     delete: <T = void>(path: string, opts?: RequestOptions) => request<T>('DELETE', path, undefined, opts),
+    postForBlob,
     /** Forget the cached token; the API changes it at sign-in and sign-out. */
     resetCsrfToken(): void {
       csrfToken = null;

@@ -26,6 +26,7 @@ export const navEntries: readonly NavEntry[] = [
   { label: 'Rulebooks', icon: 'pi pi-book', route: 'rulebooks', roles: ['admin'] },
   { label: 'Activity log', icon: 'pi pi-history', route: 'club-activity', roles: ['admin'] },
   { label: 'Mailbox', icon: 'pi pi-inbox', route: 'dev-mailbox', roles: ['admin'], feature: 'mailbox' },
+  { label: 'Bench tools', icon: 'pi pi-wrench', route: 'fabrication' },
   { label: 'Account', icon: 'pi pi-user', route: 'account' },
 ];
 

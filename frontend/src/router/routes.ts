@@ -9,7 +9,8 @@ export type RouteName = 'sign-in' | 'invitation' | 'home' | 'account' | 'club-me
   | 'review-queue' | 'submission' | 'cage-record' | 'verify' | 'verify-code'
   | 'dev-mailbox' | 'club-activity'
   | 'rulebooks' | 'rulebook-version' | 'rulebook-compare'
-  | 'tube-choice' | 'tube-stock';
+  | 'tube-choice' | 'tube-stock'
+  | 'fabrication';
 
 declare module 'vue-router' {
   interface RouteMeta {
@@ -62,6 +63,7 @@ export const routes: NamedRoute[] = [
         component: () => import('@/views/ClubMembersView.vue'),
         meta: { roles: ['admin'], title: 'Members' },
       },
+      { path: 'bench', name: 'fabrication', component: () => import('@/views/FabricationView.vue'), meta: { title: 'Bench tools' } },
       { path: 'garage', name: 'garage', component: () => import('@/views/GarageView.vue'), meta: { title: 'Garage' } },
       { path: 'cars/:carId', name: 'car', component: () => import('@/views/CarView.vue'), meta: { title: 'Car' } },
       { path: 'build-sheets/:sheetId', name: 'build-sheet', component: () => import('@/views/BuildSheetView.vue'), meta: { title: 'Build sheet' } },

@@ -9,13 +9,13 @@ const labels = (roles: Role[], club: string | null = clubId) =>
 
 describe('the app menu', () => {
   test.each<[Role[], string[]]>([
-    [[], ['Overview', 'Account']],
-    [['builder'], ['Overview', 'Garage', 'Tube stock', 'Account']],
-    [['steward'], ['Overview', 'Review queue', 'Account']],
-    [['admin'], ['Overview', 'Tube stock', 'Members', 'Rulebooks', 'Activity log', 'Account']],
+    [[], ['Overview', 'Bench tools', 'Account']],
+    [['builder'], ['Overview', 'Garage', 'Tube stock', 'Bench tools', 'Account']],
+    [['steward'], ['Overview', 'Review queue', 'Bench tools', 'Account']],
+    [['admin'], ['Overview', 'Tube stock', 'Members', 'Rulebooks', 'Activity log', 'Bench tools', 'Account']],
     [
       ['builder', 'steward', 'admin'],
-      ['Overview', 'Garage', 'Tube stock', 'Review queue', 'Members', 'Rulebooks', 'Activity log', 'Account'],
+      ['Overview', 'Garage', 'Tube stock', 'Review queue', 'Members', 'Rulebooks', 'Activity log', 'Bench tools', 'Account'],
     ],
   ])('roles %j in the current club show %j', (roles, expected) => {
     expect(labels(roles)).toEqual(expected);
@@ -27,7 +27,7 @@ describe('the app menu', () => {
   });
 
   test('without a current club, club-scoped entries are hidden even if roles are passed', () => {
-    expect(labels(['admin'], null)).toEqual(['Overview', 'Account']);
+    expect(labels(['admin'], null)).toEqual(['Overview', 'Bench tools', 'Account']);
   });
 });
 

@@ -5,3 +5,4 @@ export * from './bends';
 export * from './cut-schedule';
 export * from './leg-trim';
 export * from './nesting';
+export * from './sheet-fabrication';

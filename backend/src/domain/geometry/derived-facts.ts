@@ -62,6 +62,11 @@ function hoopTop(s: MemberShape): Vec3 {
   return { x: top.pointMm.x, y: top.pointMm.y, z: top.value + s.odMm / 2 };
 }
 
+function forwardTop(s: MemberShape): Vec3 {
+  const p = centrelineExtreme(s.geometry, { x: 1, y: 0, z: 0 }).pointMm;
+  return { x: p.x, y: p.y, z: p.z + s.odMm / 2 };
+}
+
 export function deriveGeometryFacts(input: GeometryInput, shapes: readonly MemberShape[]): GeometryFactValues {
   const out: GeometryFactValues = {};
   const hoops = ofKind(input, shapes, ['main_hoop']);
@@ -162,7 +167,9 @@ function helmetFacts(
   // to that line (never more than the vertical gap, so the safer reading).
   const front = shapes.find((s) => s.kind === 'front_hoop') ?? shapes.find((s) => s.kind === 'halo_hoop');
   if (front) {
-    const ft = hoopTop(front);
+    // A front hoop's top is its highest point; a halo runs back to the main hoop, so its front
+    // top is its most forward point (raised by half the OD).
+    const ft = front.kind === 'front_hoop' ? hoopTop(front) : forwardTop(front);
     const dx = ft.x - top.x;
     const dz = ft.z - top.z;
     const len = Math.hypot(dx, dz);

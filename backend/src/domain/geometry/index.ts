@@ -6,3 +6,5 @@ export * from './centreline.js';
 export * from './names.js';
 export * from './derive.js';
 export * from './derived-facts.js';
+export * from './mirror.js';
+export * from './starting-shapes.js';

@@ -1,0 +1,104 @@
+// Starting shapes: generated cages are valid sheets, measure what their dimensions say, and the
+// picker's every combination makes a cage. Expected values computed by hand beside each check.
+import { describe, expect, test } from 'vitest';
+import { deriveCageGeometry, mirrorMember, startingShape } from '@backend/domain/geometry/index';
+import type { StartingChoices, StartingDimensions } from '@backend/domain/geometry/index';
+import { parseSpecification } from '@backend/contracts/specification';
+import type { MemberKind } from '@backend/domain/vocabulary';
+
+const dims: StartingDimensions = {
+  hoopWidthAtFeetMm: 1250, hoopWidthAtTopMm: 1050, hoopHeightMm: 1150, hoopLeanDeg: 8,
+  frontHoopForwardMm: 1300, backstayLandingBehindMm: 900, doorBarHeightMm: 450,
+};
+const sizeFor = (kind: MemberKind) => (kind === 'main_hoop' || kind === 'front_hoop' || kind === 'halo_hoop' ? { odMm: 45, wallMm: 2.5 } : { odMm: 40, wallMm: 2 });
+const full: StartingChoices = { harnessBar: true, front: 'front_hoop', doorBars: 'straight', diagonal: 'main_hoop' };
+
+const generate = (choices: StartingChoices, d = dims) => {
+  const r = startingShape(choices, d, sizeFor);
+  if (!r.ok) throw new Error(JSON.stringify(r.problems));
+  return r.shape;
+};
+const asSpec = (shape: ReturnType<typeof generate>) => ({ vehicle: { classId: 'x', driverSide: 'right' as const }, model: { nodes: shape.nodes }, members: shape.members });
+
+describe('startingShape', () => {
+  test.each([
+    ['hoop and stays', { harnessBar: false, front: 'none', doorBars: 'none', diagonal: 'none' }, 3],
+    ['+ harness bar', { harnessBar: true, front: 'none', doorBars: 'none', diagonal: 'none' }, 4],
+    ['+ front hoop and straight door bars, main hoop diagonal', full, 10],
+    ['+ halo, crossed door bars, backstay diagonal', { harnessBar: true, front: 'halo', doorBars: 'crossed', diagonal: 'backstays' }, 12],
+    ['+ halo, bowed door bars', { harnessBar: false, front: 'halo', doorBars: 'bowed', diagonal: 'none' }, 8],
+  ] as [string, StartingChoices, number][])('%s: a valid sheet of %i members', (_n, choices, count) => {
+    const shape = generate(choices);
+    expect(shape.members).toHaveLength(count);
+    const parsed = parseSpecification(asSpec(shape));
+    expect(parsed.ok ? [] : parsed.problems).toEqual([]);
+  });
+
+  test('the main hoop measures the dimensions typed', () => {
+    const geo = deriveCageGeometry(asSpec(generate(full)));
+    // Feet 1250 apart on the centreline, less one OD of 45 → 1205 inside.
+    expect(geo.facts['geometry.mainHoopInsideWidthMm']?.value).toBeCloseTo(1205, 6);
+    const hoop = geo.members.find((m) => m.kind === 'main_hoop')!;
+    expect(hoop.bends).toHaveLength(2);
+    expect(hoop.bends[0].clrMm).toBe(160); // 3.5 × 45 = 157.5, rounded up to 5 mm
+    expect(hoop.side).toBe('centre');
+    // Backstays run straight back 900 mm and drop from the junction to 300 mm: angle from vertical
+    // atan(900 / (z_junction − 300)); the junction sits on the leg just below the top bend.
+    const stay = geo.members.find((m) => m.name === 'backstay left')!;
+    expect(stay.side).toBe('left');
+    expect(stay.driverSide).toBe('passenger');
+    const a = geo.facts['geometry.rearBraceAngleFromVerticalDeg']!.value;
+    const drop = 900 / Math.tan((a * Math.PI) / 180);
+    expect(drop).toBeGreaterThan(600);
+    expect(drop).toBeLessThan(850);
+    expect(geo.facts['geometry.diagonalUpperEndFromNodeMm']?.value).toBe(0);
+    expect(geo.facts['geometry.diagonalLowerEndFromNodeMm']?.value).toBe(0);
+  });
+
+  test('door bars meet both hoops at the door bar height; bowed bars bend outwards', () => {
+    const shape = generate({ ...full, doorBars: 'bowed' });
+    const bow = shape.nodes.find((n) => n.id === 'door-bow-l')!;
+    expect(bow.zMm).toBe(450);
+    const ends = shape.members.find((m) => m.id === 'door-bar-l')!.path.map((e) => shape.nodes.find((n) => n.id === e.nodeId)!);
+    expect(ends.map((n) => n.zMm)).toEqual([450, 450, 450]);
+    expect(bow.yMm).toBeGreaterThan(Math.max(ends[0].yMm, ends[2].yMm));
+  });
+
+  test('dimensions are refused at their field with a reason', () => {
+    const r = startingShape({ ...full }, { ...dims, hoopHeightMm: 40000, frontHoopForwardMm: undefined }, sizeFor);
+    expect(r).toEqual({ ok: false, problems: [
+      { path: 'hoopHeightMm', message: 'Must be between 500 and 2500' },
+      { path: 'frontHoopForwardMm', message: 'Needed for a front hoop or a halo' },
+    ] });
+    const doors = startingShape({ ...full, front: 'none' }, dims, sizeFor);
+    expect(doors).toEqual({ ok: false, problems: [{ path: 'doorBarHeightMm', message: 'Door bars need a front hoop or a halo to run to' }] });
+  });
+
+  test('a top too narrow for its bends is refused, not generated', () => {
+    // Vertical legs 300 apart: two 90° bends of CLR 160 need 2 × 160 = 320 mm of top (computed).
+    const r = startingShape({ ...full, front: 'none', doorBars: 'none' }, { ...dims, hoopWidthAtFeetMm: 300, hoopWidthAtTopMm: 300, hoopLeanDeg: 0 }, sizeFor);
+    expect(r.ok).toBe(false);
+    if (!r.ok) expect(r.problems[0].message).toMatch(/^These dimensions do not make a main hoop that can be bent: The bend radius is too large/);
+  });
+});
+
+describe('mirrorMember', () => {
+  test('a left backstay mirrored is a right one on mirrored nodes, reusing a node already there', () => {
+    const shape = generate({ harnessBar: false, front: 'none', doorBars: 'none', diagonal: 'none' });
+    const left = shape.members.find((m) => m.id === 'backstay-l')!;
+    const others = shape.members.filter((m) => m.id !== 'backstay-r');
+    const nodes = shape.nodes.filter((n) => n.id !== 'bs-foot-r');
+    const r = mirrorMember(nodes, others, left);
+    if (!r.ok) throw new Error(r.message);
+    expect(r.member).toEqual({ ...left, id: 'backstay-r', label: 'backstay right', path: [{ nodeId: 'mh-backstay-r' }, { nodeId: 'bs-foot-r' }] });
+    const foot = r.nodes.find((n) => n.id === 'bs-foot-r')!;
+    const orig = shape.nodes.find((n) => n.id === 'bs-foot-l')!;
+    expect(foot).toEqual({ ...orig, id: 'bs-foot-r', label: 'backstay foot right', yMm: -orig.yMm });
+    expect(r.nodes).toHaveLength(nodes.length + 1);
+  });
+  test('a hoop is its own mirror image', () => {
+    const shape = generate(full);
+    const r = mirrorMember(shape.nodes, shape.members, shape.members[0]);
+    expect(r).toEqual({ ok: false, message: 'This member is its own mirror image (it crosses the car symmetrically).' });
+  });
+});
