@@ -17,5 +17,6 @@ export default defineConfig({
     port: 5173,
     proxy: { '/api': 'http://127.0.0.1:3000' },
   },
-  build: { outDir: 'dist', emptyOutDir: true },
+  // The manifest lets the bench add up each route's JavaScript from the built files (tests/bench/bundle.ts).
+  build: { outDir: 'dist', emptyOutDir: true, manifest: true },
 });

@@ -1,5 +1,7 @@
-// `npm run bench`: the engine bench (tests/bench/engine.ts, checks per second of the pure engine)
-// and then the API bench (tests/bench/api.ts, latency, throughput and responsiveness through HTTP).
+// `npm run bench`: the engine bench (tests/bench/engine.ts, checks per second of the pure engine),
+// the cage drawing after an edit (tests/bench/drawing.ts), first-load JavaScript per route from the
+// built front end (tests/bench/bundle.ts), then the API bench (tests/bench/api.ts, latency,
+// throughput and responsiveness through HTTP).
 // Prints one summary and exits non-zero when any target is missed. Numbers depend on the machine
 // and on what else runs on it: see docs/decisions/0005-checks-in-worker-threads.md.
 import { runApiBench, TARGETS } from './api';
@@ -21,6 +23,26 @@ try {
   lines.push({ name: 'engine vs plain functions', value: `${engine.ratio.toFixed(1)}× slower`, target: 'reported', ok: true });
 } catch (err) {
   console.error('engine bench failed:', err instanceof Error ? err.message : err);
+  failed = true;
+}
+
+try {
+  const { runDrawingBench, MAX_DRAW_MS } = await import('./drawing');
+  const d = runDrawingBench();
+  lines.push({ name: `cage drawing after one edit (${d.members} members: derive, project, three SVG views)`, value: `${d.drawMs.toFixed(2)} ms, ${d.ratio.toFixed(0)}× a bare loop over the nodes (${(d.baselineMs * 1000).toFixed(2)} µs)`, target: `≤ ${MAX_DRAW_MS} ms`, ok: d.drawMs <= MAX_DRAW_MS });
+} catch (err) {
+  console.error('drawing bench failed:', err instanceof Error ? err.message : err);
+  failed = true;
+}
+
+try {
+  const { routeBundles, MAX_ROUTE_GZIP_KB } = await import('./bundle');
+  for (const b of routeBundles()) {
+    const lazy = b.lazy.length ? ` (lazy aside: ${b.lazy.map((l) => `${l.file.replace(/^assets\//, '')} ${l.gzipKb.toFixed(0)} kB`).join(', ')})` : '';
+    lines.push({ name: `first-load JavaScript of the ${b.route}, gzipped`, value: `${b.gzipKb.toFixed(1)} kB${lazy}`, target: `≤ ${MAX_ROUTE_GZIP_KB} kB`, ok: b.gzipKb <= MAX_ROUTE_GZIP_KB });
+  }
+} catch (err) {
+  console.error('bundle size check failed:', err instanceof Error ? err.message : err);
   failed = true;
 }
 

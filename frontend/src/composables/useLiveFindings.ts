@@ -1,11 +1,10 @@
 // The live findings beside the editor: a short while after the builder stops typing, the draft is
 // checked against the chosen class in the browser itself (the published ruleset document compiled by
 // the same domain code the server runs), so there is no round trip and no server load. If the
-// document cannot be fetched or compiled here, the server's dry-run check answers instead.
+// document cannot be fetched or compiled here, the server's dry-run check answers instead. The engine
+// itself loads on the first check (liveEngine.ts), not with the page.
 import { computed, onScopeDispose, ref, shallowRef, watch, type Ref } from 'vue';
-import { compileRuleset, evaluateSpecification } from '@domain/index';
 import type { CompiledRuleset, UnitSystem } from '@domain/index';
-import { rulesetDocumentSchema } from '@contracts/ruleset';
 import type { CheckReport } from '@contracts/report';
 import type { FieldProblem } from '@contracts/specification';
 import { getRulesetVersion } from '@/api/rulesets';
@@ -39,8 +38,8 @@ export function useLiveFindings(
   function compiledRuleset(id: string): Promise<CompiledRuleset | null> {
     if (compiledFor !== id || !compiled) {
       compiledFor = id;
-      compiled = getRulesetVersion(id)
-        .then((version) => compileRuleset(rulesetDocumentSchema.parse(version.document)))
+      compiled = Promise.all([getRulesetVersion(id), import('./liveEngine')])
+        .then(([version, engine]) => engine.compileRuleset(engine.rulesetDocumentSchema.parse(version.document)))
         .catch(() => null); // fall back to the server for this version
     }
     return compiled;
@@ -64,6 +63,7 @@ export function useLiveFindings(
       let from: 'browser' | 'server' = 'browser';
       try {
         if (!ruleset) throw new Error('no compiled ruleset');
+        const { evaluateSpecification } = await import('./liveEngine');
         next = await evaluateSpecification(ruleset, classId.value, outcome.specification, { unitSystem: units.value });
       } catch {
         from = 'server';

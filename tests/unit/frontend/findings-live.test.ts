@@ -1,7 +1,7 @@
 // The live findings: the draft is re-checked once the builder pauses (not per keystroke), in the
 // browser against the published ruleset document, with the server's dry run only as a fallback; a
 // failing tube marks the very inputs it concerns, and the marks carry the rule's section.
-import { afterEach, beforeEach, describe, expect, test, vi } from 'vitest';
+import { afterEach, beforeAll, beforeEach, describe, expect, test, vi } from 'vitest';
 import { effectScope, nextTick, ref } from 'vue';
 import { http } from '@/api/http';
 import { forgetRulesetVersions } from '@/api/rulesets';
@@ -18,6 +18,12 @@ const versionId = '7e57e57e-0000-4000-8000-000000000001';
 const IN = 25.4; // F-UNIT-1: exact
 
 let mock: ReturnType<typeof createFetchMock>;
+// The engine is its own chunk, imported on the first check; load it once here so the fake timers
+// below measure the debounce, not how long the test runner takes to read a module.
+beforeAll(async () => {
+  await import('@/composables/liveEngine');
+});
+
 beforeEach(() => {
   vi.useFakeTimers();
   http.resetCsrfToken();

@@ -4,8 +4,8 @@
 import { formatQuantity, type UnitSystem } from '../units.js';
 import type { MemberKind } from '../vocabulary.js';
 import { memberCentreline } from './centreline.js';
-import { deriveCageGeometry, type GeometryInput } from './derive.js';
-import type { GeometryFactValues } from './derived-facts.js';
+import { memberShapes, type GeometryInput, type MemberShape } from './derive.js';
+import { deriveGeometryFacts, type GeometryFactValues } from './derived-facts.js';
 import type { CageNode, PathEntry } from './model.js';
 import { memberNames } from './names.js';
 import { cageGeometryMarks } from './cage-marks.js';
@@ -30,19 +30,38 @@ export interface CageSpecLike {
   vehicle?: GeometryInput['vehicle'];
 }
 
-/** Members that can be drawn: a path of known nodes and an OD. */
-export function drawnMembers(spec: CageSpecLike): DrawnMember[] {
+const sized = (spec: CageSpecLike) =>
+  spec.members.filter((m): m is CageMemberLike & { odMm: number } => typeof m.odMm === 'number' && m.odMm > 0);
+
+/**
+ * Members that can be drawn: a path of known nodes and an OD. A valid path is drawn from its analysed
+ * shape (bend arcs included); one still being edited (a bend too tight for its straights, say) is drawn
+ * as the straight polyline through its nodes, so the drawing never vanishes mid-edit.
+ */
+export function drawnMembers(spec: CageSpecLike, shapes: readonly MemberShape[] = modelShapes(spec)): DrawnMember[] {
   const nodes = spec.model?.nodes ?? [];
   if (nodes.length === 0) return [];
   const known = new Set(nodes.map((n) => n.id));
   const names = memberNames(spec.members);
+  const byId = new Map(shapes.map((s) => [s.memberId, s]));
   const out: DrawnMember[] = [];
   for (const [i, m] of spec.members.entries()) {
     if (!m.path || m.path.length < 2 || !m.odMm || m.odMm <= 0 || m.path.some((p) => !known.has(p.nodeId))) continue;
-    const centreline = memberCentreline(nodes, m.path, m.odMm);
+    const centreline = byId.get(m.id)?.centreline() ?? memberCentreline(nodes, m.path, m.odMm);
     if (centreline.length >= 2) out.push({ id: m.id, name: names[i]!, odMm: m.odMm, centreline });
   }
   return out;
+}
+
+/** The analysed member paths (once per drawing: the facts and the centrelines share them). */
+export function modelShapes(spec: CageSpecLike): MemberShape[] {
+  if (!spec.model || spec.model.nodes.length === 0) return [];
+  try {
+    return memberShapes({ vehicle: spec.vehicle, members: sized(spec), model: spec.model });
+  } catch {
+    // A draft mid-edit may hold what the contract will refuse; it is then drawn unanalysed.
+    return [];
+  }
 }
 
 export function tubeSizeWords(odMm: number | undefined, wallMm: number | undefined, units: UnitSystem): string {
@@ -71,20 +90,19 @@ export interface CageDrawing {
   facts: GeometryFactValues;
 }
 
-/** The model's facts, from the members that have a size (a draft may still lack one). */
-export function drawingFacts(spec: CageSpecLike): GeometryFactValues {
+/** The model's facts (the same values the rules read), from the members that have a size. */
+export function drawingFacts(spec: CageSpecLike, shapes: readonly MemberShape[] = modelShapes(spec)): GeometryFactValues {
   if (!spec.model || spec.model.nodes.length === 0) return {};
-  const members = spec.members.filter((m): m is CageMemberLike & { odMm: number } => typeof m.odMm === 'number' && m.odMm > 0);
   try {
-    return deriveCageGeometry({ vehicle: spec.vehicle, members, model: spec.model }).facts;
+    return deriveGeometryFacts({ vehicle: spec.vehicle, members: sized(spec), model: spec.model }, shapes);
   } catch {
-    // A draft mid-edit may hold a path the contract will refuse; the drawing still shows, unlabelled.
     return {};
   }
 }
 
 export function drawCage(input: CageDrawingInput): CageDrawing {
-  const drawn = drawnMembers(input.spec);
+  const shapes = modelShapes(input.spec);
+  const drawn = drawnMembers(input.spec, shapes);
   const marks = memberMarks(input.findings, input.waivedKeys);
   const byId = new Map(input.spec.members.map((m) => [m.id, m]));
   const members = new Map<string, SvgMemberInfo>();
@@ -93,7 +111,7 @@ export function drawCage(input: CageDrawingInput): CageDrawing {
     const mark = marks.get(d.id);
     members.set(d.id, { name: d.name, sizeText: tubeSizeWords(m.odMm, m.wallMm, input.units), verdict: mark?.verdict ?? 'unchecked', rule: mark?.worstRule ?? null });
   }
-  const facts = drawingFacts(input.spec);
+  const facts = drawingFacts(input.spec, shapes);
   const geometry = cageGeometryMarks(input.spec, drawn, facts, input.units);
   const svgs = {} as Record<ViewName, string>;
   for (const view of VIEW_NAMES) {

@@ -122,20 +122,31 @@ export function widen(bounds: Bounds | null, u: number, v: number, r: number): B
 
 /** Every member with a centreline, projected onto `view` and ordered far to near. */
 export function projectView(members: readonly DrawnMember[], view: ViewName): ProjectedView {
-  let bounds: Bounds | null = null;
+  const { u: au, v: av, toward: at } = VIEW_AXES[view];
+  let minU = Infinity;
+  let maxU = -Infinity;
+  let minV = Infinity;
+  let maxV = -Infinity;
   const projected: ProjectedMember[] = [];
   for (const m of members) {
     if (m.centreline.length < 2) continue;
     let depth = 0;
-    const points = m.centreline.map((p) => {
-      const q = projectPoint(p, view);
-      depth += q.depthMm;
-      bounds = widen(bounds, q.u, q.v, m.odMm / 2);
-      return { u: q.u, v: q.v };
-    });
+    const r = m.odMm / 2;
+    const points: Point2[] = new Array(m.centreline.length);
+    for (let i = 0; i < m.centreline.length; i += 1) {
+      const p = m.centreline[i]!;
+      const u = dot(p, au);
+      const v = dot(p, av);
+      depth += dot(p, at);
+      if (u - r < minU) minU = u - r;
+      if (u + r > maxU) maxU = u + r;
+      if (v - r < minV) minV = v - r;
+      if (v + r > maxV) maxV = v + r;
+      points[i] = { u, v };
+    }
     projected.push({ id: m.id, name: m.name, odMm: m.odMm, points, depthMm: depth / m.centreline.length });
   }
   // Stable for equal depths, so the drawing does not flicker between two tubes at the same depth.
   projected.sort((a, b) => a.depthMm - b.depthMm);
-  return { view, members: projected, bounds };
+  return { view, members: projected, bounds: projected.length ? { minU, maxU, minV, maxV } : null };
 }

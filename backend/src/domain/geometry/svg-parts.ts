@@ -11,21 +11,29 @@ export const FONT_FAMILY = 'Noto Sans, NotoSans, sans-serif';
 /** A coordinate for the page: v flipped (SVG's y runs down), 0.1 mm is finer than any print. */
 export const n = (value: number): string => String(Math.round(value * 10) / 10);
 
+const SPECIAL = /[&<>"']/;
+
 export function escapeXml(text: string): string {
+  // Most values (numbers, path data, colours) have nothing to escape; testing first is much cheaper.
+  if (!SPECIAL.test(text)) return text;
   return text.replace(/&/g, '&amp;').replace(/</g, '&lt;').replace(/>/g, '&gt;').replace(/"/g, '&quot;').replace(/'/g, '&apos;');
 }
 
 export function pathData(points: readonly Point2[]): string {
-  return points.map((p, i) => `${i === 0 ? 'M' : 'L'}${n(p.u)} ${n(-p.v)}`).join(' ');
+  let d = '';
+  for (let i = 0; i < points.length; i += 1) d += `${i === 0 ? 'M' : ' L'}${n(points[i]!.u)} ${n(-points[i]!.v)}`;
+  return d;
 }
 
 type Attrs = Record<string, string | number | undefined>;
 
 export function attrs(a: Attrs): string {
-  return Object.entries(a)
-    .filter(([, v]) => v !== undefined)
-    .map(([k, v]) => ` ${k}="${typeof v === 'number' ? n(v) : escapeXml(v!)}"`)
-    .join('');
+  let out = '';
+  for (const k in a) {
+    const v = a[k];
+    if (v !== undefined) out += ` ${k}="${typeof v === 'number' ? n(v) : escapeXml(v)}"`;
+  }
+  return out;
 }
 
 export function text(at: Point2, content: string, sizeMm: number, extra: Attrs = {}): string {

@@ -55,23 +55,20 @@ function scaleBar(widthMm: number, units: UnitSystem): { mm: number; label: stri
   return { mm, label: formatQuantity(mm, 'length', units, { decimals: 0 }).text };
 }
 
+// Written out by hand rather than through attrs(): this runs for every tube of every view on each
+// keystroke, and only the hover words need escaping (ids are [A-Za-z0-9_.-], the rest are numbers).
 function memberSvg(m: ProjectedView['members'][number], info: SvgMemberInfo, highlighted: boolean): string {
   const mark = VERDICT_MARKS[info.verdict];
   const d = pathData(m.points);
-  const round = { fill: 'none', 'stroke-linecap': 'round', 'stroke-linejoin': 'round', d };
+  const round = `fill="none" stroke-linecap="round" stroke-linejoin="round" d="${d}"`;
   const hover = [info.name || m.name, info.sizeText, mark.label, info.rule].filter(Boolean).join(' · ');
   const dash = dashArrayMm(mark, m.odMm);
-  return (
-    `<g${attrs({ 'data-member-id': m.id, 'data-verdict': info.verdict, cursor: 'pointer' })}>` +
-    `<title>${escapeXml(hover)}</title>` +
-    (highlighted ? `<path${attrs({ ...round, stroke: '#f2b705', 'stroke-width': m.odMm * 2.6, 'stroke-opacity': 0.75 })}/>` : '') +
-    `<path${attrs({ ...round, stroke: INK, 'stroke-width': m.odMm * 1.16 })}/>` +
-    `<path${attrs({ ...round, stroke: mark.tint, 'stroke-width': m.odMm * 0.96 })}/>` +
-    (info.verdict === 'unchecked'
-      ? ''
-      : `<path${attrs({ fill: 'none', d, stroke: mark.colour, 'stroke-width': m.odMm * 0.3, 'stroke-linejoin': 'round', 'stroke-dasharray': dash.length ? dash.join(' ') : undefined })}/>`) +
-    '</g>'
-  );
+  let out = `<g data-member-id="${escapeXml(m.id)}" data-verdict="${info.verdict}" cursor="pointer"><title>${escapeXml(hover)}</title>`;
+  if (highlighted) out += `<path ${round} stroke="#f2b705" stroke-width="${n(m.odMm * 2.6)}" stroke-opacity="0.75"/>`;
+  out += `<path ${round} stroke="${INK}" stroke-width="${n(m.odMm * 1.16)}"/><path ${round} stroke="${mark.tint}" stroke-width="${n(m.odMm * 0.96)}"/>`;
+  if (info.verdict !== 'unchecked')
+    out += `<path fill="none" d="${d}" stroke="${mark.colour}" stroke-width="${n(m.odMm * 0.3)}" stroke-linejoin="round"${dash.length ? ` stroke-dasharray="${dash.join(' ')}"` : ''}/>`;
+  return `${out}</g>`;
 }
 
 interface MarkGroup {
