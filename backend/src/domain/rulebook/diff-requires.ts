@@ -221,7 +221,7 @@ function measuredWall(a: TubeTable, sa: Side, b: TubeTable, sb: Side, emit: Emit
         ? 'percent' in ta && 'percent' in tb && ta.percent === tb.percent
         : sameNumber(canonical(ta.value, 'length', sa, ta.unit), canonical(tb.value, 'length', sb, tb.unit));
   if (ma!.method !== mb!.method || !sameTol)
-    emit('changed', `measured wall ${measuredWallText(ma!, sa)} → ${measuredWallText(mb!, sb)}`, { before: measuredWallText(ma!, sa), after: measuredWallText(mb!, sb) });
+    emit('changed', `measured wall: ${measuredWallText(ma!, sa)} → ${measuredWallText(mb!, sb)}`, { before: measuredWallText(ma!, sa), after: measuredWallText(mb!, sb) });
 }
 
 function allowances(a: TubeTable, sa: Side, b: TubeTable, sb: Side, emit: Emit): void {
