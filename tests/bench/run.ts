@@ -27,6 +27,15 @@ try {
 }
 
 try {
+  const { runGeometryBench, GEOMETRY_TARGET_MS } = await import('./geometry');
+  const g = await runGeometryBench({ log: true });
+  lines.push({ name: `cage geometry, every derived value (${g.members} members), 10th percentile`, value: `${g.deriveMs.toFixed(3)} ms, median ${g.deriveMedianMs.toFixed(3)} ms (bare loop over the same paths ${(g.bareMs * 1000).toFixed(2)} µs, ${g.ratio.toFixed(0)}×)`, target: `≤ ${GEOMETRY_TARGET_MS} ms`, ok: g.deriveMs <= GEOMETRY_TARGET_MS });
+} catch (err) {
+  console.error('geometry bench failed:', err instanceof Error ? err.message : err);
+  failed = true;
+}
+
+try {
   const { runDrawingBench, MAX_DRAW_MS } = await import('./drawing');
   const d = runDrawingBench();
   lines.push({ name: `cage drawing after one edit (${d.members} members: derive, project, three SVG views)`, value: `${d.drawMs.toFixed(2)} ms, ${d.ratio.toFixed(0)}× a bare loop over the nodes (${(d.baselineMs * 1000).toFixed(2)} µs)`, target: `≤ ${MAX_DRAW_MS} ms`, ok: d.drawMs <= MAX_DRAW_MS });
