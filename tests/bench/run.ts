@@ -86,6 +86,20 @@ try {
 }
 
 try {
+  const { runCopePdfBench, COPE_PDF_TARGET_MS } = await import('./cope-pdf');
+  const c = await runCopePdfBench({ log: true });
+  lines.push({
+    name: `cope template PDF (${c.pages} pages, fonts loaded), median`,
+    value: `${c.medianMs.toFixed(0)} ms wall, ${c.cpuMs.toFixed(0)} ms CPU (${c.pages} plain text pages: ${c.baselineMs.toFixed(0)} ms, ${(c.medianMs / c.baselineMs).toFixed(1)}×)`,
+    target: `≤ ${COPE_PDF_TARGET_MS} ms`,
+    ok: c.pages >= 10 && c.medianMs <= COPE_PDF_TARGET_MS,
+  });
+} catch (err) {
+  console.error('cope template bench failed:', err instanceof Error ? err.message : err);
+  failed = true;
+}
+
+try {
   const { runRepublishBench, REPUBLISH_TARGET_SECONDS } = await import('./republish');
   const r = await runRepublishBench({ log: true });
   lines.push({ name: `re-check after a publish (${r.sheets} sheets, database included)`, value: `${r.seconds.toFixed(1)} s, ${r.sheetsPerSecond.toFixed(0)} sheets/s`, target: `< ${REPUBLISH_TARGET_SECONDS} s`, ok: r.pass });

@@ -7,7 +7,7 @@ import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interface
 import type { CutListRowWire, TubeDataWire } from '../contracts/garage';
 import type { CheckReport, Finding, MeasuredValue, RequiredValue } from '../contracts/report';
 import { AREAS } from '../contracts/ruleset';
-import { FACTS_BY_NAME } from '../domain/facts';
+import { referenceWords } from '../domain/rules/reference-words';
 import { findingKey } from '../domain/review/waivers';
 import { formatQuantity, type Dimension, type UnitSystem } from '../domain/units';
 import { formatIsoDate } from '../domain/dates';
@@ -137,7 +137,7 @@ export function requiredText(r: RequiredValue, units: UnitSystem): string {
   const value = Array.isArray(v)
     ? v.map(humanize).join(', ')
     : typeof v === 'object'
-      ? `the ${FACTS_BY_NAME.get(v.fact)?.label ?? humanize(v.fact)}`
+      ? referenceWords(v, units)
       : scalarText(v, r.dimension, units);
   return pdfSafe(`${r.label}: ${OPERATOR_WORDS[r.operator]} ${value}`);
 }

@@ -207,10 +207,10 @@ describe('the compare view words the new forms', () => {
     id: 'legacy', title: 'Legacy', section: 'T4', severity: 'mandatory', area: 'members', scope: { kind: 'vehicle' },
     requires: { template: 'limit', checks: [{ fact: 'cage.approvedOn', operator: 'below', value: '1995-01-01' }] }, explanation: 'x',
   }]);
-  const texts = (edit: (d: Json) => void) => {
-    const after = structuredClone(base);
+  const texts = (edit: (d: Json) => void, before: Json = base) => {
+    const after = structuredClone(before);
     edit(after);
-    const v1 = validateRulesetDocument(base);
+    const v1 = validateRulesetDocument(before);
     const v2 = validateRulesetDocument(after);
     if (!v1.ok || !v2.ok) throw new Error('invalid');
     return describeRulesetChanges(v1.document as RulesetDocument, v2.document as RulesetDocument, {}).map((c) => c.text);
@@ -223,6 +223,13 @@ describe('the compare view words the new forms', () => {
     ['certificate', (d) => (d.requirements[1].acceptsMakerCertificate = true), 'T3 now accepts a cage certified by its maker in its place'],
   ])('%s', (_n, edit, text) => {
     expect(texts(edit)).toContain(text);
+  });
+  test('a legacy row whose date moves reads as one change, not a row removed and a row added', () => {
+    const legacy = structuredClone(base);
+    legacy.requirements[1].requires.bands[0].rows.push({ approvedBefore: '1990-01-01', alternatives: [{ od: 38, wall: 2.5 }] });
+    expect(texts((d) => (d.requirements[1].requires.bands[0].rows[1].approvedBefore = '1995-01-01'), legacy)).toEqual([
+      'T3 all weights, any material: sizes now for cages approved before 1 Jan 1995 (was cages approved before 1 Jan 1990)',
+    ]);
   });
 });
 
