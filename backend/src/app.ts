@@ -36,6 +36,7 @@ import { createCageRecordsRouter } from './routes/cage-records.routes';
 import { createVerifyRouter, defaultVerifyLimit } from './routes/verify.routes';
 import { createRulebookAdminRouter } from './routes/rulebook-admin.routes';
 import { createTubeStockRouter } from './routes/tube-stock.routes';
+import { createJournalRouter } from './routes/journal.routes';
 import { createFabricationRouter } from './routes/fabrication.routes';
 import type { RepublishQueue } from './services/rulebook-admin.service';
 import { createServices, type Services } from './services';
@@ -182,6 +183,7 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(createReviewRouter({ services }));
   api.use(createCageRecordsRouter({ services }));
   api.use(createTubeStockRouter({ services }));
+  api.use(createJournalRouter({ services }));
   api.use(createFabricationRouter({ services }));
   api.use(createVerifyRouter({ services, limits: options.verifyLimits ?? defaultVerifyLimit }));
   // The development mailbox exists only while the fake SMTP server does; otherwise its routes are 404.

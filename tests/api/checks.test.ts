@@ -5,7 +5,8 @@
 import { randomUUID } from 'node:crypto';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { createServices, type Services } from '../../backend/src/services';
-import { createCheckService, newVerificationCode, type CheckServiceOptions } from '../../backend/src/services/checks.service';
+import { createCheckService, newCheckRunCode, type CheckServiceOptions } from '../../backend/src/services/checks.service';
+import { isWellFormedVerificationCode } from '../../backend/src/domain/review/verification-code';
 import { hashPassword } from '../../backend/src/services/passwords';
 import { agentFor, demo, makeTestApp, signIn, testPublicUrl, useTestDatabase, type Agent } from './helpers';
 
@@ -309,7 +310,9 @@ describe('saved check runs', () => {
     const run = await services.checks.saveRun({ rulesetVersionId: versions[cageSlug]!, classId: 'club-saloon', specification: spec, userId: builderId });
     runId = run.id;
     expect(run).toMatchObject({ rulesetVersionId: versions[cageSlug], classId: 'club-saloon', overallVerdict: 'fail', buildSheetRevisionId: null, createdBy: { id: builderId, displayName: 'Robin Ashcombe' } });
-    expect(run.verificationCode).toMatch(/^[0-9A-HJKMNP-TV-Z]{24}$/);
+    // One code form for check runs and cage records (issue 9 §5): grouped, with a check character.
+    expect(run.verificationCode).toMatch(/^([0-9A-HJKMNP-TV-Z]{4}-){6}[0-9A-HJKMNP-TV-Z]{4}$/);
+    expect(isWellFormedVerificationCode(run.verificationCode)).toBe(true);
     expect(run.report.verdict).toBe('fail');
     expect(run.specification).toEqual(spec);
     const stored = await db.ds.query('SELECT overall_verdict, report, specification FROM check_runs WHERE id = $1', [runId]);
@@ -355,7 +358,7 @@ describe('saved check runs', () => {
   });
 
   it('get verification codes that differ', () => {
-    const codes = new Set(Array.from({ length: 500 }, newVerificationCode));
+    const codes = new Set(Array.from({ length: 500 }, () => newCheckRunCode()));
     expect(codes.size).toBe(500);
   });
 });

@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import { randomUUID } from 'node:crypto';
 import { beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { makeTestApp, testConfig, useTestDatabase } from './helpers';
+import { makeTestApp, testConfig, testPublicUrl, useTestDatabase } from './helpers';
 import { carWithSheet, everyone, garageFixture, saloonSpec, testJpeg, type GarageFixture } from './garage-fixtures';
 
 const db = useTestDatabase();
@@ -57,7 +57,7 @@ describe('running checks', () => {
     const res = await who.builder.agent.post(`/api/build-sheets/${sheetId}/check-runs`).set('X-CSRF-Token', who.builder.token).expect(201);
     const run = res.body.checkRun;
     expect(run).toMatchObject({ buildSheetId: sheetId, revisionNumber: 1, rulesetVersionId: fx.versionId, classId: 'club-saloon', overallVerdict: 'fail' });
-    expect(run.verificationCode).toMatch(/^[0-9A-HJKMNP-TV-Z]{24}$/);
+    expect(run.verificationCode).toMatch(/^([0-9A-HJKMNP-TV-Z]{4}-){6}[0-9A-HJKMNP-TV-Z]{4}$/);
     const doorBar = run.report.findings.find((f: { requirementId: string; member: { id: string } | null }) => f.requirementId === 'tv-secondary-tubes' && f.member?.id === 'db-l');
     expect(doorBar).toMatchObject({ verdict: 'fail', citation: { section: 'C4.3.1' } });
     runId = run.id;
@@ -95,7 +95,7 @@ describe('the PDF report', () => {
   it('is a real PDF with searchable text: title, car, rules, verdict, sections, tube data, code, and the caution on every page', async () => {
     const res = await getPdf(who.builder.agent, `/api/check-runs/${runId}/report.pdf`).expect(200);
     expect(res.headers['content-type']).toBe('application/pdf');
-    expect(res.headers['content-disposition']).toMatch(/^inline; filename="cagewright-pre-check-[0-9A-Z]{24}\.pdf"$/);
+    expect(res.headers['content-disposition']).toMatch(/^inline; filename="cagewright-pre-check-([0-9A-Z]{4}-){6}[0-9A-Z]{4}\.pdf"$/);
     const pdf = res.body as Buffer;
     expect(pdf.subarray(0, 5).toString()).toBe('%PDF-');
     const text = await pdfText(pdf);
@@ -108,6 +108,14 @@ describe('the PDF report', () => {
     ]) expect(text).toContain(expected);
     const code = (await who.builder.agent.get(`/api/check-runs/${runId}`).expect(200)).body.checkRun.verificationCode;
     expect(text).toContain(code);
+    // Issue 9 §5: the code leads somewhere, and the PDF says what the page will say about it.
+    const flat = text.replace(/\s+/g, ' ');
+    expect(flat).toContain(`${testPublicUrl}/verify/${code}: the page says this is a pre-check made on`);
+    expect(flat).toContain('with its result, and not a cage record.');
+    const page = await request(app).get(`/api/verify/${code}`);
+    expect(page.status, JSON.stringify(page.body)).toBe(200);
+    expect(page.body.kind).toBe('check_run');
+    expect(flat).toContain(`pre-check made on ${page.body.checkRun.checkedOn}`);
     const pages = pageCount(pdf);
     expect(pages).toBeGreaterThan(1);
     for (let p = 1; p <= pages; p++) expect(await pdfText(pdf, p)).toContain(caution);
@@ -119,6 +127,12 @@ describe('the PDF report', () => {
     const text = await pdfText(res.body as Buffer);
     expect(text).toContain('38.1 × 1.65 mm');
     expect(text).not.toContain('1.500 × 0.065 in');
+    // Issue 9 §4: the run was checked in the builder's inch units; its reasons are written again from
+    // their stored parts in the reader's metric, sizes included, and a failing one says what to change.
+    const flat = text.replace(/\s+/g, ' ');
+    expect(flat).toContain('To pass, use');
+    expect(flat).toMatch(/Nearest: 38\.1 × 2\.41 mm/); // 1.500 × 0.095 in (F-UNIT-1, computed)
+    expect(flat).not.toMatch(/\d in (is|\(|;|in )/);
     await who.builder.agent.get(`/api/check-runs/${runId}/report.pdf?units=furlongs`).expect(400);
   });
 

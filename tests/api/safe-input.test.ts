@@ -110,7 +110,7 @@ describe('text a request carries', () => {
 });
 
 describe('/api/verify/<anything>', () => {
-  const notFound = { error: { code: 'not_found', message: 'No cage record has this code.' } };
+  const notFound = { error: { code: 'not_found', message: 'No cage record or check run has this code.' } };
   it.each(['%00', 'abc%00', '%ED%A0%80', '%E0', '%', 'CW-%F0%9F%9A%97', 'x'.repeat(3000)])('answers the documented 404 for a code like %#', async (code) => {
     const res = await agentFor(app).get(`/api/verify/${code}`);
     expect(res.status).toBe(404);

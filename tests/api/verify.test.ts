@@ -1,12 +1,15 @@
-// The public verification of a cage record: no sign-in; only the car's name and race number, the
-// class, the edition and the status (valid, expired, superseded, revoked); an unknown and a
-// malformed code get the very same 404; 30 look-ups a minute per IP, then 429.
+// The public verification of a code: no sign-in. A cage record shows only the car's name and race
+// number, the class, the edition and the status (valid, expired, superseded, revoked); a check run's
+// code (issue 9 §5) says it is a pre-check of its date, not a cage record, with its result, and older
+// 24-character check-run codes still verify. Stewards look a check run up by its code. An unknown and
+// a malformed code get the very same 404; 30 look-ups a minute per IP, then 429.
 import { randomBytes } from 'node:crypto';
 import request from 'supertest';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { CODE_RANDOM_BYTES, newVerificationCode } from '../../backend/src/domain/review/verification-code';
 import { makeTestApp, useTestDatabase } from './helpers';
-import { act, reviewFixture, submitNew, type ReviewFixture } from './review-fixtures';
+import { act, failingSpec, reviewFixture, savedRun, submitNew, type ReviewFixture } from './review-fixtures';
+import { carWithSheet } from './garage-fixtures';
 
 const db = useTestDatabase();
 let app: ReturnType<typeof makeTestApp>;
@@ -26,12 +29,13 @@ async function issue(): Promise<{ id: string; code: string; submissionId: string
 }
 
 const verify = (code: string) => request(app).get(`/api/verify/${encodeURIComponent(code)}`);
-const notFound = { error: { code: 'not_found', message: 'No cage record has this code.' } };
+const notFound = { error: { code: 'not_found', message: 'No cage record or check run has this code.' } };
 
 describe('GET /api/verify/:code', () => {
   it('shows a valid record to anyone, with nothing personal', async () => {
     const { code } = await issue();
     const res = await verify(code).expect(200);
+    expect(res.body.kind).toBe('cage_record');
     expect(Object.keys(res.body.record).sort()).toEqual(['carName', 'className', 'edition', 'raceNumber', 'rulebookTitle', 'status']);
     expect(res.body.record).toMatchObject({ carName: 'Grey Saloon', raceNumber: '47', status: 'valid' });
     const text = JSON.stringify(res.body);
@@ -79,5 +83,73 @@ describe('GET /api/verify/:code', () => {
     const last = await request(limited).get('/api/verify/nothing').expect(429);
     expect(last.body.error.code).toBe('rate_limited');
     expect(statuses[30]).toBe(429);
+  });
+});
+
+/** A run saved before one code form served both kinds: the same row under a 24-character code. */
+async function legacyCopyOf(runId: string, legacyCode: string): Promise<string> {
+  const rows = await db.ds.query(
+    `INSERT INTO check_runs (ruleset_version_id, class_id, specification, report, overall_verdict, created_by, created_at, build_sheet_revision_id, verification_code)
+     SELECT ruleset_version_id, class_id, specification, report, overall_verdict, created_by, created_at - interval '30 days', build_sheet_revision_id, $2
+     FROM check_runs WHERE id = $1 RETURNING id`,
+    [runId, legacyCode],
+  );
+  return rows[0].id as string;
+}
+
+describe('check-run codes (issue 9 §5)', () => {
+  let runId: string;
+  let code: string;
+  let createdOn: string;
+  beforeAll(async () => {
+    const { sheetId } = await carWithSheet(fx.who.builder, fx, failingSpec());
+    runId = await savedRun(fx.who.builder, sheetId);
+    const run = (await fx.who.builder.agent.get(`/api/check-runs/${runId}`).expect(200)).body.checkRun;
+    code = run.verificationCode;
+    createdOn = (run.createdAt as string).slice(0, 10);
+  });
+
+  it('new runs get the one current form: grouped, with a check character', () => {
+    expect(code).toMatch(/^([0-9A-HJKMNP-TV-Z]{4}-){6}[0-9A-HJKMNP-TV-Z]{4}$/);
+  });
+
+  it('the public page says a check-run code is a pre-check of its date with its result, not a cage record, and shows no people or photos', async () => {
+    const res = await verify(code).expect(200);
+    expect(res.body).toEqual({
+      kind: 'check_run',
+      checkRun: {
+        checkedOn: createdOn, verdict: 'fail', className: 'Club Saloon (full cage)', rulebookTitle: 'Tarnwick Vale MC Cage Regulations', edition: '2027',
+        carName: 'Grey Saloon', raceNumber: '47',
+      },
+    });
+    const text = JSON.stringify(res.body);
+    for (const personal of ['Robin', 'Ashcombe', 'tarnwick.example', 'photo', 'specification', runId]) expect(text).not.toContain(personal);
+    expect(res.headers['cache-control']).toBe('no-store');
+    // Typed loosely, as from paper.
+    expect((await verify(code.replace(/-/g, ' ').toLowerCase()).expect(200)).body.kind).toBe('check_run');
+  });
+
+  it('an older 24-character check-run code still verifies, typed as printed or in groups', async () => {
+    const legacy = 'Q4M7ZT2KX9B3HDN0PRWC5V8E';
+    await legacyCopyOf(runId, legacy);
+    const res = await verify(legacy).expect(200);
+    expect(res.body.kind).toBe('check_run');
+    expect(res.body.checkRun.verdict).toBe('fail');
+    expect((await verify('q4m7-zt2k-x9b3-hdno-prwc-5v8e').expect(200)).body.kind).toBe('check_run');
+    await verify(`${legacy.slice(0, -1)}${legacy.endsWith('0') ? '1' : '0'}`).expect(404, notFound);
+  });
+
+  it('a steward of the club, and the builder, look a check run up by its code (current or older form); others get 404', async () => {
+    const byCode = (who: typeof fx.who.steward, c: string) => who.agent.get(`/api/check-runs/by-code/${encodeURIComponent(c)}`);
+    const steward = await byCode(fx.who.steward, code.toLowerCase()).expect(200);
+    expect(steward.body.checkRun).toMatchObject({ id: runId, verificationCode: code, overallVerdict: 'fail' });
+    expect((await byCode(fx.who.builder, code).expect(200)).body.checkRun.id).toBe(runId);
+    const legacyId = await legacyCopyOf(runId, 'M2K8ZQ4TX7B9HDN3PRWC5V0E');
+    expect((await byCode(fx.who.steward, 'M2K8-ZQ4T-X7B9-HDN3-PRWC-5V0E').expect(200)).body.checkRun.id).toBe(legacyId);
+    const refused = { error: { code: 'not_found', message: 'No check run you may see has this code.' } };
+    await byCode(fx.who.foreignSteward, code).expect(404, refused);
+    await byCode(fx.who.steward, newVerificationCode(randomBytes(CODE_RANDOM_BYTES))).expect(404, refused);
+    await byCode(fx.who.steward, 'hello').expect(404, refused);
+    await request(app).get(`/api/check-runs/by-code/${code}`).expect(401);
   });
 });

@@ -27,6 +27,15 @@ try {
 }
 
 try {
+  const { runGeometryBench, GEOMETRY_TARGET_MS } = await import('./geometry');
+  const g = await runGeometryBench({ log: true });
+  lines.push({ name: `cage geometry, every derived value (${g.members} members), 10th percentile`, value: `${g.deriveMs.toFixed(3)} ms, median ${g.deriveMedianMs.toFixed(3)} ms (bare loop over the same paths ${(g.bareMs * 1000).toFixed(2)} µs, ${g.ratio.toFixed(0)}×)`, target: `≤ ${GEOMETRY_TARGET_MS} ms`, ok: g.deriveMs <= GEOMETRY_TARGET_MS });
+} catch (err) {
+  console.error('geometry bench failed:', err instanceof Error ? err.message : err);
+  failed = true;
+}
+
+try {
   const { runDrawingBench, MAX_DRAW_MS } = await import('./drawing');
   const d = runDrawingBench();
   lines.push({ name: `cage drawing after one edit (${d.members} members: derive, project, three SVG views)`, value: `${d.drawMs.toFixed(2)} ms, ${d.ratio.toFixed(0)}× a bare loop over the nodes (${(d.baselineMs * 1000).toFixed(2)} µs)`, target: `≤ ${MAX_DRAW_MS} ms`, ok: d.drawMs <= MAX_DRAW_MS });
@@ -73,6 +82,20 @@ try {
   lines.push({ name: `tube chooser, whole sheet (${t.members} members), median`, value: `${t.sheetMs.toFixed(1)} ms (an engine run per size would take ${(t.enginePerSizeMs * t.stockSizes).toFixed(0)} ms for one member)`, target: 'reported', ok: true });
 } catch (err) {
   console.error('tube chooser bench failed:', err instanceof Error ? err.message : err);
+  failed = true;
+}
+
+try {
+  const { runCopePdfBench, COPE_PDF_TARGET_MS } = await import('./cope-pdf');
+  const c = await runCopePdfBench({ log: true });
+  lines.push({
+    name: `cope template PDF (${c.pages} pages, fonts loaded), median`,
+    value: `${c.medianMs.toFixed(0)} ms wall, ${c.cpuMs.toFixed(0)} ms CPU (${c.pages} plain text pages: ${c.baselineMs.toFixed(0)} ms, ${(c.medianMs / c.baselineMs).toFixed(1)}×)`,
+    target: `≤ ${COPE_PDF_TARGET_MS} ms`,
+    ok: c.pages >= 10 && c.medianMs <= COPE_PDF_TARGET_MS,
+  });
+} catch (err) {
+  console.error('cope template bench failed:', err instanceof Error ? err.message : err);
   failed = true;
 }
 

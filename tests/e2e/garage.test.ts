@@ -167,6 +167,20 @@ test('a builder takes a car from empty garage to a kept check and its PDF', asyn
     expect(text.toLowerCase()).toContain('pre-check');
     expect(text.toLowerCase()).toContain('inspector');
     expect(text.toLowerCase()).toMatch(overall.includes('not met') ? /not met|fail/ : overall.includes('measurement') ? /needs|information|measure/ : /pass|met/);
+    // Issue 9 §5: the code on the PDF leads to the public page, and both say what it is.
+    expect(text).toContain('not a cage record');
+    await page.goto(`${baseUrl}/verify/${encodeURIComponent(code)}`);
+    const answer = page.locator('.vc');
+    const verifyError = page.locator('[data-test="verify-error"]');
+    await Promise.race([answer.waitFor(), verifyError.waitFor()]).catch(async (e: unknown) => {
+      await screenshot(page, 'garage-verify-check-run-failed-desktop');
+      throw new Error(`No answer on the verify page: ${(await page.locator('main').innerText().catch(() => '')).slice(0, 400)}`, { cause: e });
+    });
+    if (await verifyError.count()) throw new Error(`The verify page refused the run's code ${code}: ${await verifyError.innerText()}`);
+    expect(await answer.innerText()).toContain('not a cage record');
+    expect(await page.locator('[data-test="verify-kind"]').innerText()).toMatch(/^Pre-check of \d{4}-\d{2}-\d{2}$/);
+    expect(text).toContain(`pre-check made on ${(await page.locator('[data-test="verify-kind"]').innerText()).slice('Pre-check of '.length)}`);
+    await screenshot(page, 'garage-verify-check-run-desktop');
     expect(browser.pageErrors.map((e) => e.message)).toEqual([]);
 
     // The same screens at phone width.

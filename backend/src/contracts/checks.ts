@@ -9,6 +9,8 @@ import { unitSystemSchema, uuidSchema } from './common';
 
 export const rulesetVersionParamsSchema = z.object({ versionId: uuidSchema });
 export const checkRunParamsSchema = z.object({ id: uuidSchema });
+/** A code as typed from a PDF: cleaned and read by domain/review/verification-code.ts. */
+export const checkRunCodeParamsSchema = z.object({ code: z.string().max(200, 'At most 200 characters') });
 
 const classIdSchema = z
   .string('Must be text')

@@ -187,7 +187,7 @@ export interface BuildSheetDetailWire {
 
 // ---------------------------------------------------------------- revision diff
 
-export type DiffSection = 'vehicle' | 'members' | 'geometry' | 'plates' | 'inspectionHoles' | 'padding' | 'welding';
+export type DiffSection = 'vehicle' | 'members' | 'model' | 'geometry' | 'plates' | 'inspectionHoles' | 'padding' | 'welding';
 export type DiffValue = number | string | boolean | null;
 
 export interface DiffChangeWire {

@@ -5,6 +5,7 @@ import { z } from 'zod';
 import { DIMENSIONS } from '../domain/units.js';
 import { MEMBER_KINDS, PLATE_LOCATIONS } from '../domain/vocabulary.js';
 import { AREAS } from './ruleset.js';
+import type { ReasonSegment } from '../domain/rules/reason-text.js';
 import { cageGeometrySchema } from './geometry.js';
 
 export const VERDICTS = ['pass', 'fail', 'not_applicable', 'needs_information'] as const;
@@ -33,6 +34,17 @@ export const requiredValueSchema = z.object({
   dimension,
 });
 
+const reasonDimension = z.enum(DIMENSIONS);
+/** domain/rules/reason-text.ts: the parts a reason is written from, in the reader's units. */
+export const reasonSegmentSchema = z.union([
+  z.string(),
+  z.object({ q: z.number(), d: reasonDimension }),
+  z.object({ cmp: z.object({ value: z.number(), limit: z.number(), d: reasonDimension, op: z.enum(['atLeast', 'atMost', 'above', 'below', 'equals', 'notEquals']), met: z.boolean(), form: z.literal('gap').optional() }) }),
+  z.object({ tube: z.object({ odMm: z.number(), wallMm: z.number() }) }),
+  z.object({ band: z.object({ aboveKg: z.number().nullable(), upToKg: z.number().nullable() }) }),
+  z.object({ bySystem: z.object({ metric: z.string(), imperial: z.string() }) }),
+]) satisfies z.ZodType<ReasonSegment>;
+
 export const missingFactSchema = z.object({ fact: z.string(), label: z.string(), dimension });
 
 export const findingSchema = z.object({
@@ -48,8 +60,13 @@ export const findingSchema = z.object({
   measured: z.array(measuredValueSchema),
   required: z.array(requiredValueSchema),
   missing: z.array(missingFactSchema),
-  /** Why the verdict: which alternative matched, which was nearest, what is missing. */
+  /** Why the verdict: which alternative matched, which was nearest, what is missing; in the units of the run. */
   reason: z.string(),
+  /**
+   * The same reason as parts with canonical values, written in the reader's units when read
+   * (`findingReason`). Absent on runs stored before parts existed: those keep `reason`.
+   */
+  reasonParts: z.array(reasonSegmentSchema).optional(),
   explanation: z.string(),
   /** Set when the rulebook accepts the sheet's maker's certificate in place of this rule (not checked). */
   acceptedOnCertificate: z.object({ number: z.string(), issuer: z.string().optional() }).optional(),

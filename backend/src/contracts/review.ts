@@ -220,6 +220,20 @@ export interface RecordSettingsWire {
   saved: boolean;
 }
 
+/**
+ * What anyone may see for a check run's code: a pre-check of that date (UTC), not a cage record.
+ * No people, no photos; the car only when the run came from a build sheet.
+ */
+export interface CheckRunVerificationWire {
+  checkedOn: string;
+  verdict: 'pass' | 'fail' | 'needs_information';
+  className: string;
+  rulebookTitle: string;
+  edition: string;
+  carName: string | null;
+  raceNumber: string | null;
+}
+
 /** What anyone at the track may see: no people, no photos. */
 export interface VerificationWire {
   carName: string;

@@ -8,6 +8,7 @@ import { Club, Membership, User } from '../entities';
 import { hashPassword } from '../services/passwords';
 import { createDataSource } from './data-source';
 import { isMainModule } from './main-module';
+import { demoGarageStep } from './seed-garage';
 import { rulesetSeedStep } from './seed-rulesets';
 import { demoClub, demoPassword, demoPeople } from './seed-data';
 
@@ -30,6 +31,12 @@ export interface SeedStep {
  * `demoSeedSteps.push({ name: 'rulesets', run: seedDemoRulesets })`, or passes it to seedDemo.
  */
 export const demoSeedSteps: SeedStep[] = [rulesetSeedStep];
+
+/**
+ * What `npm start` (and the browser tests' server) seeds: the above plus the demo builder's garage,
+ * a hillclimb sheet with a full cage model. The API tests keep the garage empty.
+ */
+export const cliSeedSteps: SeedStep[] = [...demoSeedSteps, demoGarageStep];
 
 export interface SeedSummary {
   created: { clubs: number; users: number; memberships: number };
@@ -90,7 +97,7 @@ if (isMainModule(import.meta.url)) {
   const ds = createDataSource({ databaseUrl: config.databaseUrl, poolSize: 2 });
   try {
     await ds.initialize();
-    const summary = await seedDemo(ds);
+    const summary = await seedDemo(ds, cliSeedSteps);
     const c = summary.created;
     console.log(`Demo seed done: ${c.clubs} club(s), ${c.users} user(s), ${c.memberships} membership(s) created; existing rows left as they were.`);
     if (summary.steps.length) console.log(`Further steps: ${summary.steps.join(', ')}`);

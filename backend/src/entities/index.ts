@@ -17,6 +17,7 @@ import { SubmissionEvent } from './submission-event.entity';
 import { FindingAnnotation } from './finding-annotation.entity';
 import { CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn } from './cage-record.entity';
 import { ClubStockSeed, StockTube } from './stock-tube.entity';
+import { JournalEntry, JournalPhoto } from './journal.entity';
 
 export { Club, Invitation, Membership, User };
 export { clubRoles, type ClubRole } from './membership.entity';
@@ -29,9 +30,9 @@ export type { ChassisType } from './car.entity';
 export { OutboxMessage, AuditEntry };
 export { outboxStatuses, type OutboxStatus } from './outbox-message.entity';
 export { Submission, SubmissionEvent, FindingAnnotation, CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn };
-export { StockTube, ClubStockSeed };
+export { StockTube, ClubStockSeed, JournalEntry, JournalPhoto };
 export { stockMaterials, stockProcesses } from './stock-tube.entity';
 
 export const entities = [User, Club, Membership, Invitation, Rulebook, RulesetVersion, CheckRun, Car, BuildSheet, BuildSheetRevision, Photo, OutboxMessage, AuditEntry,
   Submission, SubmissionEvent, FindingAnnotation, CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn,
-  StockTube, ClubStockSeed];
+  StockTube, ClubStockSeed, JournalEntry, JournalPhoto];

@@ -71,6 +71,33 @@ function clip(a: [number, number], b: [number, number], r: { x0: number; y0: num
   return [[a[0] + t0 * dx, a[1] + t0 * dy], [a[0] + t1 * dx, a[1] + t1 * dy]];
 }
 
+type Pt2 = [number, number];
+
+/** Sutherland–Hodgman: a polygon clipped to a rectangle (the waste region of one tile). */
+function clipPolygon(poly: Pt2[], r: { x0: number; y0: number; x1: number; y1: number }): Pt2[] {
+  const edges: [(p: Pt2) => boolean, (a: Pt2, b: Pt2) => Pt2][] = [
+    [(p) => p[0] >= r.x0, (a, b) => [r.x0, a[1] + ((b[1] - a[1]) * (r.x0 - a[0])) / (b[0] - a[0])]],
+    [(p) => p[0] <= r.x1, (a, b) => [r.x1, a[1] + ((b[1] - a[1]) * (r.x1 - a[0])) / (b[0] - a[0])]],
+    [(p) => p[1] >= r.y0, (a, b) => [a[0] + ((b[0] - a[0]) * (r.y0 - a[1])) / (b[1] - a[1]), r.y0]],
+    [(p) => p[1] <= r.y1, (a, b) => [a[0] + ((b[0] - a[0]) * (r.y1 - a[1])) / (b[1] - a[1]), r.y1]],
+  ];
+  let out = poly;
+  for (const [inside, cut] of edges) {
+    const input = out;
+    out = [];
+    for (let i = 0; i < input.length; i++) {
+      const cur = input[i]!;
+      const prev = input[(i + input.length - 1) % input.length]!;
+      if (inside(cur)) {
+        if (!inside(prev)) out.push(cut(prev, cur));
+        out.push(cur);
+      } else if (inside(prev)) out.push(cut(prev, cur));
+    }
+    if (out.length === 0) break;
+  }
+  return out;
+}
+
 export interface TemplateLayout {
   pageMm: { w: number; h: number };
   tileMm: { w: number; h: number };
@@ -90,25 +117,32 @@ export function copeTemplateLayout(cope: Cope, pageSize: PageSize): TemplateLayo
 function rulers(x: number, y: number): ContentCanvas['canvas'] {
   const out: ContentCanvas['canvas'] = [];
   // 100 mm: a tick every mm, longer every 5 and 10.
+  // The baseline is one line of its own (the 1:1 check reads it); the ticks hang from it as one
+  // zig-zag path, down each tick and back up, which draws the same and costs one element.
   out.push({ type: 'line', x1: pt(x), y1: pt(y), x2: pt(x + 100), y2: pt(y), lineWidth: 0.6, lineColor: INK });
+  const ticks: { x: number; y: number }[] = [];
   for (let i = 0; i <= 100; i++) {
     const len = i % 10 === 0 ? 3.2 : i % 5 === 0 ? 2.2 : 1.2;
-    out.push({ type: 'line', x1: pt(x + i), y1: pt(y), x2: pt(x + i), y2: pt(y + len), lineWidth: 0.25, lineColor: INK });
+    ticks.push({ x: pt(x + i), y: pt(y) }, { x: pt(x + i), y: pt(y + len) }, { x: pt(x + i), y: pt(y) });
   }
+  out.push({ type: 'polyline', points: ticks, lineWidth: 0.25, lineColor: INK });
   // 4 in: a tick every 1/8 in, longer at 1/2 and whole inches.
   const x2 = x + 112;
   out.push({ type: 'line', x1: pt(x2), y1: pt(y), x2: pt(x2) + 4 * 72, y2: pt(y), lineWidth: 0.6, lineColor: INK });
+  const inchTicks: { x: number; y: number }[] = [];
   for (let i = 0; i <= 32; i++) {
     const len = i % 8 === 0 ? 3.2 : i % 4 === 0 ? 2.2 : 1.2;
-    out.push({ type: 'line', x1: pt(x2) + i * 9, y1: pt(y), x2: pt(x2) + i * 9, y2: pt(y + len), lineWidth: 0.25, lineColor: INK });
+    inchTicks.push({ x: pt(x2) + i * 9, y: pt(y) }, { x: pt(x2) + i * 9, y: pt(y + len) }, { x: pt(x2) + i * 9, y: pt(y) });
   }
+  out.push({ type: 'polyline', points: inchTicks, lineWidth: 0.25, lineColor: INK });
   return out;
 }
 
 function rulerLabels(x: number, y: number): Content[] {
   const label = (text: string, atPt: number, fontSize = 6): Content => ({ text, fontSize, color: INK, absolutePosition: { x: atPt - 3, y: pt(y + 3.6) } });
   const out: Content[] = [];
-  for (let i = 0; i <= 100; i += 10) out.push(label(String(i / 10), pt(x + i)));
+  // Every text costs layout time on each page, so the rulers carry few numbers: 0, 5 and 10 cm; each inch.
+  for (let i = 0; i <= 100; i += 50) out.push(label(String(i / 10), pt(x + i)));
   for (let i = 0; i <= 4; i++) out.push(label(String(i), pt(x + 112) + i * 72));
   out.push({ text: '100 mm (numbers in cm): must measure 100 mm', fontSize: 7, color: MUTED, absolutePosition: { x: pt(x), y: pt(y + 7.5) } });
   out.push({ text: '4 in: must measure 4 in', fontSize: 7, color: MUTED, absolutePosition: { x: pt(x + 112), y: pt(y + 7.5) } });
@@ -130,19 +164,17 @@ function tileDrawing(cope: Cope, tile: Tile, layout: TemplateLayout, origin: { x
   // Template y: 0 at the tip line; the curve lies at ABOVE_TIP + cut back.
   const yOf = (axial: number) => ABOVE_TIP_MM + axial;
   const points = cope.curve.map((p) => [p.arcMm, yOf(p.axialMm)] as [number, number]);
-  // The waste between the tip line and the curve, shaded as thin vertical strokes (clipped like the rest).
-  for (let i = 0; i < points.length; i++) {
-    const [x, y] = points[i]!;
-    if (i % 2 === 0 && y > ABOVE_TIP_MM + 0.3) seg([x, ABOVE_TIP_MM], [x, y], pt(cope.unrolledLengthMm / 360) * 1.9, WASTE);
-  }
+  // The waste between the tip line and the curve, shaded: one polygon, clipped to the tile.
+  const waste = clipPolygon([[points[0]![0], ABOVE_TIP_MM], ...points, [points[points.length - 1]![0], ABOVE_TIP_MM]], rect);
+  if (waste.length >= 3) canvas.push({ type: 'polyline', points: waste.map((p) => { const q = toPage(p); return { x: q[0], y: q[1] }; }), closePath: true, color: WASTE, lineWidth: 0, lineColor: WASTE });
   // Outline of the paper: tip line, both wrap edges, bottom of the band.
   seg([0, ABOVE_TIP_MM], [templateMm.w, ABOVE_TIP_MM], 0.8);
   seg([0, 0], [0, templateMm.h], 0.5);
   seg([templateMm.w, 0], [templateMm.w, templateMm.h], 0.5);
   seg([0, templateMm.h], [templateMm.w, templateMm.h], 0.5);
   // A line along the tube every 15°, the 0°/90°/180°/270° ones heavier.
-  // Numbers every 15° where they fit, else every 45°.
-  const labelStep = cope.unrolledLengthMm / 24 >= 9 ? 15 : 45;
+  // Numbers every 45° (the table lists every 15°); each text costs layout time on each page.
+  const labelStep = 45;
   for (let deg = 0; deg <= 360; deg += 15) {
     const x = (deg / 360) * cope.unrolledLengthMm;
     seg([x, ABOVE_TIP_MM], [x, templateMm.h], deg % 90 === 0 ? 0.45 : 0.2, MUTED, deg % 90 === 0 ? undefined : { length: 2, space: 2 });
@@ -151,8 +183,27 @@ function tileDrawing(cope: Cope, tile: Tile, layout: TemplateLayout, origin: { x
       texts.push({ text: `${deg}°`, fontSize: 6.5, color: MUTED, absolutePosition: { x: px + 1, y: py } });
     }
   }
-  // The cut line itself.
-  for (let i = 1; i < points.length; i++) seg(points[i - 1]!, points[i]!, 1.3);
+  // The cut line itself: one polyline per stretch that stays on this tile.
+  let run: { x: number; y: number }[] = [];
+  const flush = () => {
+    if (run.length >= 2) canvas.push({ type: 'polyline', points: run, lineWidth: 1.3, lineColor: INK });
+    run = [];
+  };
+  for (let i = 1; i < points.length; i++) {
+    const c = clip(points[i - 1]!, points[i]!, rect);
+    if (!c) {
+      flush();
+      continue;
+    }
+    const [p, q] = [toPage(c[0]), toPage(c[1])];
+    const last = run[run.length - 1];
+    if (!last || Math.abs(last.x - p[0]) > 1e-6 || Math.abs(last.y - p[1]) > 1e-6) {
+      flush();
+      run.push({ x: p[0], y: p[1] });
+    }
+    run.push({ x: q[0], y: q[1] });
+  }
+  flush();
   // Labels that belong to the template, drawn on the tile that holds them.
   const label = (at: [number, number], text: string, fontSize = 7, color = INK) => {
     if (at[0] < rect.x0 || at[0] > rect.x1 - 20 || at[1] < rect.y0 || at[1] > rect.y1 - 3) return;
@@ -181,30 +232,33 @@ function tileDrawing(cope: Cope, tile: Tile, layout: TemplateLayout, origin: { x
   return { canvas, texts };
 }
 
-function markingTable(cope: Cope, units: UnitSystem, x: number, y: number): Content {
+/**
+ * The cut-back every 15°, beside the template. Three right-aligned text columns (one text node each)
+ * rather than a pdfmake table: a table per page was most of a tiled template's cost.
+ */
+function markingTable(cope: Cope, units: UnitSystem, x: number, y: number): { texts: Content[]; rules: ContentCanvas['canvas'] } {
   const len = (mm: number) => formatQuantity(mm, 'length', units, units === 'metric' ? { decimals: 1 } : { decimals: 3 }).text;
-  const rows = copeMarkingTable(cope).map((p) => [
-    { text: `${p.angleDeg}°`, alignment: 'right' as const },
-    { text: len(p.arcMm), alignment: 'right' as const },
-    { text: len(p.axialMm), alignment: 'right' as const, bold: true },
-  ]);
-  return {
-    absolutePosition: { x: pt(x), y: pt(y) },
-    stack: [
-      { text: 'Marking by hand', bold: true, fontSize: 8.5 },
-      { text: 'Round the tube from the 0° line, and how far back from the tube end the cut lies there.', fontSize: 6.5, color: MUTED, margin: [0, 0, 0, 2] },
-      {
-        table: {
-          widths: [pt(10), pt(20), pt(20)],
-          headerRows: 1,
-          body: [[{ text: 'Angle', bold: true }, { text: 'Round', bold: true, alignment: 'right' }, { text: 'Cut back', bold: true, alignment: 'right' }], ...rows],
-        },
-        layout: { hLineWidth: (i: number) => (i === 1 ? 0.5 : 0.15), vLineWidth: () => 0, hLineColor: () => '#c9d0d6', paddingTop: () => 0.6, paddingBottom: () => 0.6, paddingLeft: () => 2, paddingRight: () => 2 },
-        fontSize: 7,
-      },
-      { text: `Depth ${len(cope.depthMm)}; template ${len(cope.unrolledLengthMm)} round.`, fontSize: 7, margin: [0, 3, 0, 0] },
-    ],
-  };
+  const rows = copeMarkingTable(cope);
+  // One 7 pt line of Noto Sans at lineHeight 1: (ascender − descender) / em = (1069 + 293) / 1000.
+  const lineMm = (7 * 1.362) / PT_PER_MM;
+  const top = y + 11.5;
+  const col = (text: string, at: number, width: number, bold = false): Content => ({
+    columns: [{ text, bold, fontSize: 7, lineHeight: 1, alignment: 'right', width: pt(width) }], absolutePosition: { x: pt(at), y: pt(top) },
+  });
+  const texts: Content[] = [
+    { text: 'Marking by hand', bold: true, fontSize: 8.5, absolutePosition: { x: pt(x), y: pt(y) } },
+    { columns: [{ text: 'Round the tube from the 0° line, and how far back from the tube end the cut lies there.', fontSize: 6.5, color: MUTED, width: pt(TABLE_MM) }], absolutePosition: { x: pt(x), y: pt(y + 4) } },
+    col(['Angle', ...rows.map((r) => `${r.angleDeg}°`)].join('\n'), x, 12, false),
+    col(['Round', ...rows.map((r) => len(r.arcMm))].join('\n'), x + 14, 21),
+    col(['Cut back', ...rows.map((r) => len(r.axialMm))].join('\n'), x + 37, 22, true),
+    { text: `Depth ${len(cope.depthMm)}; template ${len(cope.unrolledLengthMm)} round.`, fontSize: 7, absolutePosition: { x: pt(x), y: pt(top + (rows.length + 1) * lineMm + 2) } },
+  ];
+  const rules: ContentCanvas['canvas'] = [];
+  for (let i = 1; i <= rows.length + 1; i++) {
+    const ry = pt(top + i * lineMm - 0.1);
+    rules.push({ type: 'line', x1: pt(x), y1: ry, x2: pt(x + TABLE_MM), y2: ry, lineWidth: i === 1 ? 0.5 : 0.15, lineColor: '#c9d0d6' });
+  }
+  return { texts, rules };
 }
 
 export function buildCopeTemplateDocument(input: CopeTemplateInput): TDocumentDefinitions {
@@ -222,6 +276,7 @@ export function buildCopeTemplateDocument(input: CopeTemplateInput): TDocumentDe
       const origin = { x: MARGIN_MM, y: MARGIN_MM + HEADER_MM };
       const drawing = tileDrawing(cope, tile, layout, origin, joinLabel);
       const rulerY = MARGIN_MM + HEADER_MM + tileMm.h + 4;
+      const table = markingTable(cope, units, pageMm.w - MARGIN_MM - TABLE_MM, MARGIN_MM + HEADER_MM);
       const pageItems: Content[] = [
         { text: pdfSafe(`${TEMPLATE_TITLE}: ${input.memberName}`), bold: true, fontSize: 12, absolutePosition: { x: pt(MARGIN_MM), y: pt(MARGIN_MM) } },
         { text: pdfSafe(input.tubeText), fontSize: 8.5, absolutePosition: { x: pt(MARGIN_MM), y: pt(MARGIN_MM + 5.5) } },
@@ -230,10 +285,10 @@ export function buildCopeTemplateDocument(input: CopeTemplateInput): TDocumentDe
           text: pages > 1 ? `Sheet ${n} of ${pages}: column ${col + 1} of ${cols}, row ${row + 1} of ${rows}. Overlap the pages by ${OVERLAP_MM} mm on the crosses of the same name.` : 'One sheet.',
           fontSize: 7.5, color: MUTED, absolutePosition: { x: pt(pageMm.w / 2), y: pt(MARGIN_MM + 11) },
         },
-        { canvas: [...drawing.canvas, ...rulers(MARGIN_MM, rulerY)], absolutePosition: { x: 0, y: 0 } },
+        { canvas: [...drawing.canvas, ...rulers(MARGIN_MM, rulerY), ...table.rules], absolutePosition: { x: 0, y: 0 } },
         ...drawing.texts,
         ...rulerLabels(MARGIN_MM, rulerY),
-        markingTable(cope, units, pageMm.w - MARGIN_MM - TABLE_MM, MARGIN_MM + HEADER_MM),
+        ...table.texts,
       ];
       if (n > 1) pageItems.unshift({ text: '', pageBreak: 'before' });
       content.push(...pageItems);
@@ -244,12 +299,10 @@ export function buildCopeTemplateDocument(input: CopeTemplateInput): TDocumentDe
     pageSize: { width: pt(pageMm.w), height: pt(pageMm.h) },
     pageOrientation: 'landscape',
     pageMargins: [pt(MARGIN_MM), pt(MARGIN_MM), pt(MARGIN_MM), pt(FOOTER_MM)],
+    // One plain text, not columns: a two-column footer cost more than the whole drawing of a page.
     footer: (page: number, count: number) => ({
-      columns: [
-        { text: `${SAFETY_CAUTION} ${NUMBERS_CAUTION}`, fontSize: 7, color: MUTED, width: '*' },
-        { text: `Page ${page} of ${count}`, fontSize: 7, color: MUTED, width: 60, alignment: 'right' },
-      ],
-      margin: [pt(MARGIN_MM), 4, pt(MARGIN_MM), 0],
+      text: `${SAFETY_CAUTION} ${NUMBERS_CAUTION}   Page ${page} of ${count}.`,
+      fontSize: 7, color: MUTED, margin: [pt(MARGIN_MM), 4, pt(MARGIN_MM), 0],
     }),
     content,
     defaultStyle: { color: INK, lineHeight: 1.1 },

@@ -2,11 +2,12 @@
 // check run and what the garage knows about the car (rendering is pdf-engine's job). Every number
 // is formatted from canonical units with the domain's formatQuantity in the reader's units. Noto
 // Sans has no "≥", "≤" or "→" glyphs, so text passes through pdfSafe before it reaches the page.
+import { findingReason } from '../domain/rules/reason-text';
 import type { Content, TableCell, TDocumentDefinitions } from 'pdfmake/interfaces';
 import type { CutListRowWire, TubeDataWire } from '../contracts/garage';
 import type { CheckReport, Finding, MeasuredValue, RequiredValue } from '../contracts/report';
 import { AREAS } from '../contracts/ruleset';
-import { FACTS_BY_NAME } from '../domain/facts';
+import { referenceWords } from '../domain/rules/reference-words';
 import { findingKey } from '../domain/review/waivers';
 import { formatQuantity, type Dimension, type UnitSystem } from '../domain/units';
 import { formatIsoDate } from '../domain/dates';
@@ -37,6 +38,8 @@ export interface ReportDocumentInput {
   sheetName: string | null;
   revisionNumber: number | null;
   verificationCode: string;
+  /** Where anyone may look the code up (the public /verify page), printed beside the code. */
+  lookUpUrl?: string;
   checkedAt: Date;
   /** Tube data with the cut list, computed from the specification that was checked. */
   tubeData: TubeDataWire;
@@ -134,7 +137,7 @@ export function requiredText(r: RequiredValue, units: UnitSystem): string {
   const value = Array.isArray(v)
     ? v.map(humanize).join(', ')
     : typeof v === 'object'
-      ? `the ${FACTS_BY_NAME.get(v.fact)?.label ?? humanize(v.fact)}`
+      ? referenceWords(v, units)
       : scalarText(v, r.dimension, units);
   return pdfSafe(`${r.label}: ${OPERATOR_WORDS[r.operator]} ${value}`);
 }
@@ -183,7 +186,9 @@ function requirementBlock(findings: readonly Finding[], units: UnitSystem, waive
     if (f.measured.length) details.push({ text: [{ text: 'Measured ', color: COLOURS.muted }, f.measured.map((m) => measuredText(m, units)).join('; ')] });
     if (f.required.length) details.push({ text: [{ text: 'Required ', color: COLOURS.muted }, f.required.map((r) => requiredText(r, units)).join('; ')] });
     if (f.missing.length) details.push({ text: [{ text: 'Missing ', color: COLOURS.muted }, f.missing.map((m) => pdfSafe(m.label)).join('; ')] });
-    if (f.reason) details.push({ text: pdfSafe(f.reason) });
+    // Written from the stored parts in this PDF's units; a run stored before parts keeps its text.
+    const reason = findingReason(f, units);
+    if (reason) details.push({ text: pdfSafe(reason) });
     return [
       { text: isWaived ? `${VERDICT_WORDS[f.verdict]}, waived` : VERDICT_WORDS[f.verdict], bold: true, color: isWaived ? COLOURS.info : VERDICT_COLOURS[f.verdict] },
       { text: subjectText(f) },
@@ -438,6 +443,9 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
     },
     labelValueTable([
       ['Verification code', input.verificationCode],
+      ...(input.lookUpUrl
+        ? ([['Look it up at', `${input.lookUpUrl}: the page says this is a pre-check made on ${dateText}, with its result, and not a cage record.`]] as [string, string][])
+        : []),
       ['Checked on', dateText],
       ['Units', units === 'metric' ? 'metric (mm, kg)' : 'imperial (in, lb)'],
     ]),

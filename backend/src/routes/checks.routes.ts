@@ -1,7 +1,7 @@
 // Dry-run checks and saved check runs (docs/api.md, "Rulesets and checks"). Saved runs are made
 // from build sheets (their routes call services.checks.saveRun); here they are only read.
 import { Router } from 'express';
-import { checkRunParamsSchema, dryRunBodySchema } from '../contracts/checks';
+import { checkRunCodeParamsSchema, checkRunParamsSchema, dryRunBodySchema } from '../contracts/checks';
 import { requireSignedIn, signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
 import { mountRoutes, route } from './route-table';
@@ -19,6 +19,16 @@ export function createChecksRouter({ services }: { services: Services }): Router
         // The report arrives as JSON text from the check engine; wrapping it avoids a second serialisation.
         const reportJson = await checks.dryRunJson({ ...body, userId: signedInUserId(req) });
         res.type('application/json').send(`{"report":${reportJson}}`);
+      },
+    }),
+    route({
+      // Before '/check-runs/:id', whose id must be a UUID.
+      method: 'get',
+      path: '/check-runs/by-code/:code',
+      guards: [requireSignedIn],
+      params: checkRunCodeParamsSchema,
+      handler: async ({ req, res, params }) => {
+        res.json({ checkRun: await checks.getRunByCode(params.code, signedInUserId(req)) });
       },
     }),
     route({

@@ -1,5 +1,5 @@
-// The public verification of a cage record by its code (docs/api.md, "Review and cage records"): no
-// sign-in, rate-limited per IP, and one plain 404 for every code that does not name a record.
+// The public verification of a code (docs/api.md, "Review and cage records"): a cage record's or a
+// check run's. No sign-in, rate-limited per IP, and one plain 404 for every code that names neither.
 import { Router, type ErrorRequestHandler } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import { verifyParamsSchema } from '../contracts/review';
@@ -18,7 +18,7 @@ export function createVerifyRouter({ services, limits = defaultVerifyLimit }: { 
     legacyHeaders: false,
     handler: (_req, _res, next) => next(new RateLimitedError('Too many look-ups from here. Wait a minute and try again.')),
   });
-  const notFound = () => new NotFoundError('No cage record has this code.');
+  const notFound = () => new NotFoundError('No cage record or check run has this code.');
   const router = mountRoutes(Router(), [
     route({
       method: 'get', path: '/verify/:code', guards: [publicRoute], before: [limiter], params: verifyParamsSchema, unsafeParams: notFound,
@@ -27,7 +27,7 @@ export function createVerifyRouter({ services, limits = defaultVerifyLimit }: { 
         // Nobody caches a status that can change (a revocation must show at once).
         res.setHeader('Cache-Control', 'no-store');
         if (!result) throw notFound();
-        res.json({ record: result });
+        res.json(result.kind === 'cage_record' ? { kind: result.kind, record: result.record } : { kind: result.kind, checkRun: result.checkRun });
       },
     }),
   ]);

@@ -14,6 +14,7 @@ import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import { createInProcessEngine, createWorkerEngine, type CheckEngine } from './check-engine';
 import { parseCheckSpecification } from './check-input';
 import { canSeeVersion, type RulesetService } from './rulesets.service';
+import { CODE_RANDOM_BYTES, codeForLookup, newVerificationCode } from '../domain/review/verification-code';
 
 export interface CheckInput {
   rulesetVersionId: string;
@@ -36,25 +37,13 @@ export interface SaveRunInput extends CheckInput {
 const checkerRoles: readonly ClubRole[] = ['builder', 'steward', 'admin'];
 const reviewerRoles: readonly ClubRole[] = ['steward', 'admin'];
 
-// Crockford's base32: no I, L, O or U, so a code read aloud or typed from paper is unambiguous.
-const base32Alphabet = '0123456789ABCDEFGHJKMNPQRSTVWXYZ';
-
-/** 120 random bits as 24 base32 characters. */
-export function newVerificationCode(): string {
-  const bytes = randomBytes(15);
-  let bits = 0;
-  let value = 0;
-  let out = '';
-  for (const byte of bytes) {
-    value = (value << 8) | byte;
-    bits += 8;
-    while (bits >= 5) {
-      out += base32Alphabet[(value >>> (bits - 5)) & 31];
-      bits -= 5;
-    }
-    value &= (1 << bits) - 1;
-  }
-  return out;
+/**
+ * A new check run's code: the same generator and form as a cage record's (27 random Crockford
+ * base32 characters and a check character, in groups of four). Runs saved before keep their older
+ * 24-character codes, which still verify (domain/review/verification-code.ts, codeForLookup).
+ */
+export function newCheckRunCode(): string {
+  return newVerificationCode(randomBytes(CODE_RANDOM_BYTES));
 }
 
 /** The specification, or a 400 naming every invalid field as `specification.<path>`. */
@@ -117,6 +106,15 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService, opt
     });
   }
 
+  async function visibleRun(run: CheckRun | null, viewerUserId: string, notFound: string): Promise<CheckRunWire> {
+    if (!run) throw new NotFoundError(notFound);
+    if (run.createdById !== viewerUserId) {
+      const access = await rulesets.access(run.rulesetVersionId, viewerUserId);
+      if (!access?.roles?.some((r) => reviewerRoles.includes(r))) throw new NotFoundError(notFound);
+    }
+    return runView(run, run.createdBy ?? null);
+  }
+
   return {
     /** Which engine runs the checks, how many compilations it made, how busy it is. */
     engineStats: () => engine.stats(),
@@ -151,7 +149,7 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService, opt
           overallVerdict: report.verdict,
           createdById: input.userId,
           buildSheetRevisionId: input.buildSheetRevisionId ?? null,
-          verificationCode: newVerificationCode(),
+          verificationCode: newCheckRunCode(),
         }),
       );
       const creator = await manager.getRepository(User).findOneBy({ id: input.userId });
@@ -161,12 +159,17 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService, opt
     /** A saved run, for its creator and the stewards and admins of the version's club; else 404. */
     async getRun(runId: string, viewerUserId: string): Promise<CheckRunWire> {
       const run = await ds.getRepository(CheckRun).findOne({ where: { id: runId }, relations: { createdBy: true } });
-      if (!run) throw new NotFoundError('Check run not found.');
-      if (run.createdById !== viewerUserId) {
-        const access = await rulesets.access(run.rulesetVersionId, viewerUserId);
-        if (!access?.roles?.some((r) => reviewerRoles.includes(r))) throw new NotFoundError('Check run not found.');
-      }
-      return runView(run, run.createdBy ?? null);
+      return visibleRun(run, viewerUserId, 'Check run not found.');
+    },
+
+    /**
+     * A saved run by the code printed on its PDF (current or older form), for the same people as
+     * `getRun`; anyone else, a malformed code and an unknown one get the same 404.
+     */
+    async getRunByCode(typed: string, viewerUserId: string): Promise<CheckRunWire> {
+      const { code } = codeForLookup(typed);
+      const run = await ds.getRepository(CheckRun).findOne({ where: { verificationCode: code }, relations: { createdBy: true } });
+      return visibleRun(run, viewerUserId, 'No check run you may see has this code.');
     },
   };
 }

@@ -19,6 +19,7 @@ import { createVerificationService, type VerificationService } from './verificat
 import { createRulebookAdminService, type RulebookAdminService } from './rulebook-admin.service';
 import { createTubeStockService, type TubeStockService } from './tube-stock.service';
 import { createTubeChoiceService, type TubeChoiceService } from './tube-choice.service';
+import { createJournalService, type JournalService } from './journal.service';
 import { createFabricationService, type FabricationService } from './fabrication.service';
 import { createFabricationSettingsService } from './fabrication-settings.service';
 
@@ -42,6 +43,7 @@ export interface Services {
   rulebookAdmin: RulebookAdminService;
   tubeStock: TubeStockService;
   tubeChoice: TubeChoiceService;
+  journal: JournalService;
   fabrication: FabricationService;
 }
 
@@ -55,11 +57,13 @@ export function createServices(
   const members = createMemberService(ds, { publicUrl: options.publicUrl, audit });
   const checks = createCheckService(ds, rulesets);
   const buildSheets = createBuildSheetService(ds);
-  const photos = createPhotoService(ds, options.photoStorage ?? new LocalDiskPhotoStorage(options.uploadDir ?? '.data/uploads'));
+  // Sheet photos and journal photos share one store (their keys differ: sheets/… and journal/…).
+  const photoStorage = options.photoStorage ?? new LocalDiskPhotoStorage(options.uploadDir ?? '.data/uploads');
+  const photos = createPhotoService(ds, photoStorage);
   const mail = createMailService(ds);
   const cageRecords = createCageRecordService(ds, { mail, audit, publicUrl: options.publicUrl });
   const fabricationSettings = createFabricationSettingsService(ds);
-  const reports = createReportService(ds, { checks, sheets: buildSheets, photos, fabricationSettings });
+  const reports = createReportService(ds, { checks, sheets: buildSheets, photos, fabricationSettings, publicUrl: options.publicUrl });
   const tubeStock = createTubeStockService(ds, { audit });
   return {
     accounts: createAccountService(ds),
@@ -81,6 +85,7 @@ export function createServices(
     rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit }),
     tubeStock,
     tubeChoice: createTubeChoiceService(ds, { rulesets, stock: tubeStock }),
+    journal: createJournalService(ds, { storage: photoStorage, audit }),
     fabrication: createFabricationService({ buildSheets, settings: fabricationSettings }),
   };
 }

@@ -16,12 +16,16 @@ import type { CheckService } from './checks.service';
 import { sheetFor } from './garage.service';
 import type { PhotoService } from './photos.service';
 import { tubeDataFor } from './garage/tube-data';
+import { verificationUrl } from './cage-records.service';
 import { sheetFabrication } from '../domain/fabrication/sheet-fabrication';
 import { asDomainSettings, type FabricationSettingsService } from './fabrication-settings.service';
 
 export type ReportService = ReturnType<typeof createReportService>;
 
-export function createReportService(ds: DataSource, deps: { checks: CheckService; sheets: BuildSheetService; photos: PhotoService; fabricationSettings?: FabricationSettingsService }) {
+export function createReportService(
+  ds: DataSource,
+  deps: { checks: CheckService; sheets: BuildSheetService; photos: PhotoService; fabricationSettings?: FabricationSettingsService; publicUrl: string },
+) {
   async function unitsOf(userId: string): Promise<UnitSystem> {
     return (await ds.getRepository(User).findOneBy({ id: userId }))?.preferredUnits ?? 'imperial';
   }
@@ -109,6 +113,7 @@ export function createReportService(ds: DataSource, deps: { checks: CheckService
         sheetName: context.sheetName,
         revisionNumber: revision?.number ?? null,
         verificationCode: run.verificationCode,
+        lookUpUrl: verificationUrl(deps.publicUrl, run.verificationCode),
         checkedAt: run.createdAt,
         tubeData: tubeDataFor(run.specification),
         photos: context.photos,

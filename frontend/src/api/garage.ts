@@ -101,4 +101,9 @@ export async function getCheckRun(checkRunId: string): Promise<SavedCheckRun> {
   return (await http.get<{ checkRun: SavedCheckRun }>(`/check-runs/${id(checkRunId)}`)).checkRun;
 }
 
+/** A kept run by the code printed on its PDF; the creator and the club's stewards and admins only. */
+export async function getCheckRunByCode(code: string): Promise<SavedCheckRun> {
+  return (await http.get<{ checkRun: SavedCheckRun }>(`/check-runs/by-code/${id(code)}`)).checkRun;
+}
+
 export const checkRunPdfUrl = (checkRunId: string) => `/api/check-runs/${id(checkRunId)}/report.pdf`;

@@ -2,15 +2,18 @@
 // types come from the server's contract.
 import { http } from './http';
 import type {
-  CageRecordWire, MySubmissionWire, QueueQuery, QueueWire, RecordSettingsWire, SubmissionDetailWire, VerificationWire,
+  CageRecordWire, CheckRunVerificationWire, MySubmissionWire, QueueQuery, QueueWire, RecordSettingsWire, SubmissionDetailWire, VerificationWire,
 } from '@contracts/review';
 
 export type {
   AnnotationWire as Annotation, CageRecordWire as CageRecord, ChangesSinceWire as ChangesSince, HistoryItemWire as HistoryItem,
   MySubmissionWire as MySubmission, QueueItemWire as QueueItem, QueueQuery, QueueWire as Queue, RecordSettingsWire as RecordSettings,
   RecordStatusWire as RecordStatus, SubmissionDetailWire as SubmissionDetail, SubmissionStateWire as SubmissionState,
-  VerificationWire as Verification, WaiverWire as Waiver,
+  VerificationWire as Verification, CheckRunVerificationWire as CheckRunVerification, WaiverWire as Waiver,
 } from '@contracts/review';
+
+/** What a code names: a cage record, or a check run (a pre-check of a date, not a record). */
+export type CodeAnswer = { kind: 'cage_record'; record: VerificationWire } | { kind: 'check_run'; checkRun: CheckRunVerificationWire };
 
 const id = encodeURIComponent;
 export interface Expected {
@@ -90,6 +93,6 @@ export async function updateRecordSettings(clubId: string, body: { recordPrefix?
 }
 
 /** Public: no sign-in, and a 401 never signs anyone out. */
-export async function verifyCode(code: string): Promise<VerificationWire> {
-  return (await http.get<{ record: VerificationWire }>(`/verify/${id(code)}`, { allowUnauthenticated: true })).record;
+export async function verifyCode(code: string): Promise<CodeAnswer> {
+  return http.get<CodeAnswer>(`/verify/${id(code)}`, { allowUnauthenticated: true });
 }

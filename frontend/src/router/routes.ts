@@ -9,7 +9,7 @@ export type RouteName = 'sign-in' | 'invitation' | 'home' | 'account' | 'club-me
   | 'review-queue' | 'submission' | 'cage-record' | 'verify' | 'verify-code'
   | 'dev-mailbox' | 'club-activity'
   | 'rulebooks' | 'rulebook-version' | 'rulebook-compare'
-  | 'tube-choice' | 'tube-stock'
+  | 'tube-choice' | 'tube-stock' | 'build-journal'
   | 'fabrication';
 
 declare module 'vue-router' {
@@ -68,6 +68,7 @@ export const routes: NamedRoute[] = [
       { path: 'cars/:carId', name: 'car', component: () => import('@/views/CarView.vue'), meta: { title: 'Car' } },
       { path: 'build-sheets/:sheetId', name: 'build-sheet', component: () => import('@/views/BuildSheetView.vue'), meta: { title: 'Build sheet' } },
       { path: 'build-sheets/:sheetId/tubes', name: 'tube-choice', component: () => import('@/views/TubeChoiceView.vue'), meta: { title: 'Lightest legal tubes' } },
+      { path: 'build-sheets/:sheetId/journal', name: 'build-journal', component: () => import('@/views/BuildJournalView.vue'), meta: { title: 'Build journal' } },
       { path: 'clubs/:clubId/tube-stock', name: 'tube-stock', component: () => import('@/views/TubeStockView.vue'), meta: { roles: ['builder', 'steward', 'admin'], title: 'Tube stock' } },
       { path: 'dev/mailbox', name: 'dev-mailbox', component: () => import('@/views/MailboxView.vue'), meta: { roles: ['admin'], title: 'Mailbox' } },
       { path: 'clubs/:clubId/activity', name: 'club-activity', component: () => import('@/views/AuditLogView.vue'), meta: { roles: ['admin'], title: 'Activity log' } },

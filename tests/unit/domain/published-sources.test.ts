@@ -373,6 +373,22 @@ describe('NHRA (F-NHRA-1, F-NHRA-G1, F-NHRA-M1, F-NHRA-W1; quoted secondhand)', 
     expect(finding(r, 'nhra-unibody-sill', 'p').verdict).toBe(verdict);
     expect(finding(r, 'nhra-unibody-plates', 'p').verdict).toBe('not_applicable');
   });
+  test.each([
+    ['1.750 × 0.120 braces on a 1.750 × 0.120 hoop', 1.75, 0.12, 'pass'],
+    ['1.625 × 0.120 braces (smaller OD)', 1.625, 0.12, 'fail'],
+    ['1.750 × 0.095 braces (thinner wall)', 1.75, 0.095, 'fail'],
+    ['2.000 × 0.120 braces (larger OD: "same", not "at least")', 2.0, 0.12, 'fail'],
+  ])('F-NHRA-G1 "rear braces same diameter and wall as the hoop": %s → %s', async (_n, od, wall, verdict) => {
+    const r = await check(nhra, {
+      vehicle: { classId: 'roll_bar' },
+      members: [member('mh', 'main_hoop', 1.75 * IN, 0.12 * IN, { material: 'mild_steel' }), member('rb', 'rear_brace', od * IN, wall * IN, { material: 'mild_steel' })],
+    });
+    expect(finding(r, 'nhra-bar-braces', 'rb').verdict).toBe(verdict);
+  });
+  test('F-NHRA-G1 braces: without a main hoop on the sheet there is nothing to match → needs_information', async () => {
+    const r = await check(nhra, { vehicle: { classId: 'roll_bar' }, members: [member('rb', 'rear_brace', 1.75 * IN, 0.12 * IN, {})] });
+    expect(finding(r, 'nhra-bar-braces', 'rb').verdict).toBe('needs_information');
+  });
   test('F-NHRA-G1 harness bar: above the shoulders fails, 3 in below passes', async () => {
     const hb = async (below: number) => finding(await check(nhra, { vehicle: { classId: 'roll_cage' }, geometry: { harnessBarBelowShouldersMm: below * IN }, members: [] }), 'nhra-harness-bar').verdict;
     expect(await hb(-0.5)).toBe('fail');

@@ -40,7 +40,7 @@ describe('per-side counts ("at least one door bar on each side")', () => {
     expect(finding(await check(each, { vehicle: { classId: 'c' }, members: [bar('l', 'left'), bar('r', 'right')] }), 'doors').verdict).toBe('pass');
     const f = finding(await check(each, { vehicle: { classId: 'c' }, members: [bar('l1', 'left'), bar('l2', 'left')] }), 'doors');
     expect(f.verdict).toBe('fail');
-    expect(f.reason).toBe('Does not meet it: number of door bar on the right 0 (required at least 1).');
+    expect(f.reason).toBe('Does not meet it: number of door bar on the right 0 (required at least 1). To pass: number of door bar on the right at least 1.');
   });
   test('a centre member counts on neither side', async () => {
     expect(finding(await check(each, { vehicle: { classId: 'c' }, members: [bar('l', 'left'), bar('c', 'centre')] }), 'doors').verdict).toBe('fail');
@@ -107,7 +107,7 @@ describe('dates (F-MSUK-3: "accepted only for cages approved before 1 Jan 1995")
     expect((await at({ approvedOn: '1994-12-31' })).verdict).toBe('pass');
     const f = await at({ approvedOn: '1995-01-01' });
     expect(f.verdict).toBe('fail');
-    expect(f.reason).toBe('Does not meet it: cage approval date 1 Jan 1995 (required before 1 Jan 1995).');
+    expect(f.reason).toBe('Does not meet it: cage approval date 1 Jan 1995 (required before 1 Jan 1995). To pass: cage approval date before 1 Jan 1995.');
     expect((await at({})).verdict).toBe('needs_information');
   });
   test.each([
@@ -207,10 +207,10 @@ describe('the compare view words the new forms', () => {
     id: 'legacy', title: 'Legacy', section: 'T4', severity: 'mandatory', area: 'members', scope: { kind: 'vehicle' },
     requires: { template: 'limit', checks: [{ fact: 'cage.approvedOn', operator: 'below', value: '1995-01-01' }] }, explanation: 'x',
   }]);
-  const texts = (edit: (d: Json) => void) => {
-    const after = structuredClone(base);
+  const texts = (edit: (d: Json) => void, before: Json = base) => {
+    const after = structuredClone(before);
     edit(after);
-    const v1 = validateRulesetDocument(base);
+    const v1 = validateRulesetDocument(before);
     const v2 = validateRulesetDocument(after);
     if (!v1.ok || !v2.ok) throw new Error('invalid');
     return describeRulesetChanges(v1.document as RulesetDocument, v2.document as RulesetDocument, {}).map((c) => c.text);
@@ -223,6 +223,13 @@ describe('the compare view words the new forms', () => {
     ['certificate', (d) => (d.requirements[1].acceptsMakerCertificate = true), 'T3 now accepts a cage certified by its maker in its place'],
   ])('%s', (_n, edit, text) => {
     expect(texts(edit)).toContain(text);
+  });
+  test('a legacy row whose date moves reads as one change, not a row removed and a row added', () => {
+    const legacy = structuredClone(base);
+    legacy.requirements[1].requires.bands[0].rows.push({ approvedBefore: '1990-01-01', alternatives: [{ od: 38, wall: 2.5 }] });
+    expect(texts((d) => (d.requirements[1].requires.bands[0].rows[1].approvedBefore = '1995-01-01'), legacy)).toEqual([
+      'T3 all weights, any material: sizes now for cages approved before 1 Jan 1995 (was cages approved before 1 Jan 1990)',
+    ]);
   });
 });
 

@@ -120,3 +120,30 @@ describe('ReviewQueueView', () => {
     expect(put?.headers['x-csrf-token']).toBe('t0k3n');
   });
 });
+
+describe('looking a check run up by the code on its report (issue 9 §5)', () => {
+  const runId = 'e0000000-0000-4000-8000-000000000001';
+  const typeCode = async (code: string) => {
+    const input = document.querySelector<HTMLInputElement>('#review-code')!;
+    input.value = code;
+    input.dispatchEvent(new Event('input'));
+    document.querySelector<HTMLFormElement>('form[aria-label="Look up a check run"]')!.requestSubmit();
+    await settle();
+  };
+
+  test('opens the kept run the code names', async () => {
+    mock.on('GET', /\/api\/check-runs\/by-code\//, json(200, { checkRun: { id: runId } }));
+    const { router } = await openPage();
+    await typeCode('7k2q mx9d 4hbt 0zrs 5wnc 8epa');
+    expect(mock.calls.find((c) => c.path.startsWith('/api/check-runs/by-code/'))!.path).toBe(`/api/check-runs/by-code/${encodeURIComponent('7k2q mx9d 4hbt 0zrs 5wnc 8epa')}`);
+    expect(router.currentRoute.value.fullPath).toBe(`/check-runs/${runId}`);
+  });
+
+  test('an unknown code is said at the field, and the page stays', async () => {
+    mock.on('GET', /\/api\/check-runs\/by-code\//, json(404, { error: { code: 'not_found', message: 'No check run you may see has this code.' } }));
+    const { router } = await openPage();
+    await typeCode('nothing');
+    expect(document.querySelector('#review-code-msg')!.textContent).toBe('No check run of this club has this code. Check the code, or ask the builder for the report.');
+    expect(router.currentRoute.value.name).toBe('review-queue');
+  });
+});

@@ -1,4 +1,4 @@
-// Verification codes printed on cage records: long enough that nobody guesses one (135 random bits),
+// Verification codes printed on cage records and check-run reports: long enough that nobody guesses one (135 random bits),
 // written in Crockford's base32 so they survive being read aloud or typed from paper, grouped in
 // fours, with a check character that catches a mistyped or swapped character before a look-up.
 // The randomness comes in as bytes: the caller draws them (node:crypto or crypto.getRandomValues).
@@ -73,4 +73,27 @@ export function isWellFormedVerificationCode(input: string): boolean {
   const code = normaliseVerificationCode(input).replace(/-/g, '');
   if (code.length !== CODE_LENGTH || ![...code].every((c) => CROCKFORD_ALPHABET.includes(c))) return false;
   return checkCharacter(code.slice(0, CODE_DATA_CHARS)) === code[CODE_DATA_CHARS];
+}
+
+/**
+ * Check runs made before one generator served both kinds of code carry 24 characters of the same
+ * alphabet, ungrouped and without a check character (120 random bits). They are printed on PDFs
+ * already kept by builders, so they keep verifying; no new code is made in this form.
+ */
+export const LEGACY_CHECK_RUN_CODE_LENGTH = 24;
+
+export type CodeForLookup =
+  /** A current code (cage record or check run), grouped as stored. */
+  | { form: 'current'; code: string }
+  /** A 24-character check-run code of the older form, as stored (ungrouped). */
+  | { form: 'legacy_check_run'; code: string }
+  | { form: 'malformed'; code: string };
+
+/** What a typed code should be looked up as: the stored spelling of a current or an older code. */
+export function codeForLookup(input: string): CodeForLookup {
+  const code = normaliseVerificationCode(input);
+  if (isWellFormedVerificationCode(code)) return { form: 'current', code };
+  const plain = code.replace(/-/g, '');
+  if (plain.length === LEGACY_CHECK_RUN_CODE_LENGTH && [...plain].every((c) => CROCKFORD_ALPHABET.includes(c))) return { form: 'legacy_check_run', code: plain };
+  return { form: 'malformed', code };
 }

@@ -131,15 +131,30 @@ function tubeTable(a: TubeTable, sa: Side, b: TubeTable, sb: Side, emit: Emit): 
 
 function rows(ra: readonly Row[], sa: Side, rb: readonly Row[], sb: Side, band: string, emit: Emit): void {
   const used = new Set<number>();
+  const pairs: [number, Row][] = [];
+  const unpaired: Row[] = [];
   for (const row of rb) {
     const j = ra.findIndex((r, k) => !used.has(k) && rowKey(r) === rowKey(row));
+    if (j < 0) unpaired.push(row);
+    else {
+      used.add(j);
+      pairs.push([j, row]);
+    }
+  }
+  // A legacy row whose date moved is the same row with a new date, not one removed and one added.
+  const materialsKey = (r: Row) => rowKey({ ...r, approvedBefore: undefined });
+  for (const row of unpaired) {
+    const j = ra.findIndex((r, k) => !used.has(k) && materialsKey(r) === materialsKey(row) && (r.approvedBefore !== undefined || row.approvedBefore !== undefined));
     if (j < 0) {
       emit('added', `${band}: sizes for ${rowName(row)} added (${sizesText(row, sb)})`);
       continue;
     }
     used.add(j);
-    alternatives(ra[j].alternatives, sa, row.alternatives, sb, `${band}, ${rowName(row)}`, emit);
+    const date = (r: Row) => (r.approvedBefore ? `cages approved before ${formatIsoDate(r.approvedBefore)}` : 'any cage');
+    emit('changed', `${band}, ${rowName({ ...row, approvedBefore: undefined })}: sizes now for ${date(row)} (was ${date(ra[j]!)})`, { before: date(ra[j]!), after: date(row) });
+    pairs.push([j, row]);
   }
+  for (const [j, row] of pairs) alternatives(ra[j]!.alternatives, sa, row.alternatives, sb, `${band}, ${rowName(row)}`, emit);
   ra.forEach((row, k) => {
     if (!used.has(k)) emit('removed', `${band}: sizes for ${rowName(row)} removed (${sizesText(row, sa)})`);
   });
@@ -221,7 +236,7 @@ function measuredWall(a: TubeTable, sa: Side, b: TubeTable, sb: Side, emit: Emit
         ? 'percent' in ta && 'percent' in tb && ta.percent === tb.percent
         : sameNumber(canonical(ta.value, 'length', sa, ta.unit), canonical(tb.value, 'length', sb, tb.unit));
   if (ma!.method !== mb!.method || !sameTol)
-    emit('changed', `measured wall ${measuredWallText(ma!, sa)} → ${measuredWallText(mb!, sb)}`, { before: measuredWallText(ma!, sa), after: measuredWallText(mb!, sb) });
+    emit('changed', `measured wall: ${measuredWallText(ma!, sa)} → ${measuredWallText(mb!, sb)}`, { before: measuredWallText(ma!, sa), after: measuredWallText(mb!, sb) });
 }
 
 function allowances(a: TubeTable, sa: Side, b: TubeTable, sb: Side, emit: Emit): void {

@@ -24,8 +24,11 @@ import { customOperators } from './operators.js';
 import { TEMPLATE_KINDS } from './template-kinds.js';
 import { REF_FACT, describeReference, peerFacts, referenceLabel, referencedFact, referenceValue } from './references.js';
 import type { RefParams } from './references.js';
-import type { CompiledRequirement, CompiledRuleset, CompiledVariant, LeafMeta } from './types.js';
+import type { AlternativeMeta, CompiledRequirement, CompiledRuleset, CompiledVariant, LeafMeta } from './types.js';
 import { leavesOf, namedPart, triState } from './verdict.js';
+import { band as bandPart, bySystem, cmp, compact, distinguished, gap, renderReason, tubeSizeText } from './reason-text.js';
+import type { ComparisonOp, ReasonSegment } from './reason-text.js';
+import { tubeSectionProperties } from '../tube.js';
 import type { ResultNode, Tri } from './verdict.js';
 
 export interface EvaluateOptions {
@@ -392,6 +395,14 @@ function baseFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, verdi
   };
 }
 
+/** Stores the reason as parts (written again in the reader's units when read) and as text in the run's units. */
+function withReason(ctx: Ctx, f: Finding, parts: ReasonSegment[]): Finding {
+  const c = compact(parts);
+  f.reasonParts = c;
+  f.reason = renderReason(c, ctx.system);
+  return f;
+}
+
 /** The rulebook accepts a maker-certified cage in place of this rule: say so, with the certificate. */
 function certifiedFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject): Finding {
   const c = ctx.certificate!;
@@ -433,9 +444,17 @@ function bandFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, choic
   return f;
 }
 
+/** A vocabulary value in the words people use ("mild steel", "DOM"), anything else as it is. */
+function word(value: unknown): string {
+  if (typeof value === 'boolean') return value ? 'yes' : 'no';
+  const v = String(value);
+  return (MATERIAL_LABELS as Record<string, string>)[v] ?? (PROCESS_LABELS as Record<string, string>)[v] ?? v;
+}
+
 function display(value: unknown, dimension: Dimension | null, system: UnitSystem, facts: FactSet = {}): string {
   if (typeof value === 'number' && dimension) return formatQuantity(value, dimension, system).text;
-  if (Array.isArray(value)) return value.join(', ');
+  if (Array.isArray(value)) return value.map(word).join(', ');
+  if (typeof value === 'string' || typeof value === 'boolean') return word(value);
   if (typeof value === 'object' && value !== null && 'fact' in value) return describeReference(value as { fact: string; times?: number }, facts, dimension, system);
   return String(value);
 }
@@ -517,10 +536,62 @@ function modelNote(measured: readonly MeasuredValue[]): string {
 
 const DATE_WORDS: Record<string, string> = { atLeast: 'on or after', atMost: 'on or before', above: 'after', below: 'before', equals: 'on', notEquals: 'not on' };
 
-function describeLeaf(req: CompiledRequirement, leaf: ResultNode, facts: FactSet, system: UnitSystem): string {
+function describeLeaf(req: CompiledRequirement, leaf: ResultNode, facts: FactSet, system: UnitSystem, met = false): string {
   const meta = req.leaves[String(leaf.name)];
-  if (meta.date) return `${meta.label} ${formatIsoDate(String(factValueOf(facts, leaf, meta)))} (required ${DATE_WORDS[meta.operator]} ${formatIsoDate(String(meta.value))})`;
-  return `${meta.label} ${display(factValueOf(facts, leaf, meta), meta.dimension, system)} (required ${OP_WORDS[meta.operator]} ${display(meta.value, meta.dimension, system, facts)})`;
+  const required = met ? '' : 'required ';
+  if (meta.date) return `${meta.label} ${formatIsoDate(String(factValueOf(facts, leaf, meta)))} (${required}${DATE_WORDS[meta.operator]} ${formatIsoDate(String(meta.value))})`;
+  return `${meta.label} ${display(factValueOf(facts, leaf, meta), meta.dimension, system)} (${required}${OP_WORDS[meta.operator]} ${display(meta.value, meta.dimension, system, facts)})`;
+}
+
+const NUMERIC_OPS: ReadonlySet<string> = new Set(['atLeast', 'atMost', 'above', 'below', 'equals', 'notEquals']);
+
+/** The number a leaf was compared with: its own limit, or the value of the fact it refers to (× k). */
+function limitOf(leaf: ResultNode, meta: LeafMeta): number | undefined {
+  if (typeof meta.value === 'number') return meta.value;
+  return typeof leaf.valueResult === 'number' ? leaf.valueResult : undefined;
+}
+
+/**
+ * One leaf as reason parts. A number against a number becomes a comparison part, so it is written
+ * in the reader's units with the digits that tell value and limit apart; a comparison with another
+ * fact names that fact and its value; anything else is written as before, in both systems.
+ */
+function leafParts(req: CompiledRequirement, leaf: ResultNode, facts: FactSet, met: boolean): ReasonSegment[] {
+  const meta = req.leaves[String(leaf.name)];
+  const value = factValueOf(facts, leaf, meta);
+  const limit = limitOf(leaf, meta);
+  if (!meta.date && typeof value === 'number' && meta.dimension && limit !== undefined && NUMERIC_OPS.has(meta.operator)) {
+    if (typeof meta.value === 'number') return [`${meta.label} `, cmp(value, limit, meta.dimension, meta.operator as ComparisonOp, met)];
+    const dim = meta.dimension;
+    return [
+      `${meta.label} `,
+      bySystem((s) => distinguished(value, limit, dim, s).valueText),
+      ` (${met ? '' : 'required '}${OP_WORDS[meta.operator]} `,
+      bySystem((s) => display(meta.value, dim, s, facts)),
+      ')',
+    ];
+  }
+  return [bySystem((s) => describeLeaf(req, leaf, facts, s, met))];
+}
+
+/** What to change, as one sentence: every failing limit the member or vehicle must reach. */
+function toPassParts(req: CompiledRequirement, failing: ResultNode[], facts: FactSet): ReasonSegment[] {
+  const items: ReasonSegment[][] = [];
+  for (const leaf of failing) {
+    const meta = req.leaves[String(leaf.name)];
+    const limit = limitOf(leaf, meta);
+    const op = meta.date ? DATE_WORDS[meta.operator] : OP_WORDS[meta.operator];
+    if (meta.date) items.push([`${meta.label} ${op} ${formatIsoDate(String(meta.value))}`]);
+    else if (meta.dimension && limit !== undefined) {
+      const dim = meta.dimension;
+      items.push([`${meta.label} ${op} `, typeof meta.value === 'number' ? { q: limit, d: dim } : bySystem((s) => display(meta.value, dim, s, facts))]);
+    } else items.push([`${meta.label} ${op} `, bySystem((s) => display(meta.value, meta.dimension, s, facts))]);
+  }
+  if (items.length === 0) return [];
+  const out: ReasonSegment[] = [' To pass: '];
+  items.forEach((item, i) => out.push(...(i > 0 ? ['; '] : []), ...item));
+  out.push('.');
+  return out;
 }
 
 function buildFinding(
@@ -547,17 +618,31 @@ function buildFinding(
   const measured = measuredValues(summary, leaves, facts, fromModel);
   const required = copyRequired(summary);
   const v: Finding['verdict'] = verdict === 'unknown' ? 'needs_information' : verdict ? 'pass' : 'fail';
-  let reason: string;
-  // Passing findings carry their measured and required values; words are spent on what to fix.
-  if (v === 'pass') reason = 'Meets the requirement.';
-  else if (v === 'needs_information') reason = `Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')}.`;
+  const parts: ReasonSegment[] = [];
+  const toPass: ReasonSegment[] = [];
+  if (v === 'pass') {
+    // A pass shows the numbers it passed on, not only that it passed.
+    const passed = leaves.filter((l) => l.result === true && req.leaves[String(l.name)] && factPresentFor(facts, l));
+    if (passed.length === 0) parts.push('Meets the requirement.');
+    else {
+      parts.push('Meets it: ');
+      passed.forEach((l, i) => parts.push(...(i > 0 ? ['; '] : []), ...leafParts(req, l, facts, true)));
+      parts.push('.');
+    }
+  } else if (v === 'needs_information') parts.push(`Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')}.`);
   else {
-    const parts: string[] = [];
-    for (const l of leaves) if (l.result === false && req.leaves[String(l.name)] && factPresentFor(facts, l)) parts.push(describeLeaf(req, l, facts, ctx.system));
-    reason = parts.length > 0 ? `Does not meet it: ${parts.join('; ')}.` : 'Does not meet the requirement.';
-    if (missing.size > 0) reason += ` Also not given: ${missingList(missing).map((m) => m.label).join(', ')}.`;
+    const failing = leaves.filter((l) => l.result === false && req.leaves[String(l.name)] && factPresentFor(facts, l));
+    if (failing.length > 0) {
+      parts.push('Does not meet it: ');
+      failing.forEach((l, i) => parts.push(...(i > 0 ? ['; '] : []), ...leafParts(req, l, facts, false)));
+      parts.push('.');
+    } else parts.push('Does not meet the requirement.');
+    if (missing.size > 0) parts.push(` Also not given: ${missingList(missing).map((m) => m.label).join(', ')}.`);
+    toPass.push(...toPassParts(req, failing, facts));
   }
-  const f = baseFinding(ctx, req, subject, v, reason + modelNote(measured));
+  // Which values came from the cage model, then (for a fail) what to change, last.
+  parts.push(modelNote(measured), ...toPass);
+  const f = withReason(ctx, baseFinding(ctx, req, subject, v, ''), parts);
   f.measured = measured;
   f.required = required;
   if (v === 'needs_information') f.missing = missingList(missing);
@@ -569,14 +654,6 @@ function factPresentFor(facts: FactSet, leaf: ResultNode): boolean {
   return factPresent(facts, String(leaf.fact), leaf.params) && (refFact === undefined || factPresent(facts, refFact));
 }
 
-function bandText(ctx: Ctx, v: CompiledVariant): string {
-  if (v.bandLabel) return v.bandLabel;
-  const m = (kg: number) => formatQuantity(kg, 'mass', ctx.system).text;
-  if (v.aboveKg === null && v.upToKg === null) return 'all weights';
-  if (v.aboveKg === null) return `up to ${m(v.upToKg!)}`;
-  if (v.upToKg === null) return `over ${m(v.aboveKg)}`;
-  return `over ${m(v.aboveKg)} up to ${m(v.upToKg)}`;
-}
 
 function tubeTableFinding(
   ctx: Ctx, req: CompiledRequirement, variant: CompiledVariant, subject: Subject, requires: ResultNode, facts: FactSet, verdict: Tri, missing: Set<string>,
@@ -597,8 +674,11 @@ function tubeTableFinding(
   const readingFact = Object.values(req.alternatives).find((a) => a.readingFact)?.readingFact;
   const reading = readingFact ? (facts[readingFact] as number | undefined) : undefined;
   if (readingFact && reading !== undefined) measured.push({ fact: readingFact, label: FACTS_BY_NAME.get(readingFact)?.label ?? readingFact, value: reading, dimension: 'length' });
-  const band = bandText(ctx, variant);
-  const forBand = band === 'all weights' ? '' : ` for ${band}`;
+  const docSystem = ctx.compiled.document.unitSystem;
+  // The band in the reader's units: the rulebook's own label only for a reader in its units.
+  const bandParts: ReasonSegment[] = variant.aboveKg === null && variant.upToKg === null
+    ? []
+    : [' for ', variant.bandLabel ? bySystem((s) => (s === docSystem ? variant.bandLabel! : bandTextIn(variant, s))) : bandPart(variant.aboveKg, variant.upToKg)];
   const matched = alts.find((a) => triState(a, facts, new Set()) === true);
   // Nearest: the smallest relative shortfall in OD plus wall, with a wrong material or process
   // counting as a full miss; ties go to the first listed.
@@ -616,42 +696,78 @@ function tubeTableFinding(
   const pickMeta = pick ? req.alternatives[String(pick.name)] : undefined;
   const required: RequiredValue[] = pick ? copyRequired(summarise(req, String(pick.name), leavesOf(pick))) : [];
   const v: Finding['verdict'] = verdict === 'unknown' ? 'needs_information' : verdict ? 'pass' : 'fail';
+  const materialWords = (list: readonly string[]) => list.map((m) => MATERIAL_LABELS[m as keyof typeof MATERIAL_LABELS] ?? m).join(' or ');
+  const processWords = (list: readonly string[]) => list.map((x) => PROCESS_LABELS[x as keyof typeof PROCESS_LABELS] ?? x).join(', ');
   const restrictions = (a: typeof pickMeta) =>
     a
       ? [
-          a.materials ? ` in ${a.materials.map((m) => MATERIAL_LABELS[m as keyof typeof MATERIAL_LABELS] ?? m).join(' or ')}` : '',
-          a.processes ? ` (${a.processes.map((x) => PROCESS_LABELS[x as keyof typeof PROCESS_LABELS] ?? x).join(', ')})` : '',
+          a.materials ? ` in ${materialWords(a.materials)}` : '',
+          a.processes ? ` (${processWords(a.processes)})` : '',
           a.approvedBefore ? `, for cages approved before ${formatIsoDate(a.approvedBefore)}` : '',
         ].join('')
       : '';
-  let reason: string;
-  const readingWords = (a: NonNullable<typeof pickMeta>) =>
-    a.requiredReadingMm !== undefined && reading !== undefined && a.readingFact
-      ? `${FACTS_BY_NAME.get(a.readingFact)?.label ?? a.readingFact} ${display(reading, 'length', ctx.system)}`
-      : '';
+  // A size as the reader reads it: the rulebook's printed label in its own units, else OD × wall in theirs.
+  const sizeParts = (a: NonNullable<typeof pickMeta>): ReasonSegment =>
+    bySystem((s) => (s === docSystem ? a.label : a.source === 'allowance' ? `${formatQuantity(a.odMm, 'length', s).text} OD or larger with ${formatQuantity(a.wallMm, 'length', s).text} wall` : tubeSizeText(a.odMm, a.wallMm, s)));
+  const readingLabel = (a: NonNullable<typeof pickMeta>) => (a.readingFact ? (FACTS_BY_NAME.get(a.readingFact)?.label ?? a.readingFact) : '');
+  const parts: ReasonSegment[] = [];
   if (v === 'pass' && pickMeta) {
-    const r = readingWords(pickMeta);
-    reason = `Matches ${pickMeta.label}${restrictions(pickMeta)}${forBand}${r ? `, with ${r} (at least ${display(pickMeta.requiredReadingMm!, 'length', ctx.system)} needed)` : ''}.`;
-  }
-  else if (v === 'needs_information') reason = `Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')} ${band === 'all weights' ? '' : ` (band ${band})`}.`;
+    parts.push('Matches ', sizeParts(pickMeta), restrictions(pickMeta), ...bandParts);
+    if (pickMeta.requiredReadingMm !== undefined && reading !== undefined && pickMeta.readingFact)
+      parts.push(', with ', `${readingLabel(pickMeta)} `, { q: reading, d: 'length' }, ' (at least ', { q: pickMeta.requiredReadingMm, d: 'length' }, ' needed)');
+    parts.push('.');
+  } else if (v === 'needs_information') parts.push(`Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')} `, ...(bandParts.length ? [' (band ', bandParts[1]!, ')'] : []), '.');
   else if (pickMeta) {
-    const gaps: string[] = [];
+    const gaps: ReasonSegment[][] = [];
     const wallReq = required.find((r) => r.fact === 'member.wallMm');
-    if (od < pickMeta.odMm - 1e-9) gaps.push(`OD ${display(od, 'length', ctx.system)} is under ${display(pickMeta.odMm, 'length', ctx.system)}`);
-    if (wallReq && typeof wallReq.value === 'number' && wall < wallReq.value - 1e-9) gaps.push(`wall ${display(wall, 'length', ctx.system)} is under ${display(wallReq.value, 'length', ctx.system)}`);
+    if (od < pickMeta.odMm - 1e-9) gaps.push(['OD ', gap(od, pickMeta.odMm, 'length')]);
+    if (wallReq && typeof wallReq.value === 'number' && wall < wallReq.value - 1e-9) gaps.push(['wall ', gap(wall, wallReq.value, 'length')]);
     if (pickMeta.requiredReadingMm !== undefined && reading !== undefined && reading < pickMeta.requiredReadingMm - 1e-9)
-      gaps.push(`${readingWords(pickMeta)} is under ${display(pickMeta.requiredReadingMm, 'length', ctx.system)}`);
-    if (pickMeta.materials && material !== undefined && !pickMeta.materials.includes(material)) gaps.push(`material ${material} is not ${pickMeta.materials.join(' or ')}`);
-    if (pickMeta.processes && process !== undefined && !pickMeta.processes.includes(process)) gaps.push(`process ${process} is not ${pickMeta.processes.join(' or ')}`);
+      gaps.push([`${readingLabel(pickMeta)} `, gap(reading, pickMeta.requiredReadingMm, 'length')]);
+    if (pickMeta.materials && material !== undefined && !pickMeta.materials.includes(material)) gaps.push([`material ${materialWords([material])} is not ${materialWords(pickMeta.materials)}`]);
+    if (pickMeta.processes && process !== undefined && !pickMeta.processes.includes(process)) gaps.push([`process ${processWords([process])} is not ${processWords(pickMeta.processes)}`]);
     if (pickMeta.approvedBefore && approvedOn !== undefined && !(approvedOn < pickMeta.approvedBefore))
-      gaps.push(`the cage was approved on ${formatIsoDate(approvedOn)}, not before ${formatIsoDate(pickMeta.approvedBefore)}`);
-    reason = `No listed size fits${forBand}. Nearest: ${pickMeta.label}${restrictions(pickMeta)}${gaps.length ? ` (${gaps.join('; ')})` : ''}.`;
-  } else reason = `No listed size fits${forBand}.`;
-  const f = baseFinding(ctx, req, subject, v, reason);
+      gaps.push([`the cage was approved on ${formatIsoDate(approvedOn)}, not before ${formatIsoDate(pickMeta.approvedBefore)}`]);
+    parts.push('No listed size fits', ...bandParts, '. Nearest: ', sizeParts(pickMeta), restrictions(pickMeta));
+    if (gaps.length) {
+      parts.push(' (');
+      gaps.forEach((g, i) => parts.push(...(i > 0 ? ['; '] : []), ...g));
+      parts.push(')');
+    }
+    parts.push('.', ...passingSizesParts(alts.map((n) => req.alternatives[String(n.name)]!), { material, process, approvedOn }, sizeParts, restrictions));
+  } else parts.push('No listed size fits', ...bandParts, '.');
+  const f = withReason(ctx, baseFinding(ctx, req, subject, v, ''), parts);
   f.measured = measured;
   f.required = required;
   if (v === 'needs_information') f.missing = missingList(missing);
   return f;
+}
+
+/**
+ * Every size the band lists that this member could use (its material, process and approval date
+ * allow it), lightest first by mass per length, as one sentence saying what to change.
+ */
+function passingSizesParts(
+  alts: AlternativeMeta[], member: { material?: string; process?: string; approvedOn?: string },
+  sizeParts: (a: AlternativeMeta) => ReasonSegment, restrictions: (a: AlternativeMeta) => string,
+): ReasonSegment[] {
+  const usable = alts.filter(
+    (a) => (!a.materials || member.material === undefined || a.materials.includes(member.material))
+      && (!a.processes || member.process === undefined || a.processes.includes(member.process))
+      && (!a.approvedBefore || (member.approvedOn !== undefined && member.approvedOn < a.approvedBefore)),
+  );
+  const list = usable.length > 0 ? usable : alts;
+  const mass = (a: AlternativeMeta) => (a.wallMm > 0 && a.wallMm < a.odMm / 2 ? tubeSectionProperties({ odMm: a.odMm, wallMm: a.wallMm }).massPerMetreKg : Infinity);
+  const sorted = list.map((a, i) => ({ a, i, m: mass(a) })).sort((x, y) => x.m - y.m || x.i - y.i).map((x) => x.a);
+  if (sorted.length === 0) return [];
+  const out: ReasonSegment[] = [sorted.length === 1 ? ' To pass, use the size this band lists: ' : ' To pass, use one of the sizes this band lists, lightest first: '];
+  sorted.forEach((a, i) => out.push(...(i > 0 ? ['; '] : []), sizeParts(a), restrictions(a)));
+  out.push(usable.length > 0 ? '.' : ' (each needs another material, process or approval date).');
+  return out;
+}
+
+function bandTextIn(v: CompiledVariant, system: UnitSystem): string {
+  return renderReason([bandPart(v.aboveKg, v.upToKg)], system);
 }
 
 function assembleReport(

@@ -8,8 +8,8 @@ import type { FactSet } from '../facts.js';
 import { FACTS_BY_NAME } from '../facts.js';
 import { formatQuantity } from '../units.js';
 import type { Dimension, UnitSystem } from '../units.js';
-import { MEMBER_KINDS, MEMBER_KIND_LABELS } from '../vocabulary.js';
-import type { MemberKind } from '../vocabulary.js';
+import { factLabel, parsePeer, peerFactName, referenceLabel } from './reference-words.js';
+import type { PeerMeasure, PeerStat } from './reference-words.js';
 import { numericComparison } from './operators.js';
 import type { EngineOperator } from './operators.js';
 
@@ -40,21 +40,8 @@ export function referencedFact(value: unknown): string | undefined {
 
 // Other members ---------------------------------------------------------------------------------
 
-export type PeerMeasure = 'od' | 'wall';
-export type PeerStat = 'min' | 'max';
-const PEER = /^peer\.(od|wall)\.(min|max)\.([a-z_+]+)$/;
-
-export function peerFactName(measure: PeerMeasure, stat: PeerStat, kinds: readonly MemberKind[]): string {
-  return `peer.${measure}.${stat}.${[...new Set(kinds)].sort().join('+')}`;
-}
-
-function parsePeer(name: string): { measure: PeerMeasure; stat: PeerStat; kinds: MemberKind[] } | undefined {
-  const m = PEER.exec(name);
-  if (!m) return undefined;
-  const kinds = m[3].split('+');
-  if (!kinds.every((k) => (MEMBER_KINDS as readonly string[]).includes(k))) return undefined;
-  return { measure: m[1] as PeerMeasure, stat: m[2] as PeerStat, kinds: kinds as MemberKind[] };
-}
+export { factLabel, peerFactName, referenceLabel };
+export type { PeerMeasure, PeerStat };
 
 /** The smallest / largest OD or wall of the members of some kinds; missing when there are none. */
 export function peerFacts(spec: Specification, names: Iterable<string>): FactSet {
@@ -67,18 +54,6 @@ export function peerFacts(spec: Specification, names: Iterable<string>): FactSet
   }
   return out;
 }
-
-const kindsWords = (kinds: readonly MemberKind[]) => kinds.map((k) => MEMBER_KIND_LABELS[k]).join(' / ');
-
-/** Words for a fact that is not in the catalogue (another member's size), or undefined. */
-export function referenceLabel(name: string): string | undefined {
-  const p = parsePeer(name);
-  if (!p) return undefined;
-  const what = p.measure === 'od' ? 'OD' : 'wall';
-  return `${p.stat === 'min' ? 'smallest' : 'largest'} ${what} of the ${kindsWords(p.kinds)}`;
-}
-
-export const factLabel = (name: string): string => FACTS_BY_NAME.get(name)?.label ?? referenceLabel(name) ?? name;
 
 /** The limit side of a comparison with another value, in the reader's units: "2 × OD of the attached member (1.500 in)". */
 export function describeReference(value: { fact: string; times?: number; timesDimension?: Dimension | null }, facts: FactSet, dimension: Dimension | null, system: UnitSystem): string {

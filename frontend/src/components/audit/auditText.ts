@@ -3,6 +3,7 @@
 import type { AuditEntry } from '@/api/audit';
 import { roleLabels } from '@/components/common/roles';
 import type { Role } from '@/api/types';
+import { JOURNAL_STAGE_LABELS, type JournalStage } from '@/api/journal';
 
 export const actionLabels: Record<string, string> = {
   'membership.added': 'Member added',
@@ -24,6 +25,10 @@ export const actionLabels: Record<string, string> = {
   'tube_stock.changed': 'Stock size changed',
   'tube_stock.removed': 'Stock size removed',
   'tube_stock.common_added': 'Common stock sizes added back',
+  'journal.stage_recorded': 'Build stage recorded',
+  'journal.stage_changed': 'Build stage changed',
+  'journal.stage_removed': 'Build stage removed',
+  'journal.photos_added': 'Build journal photos added',
 };
 
 /** `ruleset.version_published` → "Ruleset: version published" for actions without a label yet. */
@@ -41,6 +46,7 @@ function roles(value: unknown): string {
 }
 
 const text = (value: unknown): string => (typeof value === 'string' ? value : '');
+const stageLabel = (value: unknown): string => JOURNAL_STAGE_LABELS[value as JournalStage] ?? text(value);
 
 export function auditSummary(entry: AuditEntry): string {
   const d = entry.details;
@@ -61,6 +67,13 @@ export function auditSummary(entry: AuditEntry): string {
       const after = d.after as { label?: unknown } | undefined;
       return before?.label === after?.label ? text(after?.label) : `${text(before?.label)} → ${text(after?.label)}`;
     }
+    case 'journal.stage_recorded':
+    case 'journal.stage_removed':
+      return `${text(d.sheetName)}: ${stageLabel(d.stage)} (${text(d.happenedOn)})`;
+    case 'journal.stage_changed':
+      return `${text(d.sheetName)}: ${stageLabel(d.stage)}`;
+    case 'journal.photos_added':
+      return `${text(d.sheetName)}: ${String(d.count)} photo${d.count === 1 ? '' : 's'} at ${stageLabel(d.stage)}`;
     case 'tube_stock.common_added':
       return `${String(d.added)} size${d.added === 1 ? '' : 's'}`;
     default:

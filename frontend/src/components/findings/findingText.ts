@@ -1,6 +1,7 @@
 // Words for findings: verdicts with their icon, areas in the trade's terms, and measured and required
 // values in the builder's units (the report carries canonical values with their dimension).
 // Direct module imports (not the domain's index) keep the rules engine out of the pages that only show results.
+import { referenceWords } from '@domain/rules/reference-words';
 import { formatQuantity } from '@domain/units';
 import type { UnitSystem } from '@domain/units';
 import { MEMBER_KIND_LABELS } from '@domain/vocabulary';
@@ -46,7 +47,8 @@ export function showValue(value: unknown, dimension: MeasuredValue['dimension'],
   if (typeof value === 'boolean') return value ? 'yes' : 'no';
   if (Array.isArray(value)) return value.map((v) => valueLabel(String(v))).join(', ');
   if (typeof value === 'string') return valueLabel(value);
-  if (value && typeof value === 'object' && 'fact' in value) return String((value as { fact: string }).fact);
+  // Another value of the check: "the largest OD of the main hoop", "2 × OD of the attached member".
+  if (value && typeof value === 'object' && 'fact' in value) return referenceWords(value as { fact: string; times?: number }, units);
   return String(value);
 }
 

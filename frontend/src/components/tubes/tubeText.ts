@@ -4,10 +4,15 @@ import { formatQuantity } from '@domain/units';
 import type { UnitSystem } from '@domain/units';
 import { MATERIAL_LABELS, PROCESS_LABELS } from '@domain/vocabulary';
 
+/** Millimetres to at most two decimals without trailing zeros (45, 44.45, 2.41), inches to three. */
 export function sizeText(odMm: number, wallMm: number, units: UnitSystem): string {
-  const od = formatQuantity(odMm, 'length', units);
-  const wall = formatQuantity(wallMm, 'length', units, { unit: od.unit, decimals: units === 'imperial' ? 3 : 2 });
-  return `${od.value.toFixed(od.decimals)} × ${wall.value.toFixed(wall.decimals)} ${od.unitLabel}`;
+  if (units === 'imperial') {
+    const od = formatQuantity(odMm, 'length', units, { decimals: 3 });
+    const wall = formatQuantity(wallMm, 'length', units, { decimals: 3 });
+    return `${od.value.toFixed(3)} × ${wall.value.toFixed(3)} ${od.unitLabel}`;
+  }
+  const mm = (x: number) => String(Math.round(x * 100) / 100);
+  return `${mm(odMm)} × ${mm(wallMm)} mm`;
 }
 
 export function massPerLengthText(kgPerM: number, units: UnitSystem): string {

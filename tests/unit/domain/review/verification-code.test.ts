@@ -7,7 +7,9 @@ import {
   CODE_RANDOM_BITS,
   CODE_RANDOM_BYTES,
   CROCKFORD_ALPHABET,
+  codeForLookup,
   isWellFormedVerificationCode,
+  LEGACY_CHECK_RUN_CODE_LENGTH,
   newVerificationCode,
   normaliseVerificationCode,
 } from '@backend/domain/review/verification-code';
@@ -118,5 +120,25 @@ describe('normalise and check what people type', () => {
 
   test('an incomplete input comes back cleaned, not grouped', () => {
     expect(normaliseVerificationCode(' ab-cd ef ')).toBe('ABCDEF');
+  });
+});
+
+describe('what a typed code is looked up as (issue 9 §5)', () => {
+  const current = newVerificationCode(Uint8Array.from({ length: 17 }, (_x, i) => (i * 53 + 7) & 255));
+  // The older check-run form: 24 characters of the same alphabet, no groups, no check character.
+  const legacy = '7K2QMX9D4HBT0ZRS5WNC8EPA';
+  test.each([
+    ['a current code as printed', current, { form: 'current', code: current }],
+    ['a current code typed loosely', current.replace(/-/g, ' ').toLowerCase(), { form: 'current', code: current }],
+    ['an older check-run code', legacy, { form: 'legacy_check_run', code: legacy }],
+    ['an older check-run code typed in fours, lower case, O for 0', '7k2q-mx9d-4hbt-ozrs-5wnc-8epa', { form: 'legacy_check_run', code: legacy }],
+    ['a current code with one character wrong', current.slice(0, -1) + (current.endsWith('0') ? '1' : '0'), { form: 'malformed' }],
+    ['25 characters', `${legacy}0`, { form: 'malformed' }],
+    ['U is in neither alphabet', `U${legacy.slice(1)}`, { form: 'malformed' }],
+  ])('%s', (_n, typed, expected) => {
+    expect(codeForLookup(typed)).toMatchObject(expected);
+  });
+  test('the older length is not the current one, so the two forms never meet', () => {
+    expect(LEGACY_CHECK_RUN_CODE_LENGTH).not.toBe(CODE_LENGTH);
   });
 });

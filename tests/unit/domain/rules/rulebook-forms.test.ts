@@ -297,3 +297,15 @@ describe('measured walls in tube tables', () => {
     expect((await sccaHoop(compile(sccaDoc))).verdict).toBe('pass');
   });
 });
+
+describe('words for a compared-with value (report screens and PDF)', () => {
+  test('k × another fact and another member’s size, in the reader’s units, never a raw fact name', async () => {
+    const { referenceWords } = await import('@backend/domain/rules/reference-words');
+    const { requiredText } = await import('@backend/pdf/report-document');
+    expect(referenceWords({ fact: 'plate.attachedOdMm', times: 2, timesDimension: null }, 'imperial')).toBe('2 × OD of the attached member');
+    expect(referenceWords({ fact: 'plate.attachedOdMm', times: 254, timesDimension: 'length' }, 'imperial')).toBe('10.000 in × OD of the attached member');
+    expect(referenceWords({ fact: 'peer.od.max.main_hoop' }, 'metric')).toBe('the largest OD of the main hoop');
+    const text = requiredText({ fact: 'plate.areaMm2', label: 'plate area', operator: 'atLeast', value: { fact: 'plate.attachedOdMm', times: 254, timesDimension: 'length' }, dimension: 'area' }, 'metric');
+    expect(text).toBe('plate area: at least 254 mm × OD of the attached member');
+  });
+});

@@ -1,0 +1,38 @@
+// The public /verify page for a check run's code (issue 9 §5): it says what the code is (a pre-check
+// of that date, not a cage record) and the result in the PDF's words, with no people or photos.
+import { afterEach, beforeEach, expect, test, vi } from 'vitest';
+import VerifyView from '@/views/VerifyView.vue';
+import { http } from '@/api/http';
+import { createFetchMock, json } from './fetch-mock';
+import { mountAt, settle } from './mount-app';
+
+let mock: ReturnType<typeof createFetchMock>;
+beforeEach(() => {
+  http.resetCsrfToken();
+  mock = createFetchMock();
+  vi.stubGlobal('fetch', mock.fetch);
+});
+afterEach(() => {
+  document.body.innerHTML = '';
+});
+
+test('a check-run code is answered as a pre-check of its date, not a cage record', async () => {
+  mock.on('GET', /^\/api\/verify\//, json(200, {
+    kind: 'check_run',
+    checkRun: { checkedOn: '2026-12-02', verdict: 'fail', className: 'Open Sprint (roll bar)', rulebookTitle: 'Tarnwick Vale MC Cage Regulations', edition: '2027', carName: 'Grey hatch', raceNumber: '27' },
+  }));
+  await mountAt('/verify/7K2Q-MX9D-4HBT-0ZRS-5WNC-8EPA-QQQQ', VerifyView);
+  await settle();
+  expect(document.querySelector('[data-test="verify-kind"]')!.textContent!.trim()).toBe('Pre-check of 2026-12-02');
+  const text = document.querySelector('.vc')!.textContent!;
+  expect(text).toContain('not a cage record');
+  expect(document.querySelector('[data-test="verify-run-result"]')!.textContent).toBe('Does not pass the pre-check');
+  expect(document.querySelector('[data-test="verify-status"]')).toBeNull();
+});
+
+test('a cage record code still shows the record', async () => {
+  mock.on('GET', /^\/api\/verify\//, json(200, { kind: 'cage_record', record: { carName: 'Grey hatch', raceNumber: '27', className: 'Open Sprint', rulebookTitle: 'Tarnwick', edition: '2027', status: 'valid' } }));
+  await mountAt('/verify/ABCD', VerifyView);
+  await settle();
+  expect(document.querySelector('[data-test="verify-status"]')!.textContent).toContain('Valid');
+});
