@@ -29,9 +29,14 @@ export async function openDataSource(databaseUrl = testDatabaseUrl()): Promise<D
   return ds;
 }
 
-/** Empties every table the accounts schema owns (and what hangs off them), then seeds the demo. */
+/**
+ * Empties every table the accounts schema owns (and what hangs off them), then seeds the demo. Jobs an
+ * earlier file left in pg-boss's queue go too: they name rows that no longer exist, and a worker this
+ * file starts would otherwise run them and write into this file's tables.
+ */
 export async function resetAndSeed(ds: DataSource): Promise<void> {
   await ds.query('TRUNCATE "session", "invitations", "memberships", "users", "clubs" CASCADE');
+  if ((await ds.query(`SELECT to_regclass('pgboss.job') AS t`))[0].t) await ds.query('DELETE FROM pgboss.job');
   await seedDemo(ds);
 }
 

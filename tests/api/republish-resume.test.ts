@@ -44,8 +44,6 @@ let rulebookId: string;
 
 beforeAll(async () => {
   const ds = db.ds;
-  // Jobs other test files left in the queue are not this test's.
-  if ((await ds.query(`SELECT to_regclass('pgboss.job') AS t`))[0].t) await ds.query(`DELETE FROM pgboss.job WHERE name = 'ruleset.republish'`);
   const [ctx] = await ds.query(
     `SELECT v.id AS "versionId", v.rulebook_id AS "rulebookId", r.club_id AS "clubId"
      FROM ruleset_versions v JOIN rulebooks r ON r.id = v.rulebook_id
