@@ -2,7 +2,6 @@
 import { Router } from 'express';
 import { auditQuerySchema } from '../contracts/audit';
 import { clubParamsSchema } from '../contracts/clubs';
-import { requireClubRole } from '../middleware/guards';
 import type { Services } from '../services';
 import { mountRoutes, route } from './route-table';
 
@@ -11,7 +10,7 @@ export function createAuditRouter({ services }: { services: Services }): Router 
     route({
       method: 'get',
       path: '/clubs/:clubId/audit',
-      guards: [requireClubRole(['admin'])],
+      access: 'club.admin',
       params: clubParamsSchema,
       query: auditQuerySchema,
       handler: async ({ res, params, query }) => {

@@ -4,7 +4,6 @@
 import { Router } from 'express';
 import type { DataSource } from 'typeorm';
 import { createGuardedPool } from '../db/pg-pool';
-import { publicRoute } from '../middleware/guards';
 import { mountRoutes, route } from './route-table';
 
 const probeTimeoutMs = 3000;
@@ -45,7 +44,7 @@ export function createHealthRouter(probe: HealthProbe): Router {
     route({
       method: 'get',
       path: '/health',
-      guards: [publicRoute],
+      access: 'public',
       handler: async ({ res }) => {
         const up = await probe.databaseIsUp();
         res.set('Cache-Control', 'no-store');

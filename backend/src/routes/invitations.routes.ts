@@ -2,7 +2,6 @@
 import { Router } from 'express';
 import { acceptInvitationBodySchema, invitationTokenParamsSchema } from '../contracts/auth';
 import { NotFoundError } from '../errors';
-import { publicRoute } from '../middleware/guards';
 import type { Services } from '../services';
 import { logIn } from './promisified';
 import { mountRoutes, route } from './route-table';
@@ -19,7 +18,7 @@ export function createInvitationsRouter({ services }: { services: Services }): R
     route({
       method: 'get',
       path: '/invitations/:token',
-      guards: [publicRoute],
+      access: 'public',
       handler: async ({ res, params }) => {
         res.json(await services.members.getInvitation(tokenOf(params)));
       },
@@ -27,7 +26,7 @@ export function createInvitationsRouter({ services }: { services: Services }): R
     route({
       method: 'post',
       path: '/invitations/:token/accept',
-      guards: [publicRoute],
+      access: 'public',
       body: acceptInvitationBodySchema,
       handler: async ({ req, res, params, body }) => {
         const userId = await services.members.acceptInvitation(tokenOf(params), body.password, body.displayName);

@@ -4,7 +4,6 @@ import { resolve } from 'node:path';
 import { Router } from 'express';
 import { projectRoot } from '../config';
 import type { MetaWire } from '../contracts/mail';
-import { publicRoute } from '../middleware/guards';
 import { mountRoutes, route } from './route-table';
 
 const version = (
@@ -17,7 +16,7 @@ export function createMetaRouter({ mailboxEnabled }: { mailboxEnabled: boolean }
     route({
       method: 'get',
       path: '/meta',
-      guards: [publicRoute],
+      access: 'public',
       handler: ({ res }) => {
         res.json(meta);
       },
