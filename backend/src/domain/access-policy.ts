@@ -132,6 +132,21 @@ export function allows(name: AccessRuleName, facts: AccessFacts): boolean {
   return decide(name, facts).allowed;
 }
 
+/** Every refusal `name` can give, found by asking it about every kind of caller and thing (for the OpenAPI document). */
+export function refusalsOf(name: AccessRuleName): Refusal['status'][] {
+  const seen = new Set<Refusal['status']>();
+  const roleSets: ClubRoles[] = [null, ['builder'], ['steward'], ['admin'], ['admin', 'steward']];
+  for (const actorId of [null, 'caller'])
+    for (const ownerId of ['caller', 'someone else'])
+      for (const roles of roleSets)
+        for (const rolesAnywhere of roleSets)
+          for (const draft of [false, true]) {
+            const v = decide(name, { actorId, ownerId, roles, rolesAnywhere: rolesAnywhere ?? [], draft });
+            if (!v.allowed) seen.add(v.status);
+          }
+  return [...seen].sort((a, b) => a - b);
+}
+
 export function accessRule(name: AccessRuleName): { summary: string; subject: AccessRule['subject'] } {
   const r: AccessRule = ACCESS_RULES[name];
   return { summary: r.summary, subject: r.subject };

@@ -3,9 +3,9 @@ import { Router } from 'express';
 import { updateAccountBodySchema } from '../contracts/auth';
 import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createAccountRouter({ services }: { services: Services }): Router {
+export function createAccountRouter({ services }: { services: Services }): RouteTableRouter {
   return mountRoutes(Router(), [
     route({
       method: 'patch',

@@ -8,14 +8,14 @@ import { signedInUserId } from '../middleware/guards';
 import { sessionCookieName } from '../middleware/session';
 import type { Services } from '../services';
 import { authenticateLocal, destroySession, logIn, saveSession } from './promisified';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
 export function createAuthRouter(deps: {
   services: Services;
   passport: PassportStatic;
   loginLimiters: RequestHandler[];
   passwordLimiter: RequestHandler;
-}): Router {
+}): RouteTableRouter {
   const { accounts } = deps.services;
   return mountRoutes(Router(), [
     route({

@@ -4,9 +4,9 @@ import { Router } from 'express';
 import { diffParamsSchema, revisionParamsSchema, saveRevisionBodySchema, sheetParamsSchema, updateSheetBodySchema } from '../contracts/garage';
 import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createBuildSheetsRouter({ services }: { services: Services }): Router {
+export function createBuildSheetsRouter({ services }: { services: Services }): RouteTableRouter {
   const { buildSheets } = services;
   return mountRoutes(Router(), [
     route({

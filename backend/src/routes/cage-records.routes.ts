@@ -5,9 +5,9 @@ import { Router } from 'express';
 import { clubParamsSchema, recordParamsSchema, recordSettingsBodySchema, revokeBodySchema } from '../contracts/review';
 import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createCageRecordsRouter({ services }: { services: Services }): Router {
+export function createCageRecordsRouter({ services }: { services: Services }): RouteTableRouter {
   const { cageRecords } = services;
   return mountRoutes(Router(), [
     route({

@@ -4,9 +4,9 @@ import { Router } from 'express';
 import { carParamsSchema, createCarBodySchema, createSheetBodySchema, listQuerySchema, updateCarBodySchema } from '../contracts/garage';
 import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createCarsRouter({ services }: { services: Services }): Router {
+export function createCarsRouter({ services }: { services: Services }): RouteTableRouter {
   const { garage, buildSheets } = services;
   return mountRoutes(Router(), [
     route({

@@ -4,9 +4,9 @@ import { Router } from 'express';
 import { checkRunParamsSchema, reportQuerySchema, sheetParamsSchema } from '../contracts/garage';
 import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createCheckRunsReportRouter({ services }: { services: Services }): Router {
+export function createCheckRunsReportRouter({ services }: { services: Services }): RouteTableRouter {
   const { reports } = services;
   return mountRoutes(Router(), [
     route({

@@ -4,9 +4,9 @@ import { Router } from 'express';
 import { checkRunCodeParamsSchema, checkRunParamsSchema, dryRunBodySchema } from '../contracts/checks';
 import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createChecksRouter({ services }: { services: Services }): Router {
+export function createChecksRouter({ services }: { services: Services }): RouteTableRouter {
   const { checks } = services;
   return mountRoutes(Router(), [
     route({

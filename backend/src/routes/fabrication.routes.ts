@@ -5,12 +5,12 @@ import { bendScheduleBodySchema, copeBodySchema, copePdfBodySchema, fabricationS
 import { sheetParamsSchema } from '../contracts/garage';
 import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 import { z } from 'zod';
 
 const unitsQuery = z.object({ units: unitsSchema.default('metric') });
 
-export function createFabricationRouter({ services }: { services: Services }): Router {
+export function createFabricationRouter({ services }: { services: Services }): RouteTableRouter {
   const { fabrication } = services;
   return mountRoutes(Router(), [
     route({

@@ -2,9 +2,9 @@
 import { Router } from 'express';
 import { deriveBodySchema } from '../contracts/geometry';
 import { deriveGeometry } from '../services/geometry.service';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createGeometryRouter(): Router {
+export function createGeometryRouter(): RouteTableRouter {
   return mountRoutes(Router(), [
     route({
       method: 'post',

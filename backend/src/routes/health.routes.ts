@@ -4,7 +4,7 @@
 import { Router } from 'express';
 import type { DataSource } from 'typeorm';
 import { createGuardedPool } from '../db/pg-pool';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
 const probeTimeoutMs = 3000;
 
@@ -39,7 +39,7 @@ export function createHealthProbe(ds: DataSource): HealthProbe {
   };
 }
 
-export function createHealthRouter(probe: HealthProbe): Router {
+export function createHealthRouter(probe: HealthProbe): RouteTableRouter {
   return mountRoutes(Router(), [
     route({
       method: 'get',

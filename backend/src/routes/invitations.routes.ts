@@ -4,7 +4,7 @@ import { acceptInvitationBodySchema, invitationTokenParamsSchema } from '../cont
 import { NotFoundError } from '../errors';
 import type { Services } from '../services';
 import { logIn } from './promisified';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
 // A malformed token is just an unknown one: answer 404, as for any invitation that cannot be used.
 function tokenOf(params: Record<string, string>): string {
@@ -13,7 +13,7 @@ function tokenOf(params: Record<string, string>): string {
   return parsed.data.token;
 }
 
-export function createInvitationsRouter({ services }: { services: Services }): Router {
+export function createInvitationsRouter({ services }: { services: Services }): RouteTableRouter {
   return mountRoutes(Router(), [
     route({
       method: 'get',

@@ -4,9 +4,9 @@ import { jobParamsSchema } from '../contracts/jobs';
 import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
 import type { JobControl } from '../services/jobs';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createJobsRouter({ services, control }: { services: Services; control: JobControl | null }): Router {
+export function createJobsRouter({ services, control }: { services: Services; control: JobControl | null }): RouteTableRouter {
   return mountRoutes(Router(), [
     route({
       method: 'get',

@@ -13,7 +13,7 @@ import { servicesOf, signedInUserId } from '../middleware/guards';
 import { parseOrThrow } from '../middleware/validate';
 import type { Services } from '../services';
 import { uploadError } from './photos.routes';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
 const receive = multer({
   storage: multer.memoryStorage(),
@@ -29,7 +29,7 @@ const mayUpload: RequestHandler = (req, _res, next) => {
   servicesOf(req).journal.assertCanUpload(entryId, signedInUserId(req)).then(() => next(), next);
 };
 
-export function createJournalRouter({ services }: { services: Services }): Router {
+export function createJournalRouter({ services }: { services: Services }): RouteTableRouter {
   const { journal } = services;
   const serve = (which: 'image' | 'thumbnail') =>
     route({

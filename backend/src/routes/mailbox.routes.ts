@@ -4,9 +4,9 @@
 import { Router } from 'express';
 import { mailboxParamsSchema } from '../contracts/mail';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createMailboxRouter({ services }: { services: Services }): Router {
+export function createMailboxRouter({ services }: { services: Services }): RouteTableRouter {
   const { mailbox } = services;
   return mountRoutes(Router(), [
     route({

@@ -3,10 +3,10 @@ import { Router } from 'express';
 import { addMemberBodySchema, clubParamsSchema, memberParamsSchema, updateMemberBodySchema } from '../contracts/clubs';
 import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
 
-export function createMembersRouter({ services }: { services: Services }): Router {
+export function createMembersRouter({ services }: { services: Services }): RouteTableRouter {
   const { members } = services;
   return mountRoutes(Router(), [
     route({

@@ -10,7 +10,7 @@ import { servicesOf, signedInUserId } from '../middleware/guards';
 import { parseOrThrow } from '../middleware/validate';
 import type { Services } from '../services';
 import type { UploadFields } from '../services/photos.service';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
 const megabytes = PHOTO_LIMITS.bytesPerFile / (1024 * 1024);
 
@@ -54,7 +54,7 @@ const mayUpload: RequestHandler = (req, _res, next) => {
 
 const imageCache = 'private, max-age=31536000, immutable';
 
-export function createPhotosRouter({ services }: { services: Services }): Router {
+export function createPhotosRouter({ services }: { services: Services }): RouteTableRouter {
   const { photos } = services;
   const serve = (which: 'image' | 'thumbnail') =>
     route({

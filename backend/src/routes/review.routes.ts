@@ -4,9 +4,9 @@ import { Router } from 'express';
 import { clubParamsSchema, queueQuerySchema, reviewMailBodySchema } from '../contracts/review';
 import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createReviewRouter({ services }: { services: Services }): Router {
+export function createReviewRouter({ services }: { services: Services }): RouteTableRouter {
   const { review, reviewReader } = services;
   return mountRoutes(Router(), [
     route({

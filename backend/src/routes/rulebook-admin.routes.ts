@@ -13,9 +13,9 @@ import {
 import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
 import type { RepublishQueue } from '../services/rulebook-admin.service';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createRulebookAdminRouter({ services, republishQueue }: { services: Services; republishQueue: RepublishQueue | null }): Router {
+export function createRulebookAdminRouter({ services, republishQueue }: { services: Services; republishQueue: RepublishQueue | null }): RouteTableRouter {
   const admin = services.rulebookAdmin;
   return mountRoutes(Router(), [
     route({

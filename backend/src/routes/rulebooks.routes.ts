@@ -6,10 +6,10 @@ import { allows } from '../domain/access-policy';
 import type { ClubRole } from '../entities';
 import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
 
-export function createRulebooksRouter({ services }: { services: Services }): Router {
+export function createRulebooksRouter({ services }: { services: Services }): RouteTableRouter {
   const { rulesets } = services;
   return mountRoutes(Router(), [
     route({

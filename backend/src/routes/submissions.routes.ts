@@ -6,9 +6,9 @@ import { reportQuerySchema } from '../contracts/garage';
 import { actionBodySchema, annotationBodySchema, mySubmissionsQuerySchema, resubmitBodySchema, submissionParamsSchema, submitBodySchema } from '../contracts/review';
 import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createSubmissionsRouter({ services }: { services: Services }): Router {
+export function createSubmissionsRouter({ services }: { services: Services }): RouteTableRouter {
   const { review, reviewReader } = services;
   const detail = (id: string, userId: string) => reviewReader.detail(id, userId);
   return mountRoutes(Router(), [

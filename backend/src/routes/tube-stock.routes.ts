@@ -8,10 +8,10 @@ import { ownStockTubeParamsSchema, stockTubeBodySchema, stockTubeParamsSchema, s
 import { signedInUserId } from '../middleware/guards';
 import type { ClubRole } from '../entities';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
 
-export function createTubeStockRouter({ services }: { services: Services }): Router {
+export function createTubeStockRouter({ services }: { services: Services }): RouteTableRouter {
   const { tubeStock, tubeChoice } = services;
   return mountRoutes(Router(), [
     route({

@@ -5,11 +5,11 @@ import { rateLimit } from 'express-rate-limit';
 import { verifyParamsSchema } from '../contracts/review';
 import { NotFoundError, RateLimitedError } from '../errors';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
 export const defaultVerifyLimit = { windowMs: 60_000, limit: 30 };
 
-export function createVerifyRouter({ services, limits = defaultVerifyLimit }: { services: Services; limits?: { windowMs: number; limit: number } }): Router {
+export function createVerifyRouter({ services, limits = defaultVerifyLimit }: { services: Services; limits?: { windowMs: number; limit: number } }): RouteTableRouter {
   const limiter = rateLimit({
     windowMs: limits.windowMs,
     limit: limits.limit,
