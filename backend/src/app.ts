@@ -1,7 +1,8 @@
 // createApp builds the Express application and never listens (server.ts does), so tests can drive
-// it with supertest. Order matters: security headers, health (no session, so it answers even when
-// the session store cannot), JSON body, session + passport, CSRF, the route tables, the JSON 404
-// for /api, the front-end build with its SPA fallback, and finally the one error handler.
+// it with supertest. Order matters: the request log (an id for every request), security headers,
+// health (no session, so it answers even when the session store cannot), JSON body, session +
+// passport, CSRF, the route tables (collected for /api/openapi.json), the JSON 404 for /api, the
+// front-end build with its SPA fallback, and finally the one error handler.
 import { existsSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import express, { type Express } from 'express';
@@ -10,6 +11,7 @@ import type { DataSource } from 'typeorm';
 import { projectRoot, type Config } from './config';
 import { createLogger, type Logger } from './logger';
 import { requireCsrfToken } from './middleware/csrf';
+import { createRequestLog } from './middleware/request-log';
 import { refuseUnsafeInput } from './middleware/safe-input';
 import { apiNotFound, createErrorHandler } from './middleware/error-handler';
 import { createFailureLimiter, createLoginLimiters, defaultLoginLimits, type LoginLimits } from './middleware/rate-limit';
@@ -130,6 +132,8 @@ export function createApp(options: CreateAppOptions): Express {
   app.locals.services = services;
   app.set('trust proxy', config.trustProxy);
   app.disable('x-powered-by');
+  // First, so that every request (health, static files, a 404) gets an id and its line in the log.
+  app.use(createRequestLog(logger));
   app.use(securityHeaders(config));
 
   const healthProbe = createHealthProbe(dataSource);
