@@ -10,18 +10,18 @@ import {
   rulebookParamsSchema,
   saveDraftBodySchema,
 } from '../contracts/rulebook-admin';
-import { requireSignedIn, signedInUserId } from '../middleware/guards';
+import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
 import type { RepublishQueue } from '../services/rulebook-admin.service';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createRulebookAdminRouter({ services, republishQueue }: { services: Services; republishQueue: RepublishQueue | null }): Router {
+export function createRulebookAdminRouter({ services, republishQueue }: { services: Services; republishQueue: RepublishQueue | null }): RouteTableRouter {
   const admin = services.rulebookAdmin;
   return mountRoutes(Router(), [
     route({
       method: 'post',
       path: '/rulebooks/:rulebookId/drafts',
-      guards: [requireSignedIn],
+      access: 'rulebook.admin',
       params: rulebookParamsSchema,
       handler: async ({ req, res, params }) => {
         res.status(201).json({ version: await admin.createDraft(params.rulebookId, signedInUserId(req)) });
@@ -30,7 +30,7 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
     route({
       method: 'put',
       path: '/ruleset-drafts/:versionId',
-      guards: [requireSignedIn],
+      access: 'version.admin',
       params: draftParamsSchema,
       body: saveDraftBodySchema,
       handler: async ({ req, res, params, body }) => {
@@ -40,7 +40,7 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
     route({
       method: 'post',
       path: '/ruleset-drafts/:versionId/import',
-      guards: [requireSignedIn],
+      access: 'version.admin',
       params: draftParamsSchema,
       body: importDraftBodySchema,
       handler: async ({ req, res, params, body }) => {
@@ -50,7 +50,7 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
     route({
       method: 'delete',
       path: '/ruleset-drafts/:versionId',
-      guards: [requireSignedIn],
+      access: 'version.admin',
       params: draftParamsSchema,
       handler: async ({ req, res, params }) => {
         await admin.deleteDraft(params.versionId, signedInUserId(req));
@@ -61,7 +61,7 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
       // A background job (its progress and result: GET /api/jobs/:id), so 10,000 sheets never hold a request.
       method: 'post',
       path: '/ruleset-drafts/:versionId/impact',
-      guards: [requireSignedIn],
+      access: 'version.admin',
       params: draftParamsSchema,
       handler: async ({ req, res, params }) => {
         const userId = signedInUserId(req);
@@ -72,7 +72,7 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
     route({
       method: 'post',
       path: '/ruleset-drafts/:versionId/publish',
-      guards: [requireSignedIn],
+      access: 'version.admin',
       params: draftParamsSchema,
       body: publishBodySchema,
       handler: async ({ req, res, params, body }) => {
@@ -82,7 +82,7 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
     route({
       method: 'post',
       path: '/ruleset-versions/:versionId/retire',
-      guards: [requireSignedIn],
+      access: 'version.admin',
       params: draftParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ version: await admin.retire(params.versionId, signedInUserId(req)) });
@@ -91,7 +91,7 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
     route({
       method: 'get',
       path: '/ruleset-versions/:versionId/compare/:otherId',
-      guards: [requireSignedIn],
+      access: 'version.admin',
       params: compareParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json(await admin.compare(params.versionId, params.otherId, signedInUserId(req)));
@@ -100,7 +100,7 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
     route({
       method: 'get',
       path: '/ruleset-versions/:versionId/export',
-      guards: [requireSignedIn],
+      access: 'version.admin',
       params: draftParamsSchema,
       handler: async ({ req, res, params }) => {
         const file = await admin.exportVersion(params.versionId, signedInUserId(req));
