@@ -96,7 +96,7 @@ describe('the photo routes with PHOTO_STORAGE=s3', () => {
     const [photo] = res.body.photos as { id: string; imageUrl: string }[];
     await probe.client.send(new DeleteObjectCommand({ Bucket: settings.bucket, Key: `${settings.prefix}sheets/${sheetId}/${photo!.id}.jpg` }));
     const gone = await who.builder.agent.get(photo!.imageUrl).expect(404);
-    expect(gone.body).toEqual({ error: { code: 'not_found', message: 'This photo’s file is missing from photo storage.' } });
+    expect(gone.body).toEqual({ error: { code: 'not_found', message: 'This photo’s file is missing from photo storage.', requestId: expect.any(String) } });
   });
 
   it('answers 503 storage_unavailable when the store is down, and saves nothing', async () => {
