@@ -16,6 +16,7 @@
 // during the one-thread runs), plus the server's event-loop delay.
 //   npx tsx --tsconfig tsconfig.json tests/bench/republish.ts
 import { fork, type ChildProcess } from 'node:child_process';
+import { readFileSync } from 'node:fs';
 import { randomUUID } from 'node:crypto';
 import { once } from 'node:events';
 import type { AddressInfo } from 'node:net';
@@ -44,6 +45,9 @@ export interface RecheckRun {
   eventLoopDelayP99Ms: number;
   /** The server's CPU time (all threads) over the wall time: the cores it was actually given. */
   coresUsed: number;
+  /** CPU time of the server, all threads, and of its main thread alone (null off Linux). */
+  cpuSeconds: number;
+  mainThreadCpuSeconds: number | null;
   health: { p50Ms: number; p99Ms: number; maxMs: number; probes: number; non200: number };
 }
 
@@ -145,6 +149,17 @@ async function prepare(total: number, log: (m: string) => void): Promise<{ url: 
   }
 }
 
+/** CPU seconds of this process's main thread so far (Linux, from /proc); null elsewhere. */
+function mainThreadCpuSeconds(): number | null {
+  try {
+    const stat = readFileSync(`/proc/self/task/${process.pid}/stat`, 'utf8');
+    const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+    return (Number(fields[11]) + Number(fields[12])) / 100; // utime + stime, in clock ticks of 1/100 s
+  } catch {
+    return null;
+  }
+}
+
 /** Child process: the app on a loopback port; runs the publish job's handler when asked. */
 async function serve(databaseUrl: string): Promise<void> {
   const { createApp, closeApp } = await import('../../backend/src/app');
@@ -186,18 +201,23 @@ async function serve(databaseUrl: string): Promise<void> {
       const evaluator = msg.mode === 'workers' ? services.checks.bulk : oneThread.bulk;
       const start = performance.now();
       const cpuStart = process.cpuUsage();
+      const mainStart = mainThreadCpuSeconds();
       const outcome = await runRepublish(
         { ds, evaluator, mail: services.mail, audit: services.audit, publicUrl: config.publicUrl },
         { id: randomUUID(), data: msg.data, progress: { setTotal: async () => undefined, advance: async (c) => void (failed += c.failed ?? 0) } },
       );
       const seconds = (performance.now() - start) / 1000;
       const cpu = process.cpuUsage(cpuStart);
+      const mainEnd = mainThreadCpuSeconds();
       delay.disable();
       process.send!({
         type: 'ran', seconds, checked: outcome.checked, changed: outcome.changed, mailed: outcome.mailed, failed,
         threads: msg.mode === 'workers' ? services.checks.bulk.stats().workers : 0, eventLoopDelayP99Ms: delay.percentile(99) / 1e6,
         // CPU time of every thread of the server over the wall time: how many cores it actually got.
         coresUsed: (cpu.user + cpu.system) / 1e6 / seconds,
+        // What the main thread itself spent, the thread that answers requests: whatever the machine's load.
+        mainThreadCpuSeconds: mainStart !== null && mainEnd !== null ? mainEnd - mainStart : null,
+        cpuSeconds: (cpu.user + cpu.system) / 1e6,
       });
     })().catch((err: unknown) => process.send!({ type: 'error', message: err instanceof Error ? err.stack : String(err) }));
   });
@@ -279,10 +299,10 @@ export async function runRepublishBench(options: { sheets?: number; log?: boolea
         const run: RecheckRun = {
           mode, threads: r.threads as number, sheets: r.checked as number, seconds: r.seconds as number, sheetsPerSecond: (r.checked as number) / (r.seconds as number),
           changed: r.changed as number, mailed: r.mailed as number, failed: r.failed as number, eventLoopDelayP99Ms: r.eventLoopDelayP99Ms as number,
-          coresUsed: r.coresUsed as number, health,
+          coresUsed: r.coresUsed as number, cpuSeconds: r.cpuSeconds as number, mainThreadCpuSeconds: r.mainThreadCpuSeconds as number | null, health,
         };
         runs[mode].push(run);
-        log(`${mode === 'workers' ? `worker pool (${run.threads} threads)` : 'one thread'}: ${run.sheets} sheets in ${run.seconds.toFixed(2)} s (${run.sheetsPerSecond.toFixed(0)} sheets/s); ${run.changed} changed, ${run.mailed} mails queued, ${run.failed} failed; health p50 ${health.p50Ms.toFixed(1)} ms, p99 ${health.p99Ms.toFixed(1)} ms, max ${health.maxMs.toFixed(1)} ms over ${health.probes} probes; server event-loop delay p99 ${run.eventLoopDelayP99Ms.toFixed(1)} ms; the server used ${run.coresUsed.toFixed(2)} cores on average`);
+        log(`${mode === 'workers' ? `worker pool (${run.threads} threads)` : 'one thread'}: ${run.sheets} sheets in ${run.seconds.toFixed(2)} s (${run.sheetsPerSecond.toFixed(0)} sheets/s); ${run.changed} changed, ${run.mailed} mails queued, ${run.failed} failed; health p50 ${health.p50Ms.toFixed(1)} ms, p99 ${health.p99Ms.toFixed(1)} ms, max ${health.maxMs.toFixed(1)} ms over ${health.probes} probes; server event-loop delay p99 ${run.eventLoopDelayP99Ms.toFixed(1)} ms; the server used ${run.coresUsed.toFixed(2)} cores on average, ${run.cpuSeconds.toFixed(1)} s of CPU, ${run.mainThreadCpuSeconds === null ? '?' : run.mainThreadCpuSeconds.toFixed(1)} s of it on the main thread`);
       }
     }
     // The best time of each kind; the health figures over all runs of that kind.
