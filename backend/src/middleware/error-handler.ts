@@ -1,7 +1,7 @@
 // The one error handler: every error becomes `{ error: { code, message, details } }`. 5xx errors
 // are logged with their stack; the client never sees one.
 import type { ErrorRequestHandler, RequestHandler } from 'express';
-import { errorBody, NotFoundError, toAppError } from '../errors';
+import { errorBody, NotFoundError, RateLimitedError, toAppError } from '../errors';
 import { errorFields, type Logger } from '../logger';
 
 export function createErrorHandler(logger: Logger): ErrorRequestHandler {
@@ -14,6 +14,7 @@ export function createErrorHandler(logger: Logger): ErrorRequestHandler {
       else logger.error(appError.code, fields);
     }
     if (res.headersSent) return next(err);
+    if (appError instanceof RateLimitedError && appError.retryAfterSeconds) res.setHeader('Retry-After', String(appError.retryAfterSeconds));
     res.status(appError.status).json(errorBody(appError));
   };
 }

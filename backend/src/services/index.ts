@@ -2,6 +2,7 @@
 import type { DataSource } from 'typeorm';
 import { createAccountService, type AccountService } from './accounts.service';
 import { createMemberService, type MemberService } from './members.service';
+import { createPasswordResetService, type PasswordResetService } from './password-resets.service';
 import { createCheckService, type CheckService } from './checks.service';
 import { createRulesetService, type RulesetService } from './rulesets.service';
 import { createAuditService, type AuditService } from './audit.service';
@@ -26,6 +27,7 @@ import { createFabricationSettingsService } from './fabrication-settings.service
 export interface Services {
   accounts: AccountService;
   members: MemberService;
+  passwordResets: PasswordResetService;
   rulesets: RulesetService;
   checks: CheckService;
   audit: AuditService;
@@ -68,6 +70,7 @@ export function createServices(
   return {
     accounts: createAccountService(ds),
     members,
+    passwordResets: createPasswordResetService(ds, { mail, publicUrl: options.publicUrl }),
     rulesets,
     checks,
     audit,
