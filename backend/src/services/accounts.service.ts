@@ -57,11 +57,14 @@ export function createAccountService(ds: DataSource) {
     /**
      * Keeps the session rows bounded: after a sign-in, the user's sessions beyond the newest
      * `maxSessionsPerUser` (by last use) end. `currentSessionId` is the new one, not stored yet.
+     * `expire` moves with every use but only to the second; the cookie's expiry in `sess` (milliseconds,
+     * rewritten at each save) breaks the ties.
      */
     async endOldestSessions(userId: string, currentSessionId: string, max = maxSessionsPerUser): Promise<void> {
       await ds.query(
         `DELETE FROM "session" WHERE sid IN (
-           SELECT sid FROM "session" WHERE sess->'passport'->>'user' = $1 AND sid <> $2 ORDER BY expire DESC OFFSET $3)`,
+           SELECT sid FROM "session" WHERE sess->'passport'->>'user' = $1 AND sid <> $2
+           ORDER BY expire DESC, sess->'cookie'->>'expires' DESC OFFSET $3)`,
         [userId, currentSessionId, Math.max(0, max - 1)],
       );
     },
