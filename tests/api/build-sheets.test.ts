@@ -139,6 +139,16 @@ describe('plausible ranges on write (issue 9 §1)', () => {
     ]);
   });
 
+  it('refuses a cage approved in the future and a side on a member that spans the car, at their paths (issue 9 "Bad input")', async () => {
+    const spec = saloonSpec() as Record<string, unknown> & { members: Record<string, unknown>[] };
+    spec.cage = { approvedOn: '2999-01-01' };
+    spec.members[0]!.side = 'left'; // the main hoop
+    spec.members[6]!.side = 'right'; // a door bar may have one
+    const res = await who.builder.agent.post(`/api/cars/${carId}/build-sheets`).set('X-CSRF-Token', who.builder.token)
+      .send({ name: 'Future', clubId: fx.clubId, rulesetVersionId: fx.versionId, classId: 'club-saloon', specification: spec }).expect(400);
+    expect(res.body.error.details.map((d: { path: string }) => d.path).sort()).toEqual(['specification.cage.approvedOn', 'specification.members.0.side']);
+  });
+
   it('still checks a revision stored before its value was judged implausible: ranges apply to writes only', async () => {
     const { sheetId: oldSheet } = await carWithSheet(who.builder, fx);
     const latest = await db.ds.query('SELECT id, specification FROM build_sheet_revisions WHERE build_sheet_id = $1 AND number = 1', [oldSheet]);

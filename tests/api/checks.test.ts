@@ -247,6 +247,27 @@ describe('POST /api/checks: a dry run', () => {
     }
   });
 
+  it('refuses values outside their fields\' plausible ranges, as a sheet write does (issue 9 §1), and stores nothing', async () => {
+    const spec = validSpecs['club-saloon']!();
+    // "2,800 lb" read as 2.8 lb: 1.27 kg (F-UNIT-1, 1 lb = 0.45359237 kg), and a wall typed as an OD.
+    (spec.vehicle as Json).weightWithDriverKg = 2.8 * LB;
+    (spec.members as Json[])[2]!.wallMm = 12;
+    const res = await post({ agent: builder, token: builderToken }, dryRunBody('club-saloon', spec)).expect(400);
+    expect(res.body.error).toEqual({
+      code: 'validation_failed',
+      message: 'Some fields are invalid.',
+      details: [
+        { path: 'specification.vehicle.weightWithDriverKg', message: "A race car's weight is 200 to 5,000 kg (441 to 11,023 lb): check the units." },
+        { path: 'specification.members.2.wallMm', message: "A cage tube's wall is 0.5 to 10 mm (0.02 to 0.394 in): check the units." },
+      ],
+    });
+    // The same car at 2,800 lb is in range and checked.
+    const heavy = validSpecs['club-saloon']!();
+    (heavy.vehicle as Json).weightWithDriverKg = 2800 * LB;
+    expect((await post({ agent: builder, token: builderToken }, dryRunBody('club-saloon', heavy)).expect(200)).body.report.classId).toBe('club-saloon');
+    expect(await db.ds.query('SELECT count(*)::int AS n FROM check_runs')).toEqual([{ n: 0 }]);
+  });
+
   it('writes reason texts in the units asked for, numbers staying canonical', async () => {
     const spec = validSpecs['club-saloon']!();
     (spec.members as Json[])[0]!.wallMm = 0.083 * IN;

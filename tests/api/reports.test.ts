@@ -131,7 +131,7 @@ describe('the PDF report', () => {
     // their stored parts in the reader's metric, sizes included, and a failing one says what to change.
     const flat = text.replace(/\s+/g, ' ');
     expect(flat).toContain('To pass, use');
-    expect(flat).toMatch(/Nearest: 38\.1 × 2\.41 mm/); // 1.500 × 0.095 in (F-UNIT-1, computed)
+    expect(flat).toMatch(/Nearest: mild steel 38\.1 × 2\.41 mm/); // 1.500 × 0.095 in (F-UNIT-1, computed)
     expect(flat).not.toMatch(/\d in (is|\(|;|in )/);
     await who.builder.agent.get(`/api/check-runs/${runId}/report.pdf?units=furlongs`).expect(400);
   });

@@ -9,10 +9,9 @@ import type {
 } from '../contracts/garage';
 import type { Specification } from '../contracts/specification';
 import type { UnitSystem } from '../domain/units';
-import { implausibleValues } from '../domain/field-ranges';
 import { BuildSheet, BuildSheetRevision, Car, Club, Membership, Rulebook, RulesetVersion, User } from '../entities';
 import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors';
-import { parseSpecificationOrThrow } from './checks.service';
+import { parseSpecificationOrThrow, refuseImplausibleValues } from './checks.service';
 import { sheetFor, type SheetAccessResult } from './garage.service';
 import { diffSpecifications } from './garage/revision-diff';
 import { tubeDataFor } from './garage/tube-data';
@@ -48,8 +47,7 @@ function revisionView(r: BuildSheetRevision): RevisionWire {
  */
 export function parseSheetSpecificationForWrite(json: unknown, classId: string): Specification {
   const specification = parseSpecificationOrThrow(json, classId);
-  const problems = implausibleValues(specification);
-  if (problems.length > 0) throw new ValidationError(problems.map((p) => ({ path: `specification.${p.path}`, message: p.message })));
+  refuseImplausibleValues(specification);
   return specification;
 }
 

@@ -9,6 +9,7 @@ import type { CheckRunWire } from '../contracts/checks';
 import type { CheckReport } from '../contracts/report';
 import type { Specification } from '../contracts/specification';
 import type { UnitSystem } from '../domain/units';
+import { implausibleValues } from '../domain/field-ranges';
 import { CheckRun, User, type ClubRole } from '../entities';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import { createInProcessEngine, createWorkerEngine, type CheckEngine } from './check-engine';
@@ -51,6 +52,17 @@ export function parseSpecificationOrThrow(json: unknown, classId: string): Speci
   const outcome = parseCheckSpecification(json, classId);
   if (!outcome.ok) throw new ValidationError(outcome.problems);
   return outcome.specification;
+}
+
+/**
+ * Refuses a specification typed by a person whose values are outside their fields' plausible ranges
+ * (a units slip: "2,800 lb" read as 2.8), each at `specification.<path>`. For writes of typed input
+ * only (a sheet saved, a dry run from the browser); a stored revision is re-checked without it, so a
+ * revision saved before a range existed keeps checking.
+ */
+export function refuseImplausibleValues(specification: unknown): void {
+  const problems = implausibleValues(specification);
+  if (problems.length > 0) throw new ValidationError(problems.map((p) => ({ path: `specification.${p.path}`, message: p.message })));
 }
 
 function runView(run: CheckRun, creator: User | null): CheckRunWire {
@@ -122,8 +134,12 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService, opt
     /** Ends the worker threads (they never keep the process alive, but tests and shutdown tidy up). */
     close: () => engine.close(),
 
-    /** A check whose report is returned and nothing is stored. */
+    /**
+     * A check whose report is returned and nothing is stored. Its specification is typed input (the
+     * sheet being edited), so implausible values are refused as when a sheet is written.
+     */
     async dryRun(input: CheckInput): Promise<CheckReport> {
+      refuseImplausibleValues(input.specification);
       return JSON.parse((await check(input)).reportJson) as CheckReport;
     },
 
@@ -132,6 +148,7 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService, opt
      * report is serialised once, off the event loop.
      */
     async dryRunJson(input: CheckInput): Promise<string> {
+      refuseImplausibleValues(input.specification);
       return (await check(input)).reportJson;
     },
 
