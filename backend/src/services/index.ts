@@ -3,6 +3,7 @@ import type { DataSource } from 'typeorm';
 import { createAccessReader, type AccessReader } from './access';
 import { createAccountService, type AccountService } from './accounts.service';
 import { createMemberService, type MemberService } from './members.service';
+import { createPasswordResetService, type PasswordResetService } from './password-resets.service';
 import { createCheckService, type CheckService } from './checks.service';
 import { createRulesetService, type RulesetService } from './rulesets.service';
 import { createAuditService, type AuditService } from './audit.service';
@@ -29,6 +30,7 @@ export interface Services {
   access: AccessReader;
   accounts: AccountService;
   members: MemberService;
+  passwordResets: PasswordResetService;
   rulesets: RulesetService;
   checks: CheckService;
   audit: AuditService;
@@ -72,6 +74,7 @@ export function createServices(
     access: createAccessReader(ds),
     accounts: createAccountService(ds),
     members,
+    passwordResets: createPasswordResetService(ds, { mail, publicUrl: options.publicUrl }),
     rulesets,
     checks,
     audit,
