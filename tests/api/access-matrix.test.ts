@@ -114,7 +114,8 @@ async function resetToken(): Promise<string> {
   const email = `reset-${++resetCount}@tarnwick.example`;
   await db.ds.query(`INSERT INTO users (email, display_name, password_hash) VALUES ($1, 'Reset person', $2)`, [email, await hashPassword(otherPassword)]);
   const asked = agentFor(app);
-  await asked.post('/api/auth/password-reset').set('X-CSRF-Token', await csrfToken(asked)).send({ email }).expect(202);
+  const token = await csrfToken(asked); // before the request: the agent attaches its cookies when one is made
+  await asked.post('/api/auth/password-reset').set('X-CSRF-Token', token).send({ email }).expect(202);
   const [mail]: { text_body: string }[] = await db.ds.query(`SELECT text_body FROM outbox_messages WHERE to_address = $1`, [email]);
   return /\/reset-password\/([A-Za-z0-9_-]+)/.exec(mail!.text_body)![1]!;
 }

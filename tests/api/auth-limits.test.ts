@@ -6,7 +6,7 @@ import { beforeEach, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { demoPassword } from '../../backend/src/db/seed-data';
 import { emailKey, type LimitOverrides } from '../../backend/src/services/limits';
-import { agentFor, clearLimits, csrfToken, demo, makeTestApp, signIn, testConfig, useTestDatabase } from './helpers';
+import { agentFor, clearLimits, csrfToken, demo, errorBody, makeTestApp, signIn, testConfig, useTestDatabase } from './helpers';
 
 const db = useTestDatabase();
 const rateLimited = { error: { code: 'rate_limited', message: 'Too many attempts. Wait a few minutes and try again.' } };
@@ -34,7 +34,7 @@ describe('sign-in limits', () => {
     for (let i = 0; i < 3; i++) expect((await attempt(app, '198.51.100.7', demo.builder)).status).toBe(401);
     const refused = await attempt(app, '198.51.100.7', demo.builder, demoPassword);
     expect(refused.status).toBe(429);
-    expect(refused.body).toEqual(rateLimited);
+    expect(refused.body).toEqual(errorBody(rateLimited));
     expect(Number(refused.headers['retry-after'])).toBeGreaterThan(0);
     // The same person from their own address gets in; another account from the same IP is not affected.
     expect((await attempt(app, '203.0.113.20', demo.builder, demoPassword)).status).toBe(200);
@@ -46,7 +46,7 @@ describe('sign-in limits', () => {
     for (const email of ['a@x.example', 'b@x.example', 'c@x.example']) expect((await attempt(app, '198.51.100.8', email)).status).toBe(401);
     const refused = await attempt(app, '198.51.100.8', demo.admin, demoPassword);
     expect(refused.status).toBe(429);
-    expect(refused.body).toEqual(rateLimited);
+    expect(refused.body).toEqual(errorBody(rateLimited));
     expect((await attempt(app, '198.51.100.9', demo.admin, demoPassword)).status).toBe(200);
   });
 
@@ -132,7 +132,7 @@ describe('password-change limits', () => {
     for (let i = 0; i < 2; i++) expect((await change(one, oneToken, 'not-the-password')).status).toBe(400);
     const refused = await change(one, oneToken, demoPassword);
     expect(refused.status).toBe(429);
-    expect(refused.body).toEqual(rateLimited);
+    expect(refused.body).toEqual(errorBody(rateLimited));
     // A second session of the same user, from anywhere, is held too.
     const other = agentFor(makeTestApp(db.ds, { limits: { passwordChange: { limit: 2 } } }));
     const otherToken = await signIn(other, demo.builder);

@@ -9,7 +9,7 @@ import { demoPassword } from '../../backend/src/db/seed-data';
 import { passwordMinLength } from '../../backend/src/contracts/auth';
 import { resetAnswerFloorMs, resetRequested } from '../../backend/src/routes/password-reset.routes';
 import type { LimitOverrides } from '../../backend/src/services/limits';
-import { agentFor, clearLimits, csrfToken, demo, makeTestApp, signIn, testConfig, testPublicUrl, useTestDatabase } from './helpers';
+import { agentFor, clearLimits, csrfToken, demo, errorBody, hasErrorBody, makeTestApp, signIn, testConfig, testPublicUrl, useTestDatabase } from './helpers';
 import { clearMailTables } from './mail-helpers';
 
 const db = useTestDatabase();
@@ -117,7 +117,7 @@ describe('asking for a reset', () => {
     for (let i = 0; i < 4; i++) expect((await ask(app, `someone-${i}@tarnwick.example`, '198.51.100.80')).status).toBe(202);
     const refused = await ask(app, demo.admin, '198.51.100.80');
     expect(refused.status).toBe(429);
-    expect(refused.body).toEqual({ error: { code: 'rate_limited', message: 'Too many reset requests from here. Wait a while and try again.' } });
+    expect(refused.body).toEqual(errorBody({ error: { code: 'rate_limited', message: 'Too many reset requests from here. Wait a while and try again.' } }));
     // The limit is in PostgreSQL: another app instance on the database holds it too.
     expect((await ask(appWith({ passwordReset: { perEmail: 2, perIp: 4 } }), demo.admin, '198.51.100.80')).status).toBe(429);
   });
@@ -153,8 +153,8 @@ describe('using the link', () => {
     expect(await signInStatus(app, demo.builder, demoPassword)).toBe(401);
     expect(await signInStatus(app, demo.builder, 'a-brand-new-password')).toBe(200);
 
-    await request(app).get(`/api/auth/password-reset/${token}`).expect(404, deadLink);
-    expect((await setPassword(app, token, 'yet-another-password')).body).toEqual(deadLink);
+    await request(app).get(`/api/auth/password-reset/${token}`).expect(404).expect(hasErrorBody(deadLink));
+    expect((await setPassword(app, token, 'yet-another-password')).body).toEqual(errorBody(deadLink));
     expect(await signInStatus(app, demo.builder, 'a-brand-new-password')).toBe(200);
     // Back to the demo password for the files after this one.
     await ask(app, demo.builder, '198.51.100.31');
@@ -167,7 +167,7 @@ describe('using the link', () => {
     const token = await linkTokenFor(demo.steward);
     // An hour and a second later, as far as the link is concerned.
     await db.ds.query(`UPDATE password_resets SET expires_at = now() - interval '1 second', created_at = now() - interval '3601 seconds'`);
-    await request(app).get(`/api/auth/password-reset/${token}`).expect(404, deadLink);
+    await request(app).get(`/api/auth/password-reset/${token}`).expect(404).expect(hasErrorBody(deadLink));
     expect((await setPassword(app, token, 'a-brand-new-password')).status).toBe(404);
     expect(await signInStatus(app, demo.steward, demoPassword)).toBe(200);
   });
@@ -188,9 +188,9 @@ describe('using the link', () => {
 
   it('gives one 404 for an unknown and a malformed token', async () => {
     const app = appWith();
-    await request(app).get(`/api/auth/password-reset/${'a'.repeat(43)}`).expect(404, deadLink);
-    await request(app).get('/api/auth/password-reset/short').expect(404, deadLink);
-    expect((await setPassword(app, 'x'.repeat(43), 'a-brand-new-password')).body).toEqual(deadLink);
+    await request(app).get(`/api/auth/password-reset/${'a'.repeat(43)}`).expect(404).expect(hasErrorBody(deadLink));
+    await request(app).get('/api/auth/password-reset/short').expect(404).expect(hasErrorBody(deadLink));
+    expect((await setPassword(app, 'x'.repeat(43), 'a-brand-new-password')).body).toEqual(errorBody(deadLink));
   });
 
   it('lets only one of two uses at the same moment win', async () => {
