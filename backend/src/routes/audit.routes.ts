@@ -2,7 +2,7 @@
 import { Router } from 'express';
 import { auditQuerySchema } from '../contracts/audit';
 import { clubParamsSchema } from '../contracts/clubs';
-import { requireClubRole } from '../middleware/guards';
+import { requireClubRole, signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
 import { mountRoutes, route } from './route-table';
 
@@ -14,8 +14,8 @@ export function createAuditRouter({ services }: { services: Services }): Router 
       guards: [requireClubRole(['admin'])],
       params: clubParamsSchema,
       query: auditQuerySchema,
-      handler: async ({ res, params, query }) => {
-        res.json(await services.audit.list(params.clubId, query));
+      handler: async ({ req, res, params, query }) => {
+        res.json(await services.audit.list(params.clubId, signedInUserId(req), query));
       },
     }),
   ]);

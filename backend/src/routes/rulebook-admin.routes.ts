@@ -1,16 +1,19 @@
 // Rulebook administration for club admins (docs/api.md, "Rulebook administration"). Every route
 // needs the admin role in the club that owns the rulebook: strangers get 404, other roles 403.
-// The service checks the club through the version or rulebook id; the guard only demands a session.
+// Creating a rulebook names the club in the path (the guard checks it); the other routes name a version
+// or rulebook, whose club the service checks, so their guard only demands a session.
 import { Router } from 'express';
+import { clubParamsSchema } from '../contracts/clubs';
 import {
   compareParamsSchema,
+  createRulebookBodySchema,
   draftParamsSchema,
   importDraftBodySchema,
   publishBodySchema,
   rulebookParamsSchema,
   saveDraftBodySchema,
 } from '../contracts/rulebook-admin';
-import { requireSignedIn, signedInUserId } from '../middleware/guards';
+import { requireClubRole, requireSignedIn, signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
 import type { RepublishQueue } from '../services/rulebook-admin.service';
 import { mountRoutes, route } from './route-table';
@@ -18,6 +21,16 @@ import { mountRoutes, route } from './route-table';
 export function createRulebookAdminRouter({ services, republishQueue }: { services: Services; republishQueue: RepublishQueue | null }): Router {
   const admin = services.rulebookAdmin;
   return mountRoutes(Router(), [
+    route({
+      method: 'post',
+      path: '/clubs/:clubId/rulebooks',
+      guards: [requireClubRole(['admin'])],
+      params: clubParamsSchema,
+      body: createRulebookBodySchema,
+      handler: async ({ req, res, params, body }) => {
+        res.status(201).json({ version: await admin.createRulebook(params.clubId, signedInUserId(req), body) });
+      },
+    }),
     route({
       method: 'post',
       path: '/rulebooks/:rulebookId/drafts',
