@@ -71,7 +71,9 @@ const resolvedFrom = `
 
 const resolvedColumns = `a.id, a.action, a.entity_type, a.entity_id, a.details, a.created_at,
   u.id AS actor_id, u.email AS actor_email, u.display_name AS actor_name, am.id IS NOT NULL AS actor_member,
-  p.id AS person_id, p.email AS person_email, p.display_name AS person_name, pm.id IS NOT NULL AS person_member,
+  p.id AS person_id, p.email AS person_email,
+  -- Someone invited who has not joined yet has a placeholder name (their e-mail's first part): show the address.
+  CASE WHEN p.password_hash IS NULL THEN p.email ELSE p.display_name END AS person_name, pm.id IS NOT NULL AS person_member,
   c.id AS car_id, c.name AS car_name, c.owner_id AS car_owner_id,
   b.id AS sheet_id, b.name AS sheet_name, b.club_id AS sheet_club_id,
   COALESCE(r.id, ra.id) AS record_id, COALESCE(r.number, ra.number) AS record_number, COALESCE(r.club_id, ra.club_id) AS record_club_id,
@@ -237,7 +239,7 @@ export function createAuditService(ds: DataSource) {
         [clubId],
       );
       const people: AuditFilterOption[] = await ds.query(
-        `SELECT u.id, u.display_name AS name, u.email AS hint FROM users u
+        `SELECT u.id, CASE WHEN u.password_hash IS NULL THEN u.email ELSE u.display_name END AS name, u.email AS hint FROM users u
          WHERE u.id IN (SELECT user_id FROM memberships WHERE club_id = $1)
             OR u.id IN (SELECT actor_id FROM audit_entries WHERE club_id = $1 AND actor_id IS NOT NULL)
             OR u.id::text IN (SELECT entity_id FROM audit_entries WHERE club_id = $1 AND entity_type = 'membership')
