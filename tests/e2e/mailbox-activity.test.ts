@@ -264,7 +264,6 @@ test('an admin reads the log in words: a car’s approval with links, filters, a
 
     // Its tube table gets a size, the explanation quotes it, then the size changes: a warning, not a block.
     const card = page.getByRole('article', { name: /Tube sizes/ });
-    await card.getByRole('button', { name: 'Add a size' }).click();
     await card.getByLabel('Band 1, row 1, size 1: OD (in)').fill('1.5');
     await card.getByLabel('Band 1, row 1, size 1: wall (in)').fill('0.095');
     await card.locator('textarea').fill('Main hoops at least 1.500 × 0.095 in.');

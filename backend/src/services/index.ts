@@ -1,5 +1,6 @@
 // Builds every service from the DataSource and configuration. Services never see req/res.
 import type { DataSource } from 'typeorm';
+import { createAccessReader, type AccessReader } from './access';
 import { createAccountService, type AccountService } from './accounts.service';
 import { createMemberService, type MemberService } from './members.service';
 import { createCheckService, type CheckService } from './checks.service';
@@ -24,6 +25,8 @@ import { createFabricationService, type FabricationService } from './fabrication
 import { createFabricationSettingsService } from './fabrication-settings.service';
 
 export interface Services {
+  /** The access policy's look-ups for the route guards (roles in a club, roles anywhere). */
+  access: AccessReader;
   accounts: AccountService;
   members: MemberService;
   rulesets: RulesetService;
@@ -66,6 +69,7 @@ export function createServices(
   const reports = createReportService(ds, { checks, sheets: buildSheets, photos, fabricationSettings, publicUrl: options.publicUrl });
   const tubeStock = createTubeStockService(ds, { audit });
   return {
+    access: createAccessReader(ds),
     accounts: createAccountService(ds),
     members,
     rulesets,
@@ -73,7 +77,7 @@ export function createServices(
     audit,
     mail,
     mailbox: createMailboxService(ds),
-    jobProgress: createJobProgressReader(createJobProgressStore((text, values) => ds.query(text, values)), members),
+    jobProgress: createJobProgressReader(createJobProgressStore((text, values) => ds.query(text, values)), ds),
     garage: createGarageService(ds),
     buildSheets,
     photos,

@@ -19,11 +19,12 @@ import type {
 } from '../contracts/rulebook-admin';
 import type { RulesetVersionWire } from '../contracts/checks';
 import { validateRulesetDocument } from '../domain/rules/validate';
-import { starterTubeTable } from '../domain/rulebook/starters';
+import { TEMPLATE_KINDS } from '../domain/rules/template-kinds';
 import { describeRulesetChanges, type RulesetChange } from '../domain/rulebook/diff';
 import { startDraftFrom, transitionVersion, type RulebookVersion } from '../domain/rulebook/lifecycle';
-import type { ClubRole, RulesetStatus } from '../entities';
-import { AppError, ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors';
+import type { RulesetStatus } from '../entities';
+import { AppError, ConflictError, NotFoundError, ValidationError } from '../errors';
+import { enforce, rolesIn } from './access';
 import type { AuditService } from './audit.service';
 import type { RulesetService } from './rulesets.service';
 import { affectedClassIds, recheckSheets } from './publish/recheck';
@@ -93,15 +94,12 @@ function refusal(code: string, message: string, problems?: DocumentProblem[]): A
   return new ConflictError(message);
 }
 
+const adminsOnly = 'Only the club’s admins keep its rulebooks.';
+
 export type RulebookAdminService = ReturnType<typeof createRulebookAdminService>;
 
 export function createRulebookAdminService(ds: DataSource, deps: { rulesets: RulesetService; audit: AuditService }) {
   const { rulesets, audit } = deps;
-
-  async function rolesIn(em: EntityManager, clubId: string, userId: string): Promise<ClubRole[] | null> {
-    const rows: { roles: ClubRole[] }[] = await em.query(`SELECT roles FROM memberships WHERE club_id = $1 AND user_id = $2`, [clubId, userId]);
-    return rows[0]?.roles ?? null;
-  }
 
   /** The version (locked for update inside a transaction when asked); 404 for strangers, 403 for non-admins. */
   async function adminVersion(em: EntityManager, versionId: string, userId: string, lock = false): Promise<VersionRow> {
@@ -110,11 +108,9 @@ export function createRulebookAdminService(ds: DataSource, deps: { rulesets: Rul
       [versionId],
     );
     const row = rows[0];
-    const roles = row ? await rolesIn(em, row.clubId, userId) : null;
-    if (!row || !roles || roles.length === 0 || (row.status === 'draft' && !roles.includes('admin'))) {
-      throw new NotFoundError('Ruleset version not found.');
-    }
-    if (!roles.includes('admin')) throw new ForbiddenError('Only the club’s admins keep its rulebooks.');
+    if (!row) throw new NotFoundError('Ruleset version not found.');
+    const roles = await rolesIn(em, userId, row.clubId);
+    enforce('version.admin', { actorId: userId, roles, draft: row.status === 'draft' }, { notFound: 'Ruleset version not found.', forbidden: adminsOnly });
     return row;
   }
 
@@ -165,8 +161,12 @@ export function createRulebookAdminService(ds: DataSource, deps: { rulesets: Rul
     return affectedClassIds(changes, doc.classes.map((c) => c.id));
   }
 
-  /** The starting document of a blank rulebook: one class and a tube table with no sizes yet (it cannot be put in force until sizes are listed). */
+  /**
+   * The starting document of a blank rulebook: one class and the registry's starter tube table, whose
+   * section is empty and whose one size is 0 × 0, so it cannot be put in force until both are filled in.
+   */
   function blankDocument(body: Extract<CreateRulebookBody, { start: 'blank' }>, today: string): Record<string, unknown> {
+    const starter = structuredClone(TEMPLATE_KINDS.tube_table.starter);
     return {
       formatVersion: 1,
       rulebook: { publisher: body.publisher, title: body.title, edition: body.edition, effectiveDate: today },
@@ -175,7 +175,7 @@ export function createRulebookAdminService(ds: DataSource, deps: { rulesets: Rul
       acceptPrintedEquivalents: false,
       printedEquivalents: [],
       classes: [{ id: 'class-1', name: 'First class', weightBasis: 'with_driver' }],
-      requirements: [starterTubeTable()],
+      requirements: [{ id: 'tubes-1', title: starter.label, section: '', severity: 'mandatory', area: starter.area, scope: starter.scope, requires: starter.requires, explanation: '' }],
     };
   }
 
@@ -239,9 +239,8 @@ export function createRulebookAdminService(ds: DataSource, deps: { rulesets: Rul
       const id = await ds.transaction(async (tx) => {
         const books: { clubId: string }[] = await tx.query(`SELECT club_id AS "clubId" FROM rulebooks WHERE id = $1 FOR UPDATE`, [rulebookId]);
         const book = books[0];
-        const roles = book ? await rolesIn(tx, book.clubId, userId) : null;
-        if (!book || !roles || roles.length === 0) throw new NotFoundError('Rulebook not found.');
-        if (!roles.includes('admin')) throw new ForbiddenError('Only the club’s admins keep its rulebooks.');
+        if (!book) throw new NotFoundError('Rulebook not found.');
+        enforce('rulebook.admin', { actorId: userId, roles: await rolesIn(tx, userId, book.clubId) }, { notFound: 'Rulebook not found.', forbidden: adminsOnly });
         const siblings = await siblingsOf(tx, rulebookId);
         const latest = [...siblings].filter((s) => s.status !== 'draft').sort((a, b) => b.versionNumber - a.versionNumber)[0] ?? siblings[siblings.length - 1];
         if (!latest) throw new ConflictError('This rulebook has no version to start from; import a document into a new rulebook instead.');
