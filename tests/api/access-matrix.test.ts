@@ -148,6 +148,7 @@ const FIXTURES: Record<string, Fixture> = {
   'DELETE /api/clubs/:clubId/members/:userId': { ok: 204, req: () => ({ params: { userId: ids.leavingMember! } }) },
   'GET /api/clubs/:clubId/rulebooks': {},
   'GET /api/ruleset-versions/:versionId': { req: () => ({ params: { versionId: fx.versionId } }) },
+  'POST /api/clubs/:clubId/rulebooks': { ok: 201, req: () => ({ body: { start: 'blank', title: `Matrix rulebook ${++invitationCount}`, publisher: 'Tarnwick Vale Motor Club', edition: '2028', unitSystem: 'imperial' } }) },
   'POST /api/rulebooks/:rulebookId/drafts': { ok: 201, req: () => ({ params: { rulebookId: ids.draftlessRulebook! } }) },
   'PUT /api/ruleset-drafts/:versionId': { variant: 'draft', req: async () => ({ params: { versionId: ids.draft! }, body: { lockVersion: await draftLock(ids.draft!), document: ids.draftDocument ? JSON.parse(ids.draftDocument) : {} } }) },
   'POST /api/ruleset-drafts/:versionId/import': { variant: 'draft', req: async () => ({ params: { versionId: ids.draft! }, body: { lockVersion: await draftLock(ids.draft!), text: ids.draftDocument } }) },

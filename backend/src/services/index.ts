@@ -59,13 +59,13 @@ export function createServices(
 ): Services {
   const rulesets = createRulesetService(ds);
   const audit = createAuditService(ds);
-  const members = createMemberService(ds, { publicUrl: options.publicUrl, audit });
+  const mail = createMailService(ds);
+  const members = createMemberService(ds, { publicUrl: options.publicUrl, audit, mail });
   const checks = createCheckService(ds, rulesets);
   const buildSheets = createBuildSheetService(ds);
   // Sheet photos and journal photos share one store (their keys differ: sheets/… and journal/…).
   const photoStorage = options.photoStorage ?? new LocalDiskPhotoStorage(options.uploadDir ?? '.data/uploads');
   const photos = createPhotoService(ds, photoStorage);
-  const mail = createMailService(ds);
   const cageRecords = createCageRecordService(ds, { mail, audit, publicUrl: options.publicUrl });
   const fabricationSettings = createFabricationSettingsService(ds);
   const reports = createReportService(ds, { checks, sheets: buildSheets, photos, fabricationSettings, publicUrl: options.publicUrl });
