@@ -5,7 +5,7 @@
 // outbox dispatcher when SMTP_URL is known, and the pg-boss job workers.
 // Under `npm start` with SERVER_PROCESSES above 1 this file runs once per process as a node:cluster
 // worker (supervisor.ts): only the first process runs the fake SMTP server (one port), the others send
-// to it; everything else runs in each process and is safe to (docs/decisions/0011-more-than-one-server.md).
+// to it; everything else runs in each process and is safe to (docs/decisions/0012-more-than-one-server.md).
 import cluster from 'node:cluster';
 import { createServer } from 'node:http';
 import type { DataSource } from 'typeorm';

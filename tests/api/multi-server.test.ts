@@ -114,11 +114,9 @@ describe('two server processes against one database', () => {
     expect((await builder.call(a.baseUrl, 'GET', '/api/auth/me')).status).toBe(401);
   });
 
-  // Sign-in limits still live in each process's memory (express-rate-limit's memory store): reached on A,
-  // they do not hold on B, so this assertion fails today and the test is marked as failing. Issue 12 §4
-  // moves the limits into PostgreSQL; once that is merged, this test starts to fail as "expected to fail"
-  // and `it.fails` becomes `it`.
-  it.fails('share limits: failed sign-ins refused on one are refused on the other', async () => {
+  // Limits are counted in PostgreSQL (decision 0010): failures for an e-mail from one address, refused
+  // through A once there are too many, are refused through B as well.
+  it('share limits: failed sign-ins refused on one are refused on the other', async () => {
     const guesser = new Browser();
     let refusedAfter = 0;
     for (let i = 1; i <= 40; i++) {

@@ -12,7 +12,7 @@
 // The check service keeps two pools: interactive checks in one (cores − 1 workers, bounded), bulk
 // re-checks in their own (one worker per core, started on demand and ended when idle), so a publish
 // or impact re-check never makes a builder's check wait for a place (`checks_busy`).
-// docs/decisions/0005-checks-in-worker-threads.md and 0012-bulk-re-checks-in-their-own-workers.md
+// docs/decisions/0005-checks-in-worker-threads.md and 0013-bulk-re-checks-in-their-own-workers.md
 // have the measurements behind the choices.
 import { createRequire } from 'node:module';
 import { availableParallelism } from 'node:os';
