@@ -48,6 +48,10 @@ describe('a new build sheet', () => {
       [44.45, ['mh', 'fh', 'rb-l', 'rb-r'], 3350 + 3900 + 1150 + 1150, []],
       [38.1, ['hb', 'db-l', 'db-r', 'dg'], 1180 + 1020 + 1020, ['dg']],
     ]);
+    // What a person reads: the builder's names (no labels here, so the kind's words, numbered when repeated), never ids.
+    expect(tubeData.cutList[1].memberNames).toEqual(['harness bar', 'door bar 1', 'door bar 2', 'diagonal']);
+    expect(tubeData.namesWithoutLength).toEqual(['diagonal']);
+    expect(tubeData.members.find((m: { memberId: string }) => m.memberId === 'rb-r').name).toBe('rear brace (backstay) 2');
     expect(tubeData.massComplete).toBe(false);
   });
 
@@ -55,7 +59,7 @@ describe('a new build sheet', () => {
     const res = await who.builder.agent.post(`/api/cars/${carId}/build-sheets`).set('X-CSRF-Token', who.builder.token)
       .send({ name: 'Roll bar only', clubId: fx.clubId, rulesetVersionId: fx.versionId, classId: 'open-sprint' }).expect(201);
     expect(res.body.revision.specification).toEqual({ vehicle: { classId: 'open-sprint', chassis: 'unibody' }, members: [] });
-    expect(res.body.tubeData).toEqual({ members: [], cutList: [], estimatedTubeMassKg: 0, massComplete: true, membersWithoutLength: [] });
+    expect(res.body.tubeData).toEqual({ members: [], cutList: [], estimatedTubeMassKg: 0, massComplete: true, membersWithoutLength: [], namesWithoutLength: [] });
   });
 
   it('refuses an unknown class, another club’s version, a club the builder is not in, and a bad specification', async () => {
