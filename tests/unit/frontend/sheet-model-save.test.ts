@@ -66,7 +66,8 @@ test('a cage made from a starting shape, a node moved and a member mirrored are 
   mock.on('GET', sheetPath, json(200, detail(1)));
   mock.on('PUT', `${sheetPath}/specification`, (call) => json(200, detail(2, (call.body as { specification: Specification }).specification)));
   await openSheet();
-  await click('Start from a shape');
+  // A new sheet offers the starting shapes where its drawing will be.
+  await vi.waitFor(() => expect(document.querySelector('[aria-labelledby="drawing-empty-heading"] form')).not.toBeNull(), { timeout: 15_000 });
   const form = document.querySelector<HTMLFormElement>('form[aria-labelledby="start-heading"]')!;
   (form.querySelectorAll('select')[0] as HTMLSelectElement).value = 'none'; // nothing in front
   form.querySelectorAll('select')[0]!.dispatchEvent(new Event('change'));
@@ -80,7 +81,7 @@ test('a cage made from a starting shape, a node moved and a member mirrored are 
   await type(byLabel('Backstays land this far behind the hoop'), '900');
   form.dispatchEvent(new Event('submit'));
   // The sizes come from the rulebook compiled in the engine's lazy chunk: wait for the cage.
-  await vi.waitFor(() => expect(document.querySelectorAll('[data-node-id]').length).toBeGreaterThan(6), { timeout: 5000 });
+  await vi.waitFor(() => expect(document.querySelectorAll('[data-node-id]').length).toBeGreaterThan(6), { timeout: 15_000 });
   await settle();
 
   // Move the left backstay's landing 50 mm further back in the node table.

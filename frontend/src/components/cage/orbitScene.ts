@@ -141,12 +141,13 @@ export function buildOrbitScene(drawing: CageDrawing, selectedId: string | null)
   scene.add(grid);
   disposables.push(grid.geometry, grid.material as THREE.Material);
   // Which way is forward (+x), since a cage seen from above its middle reads either way round.
-  const front = new THREE.ArrowHelper(new THREE.Vector3(1, 0, 0), new THREE.Vector3(box.isEmpty() ? 0 : box.max.x + 150, 0, 2), 500, '#1d2327', 120, 70);
+  const ahead = box.isEmpty() ? 0 : box.max.x + 200;
+  const front = new THREE.ArrowHelper(new THREE.Vector3(1, 0, 0), new THREE.Vector3(ahead, 0, 2), 700, '#1d2327', 200, 120);
   scene.add(front);
   disposables.push(front.line.geometry, front.line.material as THREE.Material, front.cone.geometry, front.cone.material as THREE.Material);
   const label = frontLabel();
-  label.position.set((box.isEmpty() ? 0 : box.max.x + 150) + 650, 0, 80);
-  label.scale.set(320, 80, 1);
+  label.position.set(ahead + 1050, 0, 120);
+  label.scale.set(640, 160, 1);
   scene.add(label);
   disposables.push(label.material.map!, label.material);
   const centre = box.isEmpty() ? new THREE.Vector3(0, 0, 600) : box.getCenter(new THREE.Vector3());

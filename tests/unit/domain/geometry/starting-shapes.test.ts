@@ -98,6 +98,11 @@ describe('mirrorMember', () => {
     expect(foot).toEqual({ ...orig, id: 'bs-foot-r', label: 'backstay foot right', yMm: -orig.yMm });
     expect(r.nodes).toHaveLength(nodes.length + 1);
   });
+  test('mirroring a member whose twin is already there is refused, naming the twin', () => {
+    const shape = generate({ harnessBar: false, front: 'none', doorBars: 'none', diagonal: 'none' });
+    const left = shape.members.find((m) => m.id === 'backstay-l')!;
+    expect(mirrorMember(shape.nodes, shape.members, left)).toEqual({ ok: false, message: 'backstay right is already on the other side, on the mirrored nodes.' });
+  });
   test('a hoop is its own mirror image', () => {
     const shape = generate(full);
     const r = mirrorMember(shape.nodes, shape.members, shape.members[0]);
