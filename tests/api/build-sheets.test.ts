@@ -6,6 +6,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { makeTestApp, useTestDatabase } from './helpers';
 import { carWithSheet, everyone, garageFixture, saloonSpec, type GarageFixture } from './garage-fixtures';
+import { cageSpec } from '../fixtures/cage-model';
 
 const db = useTestDatabase();
 const notFound = { error: { code: 'not_found', message: 'Build sheet not found.' } };
@@ -115,6 +116,38 @@ describe('saving revisions', () => {
     const bad = await save({ baseRevision: 'three', classId: '' }).expect(400);
     expect(bad.body.error.details.map((d: { path: string }) => d.path).sort()).toEqual(['baseRevision', 'classId', 'rulesetVersionId', 'specification']);
     expect((await who.builder.agent.get(`/api/build-sheets/${sheetId}`)).body.buildSheet.currentRevision).toBe(3);
+  });
+});
+
+describe('a cage model on the sheet (issue 10, "Bad input")', () => {
+  const modelled = () => {
+    const c = cageSpec();
+    return { vehicle: { ...c.vehicle, classId: 'club-saloon', weightWithDriverKg: 1100 }, model: c.model, members: c.members.map((m) => ({ ...m, material: 'mild_steel' })) };
+  };
+  it('keeps the model and the paths it saved, and refuses each bad model input at its path without losing them', async () => {
+    const { sheetId: own } = await carWithSheet(who.builder, fx);
+    const ok = await save({ baseRevision: 1, rulesetVersionId: fx.versionId, classId: 'club-saloon', specification: modelled() }, own).expect(200);
+    expect(ok.body.revision.specification.model).toEqual(modelled().model);
+    expect(ok.body.revision.specification.members.map((m: { path: unknown }) => m.path)).toEqual(modelled().members.map((m) => m.path));
+
+    const bad = modelled();
+    bad.members[1]!.path = [{ nodeId: 'jl' }, { nodeId: 'nowhere' }]; // a node that does not exist
+    bad.members[2]!.path = [{ nodeId: 'jr' }]; // fewer than two nodes
+    bad.model.nodes.push({ id: 'hl-again', role: 'junction', xMm: 0, yMm: 600, zMm: 800 });
+    bad.members[3]!.path = [{ nodeId: 'hl' }, { nodeId: 'hl-again' }]; // a zero-length segment
+    bad.members[0]!.path[3] = { nodeId: 'tl', clrMm: 4000 }; // tangents overlap
+    bad.model.nodes[8]!.xMm = -9000; // more than 5 m from the origin
+    bad.model.nodes.push({ id: 'fl', role: 'foot', xMm: 10, yMm: 10, zMm: 0 }); // an id used twice
+    const res = await save({ baseRevision: 2, rulesetVersionId: fx.versionId, classId: 'club-saloon', specification: bad }, own).expect(400);
+    expect(res.body.error.details.map((d: { path: string }) => d.path)).toEqual(expect.arrayContaining([
+      'specification.members.1.path.1.nodeId', 'specification.members.2.path', 'specification.members.3.path.1.nodeId',
+      'specification.members.0.path.3.clrMm', 'specification.model.nodes.8.xMm', `specification.model.nodes.${bad.model.nodes.length - 1}.id`,
+    ]));
+    const now = await who.builder.agent.get(`/api/build-sheets/${own}`).expect(200);
+    expect(now.body.revision.number).toBe(2);
+    expect(now.body.revision.specification.model).toEqual(modelled().model);
+    // A member with a path names the model's developed length as its length.
+    expect(now.body.tubeData.members.find((m: { memberId: string }) => m.memberId === 'bsl').lengthMm).toBeGreaterThan(0);
   });
 });
 

@@ -85,6 +85,8 @@ export async function runFrameBench(options: { edits?: number; log?: boolean } =
       const time = (selector: string, text: string) =>
         page.evaluate(async ({ selector, text }) => {
           const input = document.querySelector<HTMLInputElement>(selector)!;
+          const view = document.querySelector('[data-view="side"]')!;
+          const before = view.innerHTML;
           const t0 = performance.now();
           input.value = text;
           input.dispatchEvent(new Event('input', { bubbles: true }));
@@ -93,7 +95,8 @@ export async function runFrameBench(options: { edits?: number; log?: boolean } =
           void document.documentElement.offsetHeight; // the layout the update needs
           const work = performance.now() - t0;
           await new Promise((r) => requestAnimationFrame(() => r(null)));
-          return { work, script, frame: performance.now() - t0 };
+          const frame = performance.now() - t0;
+          return { work, script, frame, redrawn: view.innerHTML !== before };
         }, { selector, text });
 
       const node = `#in-model-nodes-${index}-zMm`;
@@ -113,6 +116,9 @@ export async function runFrameBench(options: { edits?: number; log?: boolean } =
         // 1 mm up and back, typed in the builder's units (a node of the bench cage stays a valid tube).
         const r = await time(node, (start + (i % 2 ? 0 : 1 / 25.4)).toFixed(4));
         const b = await time(label, same);
+        // An honest bench: the edit must have redrawn the view, and the unchanged input must not.
+        if (!r.redrawn) throw new Error('moving the node did not redraw the side view');
+        if (b.redrawn) throw new Error('an unchanged input redrew the side view');
         if (i < 5) continue; // warm-up: the JIT and the first layouts settle first
         editTimes.push(r.work);
         frames.push(r.frame);

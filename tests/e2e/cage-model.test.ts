@@ -135,6 +135,16 @@ test('a builder starts a cage from a shape, fixes the failing backstay, and the 
     const tube = page.locator('[data-view="side"] g[data-verdict="fail"] path').first();
     await tube.hover({ force: true });
     await expect.poll(() => page.locator('[data-test="cage-about"]').innerText()).toMatch(/Backstay (left|right).*Fails a rule.*H3\.1\.1/i);
+    // Clicking it opens its row and shows its findings; a failing finding can show its member in the drawing.
+    await tube.click({ force: true });
+    await expect.poll(() => page.locator('[data-test="findings-member"]').innerText()).toContain(failing);
+    expect(await page.getByRole('listitem', { name: new RegExp(`^${failing}$`, 'i') }).evaluate((li) => li.classList.contains('cw-sheet-row--picked'))).toBe(true);
+    await page.locator('[data-test="findings-member"]').getByRole('button', { name: 'show every member' }).click();
+    const show = angleFinding.locator('.finding__show');
+    await show.click();
+    await expect.poll(() => show.getAttribute('aria-pressed')).toBe('true');
+    expect(await show.innerText()).toContain('Shown in the drawing');
+    await show.click();
 
     // Fix it in the node table: both backstay feet 30 in behind the hoop instead (x −14 → −30 in).
     await page.locator('summary', { hasText: 'Cage model' }).first().evaluate((s) => ((s.parentElement as HTMLDetailsElement).open = true));
@@ -214,6 +224,8 @@ test('a builder starts a cage from a shape, fixes the failing backstay, and the 
     let inked = 0;
     for (let i = 0; i < png.length; i += pngInfo.channels) if (png[i]! < 200) inked++;
     expect(inked / (pngInfo.width * pngInfo.height), 'the cage page carries drawings, not only words').toBeGreaterThan(0.02);
+
+    expect(missing, 'no page of the journey asked for something that is not there').toEqual([]);
 
     // Submit for review, with a note.
     await page.locator('#submit-note').fill('Backstays moved back to 30 in; please look at the drawing.');

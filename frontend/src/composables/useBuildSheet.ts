@@ -36,8 +36,11 @@ export function useBuildSheet(sheetId: Ref<string>, units: Ref<UnitSystem>) {
   // drawing) then reads the plain object underneath, not each value through Vue's proxies again.
   const edits = ref(0);
   watch(draft, () => (edits.value += 1), { deep: true });
-  /** The draft as a plain object, re-read after each edit (read-only: edit through `draft`). */
-  const plainDraft = computed(() => (edits.value, toRaw(draft.value)));
+  /**
+   * The draft as a plain object, a new one after each edit so readers recompute (a shallow copy of
+   * the raw object under the proxy; read-only: edit through `draft`).
+   */
+  const plainDraft = computed<SheetDraft>(() => (edits.value, { ...toRaw(draft.value) }));
   const dirty = computed(() => JSON.stringify({ d: plainDraft.value, c: classId.value }) !== savedSnapshot.value);
   const canEdit = computed(() => detail.value?.access === 'owner' && !detail.value.buildSheet.archivedAt);
 
