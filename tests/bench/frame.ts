@@ -6,7 +6,8 @@
 // clock. Printed beside the same measurement for an input that changes nothing (the bare cost of
 // an input event and a layout), taken in the same run, as a ratio. Paint and raster happen off the
 // main thread and are left out; the time to the next animation frame is reported too.
-// FRAME_PROFILE=1 also prints the page's busiest functions during the edits (a CPU profile through CDP).
+// FRAME_PROFILE=1 also prints the page's busiest functions during the edits (a CPU profile through CDP),
+// FRAME_TRACE=1 the browser's own phases per edit (style, layout, paint, hit testing: a CDP trace).
 // Run alone: `npx tsx --tsconfig tsconfig.json tests/bench/frame.ts` (needs the test cluster's port).
 import { once } from 'node:events';
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';
@@ -100,6 +101,8 @@ export async function runFrameBench(options: { edits?: number; log?: boolean } =
         }, { selector, text });
 
       const node = `#in-model-nodes-${index}-zMm`;
+      // As a builder does: click into the field, then type; the pointer stays where it clicked.
+      await page.locator(node).click();
       const start = Number(await page.locator(node).inputValue());
       const label = '#in-members-0-label';
       const same = await page.locator(label).inputValue();
@@ -107,6 +110,12 @@ export async function runFrameBench(options: { edits?: number; log?: boolean } =
       if (cdp) {
         await cdp.send('Profiler.enable');
         await cdp.send('Profiler.start');
+      }
+      const trace: { name: string; dur?: number; ph: string }[] = [];
+      const tracer = process.env.FRAME_TRACE ? await context.newCDPSession(page) : null;
+      if (tracer) {
+        tracer.on('Tracing.dataCollected', (e) => trace.push(...(e.value as unknown as typeof trace)));
+        await tracer.send('Tracing.start', { categories: 'devtools.timeline,blink', transferMode: 'ReportEvents' });
       }
       const editTimes: number[] = [];
       const frames: number[] = [];
@@ -135,6 +144,14 @@ export async function runFrameBench(options: { edits?: number; log?: boolean } =
           self.set(key, (self.get(key) ?? 0) + (profile.timeDeltas[i] ?? 0) / 1000);
         });
         console.log([...self.entries()].sort((a, b) => b[1] - a[1]).slice(0, 40).map(([k, v]) => `${v.toFixed(1)} ms  ${k}`).join('\n'));
+      }
+      if (tracer) {
+        const done = new Promise((r) => tracer.once('Tracing.tracingComplete', r));
+        await tracer.send('Tracing.end');
+        await done;
+        const by = new Map<string, number>();
+        for (const e of trace) if (e.ph === 'X' && e.dur) by.set(e.name, (by.get(e.name) ?? 0) + e.dur / 1000);
+        console.log([...by.entries()].sort((a, b) => b[1] - a[1]).slice(0, 25).map(([k, v]) => `${(v / (edits + 5)).toFixed(2)} ms/edit  ${k}`).join('\n'));
       }
       const editMs = median(editTimes);
       const baselineMs = Math.max(median(bare), 0.01);

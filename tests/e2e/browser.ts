@@ -54,11 +54,20 @@ export async function openBrowser(viewport = { width: 1280, height: 800 }, extra
   };
 }
 
-/** Saves a full-page PNG as .artifacts/screens/<name>.png and returns its path. */
+/**
+ * Saves a full-page PNG as .artifacts/screens/<name>.png and returns its path. Parts the browser
+ * skips drawing until they are scrolled to (content-visibility: auto on long lists) are drawn for
+ * the shot, as a person scrolling down would see them.
+ */
 export async function screenshot(page: Page, name: string): Promise<string> {
   mkdirSync(screensDir, { recursive: true });
   const path = join(screensDir, `${name}.png`);
-  await page.screenshot({ path, fullPage: true });
+  const all = await page.addStyleTag({ content: '* { content-visibility: visible !important; }' });
+  try {
+    await page.screenshot({ path, fullPage: true });
+  } finally {
+    await all.evaluate((el) => (el as Element).remove());
+  }
   return path;
 }
 

@@ -12,7 +12,7 @@ import { cageGeometryMarks } from './cage-marks.js';
 import { projectView, VIEW_NAMES, type DrawnMember, type ViewName } from './projection.js';
 import { memberMarks } from './verdict-marks.js';
 import type { Finding } from '../../contracts/report.js';
-import { cageViewSvg, type SvgMemberInfo } from './view-svg.js';
+import { cageViewParts, viewPartsSvg, type CageViewParts, type SvgMemberInfo } from './view-svg.js';
 
 export interface CageMemberLike {
   id: string;
@@ -83,6 +83,8 @@ export interface CageDrawingInput {
 
 export interface CageDrawing {
   svgs: Record<ViewName, string>;
+  /** The same views as keyed parts, for a screen that redraws only what changed. */
+  views: Record<ViewName, CageViewParts>;
   /** Per drawn member: name, size, verdict and rule (for hover text and lists beside the drawing). */
   members: Map<string, SvgMemberInfo>;
   drawn: DrawnMember[];
@@ -136,9 +138,11 @@ export function drawCage(input: CageDrawingInput): CageDrawing {
   }
   const geometry = cageGeometryMarks(input.spec, drawn, facts, input.units);
   const svgs = {} as Record<ViewName, string>;
+  const views = {} as Record<ViewName, CageViewParts>;
   for (const view of VIEW_NAMES) {
-    svgs[view] = cageViewSvg(projectView(drawn, view), { members, marks: geometry, units: input.units, highlightId: input.highlightId ?? null, labels: input.labels ?? false });
+    views[view] = cageViewParts(projectView(drawn, view), { members, marks: geometry, units: input.units, highlightId: input.highlightId ?? null, labels: input.labels ?? false });
+    svgs[view] = viewPartsSvg(views[view]);
   }
   const modelled = new Map(shapes.map((s) => [s.memberId, { developedLengthMm: s.geometry.developedLengthMm, side: memberSide(s.geometry.points) }]));
-  return { svgs, members, drawn, facts, modelled };
+  return { svgs, views, members, drawn, facts, modelled };
 }
