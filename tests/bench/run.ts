@@ -1,8 +1,9 @@
 // `npm run bench`: the engine bench (tests/bench/engine.ts, checks per second of the pure engine),
-// the cage drawing after an edit (tests/bench/drawing.ts), first-load JavaScript per route from the
-// built front end (tests/bench/bundle.ts), the API bench (tests/bench/api.ts, latency,
-// throughput and responsiveness through HTTP), and the re-check of 10,000 sheets through the worker
-// pool and on one thread, with /api/health probed meanwhile (tests/bench/republish.ts).
+// the cage drawing after an edit (tests/bench/drawing.ts), the browser's frame after a node is moved
+// (tests/bench/frame.ts), first-load JavaScript per route from the built front end
+// (tests/bench/bundle.ts), the API bench (tests/bench/api.ts, latency, throughput and
+// responsiveness through HTTP), and the re-check of 10,000 sheets through the worker pool and on one
+// thread, with /api/health probed meanwhile (tests/bench/republish.ts).
 // Prints one summary and exits non-zero when any target is missed. Numbers depend on the machine
 // and on what else runs on it: see docs/decisions/0005-checks-in-worker-threads.md.
 import { runApiBench, TARGETS } from './api';
@@ -42,6 +43,20 @@ try {
   lines.push({ name: `cage drawing after one edit (${d.members} members: derive, project, three SVG views)`, value: `${d.drawMs.toFixed(2)} ms, ${d.ratio.toFixed(0)}× a bare loop over the nodes (${(d.baselineMs * 1000).toFixed(2)} µs)`, target: `≤ ${MAX_DRAW_MS} ms`, ok: d.drawMs <= MAX_DRAW_MS });
 } catch (err) {
   console.error('drawing bench failed:', err instanceof Error ? err.message : err);
+  failed = true;
+}
+
+try {
+  const { runFrameBench, MAX_FRAME_MS } = await import('./frame');
+  const f = await runFrameBench({ log: true });
+  lines.push({
+    name: `the browser's frame after a node is moved (${f.members} tubes drawn; input event to layout done), median`,
+    value: `${f.editMs.toFixed(1)} ms (script ${f.scriptMs.toFixed(1)} ms), ${f.ratio.toFixed(0)}× an input that changes nothing (${f.baselineMs.toFixed(2)} ms); next frame at ${f.toNextFrameMs.toFixed(1)} ms`,
+    target: `≤ ${MAX_FRAME_MS} ms`,
+    ok: f.editMs <= MAX_FRAME_MS,
+  });
+} catch (err) {
+  console.error('frame bench failed:', err instanceof Error ? err.message : err);
   failed = true;
 }
 
