@@ -114,8 +114,8 @@ describe('two server processes against one database', () => {
     expect((await builder.call(a.baseUrl, 'GET', '/api/auth/me')).status).toBe(401);
   });
 
-  // Sign-in limits are counted in PostgreSQL (decision 0010): the pair of this e-mail and this IP,
-  // refused on A after its failures, is refused on B as well.
+  // Limits are counted in PostgreSQL (decision 0010): failures for an e-mail from one address, refused
+  // through A once there are too many, are refused through B as well.
   it('share limits: failed sign-ins refused on one are refused on the other', async () => {
     const guesser = new Browser();
     let refusedAfter = 0;
