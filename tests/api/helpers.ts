@@ -11,6 +11,7 @@ import { loadConfig, type Config } from '../../backend/src/config';
 import { createDataSource } from '../../backend/src/db/data-source';
 import { seedDemo } from '../../backend/src/db/seed';
 import { demoPassword } from '../../backend/src/db/seed-data';
+import type { S3StorageSettings } from '../../backend/src/services/photos/photo-storage';
 
 export type Agent = ReturnType<typeof request.agent>;
 export const testPublicUrl = 'http://cagewright.test';
@@ -36,8 +37,14 @@ export async function openDataSource(databaseUrl = testDatabaseUrl()): Promise<D
  */
 export async function resetAndSeed(ds: DataSource): Promise<void> {
   await ds.query('TRUNCATE "session", "invitations", "memberships", "users", "clubs" CASCADE');
+  await clearLimits(ds);
   if ((await ds.query(`SELECT to_regclass('pgboss.job') AS t`))[0].t) await ds.query('DELETE FROM pgboss.job');
   await seedDemo(ds);
+}
+
+/** Forgets every limit counter (they live in PostgreSQL and would carry over from an earlier test). */
+export async function clearLimits(ds: DataSource): Promise<void> {
+  await ds.query('DELETE FROM "rate_limits"');
 }
 
 interface TestDb {
@@ -78,7 +85,8 @@ export function makeTestApp(ds: DataSource, options: Partial<CreateAppOptions> =
 export async function csrfToken(agent: Agent): Promise<string> {
   const res = await agent.get('/api/auth/csrf').expect(200);
   const token: unknown = res.body.token;
-  expect(token).toMatch(/^[A-Za-z0-9_-]{43}$/);
+  // A signed-in session's token (43 characters), or an anonymous caller's cookie-bound one (hmac.random).
+  expect(token).toMatch(/^([A-Za-z0-9_-]{43}|[0-9a-f]{64}\.[0-9a-f]{64})$/);
   return token as string;
 }
 
@@ -87,6 +95,25 @@ export async function signIn(agent: Agent, email: string, password = demoPasswor
   const token = await csrfToken(agent);
   await agent.post('/api/auth/login').set('X-CSRF-Token', token).send({ email, password }).expect(200);
   return csrfToken(agent);
+}
+
+const requestIdPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/;
+
+/** An error body as the API sends it: the code, message and details given, and the request's id. */
+export function errorBody(body: { error: object }): { error: object } {
+  return { error: { ...body.error, requestId: expect.stringMatching(requestIdPattern) } };
+}
+
+/** The `error` member of errorBody, for `expect(res.body.error).toEqual(…)`. */
+export function errorOf(error: object): object {
+  return errorBody({ error }).error;
+}
+
+/** errorBody for supertest's `.expect(fn)` (its `.expect(status, body)` compares exactly, so it cannot match "any id"). */
+export function hasErrorBody(body: { error: object }): (res: { body: unknown }) => void {
+  return (res) => {
+    expect(res.body).toEqual(errorBody(body));
+  };
 }
 
 export function agentFor(app: Express): Agent {
@@ -156,4 +183,10 @@ export async function startDbProxy(databaseUrl = testDatabaseUrl()): Promise<DbP
   const url = new URL(databaseUrl);
   url.port = String(port);
   return { port, url: url.toString(), cut, restore: listen, close: cut };
+}
+
+/** Settings for photos in the local S3 fake the global setup started, under a prefix of this test's own. */
+export function fakeS3Settings(prefix = `t-${Math.random().toString(36).slice(2, 10)}/`): S3StorageSettings {
+  const { endpoint, bucket } = inject('fakeS3');
+  return { bucket, region: 'us-east-1', endpoint, forcePathStyle: true, credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' }, prefix };
 }

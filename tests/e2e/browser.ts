@@ -55,11 +55,15 @@ export async function openBrowser(viewport = { width: 1280, height: 800 }, extra
 }
 
 /**
- * Saves a full-page PNG as .artifacts/screens/<name>.png and returns its path. Parts the browser
- * skips drawing until they are scrolled to (content-visibility: auto on long lists) are drawn for
- * the shot, as a person scrolling down would see them.
+ * Saves a full-page PNG as .artifacts/screens/<name>.png and returns its path. Waits (up to 2 s) for
+ * finite animations to end first, so a message that slides in is pictured whole; spinners run forever
+ * and are not waited for. Parts the browser skips drawing until they are scrolled to
+ * (content-visibility: auto on long lists) are drawn for the shot, as a person scrolling down sees them.
  */
 export async function screenshot(page: Page, name: string): Promise<string> {
+  await page
+    .waitForFunction(() => document.getAnimations().every((a) => a.effect?.getTiming().iterations === Infinity), undefined, { timeout: 2000 })
+    .catch(() => undefined);
   mkdirSync(screensDir, { recursive: true });
   const path = join(screensDir, `${name}.png`);
   const all = await page.addStyleTag({ content: '* { content-visibility: visible !important; }' });

@@ -1,7 +1,7 @@
 // Checks: a specification against a ruleset version for one class. A dry run answers with the
 // report and stores nothing; a saved run stores the specification as checked and its report as an
-// immutable record with a verification code. Who may check: a member of the club that owns the
-// version (builder, steward or admin; drafts only its admins). Anyone else gets the same 404 as
+// immutable record with a verification code. Who may check: the access policy's `version.read` — a
+// member of the club that owns the version (drafts only its admins). Anyone else gets the same 404 as
 // for a version that does not exist.
 import { randomBytes } from 'node:crypto';
 import type { DataSource, EntityManager } from 'typeorm';
@@ -9,11 +9,15 @@ import type { CheckRunWire } from '../contracts/checks';
 import type { CheckReport } from '../contracts/report';
 import type { Specification } from '../contracts/specification';
 import type { UnitSystem } from '../domain/units';
-import { CheckRun, User, type ClubRole } from '../entities';
+import { implausibleValues } from '../domain/field-ranges';
+import { CheckRun, User } from '../entities';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
-import { createInProcessEngine, createWorkerEngine, type CheckEngine } from './check-engine';
+import { availableParallelism } from 'node:os';
+import { createInProcessEngine, createWorkerEngine, type CheckEngine, type CheckEngineStats, type VerdictJob } from './check-engine';
+import type { Verdict } from '../contracts/rulebook-admin';
 import { parseCheckSpecification } from './check-input';
-import { canSeeVersion, type RulesetService } from './rulesets.service';
+import { enforce } from './access';
+import { versionFacts, type RulesetService } from './rulesets.service';
 import { CODE_RANDOM_BYTES, codeForLookup, newVerificationCode } from '../domain/review/verification-code';
 
 export interface CheckInput {
@@ -34,9 +38,6 @@ export interface SaveRunInput extends CheckInput {
   manager?: EntityManager;
 }
 
-const checkerRoles: readonly ClubRole[] = ['builder', 'steward', 'admin'];
-const reviewerRoles: readonly ClubRole[] = ['steward', 'admin'];
-
 /**
  * A new check run's code: the same generator and form as a cage record's (27 random Crockford
  * base32 characters and a check character, in groups of four). Runs saved before keep their older
@@ -51,6 +52,17 @@ export function parseSpecificationOrThrow(json: unknown, classId: string): Speci
   const outcome = parseCheckSpecification(json, classId);
   if (!outcome.ok) throw new ValidationError(outcome.problems);
   return outcome.specification;
+}
+
+/**
+ * Refuses a specification typed by a person whose values are outside their fields' plausible ranges
+ * (a units slip: "2,800 lb" read as 2.8), each at `specification.<path>`. For writes of typed input
+ * only (a sheet saved, a dry run from the browser); a stored revision is re-checked without it, so a
+ * revision saved before a range existed keeps checking.
+ */
+export function refuseImplausibleValues(specification: unknown): void {
+  const problems = implausibleValues(specification);
+  if (problems.length > 0) throw new ValidationError(problems.map((p) => ({ path: `specification.${p.path}`, message: p.message })));
 }
 
 function runView(run: CheckRun, creator: User | null): CheckRunWire {
@@ -75,22 +87,50 @@ export interface CheckServiceOptions {
   engine?: 'workers' | 'in-process';
   /** Worker threads for the `workers` engine (default: cores − 1, at least 1). */
   workers?: number;
+  /** Worker threads of the bulk pool (publish and impact re-checks); 0: on the calling thread. Default: one per core. */
+  recheckWorkers?: number;
+  /** Checks in flight in the interactive pool before a check is refused with checks_busy (default 200). */
+  maxInFlight?: number;
 }
 
+/** Bulk re-checks: a stored specification's verdict, in the bulk pool. */
+export interface VerdictEvaluator {
+  verdict(job: VerdictJob): Promise<Verdict>;
+  stats(): CheckEngineStats;
+}
+
+/**
+ * The bulk pool ends its threads after this long without work; the next re-check starts them again. A
+ * fresh thread compiles the engine's code anew (seconds of CPU on a busy machine), so a publish soon
+ * after an impact preview finds them warm.
+ */
+const bulkIdleMs = 5 * 60_000;
+/** Bulk threads yield the CPU to requests and builders' checks (nice 10: about a ninth of a normal share when both want it). */
+const bulkNiceness = 10;
+
 export function createCheckService(ds: DataSource, rulesets: RulesetService, options: CheckServiceOptions = {}) {
+  const inProcess = () => createInProcessEngine((version) => rulesets.loadCompiled(version.id, version), () => rulesets.cacheStats().compiles);
+  const documentFor = (version: VerdictJob['version']) => rulesets.loadDocument(version);
   const engine: CheckEngine =
     options.engine === 'in-process'
-      ? createInProcessEngine((version) => rulesets.loadCompiled(version.id, version), () => rulesets.cacheStats().compiles)
-      : createWorkerEngine({ ...(options.workers ? { size: options.workers } : {}), documentFor: (version) => rulesets.loadDocument(version) });
+      ? inProcess()
+      : createWorkerEngine({ ...(options.workers ? { size: options.workers } : {}), ...(options.maxInFlight ? { maxInFlight: options.maxInFlight } : {}), documentFor });
+  // Bulk work has a pool of its own with no in-flight bound of its own (a re-check sends a page at a
+  // time), so it can use every core without taking the interactive pool's places.
+  const recheckWorkers = options.recheckWorkers ?? availableParallelism();
+  const bulk: CheckEngine =
+    options.engine === 'in-process' || recheckWorkers === 0
+      ? inProcess()
+      : createWorkerEngine({ size: recheckWorkers, maxInFlight: Number.POSITIVE_INFINITY, idleMs: bulkIdleMs, niceness: bulkNiceness, documentFor });
 
   /** Parses, checks access and state, and runs the engine; shared by dry and saved runs. */
   // The specification is parsed where it is evaluated (a worker thread, usually), so the server's
   // event loop does not pay for it twice; the route has already parsed it once for its 400s.
   async function check(input: CheckInput): Promise<{ specification: Specification; reportJson: string }> {
     const access = await rulesets.access(input.rulesetVersionId, input.userId);
-    if (!access || !canSeeVersion(access) || !access.roles!.some((r) => checkerRoles.includes(r))) {
-      throw new NotFoundError('Ruleset version not found.');
-    }
+    if (!access) throw new NotFoundError('Ruleset version not found.');
+    // Every member may check against a version they see (builders, stewards and admins alike).
+    enforce('version.read', versionFacts(access, input.userId), { notFound: 'Ruleset version not found.' });
     if (access.status === 'retired') {
       const currentVersionId = await rulesets.currentVersionOf(access.id);
       throw new ConflictError(
@@ -108,10 +148,9 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService, opt
 
   async function visibleRun(run: CheckRun | null, viewerUserId: string, notFound: string): Promise<CheckRunWire> {
     if (!run) throw new NotFoundError(notFound);
-    if (run.createdById !== viewerUserId) {
-      const access = await rulesets.access(run.rulesetVersionId, viewerUserId);
-      if (!access?.roles?.some((r) => reviewerRoles.includes(r))) throw new NotFoundError(notFound);
-    }
+    // Whoever saved the run needs no roles; spare the query.
+    const roles = run.createdById === viewerUserId ? null : ((await rulesets.access(run.rulesetVersionId, viewerUserId))?.roles ?? null);
+    enforce('checkRun.read', { actorId: viewerUserId, ownerId: run.createdById, roles }, { notFound });
     return runView(run, run.createdBy ?? null);
   }
 
@@ -119,11 +158,20 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService, opt
     /** Which engine runs the checks, how many compilations it made, how busy it is. */
     engineStats: () => engine.stats(),
 
-    /** Ends the worker threads (they never keep the process alive, but tests and shutdown tidy up). */
-    close: () => engine.close(),
+    /** The bulk pool, for the publish and impact re-checks. */
+    bulk: { verdict: (job: VerdictJob) => bulk.verdict(job), stats: () => bulk.stats() } satisfies VerdictEvaluator,
 
-    /** A check whose report is returned and nothing is stored. */
+    /** Ends the worker threads (they never keep the process alive, but tests and shutdown tidy up). */
+    close: async () => {
+      await Promise.all([engine.close(), bulk.close()]);
+    },
+
+    /**
+     * A check whose report is returned and nothing is stored. Its specification is typed input (the
+     * sheet being edited), so implausible values are refused as when a sheet is written.
+     */
     async dryRun(input: CheckInput): Promise<CheckReport> {
+      refuseImplausibleValues(input.specification);
       return JSON.parse((await check(input)).reportJson) as CheckReport;
     },
 
@@ -132,6 +180,7 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService, opt
      * report is serialised once, off the event loop.
      */
     async dryRunJson(input: CheckInput): Promise<string> {
+      refuseImplausibleValues(input.specification);
       return (await check(input)).reportJson;
     },
 

@@ -3,8 +3,10 @@
 // (`attempts`); the running attempt writes `heartbeat_at` every few seconds, and writes of an attempt
 // that has been superseded (a stale heartbeat handed the job to another worker) change nothing. The club is kept with the row so that only that club's
 // admins see it. Works over any `query` function, so the pg-boss pool and the app's DataSource share it.
-import type { JobProgressWire, JobState } from '../../contracts/jobs';
-import { ConflictError, ForbiddenError, NotFoundError } from '../../errors';
+import type { JobProgressWire, JobResultWire, JobState } from '../../contracts/jobs';
+import type { DataSource } from 'typeorm';
+import { ConflictError, NotFoundError } from '../../errors';
+import { enforce, rolesIn } from '../access';
 
 export type SqlQuery = (text: string, values: unknown[]) => Promise<unknown[]>;
 
@@ -28,6 +30,7 @@ interface Row {
   created_at: Date;
   updated_at: Date;
   finished_at: Date | null;
+  result: JobResultWire | null;
 }
 
 function fromRow(r: Row): JobProgress {
@@ -45,6 +48,8 @@ function fromRow(r: Row): JobProgress {
     createdAt: new Date(r.created_at).toISOString(),
     updatedAt: new Date(r.updated_at).toISOString(),
     finishedAt: r.finished_at ? new Date(r.finished_at).toISOString() : null,
+    // Shown once the job has completed (a retried attempt may have left an older one behind).
+    result: r.state === 'completed' ? r.result : null,
   };
 }
 
@@ -109,6 +114,10 @@ export function createJobProgressStore(query: SqlQuery) {
     async requeue(jobId: string): Promise<void> {
       await query(`UPDATE job_progress SET state = 'queued', error = NULL, finished_at = NULL, updated_at = now() WHERE job_id = $1`, [jobId]);
     },
+    /** The attempt's outcome; only while it is still the job's current attempt. */
+    async setResult(jobId: string, attempt: number, result: JobResultWire): Promise<void> {
+      await query(`UPDATE job_progress SET result = $3::jsonb, updated_at = now() WHERE job_id = $1 AND attempts = $2`, [jobId, attempt, JSON.stringify(result)]);
+    },
     async setTotal(jobId: string, total: number): Promise<void> {
       await query(`UPDATE job_progress SET total = $2, updated_at = now() WHERE job_id = $1`, [jobId, total]);
     },
@@ -136,18 +145,16 @@ export function createJobProgressStore(query: SqlQuery) {
 export type JobProgressReader = ReturnType<typeof createJobProgressReader>;
 
 /**
- * Progress as the API shows it: only to admins of the job's club. Not a member (or a job without a club)
- * reads as 404, as for any club thing; a member without the admin role gets 403.
+ * Progress as the API shows it: the access policy's `job.admin`, only to admins of the job's club. Not a
+ * member (or a job without a club) reads as 404, as for any club thing; a member without the admin role
+ * gets 403.
  */
-export function createJobProgressReader(
-  store: Pick<JobProgressStore, 'get'>,
-  members: { rolesInClub(userId: string, clubId: string): Promise<readonly string[] | null> },
-) {
+export function createJobProgressReader(store: Pick<JobProgressStore, 'get'>, ds: DataSource) {
   async function forAdmin(userId: string, jobId: string): Promise<JobProgressWire> {
     const progress = await store.get(jobId);
-    const roles = progress?.clubId ? await members.rolesInClub(userId, progress.clubId) : null;
-    if (!progress || roles === null) throw new NotFoundError('Job not found.');
-    if (!roles.includes('admin')) throw new ForbiddenError();
+    if (!progress) throw new NotFoundError('Job not found.');
+    const roles = progress.clubId ? await rolesIn(ds.manager, userId, progress.clubId) : null;
+    enforce('job.admin', { actorId: userId, roles }, { notFound: 'Job not found.' });
     const { clubId: _clubId, requestedBy: _requestedBy, ...wire } = progress;
     return wire;
   }
