@@ -6,7 +6,7 @@
 // choice); it exists because an engine run per stock size would be far too slow for hundreds of sizes.
 // Pure: canonical units in and out (mm, kg/m).
 import type { Specification, SpecMember } from '../contracts/specification.js';
-import { WALL_METHOD_FACTS, memberFacts, memberTubeData, plateFacts, vehicleFacts } from './facts.js';
+import { WALL_METHOD_FACTS, bendingStrengthNmm, memberFacts, memberTubeData, plateFacts, vehicleFacts } from './facts.js';
 import type { FactSet } from './facts.js';
 import { chooseVariant, peerNamesOf } from './rules/evaluate.js';
 import { peerFacts } from './rules/references.js';
@@ -112,7 +112,8 @@ export function listedSizesForBand(compiled: CompiledRuleset, query: BandQuery):
   for (const { req, variant } of chosen) {
     for (const alt of partsOf(variant).requires.any ?? []) {
       const meta = alt.name ? req.alternatives[alt.name] : undefined;
-      if (!meta) continue;
+      // An equivalent by strength stands for a listed size; it is not a size of its own.
+      if (!meta || meta.source === 'strength_equivalent') continue;
       if (!restrictionFits(meta.materials, query.material) || !restrictionFits(meta.processes, query.process)) continue;
       // A legacy row is a size only for a cage known to be approved before its date.
       if (meta.approvedBefore && !(query.approvedOn !== undefined && query.approvedOn < meta.approvedBefore)) continue;
@@ -143,7 +144,7 @@ export function listedSizesForBand(compiled: CompiledRuleset, query: BandQuery):
  */
 export const TUBE_DEPENDENT_FACTS: ReadonlySet<string> = new Set([
   'member.odMm', 'member.wallMm', 'member.minMeasuredWallMm', 'member.material', 'member.grade', 'member.process', 'member.yieldMpa',
-  'member.massKg', 'member.areaMm2', 'member.secondMomentMm4', 'member.sectionModulusMm3', 'member.radiusOfGyrationMm',
+  'member.massKg', 'member.areaMm2', 'member.secondMomentMm4', 'member.sectionModulusMm3', 'member.bendingStrengthNmm', 'member.radiusOfGyrationMm',
   'member.torsionalConstantMm4', 'member.massPerMetreKg', 'member.odMarginOverTableMinimumMm', 'member.minBendRadiusOverOd',
   'vehicle.anyChromoly', 'vehicle.estimatedTubeMassKg', 'plate.attachedWallMm', 'plate.attachedOdMm',
   'member.minUltrasonicWallMm', 'member.minInspectionHoleWallMm', 'member.minCalliperWallMm',
@@ -322,6 +323,7 @@ function judge(p: Prepared, tube: CandidateTube): RankedCandidate {
   mf['member.areaMm2'] = props.areaMm2;
   mf['member.secondMomentMm4'] = props.secondMomentMm4;
   mf['member.sectionModulusMm3'] = props.sectionModulusMm3;
+  mf['member.bendingStrengthNmm'] = bendingStrengthNmm(tube.yieldMpa ?? grade?.minYieldMpa, props.sectionModulusMm3);
   mf['member.radiusOfGyrationMm'] = props.radiusOfGyrationMm;
   mf['member.torsionalConstantMm4'] = props.torsionalConstantMm4;
   mf['member.massPerMetreKg'] = props.massPerMetreKg;

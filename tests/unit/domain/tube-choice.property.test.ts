@@ -20,6 +20,9 @@ import { compileFile } from './helpers';
 const RULESETS: { compiled: CompiledRuleset; classes: string[] }[] = [
   { compiled: compileFile('tests/fixtures/rulesets/scca-gcr-quoted.json'), classes: ['gcr_2008', 'gcr_pre1994'] },
   { compiled: compileFile('tests/fixtures/rulesets/msuk-ncr-2026.json'), classes: ['new_cage'] },
+  // Equivalence by strength (docs/rulesets.md): accepted by section modulus, and by yield × Z at 350 N/mm² (F-MSUK-1).
+  { compiled: compileFile('tests/fixtures/rulesets/msuk-ncr-2026.json', { strengthEquivalents: { accept: true, measure: 'section_modulus' } }), classes: ['new_cage'] },
+  { compiled: compileFile('tests/fixtures/rulesets/msuk-ncr-2026.json', { strengthEquivalents: { accept: true, measure: 'bending_strength', listedYield: { value: 350 }, minWall: { value: 1.8 } } }), classes: ['new_cage'] },
   { compiled: compileFile('tests/fixtures/rulesets/nhra-quoted.json'), classes: ['roll_cage', 'roll_bar'] },
   { compiled: compileFile('rulesets/tarnwick-vale-mc-cage-regulations-2027.json'), classes: ['open-sprint', 'club-saloon', 'heavy-special'] },
   { compiled: compileFile('rulesets/tarnwick-vale-mc-hillclimb-2027-metric.json'), classes: ['hill-saloon'] },
@@ -61,7 +64,7 @@ const FACTS_A_TUBE_CHANGES = new Set([
   'member.odMm', 'member.wallMm', 'member.minMeasuredWallMm', 'member.material', 'member.grade', 'member.process', 'member.yieldMpa',
   'member.massKg', 'member.areaMm2', 'member.secondMomentMm4', 'member.sectionModulusMm3', 'member.radiusOfGyrationMm',
   'member.torsionalConstantMm4', 'member.massPerMetreKg', 'member.odMarginOverTableMinimumMm', 'member.minBendRadiusOverOd',
-  'vehicle.anyChromoly', 'vehicle.estimatedTubeMassKg', 'plate.attachedWallMm', 'plate.attachedOdMm',
+  'vehicle.anyChromoly', 'vehicle.estimatedTubeMassKg', 'plate.attachedWallMm', 'plate.attachedOdMm', 'member.bendingStrengthNmm',
 ]);
 
 type Scenario = typeof scenario extends fc.Arbitrary<infer T> ? T : never;

@@ -4,7 +4,7 @@ import { describe, expect, test } from 'vitest';
 import { chooseTubesForSheet, lightestLegalTube, listedSizesForBand, rankStockForMember } from '@backend/domain/tube-choice';
 import type { StockTube } from '@backend/domain/tube-choice';
 import { COMMON_STOCK } from '@backend/domain/common-stock';
-import { IN, LB, compileFile } from './helpers';
+import { IN, LB, check, compileFile, finding } from './helpers';
 
 const scca = compileFile('tests/fixtures/rulesets/scca-gcr-quoted.json');
 const msuk = compileFile('tests/fixtures/rulesets/msuk-ncr-2026.json');
@@ -138,6 +138,21 @@ describe('lightestLegalTube', () => {
     const wide = lightestLegalTube(stock, msuk, { classId: 'new_cage', memberKind: 'main_hoop', member: { bends: [{ clrMm: 150, minOdMm: 44, maxOdMm: 45 }], continuousPiece: true, joints: [] } });
     expect(bent && [bent.tube.odMm, bent.tube.wallMm]).toEqual([45, 2.5]);
     expect(wide && [wide.tube.odMm, wide.tube.wallMm]).toEqual([50, 2]);
+  });
+
+  test('equivalence by strength: accepted, a lighter 55 × 1.8 mm of more Z than 45 × 2.5 is chosen and the engine passes it; off, it is not', async () => {
+    // Z(55 × 1.8) = π(55⁴ − 51.4⁴)/(32 × 55) ≈ 3875 mm³ ≥ Z(45 × 2.5) = 3361 mm³ (F-ENG-1, F-ENG-5); 2.361 kg/m
+    // against 2.368 kg/m for 50 × 2.0 (F-ENG-5; kg/m = 0.02466·(OD − t)·t, F-ENG-2 metric analogue).
+    const accepted = compileFile('tests/fixtures/rulesets/msuk-ncr-2026.json', { strengthEquivalents: { accept: true, measure: 'section_modulus' } });
+    const stock = [cds(50, 2.0), cds(45, 2.5), cds(55, 1.8)];
+    const query = { classId: 'new_cage', memberKind: 'main_hoop' as const, member: { bends: [], continuousPiece: true, joints: [] } };
+    const on = lightestLegalTube(stock, accepted, query);
+    expect(on && [on.tube.odMm, on.tube.wallMm]).toEqual([55, 1.8]);
+    expect(on!.outcomes.find((o) => o.requirementId === 'msuk-mandatory-size')!.matched).toBe('equivalent by section modulus to 45 × 2.5 mm');
+    const off = lightestLegalTube(stock, msuk, query);
+    expect(off && [off.tube.odMm, off.tube.wallMm]).toEqual([50, 2]);
+    const report = await check(accepted, { vehicle: { classId: 'new_cage' }, cage: { approvedOn: '2026-02-01' }, members: [{ id: 'mh', kind: 'main_hoop', odMm: 55, wallMm: 1.8, material: 'mild_steel', process: 'cds', yieldMpa: 355, bends: [], continuousPiece: true, joints: [] }] });
+    expect(finding(report, 'msuk-mandatory-size', 'mh').verdict).toBe('pass');
   });
 
   test('chooses in the query material from the common stock list, and refuses impossible stock sizes', () => {
