@@ -6,7 +6,8 @@
 import { compileRuleset } from '../../backend/src/domain/rules/compile.js';
 import { evaluateSpecification } from '../../backend/src/domain/rules/evaluate.js';
 import { COMMON_STOCK } from '../../backend/src/domain/common-stock.js';
-import { chooseTubesForSheet, memberWithTube, rankStockForMember } from '../../backend/src/domain/tube-choice.js';
+import { memberWithTube, rankStockForMember } from '../../backend/src/domain/tube-choice.js';
+import { chooseTubesForSheet } from '../../backend/src/domain/tube-choice-sheet.js';
 import type { StockTube } from '../../backend/src/domain/tube-choice.js';
 import { buildBenchRuleset, buildBenchSpecification } from './fixtures.js';
 

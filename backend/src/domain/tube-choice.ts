@@ -378,7 +378,7 @@ export function rankStockForMember(compiled: CompiledRuleset, spec: Specificatio
 }
 
 /** The member's own tube as a candidate, with only what the sheet states (as the check reads it). */
-function currentTube(m: SpecMember): CandidateTube {
+export function currentTube(m: SpecMember): CandidateTube {
   return {
     odMm: m.odMm, wallMm: m.wallMm, ...(m.material ? { material: m.material } : {}), ...(m.process ? { process: m.process } : {}),
     ...(m.grade ? { grade: m.grade } : {}), ...(m.yieldMpa !== undefined ? { yieldMpa: m.yieldMpa } : {}),
@@ -388,6 +388,17 @@ function currentTube(m: SpecMember): CandidateTube {
 /** The current tube of a member judged the same way (so the saving compares like with like). */
 export function judgeCurrentTube(compiled: CompiledRuleset, spec: Specification, memberIndex: number): RankedCandidate {
   return judge(prepare(compiled, spec.vehicle.classId, spec, memberIndex), currentTube(spec.members[memberIndex]));
+}
+
+/** One tube judged for one member of a sheet (the sheet as it is, other members included). */
+export function judgeTubeForMember(compiled: CompiledRuleset, spec: Specification, memberIndex: number, tube: CandidateTube): RankedCandidate {
+  return judge(prepare(compiled, spec.vehicle.classId, spec, memberIndex), tube);
+}
+
+/** Judges once per member of a sheet: the same work `rankStockForMember` does, kept for many tubes. */
+export function memberJudge(compiled: CompiledRuleset, spec: Specification, memberIndex: number): { judge: (tube: CandidateTube) => RankedCandidate; rank: (stock: readonly StockTube[], materials?: readonly Material[]) => RankedCandidate[] } {
+  const p = prepare(compiled, spec.vehicle.classId, spec, memberIndex);
+  return { judge: (tube) => judge(p, tube), rank: (stock, materials) => rankPrepared(p, stock, materials) };
 }
 
 export interface TubeQuery extends BandQuery {
@@ -419,50 +430,4 @@ export function sheetForQuery(compiled: CompiledRuleset, q: TubeQuery): Specific
 export function lightestLegalTube(stock: readonly StockTube[], compiled: CompiledRuleset, query: TubeQuery): RankedCandidate | null {
   const ranked = rankStockForMember(compiled, sheetForQuery(compiled, query), 0, stock, query.material ? { materials: [query.material] } : {});
   return ranked.find((c) => c.status === 'legal') ?? null;
-}
-
-export interface MemberTubeChoice {
-  memberId: string;
-  memberKind: MemberKind;
-  label?: string;
-  current: RankedCandidate;
-  /** The lightest legal stock size; null when none is. */
-  lightest: RankedCandidate | null;
-  /** Lighter sizes that could be legal once the missing facts are known (lightest first). */
-  undecided: RankedCandidate[];
-  /** Legal stock sizes, lightest first. */
-  legal: RankedCandidate[];
-  /** Current mass per metre less the lightest legal one's (positive: lighter); null without one. */
-  savingPerMetreKg: number | null;
-  /** Saving over the member's length, when the length is known. */
-  savingKg: number | null;
-}
-
-/** The chooser for a whole sheet: per member, legal stock sizes in the member's material. */
-export function chooseTubesForSheet(compiled: CompiledRuleset, spec: Specification, stock: readonly StockTube[], options: { anyMaterial?: boolean } = {}): MemberTubeChoice[] {
-  // Left/right pairs and repeated bars have the same facts: judge them once. A member's holes and
-  // plates are part of what it is judged on, so they are part of the key.
-  const seen = new Map<string, { ranked: RankedCandidate[]; current: RankedCandidate }>();
-  return spec.members.map((m, i) => {
-    const key = JSON.stringify([
-      { ...m, id: '', label: '' }, (spec.inspectionHoles ?? []).filter((h) => h.memberId === m.id), (spec.plates ?? []).filter((p) => p.memberId === m.id).map((p) => ({ ...p, id: '' })),
-    ]);
-    let judged = seen.get(key);
-    if (!judged) {
-      const p = prepare(compiled, spec.vehicle.classId, spec, i);
-      const materials = !options.anyMaterial && m.material ? [m.material] : undefined;
-      const ranked = rankPrepared(p, stock, materials);
-      judged = { ranked, current: judge(p, currentTube(m)) };
-      seen.set(key, judged);
-    }
-    const { ranked, current } = judged;
-    const legal = ranked.filter((c) => c.status === 'legal');
-    const lightest = legal[0] ?? null;
-    const saving = lightest ? current.massPerMetreKg - lightest.massPerMetreKg : null;
-    return {
-      memberId: m.id, memberKind: m.kind, ...(m.label ? { label: m.label } : {}), current, lightest,
-      undecided: ranked.filter((c) => c.status === 'undecided' && (!lightest || c.massPerMetreKg < lightest.massPerMetreKg)),
-      legal, savingPerMetreKg: saving, savingKg: saving !== null && m.lengthMm !== undefined ? (saving * m.lengthMm) / 1000 : null,
-    };
-  });
 }

@@ -84,7 +84,7 @@ export function createServices(
     verification: createVerificationService(ds),
     rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit }),
     tubeStock,
-    tubeChoice: createTubeChoiceService(ds, { rulesets, stock: tubeStock }),
+    tubeChoice: createTubeChoiceService(ds, { rulesets, stock: tubeStock, buildSheets }),
     journal: createJournalService(ds, { storage: photoStorage, audit }),
     fabrication: createFabricationService({ buildSheets, settings: fabricationSettings }),
   };

@@ -1,7 +1,8 @@
 // Lightest legal tube and listed sizes, checked against published tube tables (FACTS.md ids named
 // beside each check) on the fixture rulesets that encode them.
 import { describe, expect, test } from 'vitest';
-import { chooseTubesForSheet, lightestLegalTube, listedSizesForBand, rankStockForMember } from '@backend/domain/tube-choice';
+import { lightestLegalTube, listedSizesForBand, rankStockForMember } from '@backend/domain/tube-choice';
+import { chooseTubesForSheet } from '@backend/domain/tube-choice-sheet';
 import type { StockTube } from '@backend/domain/tube-choice';
 import { COMMON_STOCK } from '@backend/domain/common-stock';
 import { IN, LB, check, compileFile, finding } from './helpers';
@@ -194,5 +195,52 @@ describe('chooseTubesForSheet', () => {
     expect(l.lightest && [l.lightest.tube.odMm, l.lightest.tube.wallMm]).toEqual([40, 2]);
     // The right-hand twin has the same facts and gets the same answer.
     expect(r.lightest).toEqual(l.lightest);
+  });
+
+  describe('members compared with each other (NHRA roll bar: rear braces the same OD and wall as the hoop, F-NHRA-G1; hoop at least 1.750 in, F-NHRA-2)', () => {
+    // 4130 is TIG-welded only (F-NHRA-W1): the sheet says so, so the welding rule does not leave sizes undecided.
+    const bar = (braceMaterial: 'mild_steel' | 'chromoly_4130' = 'mild_steel') => ({
+      vehicle: { classId: 'roll_bar' }, welding: { process: 'tig' as const },
+      members: [
+        { id: 'mh', kind: 'main_hoop' as const, odMm: 1.75 * IN, wallMm: 0.134 * IN, material: 'mild_steel' as const, process: 'dom' as const, lengthMm: 3000 },
+        { id: 'rb-l', kind: 'rear_brace' as const, odMm: 1.75 * IN, wallMm: 0.134 * IN, material: braceMaterial, process: 'dom' as const, lengthMm: 900 },
+        { id: 'rb-r', kind: 'rear_brace' as const, odMm: 1.75 * IN, wallMm: 0.134 * IN, material: braceMaterial, process: 'dom' as const, lengthMm: 900 },
+      ],
+    });
+    const stock = [dom(1.75, 0.095), dom(1.75, 0.12), dom(1.75, 0.134), dom(1.75, 0.134, { material: 'chromoly_4130' })];
+
+    test('a lighter hoop comes with the braces changed to match, and the full check passes all three', async () => {
+      const spec = bar();
+      const [mh, l] = chooseTubesForSheet(nhra, spec, stock);
+      expect(mh.lightest && inch(mh.lightest.tube)).toEqual([1.75, 0.095]);
+      expect(mh.lightest!.leavesFailing).toEqual([]);
+      expect(mh.lightest!.together.map((c) => [c.memberId, inch(c.tube.tube), c.because.requirementId])).toEqual([
+        ['rb-l', [1.75, 0.095], 'nhra-bar-braces'],
+        ['rb-r', [1.75, 0.095], 'nhra-bar-braces'],
+      ]);
+      // 2.089 → … lb/ft per F-ENG-2 for each of the three tubes: the saving together is the hoop's plus both braces'.
+      const braces = mh.lightest!.together.reduce((sum, c) => sum + ((l.current.massPerMetreKg - c.tube.massPerMetreKg) * 900) / 1000, 0);
+      expect(mh.savingTogetherKg).toBeCloseTo(mh.savingKg! + braces, 9);
+      // The brace alone may only equal the hoop as it is now.
+      expect(l.lightest && inch(l.lightest.tube)).toEqual([1.75, 0.134]);
+      const fitted = { ...spec, members: spec.members.map((m) => ({ ...m, wallMm: 0.095 * IN })) };
+      const report = await check(nhra, fitted);
+      expect(report.findings.filter((f) => f.verdict === 'fail').map((f) => f.requirementId)).toEqual([]);
+      expect(finding(report, 'nhra-bar-braces', 'rb-l').verdict).toBe('pass');
+    });
+
+    test('braces that no stock size in their material can match: the lighter hoop is not offered, and says which rule it would break', () => {
+      const [mh] = chooseTubesForSheet(nhra, bar('chromoly_4130'), stock);
+      // Only 1.750 × 0.134 is stocked in 4130: a 0.095 or 0.120 in hoop would leave both braces failing.
+      expect(mh.lightest && inch(mh.lightest.tube)).toEqual([1.75, 0.134]);
+      expect(mh.savingKg).toBeCloseTo(0, 9);
+      const lighter = mh.legal.filter((c) => c.massPerMetreKg < mh.lightest!.massPerMetreKg);
+      expect(lighter.map((c) => inch(c.tube))).toEqual([[1.75, 0.095], [1.75, 0.12]]);
+      for (const c of lighter) expect(c.leavesFailing.map((f) => [f.memberId, f.requirement.requirementId])).toEqual([['rb-l', 'nhra-bar-braces'], ['rb-r', 'nhra-bar-braces']]);
+      // With any material allowed, mild steel braces put it right.
+      const [anyMh] = chooseTubesForSheet(nhra, bar('chromoly_4130'), stock, { anyMaterial: true });
+      expect(anyMh.lightest && inch(anyMh.lightest.tube)).toEqual([1.75, 0.095]);
+      expect(anyMh.lightest!.together.map((c) => c.tube.tube.material)).toEqual(['mild_steel', 'mild_steel']);
+    });
   });
 });
