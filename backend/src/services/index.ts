@@ -86,6 +86,6 @@ export function createServices(
     tubeStock,
     tubeChoice: createTubeChoiceService(ds, { rulesets, stock: tubeStock, buildSheets }),
     journal: createJournalService(ds, { storage: photoStorage, audit }),
-    fabrication: createFabricationService({ buildSheets, settings: fabricationSettings }),
+    fabrication: createFabricationService(ds, { buildSheets, settings: fabricationSettings }),
   };
 }
