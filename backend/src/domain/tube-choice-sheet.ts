@@ -40,8 +40,12 @@ export interface Consequences {
   leavesFailing: LeftFailing[];
 }
 
-/** A legal size for a member, with what choosing it does to the rest of the sheet. */
-export type SheetCandidate = RankedCandidate & Consequences;
+/**
+ * A legal size for a member, with what choosing it does to the rest of the sheet. `triedOnSheet` is
+ * false for a size of a member others are compared with that was not tried (past the lightest and
+ * the few after it): its consequences are not known, so it is not offered.
+ */
+export type SheetCandidate = RankedCandidate & Consequences & { triedOnSheet: boolean };
 
 export interface MemberTubeChoice {
   memberId: string;
@@ -62,8 +66,12 @@ export interface MemberTubeChoice {
   savingTogetherKg: number | null;
 }
 
+const NOTHING_ELSE: Consequences & { triedOnSheet: true } = Object.freeze({ together: Object.freeze([]) as unknown as Companion[], leavesFailing: Object.freeze([]) as unknown as LeftFailing[], triedOnSheet: true as const });
+
 /** Sizes of a member tried on the sheet before giving up on one that keeps the others legal. */
 export const SIZES_TRIED_ON_SHEET = 12;
+/** Legal sizes after the lightest that are tried on the sheet too (the chooser shows them). */
+export const SIZES_TRIED_AFTER_LIGHTEST = 5;
 
 const applies = (classes: readonly string[] | null, classId: string) => classes === null || classes.includes(classId);
 
@@ -116,14 +124,22 @@ export function consequencesOf(
   const first = withTubes(spec, changed);
   const together: Companion[] = [];
   const leavesFailing: LeftFailing[] = [];
+  // Twins (left and right braces) have the same facts: judged once.
+  const twins = new Map<string, { own: RankedCandidate; fix: RankedCandidate | undefined }>();
   for (const j of deps) {
     if (ctx.before[j] === 'fails') continue;
     const m = spec.members[j]!;
-    const judge = memberJudge(compiled, first, j);
-    const own = judge.judge(currentTube(m));
+    const key = JSON.stringify({ ...m, id: '', label: '' });
+    let found = twins.get(key);
+    if (!found) {
+      const judge = memberJudge(compiled, first, j);
+      const own = judge.judge(currentTube(m));
+      const materials: readonly Material[] | undefined = !ctx.anyMaterial && m.material ? [m.material] : undefined;
+      found = { own, fix: own.status === 'fails' ? judge.firstLegal(stock, materials) : undefined };
+      twins.set(key, found);
+    }
+    const { own, fix } = found;
     if (own.status !== 'fails') continue;
-    const materials: readonly Material[] | undefined = !ctx.anyMaterial && m.material ? [m.material] : undefined;
-    const fix = judge.rank(stock, materials).find((c) => c.status === 'legal');
     if (fix) {
       together.push({ memberId: m.id, memberIndex: j, because: refOf(own), tube: fix });
       changed.set(j, fix.tube);
@@ -169,12 +185,27 @@ export function chooseTubesForSheet(compiled: CompiledRuleset, spec: Specificati
   return spec.members.map((m, i) => {
     const { ranked, current } = judged[i]!;
     const legalRanked = ranked.filter((c) => c.status === 'legal');
-    // Members nobody is compared with change nothing else: no need to try them on the sheet.
-    const legal: SheetCandidate[] = legalRanked.map((c, k) =>
-      (dependents[i]!.length > 0 && k < SIZES_TRIED_ON_SHEET
-        ? { ...c, ...consequencesOf(compiled, spec, i, c.tube, stock, { dependents, before, ...(options.anyMaterial ? { anyMaterial: true } : {}) }) }
-        : { ...c, together: [], leavesFailing: [] }));
-    const lightest = legal.find((c, k) => c.leavesFailing.length === 0 && (dependents[i]!.length === 0 || k < SIZES_TRIED_ON_SHEET)) ?? null;
+    let legal: SheetCandidate[];
+    if (dependents[i]!.length === 0) {
+      // Members nobody is compared with change nothing else: no need to try them on the sheet (and no
+      // copy of each candidate: they gain the same two empty lists, shared).
+      legal = legalRanked.map((c) => Object.assign(c, NOTHING_ELSE));
+    } else {
+      // Tried lightest first until one keeps the sheet legal, then a few more; the rest stay untried.
+      legal = [];
+      let found = -1;
+      for (const [k, c] of legalRanked.entries()) {
+        const tryIt = found < 0 ? k < SIZES_TRIED_ON_SHEET : k <= found + SIZES_TRIED_AFTER_LIGHTEST;
+        if (!tryIt) {
+          legal.push({ ...c, together: [], leavesFailing: [], triedOnSheet: false });
+          continue;
+        }
+        const tried = { ...c, ...consequencesOf(compiled, spec, i, c.tube, stock, { dependents, before, ...(options.anyMaterial ? { anyMaterial: true } : {}) }), triedOnSheet: true };
+        if (found < 0 && tried.leavesFailing.length === 0) found = k;
+        legal.push(tried);
+      }
+    }
+    const lightest = legal.find((c) => c.triedOnSheet && c.leavesFailing.length === 0) ?? null;
     const saving = lightest ? current.massPerMetreKg - lightest.massPerMetreKg : null;
     let savingTogetherKg: number | null = null;
     if (lightest && m.lengthMm !== undefined) {

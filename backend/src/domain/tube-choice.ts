@@ -395,10 +395,38 @@ export function judgeTubeForMember(compiled: CompiledRuleset, spec: Specificatio
   return judge(prepare(compiled, spec.vehicle.classId, spec, memberIndex), tube);
 }
 
+// Usable stock lightest first, per stock list (the same order rankPrepared sorts its result in).
+const byMass = new WeakMap<readonly StockTube[], StockTube[]>();
+function lightestFirst(stock: readonly StockTube[]): StockTube[] {
+  let sorted = byMass.get(stock);
+  if (!sorted) {
+    const mass = (t: StockTube) => tubeSectionProperties(t, t.material).massPerMetreKg;
+    sorted = stock.filter(usable).map((t) => ({ t, m: mass(t) })).sort((a, b) => a.m - b.m || a.t.odMm - b.t.odMm || a.t.wallMm - b.t.wallMm).map((x) => x.t);
+    byMass.set(stock, sorted);
+  }
+  return sorted;
+}
+
 /** Judges once per member of a sheet: the same work `rankStockForMember` does, kept for many tubes. */
-export function memberJudge(compiled: CompiledRuleset, spec: Specification, memberIndex: number): { judge: (tube: CandidateTube) => RankedCandidate; rank: (stock: readonly StockTube[], materials?: readonly Material[]) => RankedCandidate[] } {
+export function memberJudge(compiled: CompiledRuleset, spec: Specification, memberIndex: number): {
+  judge: (tube: CandidateTube) => RankedCandidate;
+  rank: (stock: readonly StockTube[], materials?: readonly Material[]) => RankedCandidate[];
+  /** The lightest legal stock size, judging lightest first and stopping there. */
+  firstLegal: (stock: readonly StockTube[], materials?: readonly Material[]) => RankedCandidate | undefined;
+} {
   const p = prepare(compiled, spec.vehicle.classId, spec, memberIndex);
-  return { judge: (tube) => judge(p, tube), rank: (stock, materials) => rankPrepared(p, stock, materials) };
+  return {
+    judge: (tube) => judge(p, tube),
+    rank: (stock, materials) => rankPrepared(p, stock, materials),
+    firstLegal: (stock, materials) => {
+      for (const t of lightestFirst(stock)) {
+        if (materials && !materials.includes(t.material)) continue;
+        const c = judge(p, t);
+        if (c.status === 'legal') return c;
+      }
+      return undefined;
+    },
+  };
 }
 
 export interface TubeQuery extends BandQuery {

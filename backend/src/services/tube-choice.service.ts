@@ -96,7 +96,8 @@ export function createTubeChoiceService(ds: DataSource, deps: { rulesets: Rulese
         // Lighter sizes the choice cannot use (they would leave another member failing) come first, with why.
         const start = m.lightest ? m.legal.indexOf(m.lightest) : -1;
         const blocked = start >= 0 ? m.legal.slice(0, start) : [];
-        const after = start >= 0 ? m.legal.slice(start + 1) : m.legal;
+        // Sizes not tried on the sheet (members compared with this one) are not offered: what they would do is not known.
+        const after = (start >= 0 ? m.legal.slice(start + 1) : m.legal).filter((c) => c.triedOnSheet);
         return {
           memberId: m.memberId, memberKind: m.memberKind, label: member.label ?? null, lengthMm: member.lengthMm ?? null,
           current: candidateView(m.current, 'sheet', 'On the sheet', names, view),
