@@ -10,7 +10,7 @@ import type { Material } from './tube.js';
 import type { MemberKind } from './vocabulary.js';
 import type { CompiledRuleset } from './rules/types.js';
 import { parsePeer } from './rules/reference-words.js';
-import { TUBE_DEPENDENT_FACTS, currentTube, memberJudge, memberWithTube } from './tube-choice.js';
+import { TUBE_DEPENDENT_FACTS, currentTube, memberJudge, memberLengthsMm, memberWithTube } from './tube-choice.js';
 import type { CandidateStatus, CandidateTube, RankedCandidate, StockTube } from './tube-choice.js';
 
 export interface RequirementRef {
@@ -51,6 +51,8 @@ export interface MemberTubeChoice {
   memberId: string;
   memberKind: MemberKind;
   label?: string;
+  /** The length masses are worked out on: the model's where the member has a path, else as typed. */
+  lengthMm: number | null;
   current: RankedCandidate;
   /** The lightest legal stock size that leaves the sheet legal (with its companions); null when none is. */
   lightest: SheetCandidate | null;
@@ -157,10 +159,8 @@ export function consequencesOf(
   return { together, leavesFailing };
 }
 
-const massChangeKg = (spec: Specification, index: number, from: RankedCandidate, to: RankedCandidate): number | null => {
-  const length = spec.members[index]!.lengthMm;
-  return length === undefined ? null : ((from.massPerMetreKg - to.massPerMetreKg) * length) / 1000;
-};
+const massChangeKg = (length: number | undefined, from: RankedCandidate, to: RankedCandidate): number | null =>
+  length === undefined ? null : ((from.massPerMetreKg - to.massPerMetreKg) * length) / 1000;
 
 /** The chooser for a whole sheet: per member, legal stock sizes in the member's material. */
 export function chooseTubesForSheet(compiled: CompiledRuleset, spec: Specification, stock: readonly StockTube[], options: { anyMaterial?: boolean } = {}): MemberTubeChoice[] {
@@ -182,6 +182,7 @@ export function chooseTubesForSheet(compiled: CompiledRuleset, spec: Specificati
   });
   const dependents = peerDependents(compiled, spec);
   const before = judged.map((j) => j.current.status);
+  const lengths = memberLengthsMm(spec);
   return spec.members.map((m, i) => {
     const { ranked, current } = judged[i]!;
     const legalRanked = ranked.filter((c) => c.status === 'legal');
@@ -207,15 +208,16 @@ export function chooseTubesForSheet(compiled: CompiledRuleset, spec: Specificati
     }
     const lightest = legal.find((c) => c.triedOnSheet && c.leavesFailing.length === 0) ?? null;
     const saving = lightest ? current.massPerMetreKg - lightest.massPerMetreKg : null;
+    const length = lengths[i];
     let savingTogetherKg: number | null = null;
-    if (lightest && m.lengthMm !== undefined) {
-      const parts = lightest.together.map((c) => massChangeKg(spec, c.memberIndex, judged[c.memberIndex]!.current, c.tube));
-      savingTogetherKg = parts.every((x) => x !== null) ? parts.reduce<number>((s, x) => s + x!, (saving! * m.lengthMm) / 1000) : null;
+    if (lightest && length !== undefined) {
+      const parts = lightest.together.map((c) => massChangeKg(lengths[c.memberIndex], judged[c.memberIndex]!.current, c.tube));
+      savingTogetherKg = parts.every((x) => x !== null) ? parts.reduce<number>((s, x) => s + x!, (saving! * length) / 1000) : null;
     }
     return {
-      memberId: m.id, memberKind: m.kind, ...(m.label ? { label: m.label } : {}), current, lightest,
+      memberId: m.id, memberKind: m.kind, ...(m.label ? { label: m.label } : {}), lengthMm: length ?? null, current, lightest,
       undecided: ranked.filter((c) => c.status === 'undecided' && (!lightest || c.massPerMetreKg < lightest.massPerMetreKg)),
-      legal, savingPerMetreKg: saving, savingKg: saving !== null && m.lengthMm !== undefined ? (saving * m.lengthMm) / 1000 : null, savingTogetherKg,
+      legal, savingPerMetreKg: saving, savingKg: saving !== null && length !== undefined ? (saving * length) / 1000 : null, savingTogetherKg,
     };
   });
 }

@@ -1,7 +1,8 @@
 // Lightest legal tube and listed sizes, checked against published tube tables (FACTS.md ids named
 // beside each check) on the fixture rulesets that encode them.
 import { describe, expect, test } from 'vitest';
-import { lightestLegalTube, listedSizesForBand, rankStockForMember } from '@backend/domain/tube-choice';
+import { TUBE_DEPENDENT_FACTS, lightestLegalTube, listedSizesForBand, memberWithTube, rankStockForMember } from '@backend/domain/tube-choice';
+import { modelSpec } from '../../fixtures/fabrication-model';
 import { chooseTubesForSheet } from '@backend/domain/tube-choice-sheet';
 import type { StockTube } from '@backend/domain/tube-choice';
 import { COMMON_STOCK } from '@backend/domain/common-stock';
@@ -242,5 +243,24 @@ describe('chooseTubesForSheet', () => {
       expect(anyMh.lightest && inch(anyMh.lightest.tube)).toEqual([1.75, 0.095]);
       expect(anyMh.lightest!.together.map((c) => c.tube.tube.material)).toEqual(['mild_steel', 'mild_steel']);
     });
+  });
+
+  test('a sheet with a cage model is judged on the model’s bends and lengths, as the check reads it (demo saloon rules)', async () => {
+    const demo = compileFile('rulesets/tarnwick-vale-mc-cage-regulations-2027.json');
+    // The fabrication model's hoop bent at 150 mm CLR (model), with a heavier wall than the class needs;
+    // the sheet gives only the diameters measured at its two bends (ovality), not the bends themselves.
+    const ovality = { clrMm: 150, minOdMm: 43.9, maxOdMm: 44.6 };
+    const spec = { ...modelSpec, members: modelSpec.members.map((m) => ({ ...m, process: 'dom' as const, ...(m.id === 'mh' ? { wallMm: 0.12 * IN, bends: [ovality, ovality] } : {}) })) };
+    const mh = chooseTubesForSheet(demo, spec, COMMON_STOCK).find((m) => m.memberId === 'mh')!;
+    // The bend radius over OD comes from the model's 150 mm CLR (3.37 × 44.45 mm ≥ 3, F-SCCA-G3-like demo rule).
+    expect(mh.current.status).toBe('legal');
+    expect(mh.lightest && inch(mh.lightest.tube)).toEqual([1.75, 0.095]);
+    expect(mh.savingKg).not.toBeNull();
+    const fitted = { ...spec, members: spec.members.map((m) => (m.id === 'mh' ? memberWithTube(m, mh.lightest!.tube) : m)) };
+    const report = await check(demo, fitted);
+    const tubeDependent = new Set(demo.requirements.filter((r) => r.factsUsed.some((f) => TUBE_DEPENDENT_FACTS.has(f))).map((r) => r.id));
+    const hoop = report.findings.filter((f) => f.member?.id === 'mh' && tubeDependent.has(f.requirementId));
+    expect(hoop.length).toBeGreaterThan(2);
+    expect(hoop.filter((f) => f.verdict === 'fail' || f.verdict === 'needs_information').map((f) => f.requirementId)).toEqual([]);
   });
 });
