@@ -17,6 +17,7 @@ import { memberWithTube, rankStockForMember } from '@backend/domain/tube-choice'
 import { chooseTubesForSheet } from '@backend/domain/tube-choice-sheet';
 import type { CandidateTube, RankedCandidate, StockTube } from '@backend/domain/tube-choice';
 import { compileFile } from './helpers';
+import { modelSpec } from '../../fixtures/fabrication-model';
 
 const RULESETS: { compiled: CompiledRuleset; classes: string[] }[] = [
   { compiled: compileFile('tests/fixtures/rulesets/scca-gcr-quoted.json'), classes: ['gcr_2008', 'gcr_pre1994'] },
@@ -192,5 +193,42 @@ describe('tube chooser against the full engine check', () => {
     );
     // Not vacuous: some choices needed the braces changed too.
     expect(together).toBeGreaterThan(5);
+  }, 120_000);
+
+  test('on a sheet with a cage model, each candidate’s status is the full check’s (model bends and lengths, typed values beside them)', async () => {
+    const demo = RULESETS.find((r) => r.classes.includes('club-saloon'))!.compiled;
+    const tubeDependent = new Set(demo.requirements.filter((r) => r.factsUsed.some((f) => FACTS_A_TUBE_CHANGES.has(f))).map((r) => r.id));
+    const seen = new Set<string>();
+    const scenario = fc.record({
+      memberIndex: fc.constantFrom(0, 1, 3),
+      typedBends: fc.boolean(), typedClrMm: fc.double({ min: 100, max: 200, noNaN: true }),
+      typedLengthMm: fc.option(fc.integer({ min: 500, max: 4000 }), { nil: undefined }),
+      picks: fc.uniqueArray(fc.nat({ max: COMMON_STOCK.length - 1 }), { minLength: 1, maxLength: 12 }),
+    });
+    await fc.assert(
+      fc.asyncProperty(scenario, async (s) => {
+        const members = modelSpec.members.map((m, i) => ({
+          ...m, process: 'dom' as const,
+          ...(i === s.memberIndex && s.typedBends ? { bends: [{ clrMm: s.typedClrMm, minOdMm: m.odMm * 0.98, maxOdMm: m.odMm }] } : {}),
+          ...(i === s.memberIndex && s.typedLengthMm ? { lengthMm: s.typedLengthMm } : {}),
+        }));
+        const spec = { ...modelSpec, members } as Specification;
+        const id = spec.members[s.memberIndex]!.id;
+        const ranked = rankStockForMember(demo, spec, s.memberIndex, s.picks.map((i) => COMMON_STOCK[i]!));
+        for (const c of ranked) {
+          const fitted = { ...spec, members: spec.members.map((m, i) => (i === s.memberIndex ? memberWithTube(m, c.tube) : m)) };
+          const report = await evaluateSpecification(demo, 'club-saloon', fitted);
+          // A typed value the model disagrees with is an advisory note under the rule, not the rule's verdict.
+          const disagreement = (f: { title: string; severity: string }) => f.severity === 'advisory' && f.title.endsWith(': the model and the sheet disagree');
+          const verdicts = report.findings.filter((f) => tubeDependent.has(f.requirementId) && !disagreement(f) && (f.member === null ? f.plate === null : f.member.id === id)).map((f) => f.verdict);
+          const status = verdicts.includes('fail') ? 'fails' : verdicts.includes('needs_information') ? 'undecided' : 'legal';
+          expect([c.tube.label, c.status]).toEqual([c.tube.label, status]);
+          seen.add(c.status);
+        }
+      }),
+      { numRuns: 25, seed: 20261204 },
+    );
+    // Not vacuous: legal, failing and undecided candidates all met the engine.
+    expect([...seen].sort()).toEqual(['fails', 'legal', 'undecided']);
   }, 120_000);
 });
