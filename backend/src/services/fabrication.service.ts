@@ -40,7 +40,7 @@ export function copeWire(cope: Cope): CopeWire {
 export function copeTubeText(body: Pick<CopePdfBody, 'branchOdMm' | 'runOdMm' | 'angleDeg' | 'offsetMm' | 'branchWallMm'>, units: UnitSystem): string {
   const len = (mm: number) => formatQuantity(mm, 'length', units, units === 'metric' ? { decimals: 1 } : { decimals: 3 }).text;
   const branch = body.branchWallMm === undefined ? `${len(body.branchOdMm)} OD` : `${len(body.branchOdMm)} × ${len(body.branchWallMm)}`;
-  return `Branch ${branch} on a ${len(body.runOdMm)} OD run, ${body.angleDeg}° between the axes, offset ${len(body.offsetMm)}`;
+  return `Branch ${branch} on a ${len(body.runOdMm)} OD run, ${Math.round(body.angleDeg * 10) / 10}° between the axes, offset ${len(body.offsetMm)}`;
 }
 
 export interface FabricationService {

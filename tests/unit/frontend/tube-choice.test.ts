@@ -37,6 +37,7 @@ describe('TubeChoiceMember', () => {
     const metric = mount(TubeChoiceMember, { props: { member: member({}), units: 'metric' }, global });
     expect(metric.get('[aria-label="Saving"]').text()).toMatch(/Saves 0\.611 kg\/m, 2\.05 kg on this member\./);
     expect(metric.get('[aria-label="Lightest legal from stock"]').text()).toMatch(/44\.45 × 2\.41 mm.*DOM mild steel, 1020 DOM.*club list.*Matches 1\.750 × 0\.095 in/);
+    expect(metric.get('[aria-label="Lightest legal from stock"]').text()).not.toMatch(/No size in stock|No stock size/);
     const imperial = mount(TubeChoiceMember, { props: { member: member({}), units: 'imperial' }, global });
     // 0.611 kg/m = 0.411 lb/ft (F-UNIT-1: 1 lb/ft = 1.4882 kg/m); 2.047 kg = 4.51 lb.
     expect(imperial.get('[aria-label="Saving"]').text()).toMatch(/Saves 0\.411 lb\/ft, 4\.51 lb on this member\./);
@@ -75,6 +76,12 @@ describe('TubeChoiceMember: putting a size on the sheet', () => {
     const use = builder.findAll('button').find((b) => b.text() === 'Use this tube')!;
     await use.trigger('click');
     expect(builder.emitted('use')![0]).toEqual([m.lightest]);
+  });
+  test('offers the lightest legal size where the sheet’s tube is not legal, even when it is heavier', () => {
+    const failing = candidate({ stockId: null, list: 'sheet', status: 'fails', matched: [], failing: { requirementId: 'tv-saloon-tubes', title: 'Full cage hoop and brace sizes by weight', section: 'C4.2.2' } });
+    const w = mount(TubeChoiceMember, { props: { member: member({ current: failing, savingPerMetreKg: -0.31, savingKg: -0.3 }), units: 'metric', canApply: true }, global });
+    expect(w.get('[aria-label="Saving"]').text()).toMatch(/Heavier than the sheet's tube/);
+    expect(w.findAll('button').map((b) => b.text())).toContain('Use this tube');
   });
   test('a size that would leave another member failing says so and cannot be used', async () => {
     const blocked = candidate({ stockId: 's3', wallMm: 0.083 * IN, leavesFailing: [{ memberId: 'rb-l', memberName: 'Left backstay', requirement: braces[0]!.because }] });
