@@ -19,8 +19,9 @@ import { CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn } 
 import { ClubStockSeed, StockTube } from './stock-tube.entity';
 import { JournalEntry, JournalPhoto } from './journal.entity';
 import { HoopLegMeasurement } from './hoop-leg-measurement.entity';
+import { PasswordReset } from './password-reset.entity';
 
-export { Club, Invitation, Membership, User };
+export { Club, Invitation, Membership, User, PasswordReset };
 export { clubRoles, type ClubRole } from './membership.entity';
 export { unitSystems, type UnitSystem } from './user.entity';
 export { Rulebook, RulesetVersion, CheckRun };
@@ -37,4 +38,4 @@ export { stockMaterials, stockProcesses } from './stock-tube.entity';
 
 export const entities = [User, Club, Membership, Invitation, Rulebook, RulesetVersion, CheckRun, Car, BuildSheet, BuildSheetRevision, Photo, OutboxMessage, AuditEntry,
   Submission, SubmissionEvent, FindingAnnotation, CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn,
-  StockTube, ClubStockSeed, JournalEntry, JournalPhoto, HoopLegMeasurement];
+  StockTube, ClubStockSeed, JournalEntry, JournalPhoto, PasswordReset, HoopLegMeasurement];

@@ -2,63 +2,63 @@
 // edits; the club's stewards and admins read (403 when they try to edit); anyone else gets 404.
 import { Router } from 'express';
 import { diffParamsSchema, restoreRevisionBodySchema, revisionParamsSchema, saveRevisionBodySchema, sheetParamsSchema, updateSheetBodySchema } from '../contracts/garage';
-import { requireSignedIn, signedInUserId } from '../middleware/guards';
+import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createBuildSheetsRouter({ services }: { services: Services }): Router {
+export function createBuildSheetsRouter({ services }: { services: Services }): RouteTableRouter {
   const { buildSheets } = services;
   return mountRoutes(Router(), [
     route({
-      method: 'get', path: '/build-sheets/:sheetId', guards: [requireSignedIn], params: sheetParamsSchema,
+      method: 'get', path: '/build-sheets/:sheetId', access: 'sheet.read', params: sheetParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json(await buildSheets.get(params.sheetId, signedInUserId(req)));
       },
     }),
     route({
-      method: 'patch', path: '/build-sheets/:sheetId', guards: [requireSignedIn], params: sheetParamsSchema, body: updateSheetBodySchema,
+      method: 'patch', path: '/build-sheets/:sheetId', access: 'sheet.edit', params: sheetParamsSchema, body: updateSheetBodySchema,
       handler: async ({ req, res, params, body }) => {
         res.json(await buildSheets.rename(params.sheetId, signedInUserId(req), body.name));
       },
     }),
     route({
-      method: 'post', path: '/build-sheets/:sheetId/archive', guards: [requireSignedIn], params: sheetParamsSchema,
+      method: 'post', path: '/build-sheets/:sheetId/archive', access: 'sheet.edit', params: sheetParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json(await buildSheets.setArchived(params.sheetId, signedInUserId(req), true));
       },
     }),
     route({
-      method: 'post', path: '/build-sheets/:sheetId/unarchive', guards: [requireSignedIn], params: sheetParamsSchema,
+      method: 'post', path: '/build-sheets/:sheetId/unarchive', access: 'sheet.edit', params: sheetParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json(await buildSheets.setArchived(params.sheetId, signedInUserId(req), false));
       },
     }),
     route({
-      method: 'put', path: '/build-sheets/:sheetId/specification', guards: [requireSignedIn], params: sheetParamsSchema, body: saveRevisionBodySchema,
+      method: 'put', path: '/build-sheets/:sheetId/specification', access: 'sheet.edit', params: sheetParamsSchema, body: saveRevisionBodySchema,
       handler: async ({ req, res, params, body }) => {
         res.json(await buildSheets.saveRevision(params.sheetId, signedInUserId(req), body));
       },
     }),
     route({
-      method: 'get', path: '/build-sheets/:sheetId/revisions', guards: [requireSignedIn], params: sheetParamsSchema,
+      method: 'get', path: '/build-sheets/:sheetId/revisions', access: 'sheet.read', params: sheetParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ revisions: await buildSheets.revisions(params.sheetId, signedInUserId(req)) });
       },
     }),
     route({
-      method: 'get', path: '/build-sheets/:sheetId/revisions/:number', guards: [requireSignedIn], params: revisionParamsSchema,
+      method: 'get', path: '/build-sheets/:sheetId/revisions/:number', access: 'sheet.read', params: revisionParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ revision: await buildSheets.revision(params.sheetId, signedInUserId(req), params.number) });
       },
     }),
     route({
-      method: 'post', path: '/build-sheets/:sheetId/revisions/:number/restore', guards: [requireSignedIn], params: revisionParamsSchema, body: restoreRevisionBodySchema,
+      method: 'post', path: '/build-sheets/:sheetId/revisions/:number/restore', access: 'sheet.edit', params: revisionParamsSchema, body: restoreRevisionBodySchema,
       handler: async ({ req, res, params, body }) => {
         res.json(await buildSheets.restoreRevision(params.sheetId, signedInUserId(req), params.number, body.baseRevision));
       },
     }),
     route({
-      method: 'get', path: '/build-sheets/:sheetId/revisions/:from/diff/:to', guards: [requireSignedIn], params: diffParamsSchema,
+      method: 'get', path: '/build-sheets/:sheetId/revisions/:from/diff/:to', access: 'sheet.read', params: diffParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json(await buildSheets.diff(params.sheetId, signedInUserId(req), params.from, params.to));
       },

@@ -1,7 +1,9 @@
 // Builds every service from the DataSource and configuration. Services never see req/res.
 import type { DataSource } from 'typeorm';
+import { createAccessReader, type AccessReader } from './access';
 import { createAccountService, type AccountService } from './accounts.service';
 import { createMemberService, type MemberService } from './members.service';
+import { createPasswordResetService, type PasswordResetService } from './password-resets.service';
 import { createCheckService, type CheckService } from './checks.service';
 import { createRulesetService, type RulesetService } from './rulesets.service';
 import { createAuditService, type AuditService } from './audit.service';
@@ -24,8 +26,11 @@ import { createFabricationService, type FabricationService } from './fabrication
 import { createFabricationSettingsService } from './fabrication-settings.service';
 
 export interface Services {
+  /** The access policy's look-ups for the route guards (roles in a club, roles anywhere). */
+  access: AccessReader;
   accounts: AccountService;
   members: MemberService;
+  passwordResets: PasswordResetService;
   rulesets: RulesetService;
   checks: CheckService;
   audit: AuditService;
@@ -54,26 +59,28 @@ export function createServices(
 ): Services {
   const rulesets = createRulesetService(ds);
   const audit = createAuditService(ds);
-  const members = createMemberService(ds, { publicUrl: options.publicUrl, audit });
+  const mail = createMailService(ds);
+  const members = createMemberService(ds, { publicUrl: options.publicUrl, audit, mail });
   const checks = createCheckService(ds, rulesets);
   const buildSheets = createBuildSheetService(ds);
   // Sheet photos and journal photos share one store (their keys differ: sheets/… and journal/…).
   const photoStorage = options.photoStorage ?? new LocalDiskPhotoStorage(options.uploadDir ?? '.data/uploads');
   const photos = createPhotoService(ds, photoStorage);
-  const mail = createMailService(ds);
   const cageRecords = createCageRecordService(ds, { mail, audit, publicUrl: options.publicUrl });
   const fabricationSettings = createFabricationSettingsService(ds);
   const reports = createReportService(ds, { checks, sheets: buildSheets, photos, fabricationSettings, publicUrl: options.publicUrl });
   const tubeStock = createTubeStockService(ds, { audit });
   return {
+    access: createAccessReader(ds),
     accounts: createAccountService(ds),
     members,
+    passwordResets: createPasswordResetService(ds, { mail, publicUrl: options.publicUrl }),
     rulesets,
     checks,
     audit,
     mail,
     mailbox: createMailboxService(ds),
-    jobProgress: createJobProgressReader(createJobProgressStore((text, values) => ds.query(text, values)), members),
+    jobProgress: createJobProgressReader(createJobProgressStore((text, values) => ds.query(text, values)), ds),
     garage: createGarageService(ds),
     buildSheets,
     photos,

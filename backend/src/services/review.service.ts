@@ -7,12 +7,13 @@ import { IsNull, type DataSource, type EntityManager } from 'typeorm';
 import type { ActionBody, AnnotationBody, MySubmissionWire, ResubmitBody, SubmitBody } from '../contracts/review';
 import { resubmit, submitForReview, applyReviewAction, FINAL_STATES, type AuditEvent, type ReviewAction } from '../domain/review/workflow';
 import { findingKey } from '../domain/review/waivers';
-import { BuildSheetRevision, Car, CheckRun, Club, FindingAnnotation, Photo, StewardMailOptIn, Submission, SubmissionEvent, User } from '../entities';
-import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors';
+import { BuildSheet, BuildSheetRevision, Car, CheckRun, Club, FindingAnnotation, Photo, StewardMailOptIn, Submission, SubmissionEvent, User } from '../entities';
+import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import type { AuditService } from './audit.service';
 import type { CageRecordService } from './cage-records.service';
 import { sheetFor } from './garage.service';
-import { refusalError, rolesIn, submissionFor, toDomain } from './review-access';
+import { enforce, rolesIn } from './access';
+import { refusalError, rolesOf, submissionFacts, submissionFor, toDomain } from './review-access';
 import { mailDecision, mailNewSubmission, type DecisionKind, type ReviewMailDeps } from './review-mail';
 
 export interface ReviewDeps extends ReviewMailDeps {
@@ -22,13 +23,30 @@ export interface ReviewDeps extends ReviewMailDeps {
 
 const OPEN_STATES = ['pending', 'in_review'] as const;
 
+interface SubmissionAbout {
+  car: { id: string; name: string };
+  sheet: { id: string; name: string };
+  record?: { id: string; number: string };
+}
+
 export type ReviewService = ReturnType<typeof createReviewService>;
 
 export function createReviewService(ds: DataSource, deps: ReviewDeps) {
-  async function storeEvent(tx: EntityManager, submissionId: string, clubId: string, event: AuditEvent): Promise<void> {
+  /**
+   * The event, and its activity-log entry with the names the log reads in words (the car, the sheet, the
+   * record an approval issued), so the entry still says what it was about after any of them is renamed.
+   */
+  async function storeEvent(tx: EntityManager, submissionId: string, clubId: string, event: AuditEvent, about: SubmissionAbout): Promise<void> {
     await tx.getRepository(SubmissionEvent).insert({ submissionId, fromState: event.from, toState: event.to, action: event.action, actorId: event.actorId, note: event.note });
+    const record = about.record ? { recordId: about.record.id, recordNumber: about.record.number } : {};
     await deps.audit.record(
-      { clubId, actorId: event.actorId, action: `submission.${event.action}`, entity: { type: 'submission', id: submissionId }, details: { from: event.from, to: event.to, ...(event.note ? { note: event.note } : {}) } },
+      {
+        clubId, actorId: event.actorId, action: `submission.${event.action}`, entity: { type: 'submission', id: submissionId },
+        details: {
+          from: event.from, to: event.to, ...(event.note ? { note: event.note } : {}),
+          carId: about.car.id, carName: about.car.name, sheetId: about.sheet.id, sheetName: about.sheet.name, ...record,
+        },
+      },
       { manager: tx },
     );
   }
@@ -40,12 +58,11 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
     if (!run || !revision) throw new NotFoundError('Check run not found.');
     let found;
     try {
-      found = await sheetFor(tx, revision.buildSheetId, userId, 'read', true);
+      found = await sheetFor(tx, revision.buildSheetId, userId, 'submit', true);
     } catch (err) {
       if (err instanceof NotFoundError) throw new NotFoundError('Check run not found.');
       throw err;
     }
-    if (found.access !== 'owner') throw new ForbiddenError('Only the builder who saved this check can submit it.');
     const open = await tx.getRepository(Submission).findOne({ where: OPEN_STATES.map((state) => ({ buildSheetId: found.sheet.id, state })) });
     if (open) throw new ConflictError('This build sheet already has a submission waiting for review. Withdraw it first, or wait for the decision.', { reason: 'already_open', submissionId: open.id });
     const photos = await tx.getRepository(Photo).find({ where: { buildSheetId: found.sheet.id }, order: { createdAt: 'ASC', id: 'ASC' } });
@@ -64,7 +81,7 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
     async submit(userId: string, body: SubmitBody): Promise<{ id: string }> {
       return ds.transaction(async (tx) => {
         const { run, sheet, car, photoIds } = await runToSubmit(tx, body.checkRunId, userId);
-        const roles = await rolesIn(tx, userId, sheet.clubId);
+        const roles = await rolesOf(tx, userId, sheet.clubId);
         const resubmittable = await tx.getRepository(Submission).findOne({ where: { buildSheetId: sheet.id, state: 'changes_requested', resubmittedAsId: IsNull() } });
         if (resubmittable)
           throw new ConflictError('A steward asked for changes on this build sheet: resubmit that submission instead, so the steward sees what changed.', { reason: 'resubmit_instead', submissionId: resubmittable.id });
@@ -75,7 +92,7 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
           state: 'pending', version: 1, classId: run.classId, builderNote: note(body.note), assignedStewardId: null, previousSubmissionId: null,
           resubmittedAsId: null, waivers: [], photoIds, decisionNote: null, decidedAt: null,
         }));
-        await storeEvent(tx, s.id, s.clubId, { ...result.event, note: s.builderNote });
+        await storeEvent(tx, s.id, s.clubId, { ...result.event, note: s.builderNote }, { car, sheet });
         await announce(tx, s, car.name, false);
         return { id: s.id };
       });
@@ -83,8 +100,9 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
 
     async resubmit(previousId: string, userId: string, body: ResubmitBody): Promise<{ id: string }> {
       return ds.transaction(async (tx) => {
-        const { row: prev, roles } = await submissionFor(tx, previousId, userId, true);
-        if (prev.builderId !== userId) throw new ForbiddenError('Only the builder who submitted it can resubmit.');
+        const found = await submissionFor(tx, previousId, userId, true);
+        enforce('submission.resubmit', submissionFacts(found, userId), { notFound: 'Submission not found.', forbidden: 'Only the builder who submitted it can resubmit.' });
+        const { row: prev, roles } = found;
         const { run, sheet, car, photoIds } = await runToSubmit(tx, body.checkRunId, userId);
         if (sheet.id !== prev.buildSheetId) throw new ValidationError([{ path: 'checkRunId', message: 'Resubmit a check run of the same build sheet.' }]);
         if (run.id === prev.checkRunId) throw new ValidationError([{ path: 'checkRunId', message: 'This is the check the steward already saw. Make the changes, run a new check, then resubmit.' }]);
@@ -98,8 +116,8 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
           resubmittedAsId: null, waivers: [], photoIds, decisionNote: null, decidedAt: null,
         }));
         await repo.update({ id: prev.id, version: prev.version }, { resubmittedAsId: s.id, version: result.previous.version });
-        await storeEvent(tx, prev.id, prev.clubId, result.events.previous);
-        await storeEvent(tx, s.id, s.clubId, { ...result.events.submission, note: s.builderNote ?? result.events.submission.note });
+        await storeEvent(tx, prev.id, prev.clubId, result.events.previous, { car, sheet });
+        await storeEvent(tx, s.id, s.clubId, { ...result.events.submission, note: s.builderNote ?? result.events.submission.note }, { car, sheet });
         await announce(tx, s, car.name, true);
         return { id: s.id };
       });
@@ -120,27 +138,32 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
           { state: next.state, version: next.version, assignedStewardId: next.assignedStewardId, waivers: [...next.waivers], decisionNote: next.decisionNote, ...(decided ? { decidedAt: now } : {}) },
         );
         if (updated.affected !== 1) throw new ConflictError('The submission changed meanwhile. Reload it and decide again.', { reason: 'conflict' });
-        await storeEvent(tx, row.id, row.clubId, result.event);
+        const car = await tx.getRepository(Car).findOneByOrFail({ id: row.carId });
+        const sheet = await tx.getRepository(BuildSheet).findOneByOrFail({ id: row.buildSheetId });
+        // An approval issues the record first, so its entry can say "approved <car>, record <number>".
+        const record = body.type === 'approve'
+          ? await deps.records.issue(tx, {
+            clubId: row.clubId, submissionId: row.id, carId: row.carId, classId: run.classId, className: run.report.className,
+            rulesetVersionId: run.rulesetVersionId, rulebookTitle: run.report.rulebook.title, edition: run.report.rulebook.edition, stewardId: userId, at: now,
+          })
+          : null;
+        await storeEvent(tx, row.id, row.clubId, result.event, { car, sheet, ...(record ? { record } : {}) });
+        if (record) {
+          await deps.audit.record(
+            {
+              clubId: row.clubId, actorId: userId, action: 'cage_record.issued', entity: { type: 'cage_record', id: record.id },
+              details: { number: record.number, submissionId: row.id, carId: car.id, carName: car.name, sheetId: sheet.id, sheetName: sheet.name },
+            },
+            { manager: tx },
+          );
+        }
         if (body.type === 'approve' || body.type === 'request_changes' || body.type === 'reject') {
-          const car = await tx.getRepository(Car).findOneByOrFail({ id: row.carId });
           const club = await tx.getRepository(Club).findOneByOrFail({ id: row.clubId });
           const steward = await tx.getRepository(User).findOneByOrFail({ id: userId });
-          let recordNumber: string | undefined;
-          if (body.type === 'approve') {
-            const record = await deps.records.issue(tx, {
-              clubId: row.clubId, submissionId: row.id, carId: row.carId, classId: run.classId, className: run.report.className,
-              rulesetVersionId: run.rulesetVersionId, rulebookTitle: run.report.rulebook.title, edition: run.report.rulebook.edition, stewardId: userId, at: now,
-            });
-            recordNumber = record.number;
-            await deps.audit.record(
-              { clubId: row.clubId, actorId: userId, action: 'cage_record.issued', entity: { type: 'cage_record', id: record.id }, details: { number: record.number, submissionId: row.id } },
-              { manager: tx },
-            );
-          }
           const builder = await tx.getRepository(User).findOneByOrFail({ id: row.builderId });
           await mailDecision(deps, tx, {
             builder, steward: steward.displayName, clubId: club.id, clubName: club.name, carName: car.name, submissionId: row.id,
-            decision: body.type as DecisionKind, note: next.decisionNote, ...(recordNumber ? { recordNumber } : {}),
+            decision: body.type as DecisionKind, note: next.decisionNote, ...(record ? { recordNumber: record.number } : {}),
           });
         }
       });
@@ -148,15 +171,22 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
 
     async annotate(submissionId: string, userId: string, body: AnnotationBody): Promise<void> {
       await ds.transaction(async (tx) => {
-        const { row, roles } = await submissionFor(tx, submissionId, userId, true);
-        if (!roles.includes('steward')) throw new ForbiddenError('Only a steward of this club can annotate findings.');
-        if (row.builderId === userId) throw new ForbiddenError('A steward cannot review their own submission; another steward must.');
+        const found = await submissionFor(tx, submissionId, userId, true);
+        const { row, roles } = found;
+        enforce('submission.annotate', submissionFacts(found, userId), {
+          notFound: 'Submission not found.',
+          forbidden: roles.includes('steward') ? 'A steward cannot review their own submission; another steward must.' : 'Only a steward of this club can annotate findings.',
+        });
         const run = await tx.getRepository(CheckRun).findOneByOrFail({ id: row.checkRunId });
         if (!run.report.findings.some((f) => findingKey(f) === body.findingKey))
           throw new ValidationError([{ path: 'findingKey', message: 'That finding is not in this submission’s report.' }]);
         const saved = await tx.getRepository(FindingAnnotation).save({ submissionId: row.id, findingKey: body.findingKey, authorId: userId, text: body.text });
+        const car = await tx.getRepository(Car).findOneByOrFail({ id: row.carId });
         await deps.audit.record(
-          { clubId: row.clubId, actorId: userId, action: 'submission.annotated', entity: { type: 'submission', id: row.id }, details: { findingKey: body.findingKey, annotationId: saved.id } },
+          {
+            clubId: row.clubId, actorId: userId, action: 'submission.annotated', entity: { type: 'submission', id: row.id },
+            details: { findingKey: body.findingKey, annotationId: saved.id, carId: car.id, carName: car.name },
+          },
           { manager: tx },
         );
       });
@@ -180,8 +210,8 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
     },
 
     async setMailOptIn(clubId: string, userId: string, enabled: boolean): Promise<boolean> {
-      const roles = await rolesIn(ds.manager, userId, clubId);
-      if (!roles.includes('steward')) throw new ForbiddenError('Only stewards can ask for mail on new submissions.');
+      // The route's guard asked `club.steward` already; the service does not rely on it.
+      enforce('club.steward', { actorId: userId, roles: await rolesIn(ds.manager, userId, clubId) }, { notFound: 'Club not found.', forbidden: 'Only stewards can ask for mail on new submissions.' });
       if (enabled) await ds.getRepository(StewardMailOptIn).upsert({ clubId, userId }, ['userId', 'clubId']);
       else await ds.getRepository(StewardMailOptIn).delete({ clubId, userId });
       return enabled;

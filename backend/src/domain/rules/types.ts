@@ -35,6 +35,8 @@ export interface AlternativeMeta {
   /** Counts only for cages approved before this date (YYYY-MM-DD). */
   approvedBefore?: string;
   source: 'table' | 'allowance' | 'printed_equivalent' | 'strength_equivalent';
+  /** A printed equivalent: the listed size it stands for (canonical mm), so each reader gets both in their units. */
+  equivalentOf?: { odMm: number; wallMm: number };
   /**
    * An equivalent by strength of the listed size odMm × wallMm (its `label` is the listed one's
    * label): the measure, the value the member must reach (canonical mm³ or N·mm), and the policy's
