@@ -99,7 +99,7 @@ export function createTubeChoiceService(ds: DataSource, deps: { rulesets: Rulese
         // Sizes not tried on the sheet (members compared with this one) are not offered: what they would do is not known.
         const after = (start >= 0 ? m.legal.slice(start + 1) : m.legal).filter((c) => c.triedOnSheet);
         return {
-          memberId: m.memberId, memberKind: m.memberKind, label: member.label ?? null, lengthMm: m.lengthMm,
+          memberId: m.memberId, memberKind: m.memberKind, label: member.label ?? null, name: names[i]!, lengthMm: m.lengthMm,
           current: candidateView(m.current, 'sheet', 'On the sheet', names, view),
           lightest: m.lightest ? view(m.lightest) : null,
           alternatives: [...blocked.slice(0, SHOWN), ...after.slice(0, SHOWN)].map(view),

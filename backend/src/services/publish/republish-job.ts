@@ -13,13 +13,13 @@ import { describeRulesetChanges, type RulesetChange } from '../../domain/ruleboo
 import type { Jobs, ProgressReporter } from '../jobs';
 import { renderMail, type MailService } from '../mail';
 import type { AuditService } from '../audit.service';
-import type { RulesetService } from '../rulesets.service';
 import { republishQueueName, type RepublishJobData } from '../rulebook-admin.service';
-import { recheckSheets, type RecheckedSheet } from './recheck';
+import { recheckSheets, type RecheckEvaluator, type RecheckedSheet } from './recheck';
 
 export interface RepublishDeps {
   ds: DataSource;
-  rulesets: RulesetService;
+  /** Where the sheets are evaluated: the check service's bulk pool (`services.checks.bulk`). */
+  evaluator: RecheckEvaluator;
   mail: MailService;
   audit: AuditService;
   publicUrl: string;
@@ -28,9 +28,19 @@ export interface RepublishDeps {
 
 const verdictWords = { pass: 'meets the rules', fail: 'does not meet the rules', needs_information: 'needs more measurements' } as const;
 
-async function documentOf(ds: DataSource, id: string): Promise<{ document: RulesetDocument; clubId: string; versionNumber: number; rulebookId: string } | null> {
-  const rows: { document: unknown; clubId: string; versionNumber: number; rulebookId: string }[] = await ds.query(
-    `SELECT v.document, r.club_id AS "clubId", v.version_number AS "versionNumber", v.rulebook_id AS "rulebookId" FROM ruleset_versions v JOIN rulebooks r ON r.id = v.rulebook_id WHERE v.id = $1`,
+interface VersionDocument {
+  document: RulesetDocument;
+  clubId: string;
+  versionNumber: number;
+  rulebookId: string;
+  status: string;
+  lockVersion: number;
+}
+
+export async function documentOf(ds: DataSource, id: string): Promise<VersionDocument | null> {
+  const rows: (Omit<VersionDocument, 'document'> & { document: unknown })[] = await ds.query(
+    `SELECT v.document, r.club_id AS "clubId", v.version_number AS "versionNumber", v.rulebook_id AS "rulebookId", v.status, v.lock_version AS "lockVersion"
+     FROM ruleset_versions v JOIN rulebooks r ON r.id = v.rulebook_id WHERE v.id = $1`,
     [id],
   );
   const row = rows[0];
@@ -69,8 +79,9 @@ export function verdictMailKey(versionId: string, buildSheetId: string): string 
 
 /**
  * Stores one page in the caller's transaction: the results first (ON CONFLICT DO NOTHING, so a page a
- * dead attempt or a concurrent one already stored is skipped), then a mail for each result that is new
- * here and whose verdict changed, under an idempotency key. Returns how many results were new.
+ * dead attempt or a concurrent one already stored is skipped), then, in one statement, a mail for each
+ * result that is new here and whose verdict changed, under an idempotency key. Returns how many
+ * results were new.
  */
 async function storePage(tx: EntityManager, deps: RepublishDeps, jobId: string, versionId: string, page: RecheckedSheet[], doc: RulesetDocument, changes: RulesetChange[]): Promise<number> {
   if (page.length === 0) return 0;
@@ -87,18 +98,18 @@ async function storePage(tx: EntityManager, deps: RepublishDeps, jobId: string, 
     values,
   );
   const isNew = new Set(inserted.map((r) => r.build_sheet_id));
-  const sheets: string[] = [];
-  const mails: string[] = [];
-  for (const s of page) {
-    // A sheet never checked before has nothing to change from; only a verdict the builder saw can change.
-    if (!isNew.has(s.buildSheetId) || s.storedVerdict === null || s.storedVerdict === s.after) continue;
-    const { id } = await deps.mail.enqueue(
-      { to: s.ownerEmail, kind: 'verdict.changed', related: { buildSheetId: s.buildSheetId, rulesetVersionId: versionId }, ...verdictMail(s, doc, changes, deps.publicUrl) },
-      { manager: tx, idempotencyKey: verdictMailKey(versionId, s.buildSheetId) },
-    );
-    sheets.push(s.buildSheetId);
-    mails.push(id);
-  }
+  // A sheet never checked before has nothing to change from; only a verdict the builder saw can change.
+  const toMail = page.filter((s) => isNew.has(s.buildSheetId) && s.storedVerdict !== null && s.storedVerdict !== s.after);
+  // One INSERT for the page's mails (each under its key, so a retry or a concurrent attempt stores none twice).
+  const ids = await deps.mail.enqueueMany(
+    toMail.map((s) => ({
+      mail: { to: s.ownerEmail, kind: 'verdict.changed', related: { buildSheetId: s.buildSheetId, rulesetVersionId: versionId }, ...verdictMail(s, doc, changes, deps.publicUrl) },
+      idempotencyKey: verdictMailKey(versionId, s.buildSheetId),
+    })),
+    { manager: tx },
+  );
+  const sheets = toMail.map((s) => s.buildSheetId);
+  const mails = toMail.map((s) => ids.get(verdictMailKey(versionId, s.buildSheetId))!);
   if (sheets.length > 0) {
     await tx.query(
       `UPDATE ruleset_recheck_results r SET mail_id = m.mail_id FROM unnest($2::uuid[], $3::uuid[]) AS m(build_sheet_id, mail_id)
@@ -137,14 +148,15 @@ export async function runRepublish(deps: RepublishDeps, job: RepublishJob): Prom
   if (!current) throw new Error('The published version could not be read or is invalid.');
   const previous = job.data.previousVersionId ? await documentOf(deps.ds, job.data.previousVersionId) : null;
   const changes = previous ? describeRulesetChanges(previous.document, current.document) : [];
-  const compiled = await deps.rulesets.loadCompiled(job.data.versionId);
   const before = await storedTotals(deps.ds, job.id);
   if (before.checked > 0) await job.progress.resumeFrom?.({ done: before.checked });
   const result = await recheckSheets({
     ds: deps.ds,
     rulebookId: current.rulebookId,
     classIds: job.data.classIds,
-    compiled,
+    version: { id: job.data.versionId, status: current.status, lockVersion: current.lockVersion },
+    versionClassIds: current.document.classes.map((c) => c.id),
+    evaluator: deps.evaluator,
     skipStoredForJob: job.id,
     ...(deps.batchSize ? { batchSize: deps.batchSize } : {}),
     onTotal: (remaining) => job.progress.setTotal(before.checked + remaining),
@@ -180,6 +192,7 @@ export async function runRepublish(deps: RepublishDeps, job: RepublishJob): Prom
 /** Registers the publish job's worker on pg-boss (server.ts calls this after jobs.start()). */
 export async function registerRepublishWorker(jobs: Jobs, deps: RepublishDeps): Promise<void> {
   await jobs.work<RepublishJobData>(republishQueueName, async (job) => {
-    await runRepublish(deps, job);
+    const outcome = await runRepublish(deps, job);
+    await job.progress.setResult({ kind: 'recheck', ...outcome });
   });
 }

@@ -2,8 +2,8 @@
 // heights, lean and top. Generated from the entity with TypeORM's schema builder (no drift).
 import type { MigrationInterface, QueryRunner } from 'typeorm';
 
-export class HoopLegMeasurements1796222113653 implements MigrationInterface {
-    name = 'HoopLegMeasurements1796222113653';
+export class HoopLegMeasurements1796310000000 implements MigrationInterface {
+    name = 'HoopLegMeasurements1796310000000';
 
     public async up(queryRunner: QueryRunner): Promise<void> {
         await queryRunner.query(`
