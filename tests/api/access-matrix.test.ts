@@ -184,6 +184,12 @@ const FIXTURES: Record<string, Fixture> = {
   'GET /api/build-sheets/:sheetId/revisions': {},
   'GET /api/build-sheets/:sheetId/revisions/:number': { req: () => ({ params: { number: '1' } }) },
   'GET /api/build-sheets/:sheetId/revisions/:from/diff/:to': { req: () => ({ params: { from: '1', to: '2' } }) },
+  'POST /api/build-sheets/:sheetId/revisions/:number/restore': {
+    req: async () => {
+      const sheet = (await who.owner.agent.get(`/api/build-sheets/${ids.sheetId}`).expect(200)).body;
+      return { params: { number: '2' }, body: { baseRevision: sheet.buildSheet.currentRevision } };
+    },
+  },
   'POST /api/build-sheets/:sheetId/check-runs': { ok: 201 },
   'GET /api/build-sheets/:sheetId/check-runs': {},
   'GET /api/check-runs/:checkRunId/report.pdf': { req: () => ({ params: { checkRunId: ids.run! } }) },
@@ -211,6 +217,16 @@ const FIXTURES: Record<string, Fixture> = {
   'GET /api/build-sheets/:sheetId/fabrication': {},
   'GET /api/build-sheets/:sheetId/buying-list.csv': {},
   'GET /api/build-sheets/:sheetId/tube-choice': {},
+  // The lightest legal size of the first member that has one, on the sheet as it is now.
+  'POST /api/build-sheets/:sheetId/tube-choice/apply': {
+    req: async () => {
+      const choice = (await who.owner.agent.get(`/api/build-sheets/${ids.sheetId}/tube-choice`).expect(200)).body as { revision: number; members: { memberId: string; lightest: { stockId: string } | null }[] };
+      const m = choice.members.find((x) => x.lightest)!;
+      return { body: { baseRevision: choice.revision, memberId: m.memberId, stockId: m.lightest!.stockId } };
+    },
+  },
+  'PUT /api/build-sheets/:sheetId/fabrication/legs/:memberId': { req: () => ({ params: { memberId: 'mh' }, body: { legs: [{ uncutMm: 1250, padHeightMm: 0 }, { uncutMm: 1250, padHeightMm: 12 }], leanDeg: 10 } }) },
+  'DELETE /api/build-sheets/:sheetId/fabrication/legs/:memberId': { ok: 204, req: () => ({ params: { memberId: 'mh' } }) },
   'POST /api/geometry/derive': { req: () => ({ body: { specification: saloonSpec() } }) },
   'GET /api/meta': {},
   'GET /api/openapi.json': {},

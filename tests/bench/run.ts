@@ -95,7 +95,8 @@ try {
   const { runTubeChoiceBench, TUBE_CHOICE_TARGET_MS } = await import('./tube-choice');
   const t = await runTubeChoiceBench({ log: true });
   lines.push({ name: `tube chooser, one member (${t.stockSizes} stock sizes, ${t.requirements} requirements), median`, value: `${t.memberMs.toFixed(2)} ms (one full engine check: ${t.engineCheckMs.toFixed(2)} ms, ${(t.memberMs / t.engineCheckMs).toFixed(2)}×)`, target: `≤ ${TUBE_CHOICE_TARGET_MS} ms`, ok: t.memberMs <= TUBE_CHOICE_TARGET_MS });
-  lines.push({ name: `tube chooser, whole sheet (${t.members} members), median`, value: `${t.sheetMs.toFixed(1)} ms (an engine run per size would take ${(t.enginePerSizeMs * t.stockSizes).toFixed(0)} ms for one member)`, target: 'reported', ok: true });
+  lines.push({ name: `tube chooser, whole sheet (${t.members} members), median`, value: `${t.sheetMs.toFixed(1)} ms, ${(t.sheetMs / t.engineCheckMs).toFixed(2)}× one engine check (an engine run per size would take ${(t.enginePerSizeMs * t.stockSizes).toFixed(0)} ms for one member)`, target: 'reported', ok: true });
+  lines.push({ name: 'tube chooser, whole sheet with the braces matched to the hoop (sizes tried on the sheet)', value: `${t.sheetMatchedMs.toFixed(1)} ms, ${(t.sheetMatchedMs / t.sheetMs).toFixed(1)}× the sheet without`, target: 'reported', ok: true });
 } catch (err) {
   console.error('tube chooser bench failed:', err instanceof Error ? err.message : err);
   failed = true;

@@ -115,6 +115,9 @@ export type SaveRevisionBody = z.infer<typeof saveRevisionBodySchema>;
 export { specificationSchema };
 
 export const revisionParamsSchema = z.object({ sheetId: uuidSchema, number: z.coerce.number('Must be a revision number').int('Must be a revision number').min(1, 'Must be a revision number') });
+/** Restore an earlier revision as the next one; `baseRevision` is the latest the caller has seen. */
+export const restoreRevisionBodySchema = z.object({ baseRevision: z.number('Must be a revision number').int('Must be a revision number').min(1, 'Must be a revision number') }).strict();
+
 export const diffParamsSchema = z.object({
   sheetId: uuidSchema,
   from: z.coerce.number('Must be a revision number').int('Must be a revision number').min(1, 'Must be a revision number'),

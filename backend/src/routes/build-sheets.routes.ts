@@ -1,7 +1,7 @@
 // Build sheets, their revisions and the diff between two of them (docs/api.md, "Garage"). The owner
 // edits; the club's stewards and admins read (403 when they try to edit); anyone else gets 404.
 import { Router } from 'express';
-import { diffParamsSchema, revisionParamsSchema, saveRevisionBodySchema, sheetParamsSchema, updateSheetBodySchema } from '../contracts/garage';
+import { diffParamsSchema, restoreRevisionBodySchema, revisionParamsSchema, saveRevisionBodySchema, sheetParamsSchema, updateSheetBodySchema } from '../contracts/garage';
 import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
 import { mountRoutes, route, type RouteTableRouter } from './route-table';
@@ -49,6 +49,12 @@ export function createBuildSheetsRouter({ services }: { services: Services }): R
       method: 'get', path: '/build-sheets/:sheetId/revisions/:number', access: 'sheet.read', params: revisionParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ revision: await buildSheets.revision(params.sheetId, signedInUserId(req), params.number) });
+      },
+    }),
+    route({
+      method: 'post', path: '/build-sheets/:sheetId/revisions/:number/restore', access: 'sheet.edit', params: revisionParamsSchema, body: restoreRevisionBodySchema,
+      handler: async ({ req, res, params, body }) => {
+        res.json(await buildSheets.restoreRevision(params.sheetId, signedInUserId(req), params.number, body.baseRevision));
       },
     }),
     route({

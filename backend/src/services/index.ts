@@ -105,8 +105,8 @@ export function createServices(
     verification: createVerificationService(ds),
     rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit, evaluator: checks.bulk, ...(options.recheckBatchSize ? { batchSize: options.recheckBatchSize } : {}) }),
     tubeStock,
-    tubeChoice: createTubeChoiceService(ds, { rulesets, stock: tubeStock }),
+    tubeChoice: createTubeChoiceService(ds, { rulesets, stock: tubeStock, buildSheets }),
     journal: createJournalService(ds, { storage: photoStorage, audit }),
-    fabrication: createFabricationService({ buildSheets, settings: fabricationSettings }),
+    fabrication: createFabricationService(ds, { buildSheets, settings: fabricationSettings }),
   };
 }
