@@ -25,6 +25,7 @@ import { createGeometryRouter } from './routes/geometry.routes';
 import { createHealthProbe, createHealthRouter, type HealthProbe } from './routes/health.routes';
 import { createInvitationsRouter } from './routes/invitations.routes';
 import { createMembersRouter } from './routes/members.routes';
+import { createClubSettingsRouter } from './routes/club-settings.routes';
 import { createAuditRouter } from './routes/audit.routes';
 import { createJobsRouter } from './routes/jobs.routes';
 import { createMailboxRouter } from './routes/mailbox.routes';
@@ -168,6 +169,7 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(createAccountRouter({ services }));
   api.use(createInvitationsRouter({ services }));
   api.use(createMembersRouter({ services }));
+  api.use(createClubSettingsRouter({ services }));
   api.use(createRulebooksRouter({ services }));
   api.use(createRulebookAdminRouter({ services, republishQueue: options.republishQueue ?? null }));
   api.use(createChecksRouter({ services }));

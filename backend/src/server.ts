@@ -2,7 +2,8 @@
 // Parses configuration, waits for PostgreSQL, runs pending migrations, then listens. SIGTERM and
 // SIGINT stop taking connections, let requests in flight finish, and close the database cleanly.
 // Background work runs here too (docs/mail-and-jobs.md): the fake SMTP server when FAKE_SMTP is on, the
-// outbox dispatcher when SMTP_URL is known, and the pg-boss job workers.
+// outbox dispatcher when SMTP_URL is known, the pg-boss job workers, and the edition clock that brings
+// scheduled rulebook editions into force on their date.
 import { createServer } from 'node:http';
 import type { DataSource } from 'typeorm';
 import { closeApp, createApp } from './app';
@@ -16,6 +17,7 @@ import { createMailboxService, createSmtpTransport, startOutboxDispatcher, type 
 import { createJobs } from './services/jobs';
 import { createServices } from './services';
 import { registerRepublishWorker } from './services/publish/republish-job';
+import { startEditionClock } from './services/publish/edition-clock';
 import { exitCodeConfig } from './supervisor';
 
 function readConfig(): Config {
@@ -87,6 +89,7 @@ try {
 // One set of services for the app and the publish job, so both share the compiled-ruleset cache.
 const services = createServices(dataSource, { publicUrl: config.publicUrl, uploadDir: config.uploadDir });
 await registerRepublishWorker(jobs, { ds: dataSource, rulesets: services.rulesets, mail: services.mail, audit: services.audit, publicUrl: config.publicUrl, batchSize: config.recheckBatchSize });
+const editionClock = startEditionClock(() => services.rulebookAdmin.activateDueEditions(), logger);
 const app = createApp({ dataSource, config, logger, services, republishQueue: jobs, jobControl: jobs });
 const server = createServer(app);
 server.keepAliveTimeout = 5000;
@@ -112,6 +115,7 @@ async function shutdown(signal: string): Promise<void> {
   force.unref();
   await new Promise<void>((resolve) => server.close(() => resolve()));
   await closeApp(app);
+  editionClock.stop();
   await dispatcher?.stop();
   await jobs.stop();
   await fakeSmtp?.stop();

@@ -22,6 +22,8 @@ import { createTubeChoiceService, type TubeChoiceService } from './tube-choice.s
 import { createJournalService, type JournalService } from './journal.service';
 import { createFabricationService, type FabricationService } from './fabrication.service';
 import { createFabricationSettingsService } from './fabrication-settings.service';
+import { createClubSettingsService, type ClubSettingsService } from './club-settings.service';
+import { createSheetEditionService, type SheetEditionService } from './sheet-editions.service';
 
 export interface Services {
   accounts: AccountService;
@@ -45,13 +47,17 @@ export interface Services {
   tubeChoice: TubeChoiceService;
   journal: JournalService;
   fabrication: FabricationService;
+  clubSettings: ClubSettingsService;
+  sheetEditions: SheetEditionService;
 }
 
 export function createServices(
   ds: DataSource,
-  // Photos go to `photoStorage`, else to local disk under `uploadDir` (config's UPLOAD_DIR).
-  options: { publicUrl: string; uploadDir?: string; photoStorage?: PhotoStorage },
+  // Photos go to `photoStorage`, else to local disk under `uploadDir` (config's UPLOAD_DIR). `now` is
+  // the clock that decides the clubs' "today" (editions in force or scheduled); tests pass their own.
+  options: { publicUrl: string; uploadDir?: string; photoStorage?: PhotoStorage; now?: () => Date },
 ): Services {
+  const now = options.now ?? (() => new Date());
   const rulesets = createRulesetService(ds);
   const audit = createAuditService(ds);
   const members = createMemberService(ds, { publicUrl: options.publicUrl, audit });
@@ -65,6 +71,7 @@ export function createServices(
   const fabricationSettings = createFabricationSettingsService(ds);
   const reports = createReportService(ds, { checks, sheets: buildSheets, photos, fabricationSettings, publicUrl: options.publicUrl });
   const tubeStock = createTubeStockService(ds, { audit });
+  const clubSettings = createClubSettingsService(ds, { audit, now });
   return {
     accounts: createAccountService(ds),
     members,
@@ -74,7 +81,7 @@ export function createServices(
     mail,
     mailbox: createMailboxService(ds),
     jobProgress: createJobProgressReader(createJobProgressStore((text, values) => ds.query(text, values)), members),
-    garage: createGarageService(ds),
+    garage: createGarageService(ds, { now }),
     buildSheets,
     photos,
     reports,
@@ -82,10 +89,12 @@ export function createServices(
     reviewReader: createReviewReader(ds, { records: cageRecords, reports, publicUrl: options.publicUrl }),
     cageRecords,
     verification: createVerificationService(ds),
-    rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit }),
+    rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit, clubSettings, now }),
     tubeStock,
     tubeChoice: createTubeChoiceService(ds, { rulesets, stock: tubeStock }),
     journal: createJournalService(ds, { storage: photoStorage, audit }),
     fabrication: createFabricationService({ buildSheets, settings: fabricationSettings }),
+    clubSettings,
+    sheetEditions: createSheetEditionService(ds, { rulesets, buildSheets }),
   };
 }

@@ -1,7 +1,7 @@
 // The draft's impact on the club's build sheets, publishing it, and following the re-check job's
 // progress until it is done (polled once a second; polling stops when the page goes).
 import { onBeforeUnmount, ref, type Ref } from 'vue';
-import { draftImpact, jobProgress, publishDraft, retryJob, type ImpactWire, type JobProgressWire } from '@/api/rulebook-admin';
+import { draftImpact, jobProgress, publishDraft, retryJob, type ImpactWire, type JobProgressWire, type PublishedWire } from '@/api/rulebook-admin';
 import { errorMessage } from '@/api/errors';
 
 export function useRulebookPublish(versionId: Ref<string>, lockVersion: Ref<number>, options: { pollMs?: number } = {}) {
@@ -12,6 +12,8 @@ export function useRulebookPublish(versionId: Ref<string>, lockVersion: Ref<numb
   const publishError = ref<string | null>(null);
   const job = ref<JobProgressWire | null>(null);
   const published = ref(false);
+  /** In force now or scheduled, and from which date: what the server made of the publish. */
+  const result = ref<PublishedWire | null>(null);
   let timer: ReturnType<typeof setTimeout> | null = null;
 
   async function loadImpact(): Promise<void> {
@@ -59,6 +61,7 @@ export function useRulebookPublish(versionId: Ref<string>, lockVersion: Ref<numb
     publishError.value = null;
     try {
       const answer = await publishDraft(versionId.value, lockVersion.value, effectiveDate);
+      result.value = answer;
       published.value = true;
       if (answer.jobId) await poll(answer.jobId);
       return true;
@@ -74,5 +77,5 @@ export function useRulebookPublish(versionId: Ref<string>, lockVersion: Ref<numb
     if (timer) clearTimeout(timer);
   });
 
-  return { impact, impactLoading, impactError, loadImpact, publishing, publishError, publish, job, published, rerun, rerunning };
+  return { impact, impactLoading, impactError, loadImpact, publishing, publishError, publish, job, published, result, rerun, rerunning };
 }

@@ -4,6 +4,7 @@ import type { AuditEntry } from '@/api/audit';
 import { roleLabels } from '@/components/common/roles';
 import type { Role } from '@/api/types';
 import { JOURNAL_STAGE_LABELS, type JournalStage } from '@/api/journal';
+import { formatIsoDate } from '@domain/dates';
 
 export const actionLabels: Record<string, string> = {
   'membership.added': 'Member added',
@@ -15,11 +16,14 @@ export const actionLabels: Record<string, string> = {
   'ruleset.imported': 'Ruleset file imported',
   'ruleset.draft_deleted': 'Rulebook draft deleted',
   'ruleset.published': 'Edition put in force',
+  'ruleset.scheduled': 'Edition scheduled',
+  'ruleset.in_force': 'Scheduled edition came into force',
   'ruleset.retired': 'Edition withdrawn',
   'ruleset.recheck_completed': 'Build sheets re-checked',
   'cage_record.issued': 'Cage record issued',
   'cage_record.revoked': 'Cage record revoked',
   'club.record_settings_changed': 'Cage record settings changed',
+  'club.settings_changed': 'Club time zone changed',
   'submission.annotated': 'Finding annotated',
   'tube_stock.added': 'Stock size added',
   'tube_stock.changed': 'Stock size changed',
@@ -74,6 +78,14 @@ export function auditSummary(entry: AuditEntry): string {
       return `${text(d.sheetName)}: ${stageLabel(d.stage)}`;
     case 'journal.photos_added':
       return `${text(d.sheetName)}: ${String(d.count)} photo${d.count === 1 ? '' : 's'} at ${stageLabel(d.stage)}`;
+    case 'ruleset.published':
+    case 'ruleset.scheduled':
+    case 'ruleset.in_force':
+      return `Version ${String(d.versionNumber)}, edition ${text(d.edition)}, from ${formatIsoDate(text(d.effectiveDate))}`;
+    case 'club.settings_changed': {
+      const zone = d.timeZone as { from?: unknown; to?: unknown } | undefined;
+      return `${text(zone?.from)} → ${text(zone?.to)}`;
+    }
     case 'tube_stock.common_added':
       return `${String(d.added)} size${d.added === 1 ? '' : 's'}`;
     default:
