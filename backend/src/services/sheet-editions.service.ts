@@ -24,7 +24,7 @@ const ref = (v: RulesetVersion): SheetEditionRefWire => ({
 });
 
 function subjectOf(f: Finding): string {
-  if (f.member) return `${MEMBER_KIND_LABELS[f.member.kind]} ${f.member.id}`;
+  if (f.member) return f.member.name && f.member.name !== MEMBER_KIND_LABELS[f.member.kind] ? `${f.member.name} (${f.member.id})` : `${MEMBER_KIND_LABELS[f.member.kind]} ${f.member.id}`;
   if (f.plate) return `plate ${f.plate.id}`;
   return 'whole car';
 }
