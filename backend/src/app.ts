@@ -1,7 +1,8 @@
 // createApp builds the Express application and never listens (server.ts does), so tests can drive
-// it with supertest. Order matters: security headers, health (no session, so it answers even when
-// the session store cannot), JSON body, session + passport, CSRF, the route tables, the JSON 404
-// for /api, the front-end build with its SPA fallback, and finally the one error handler.
+// it with supertest. Order matters: the request log (an id for every request), security headers,
+// health (no session, so it answers even when the session store cannot), JSON body, session +
+// passport, CSRF, the route tables (collected for /api/openapi.json), the JSON 404 for /api, the
+// front-end build with its SPA fallback, and finally the one error handler.
 import { existsSync } from 'node:fs';
 import { join, resolve } from 'node:path';
 import express, { type Express } from 'express';
@@ -10,6 +11,7 @@ import type { DataSource } from 'typeorm';
 import { projectRoot, type Config } from './config';
 import { createLogger, type Logger } from './logger';
 import { requireCsrfToken } from './middleware/csrf';
+import { createRequestLog } from './middleware/request-log';
 import { refuseUnsafeInput } from './middleware/safe-input';
 import { apiNotFound, createErrorHandler } from './middleware/error-handler';
 import { createFailureLimiter, createLoginLimiters, defaultLoginLimits, type LoginLimits } from './middleware/rate-limit';
@@ -29,7 +31,9 @@ import { createClubSettingsRouter } from './routes/club-settings.routes';
 import { createAuditRouter } from './routes/audit.routes';
 import { createJobsRouter } from './routes/jobs.routes';
 import { createMailboxRouter } from './routes/mailbox.routes';
-import { createMetaRouter } from './routes/meta.routes';
+import { appVersion, createMetaRouter } from './routes/meta.routes';
+import { createOpenApiRouter } from './routes/openapi.routes';
+import type { Route, RouteTableRouter } from './routes/route-table';
 import { createRulebooksRouter } from './routes/rulebooks.routes';
 import { createSubmissionsRouter } from './routes/submissions.routes';
 import { createReviewRouter } from './routes/review.routes';
@@ -129,11 +133,17 @@ export function createApp(options: CreateAppOptions): Express {
   app.locals.services = services;
   app.set('trust proxy', config.trustProxy);
   app.disable('x-powered-by');
+  // First, so that every request (health, static files, a 404) gets an id and its line in the log.
+  app.use(createRequestLog(logger));
   app.use(securityHeaders(config));
 
   const healthProbe = createHealthProbe(dataSource);
   app.locals.healthProbe = healthProbe;
-  app.use('/api', createHealthRouter(healthProbe));
+  // Every route table mounted, in order: /api/openapi.json describes exactly these.
+  const mounted: Route[] = [];
+  const healthRouter = createHealthRouter(healthProbe);
+  mounted.push(...healthRouter.routes);
+  app.use('/api', healthRouter);
 
   const sessionSetup: SessionSetup = createSessionMiddleware({
     dataSource,
@@ -158,7 +168,11 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(sessionSetup.middleware);
   api.use(passport.session());
   api.use(requireCsrfToken);
-  api.use(
+  const use = (router: RouteTableRouter) => {
+    api.use(router);
+    mounted.push(...router.routes);
+  };
+  use(
     createAuthRouter({
       services,
       passport,
@@ -166,30 +180,31 @@ export function createApp(options: CreateAppOptions): Express {
       passwordLimiter: createFailureLimiter(limits.windowMs, limits.perEmail),
     }),
   );
-  api.use(createAccountRouter({ services }));
-  api.use(createInvitationsRouter({ services }));
-  api.use(createMembersRouter({ services }));
-  api.use(createClubSettingsRouter({ services }));
-  api.use(createRulebooksRouter({ services }));
-  api.use(createRulebookAdminRouter({ services, republishQueue: options.republishQueue ?? null }));
-  api.use(createChecksRouter({ services }));
-  api.use(createGeometryRouter());
-  api.use(createCarsRouter({ services }));
-  api.use(createBuildSheetsRouter({ services }));
-  api.use(createPhotosRouter({ services }));
-  api.use(createCheckRunsReportRouter({ services }));
-  api.use(createMetaRouter({ mailboxEnabled: config.fakeSmtp }));
-  api.use(createAuditRouter({ services }));
-  api.use(createJobsRouter({ services, control: options.jobControl ?? null }));
-  api.use(createSubmissionsRouter({ services }));
-  api.use(createReviewRouter({ services }));
-  api.use(createCageRecordsRouter({ services }));
-  api.use(createTubeStockRouter({ services }));
-  api.use(createJournalRouter({ services }));
-  api.use(createFabricationRouter({ services }));
-  api.use(createVerifyRouter({ services, limits: options.verifyLimits ?? defaultVerifyLimit }));
+  use(createAccountRouter({ services }));
+  use(createInvitationsRouter({ services }));
+  use(createMembersRouter({ services }));
+  use(createClubSettingsRouter({ services }));
+  use(createRulebooksRouter({ services }));
+  use(createRulebookAdminRouter({ services, republishQueue: options.republishQueue ?? null }));
+  use(createChecksRouter({ services }));
+  use(createGeometryRouter());
+  use(createCarsRouter({ services }));
+  use(createBuildSheetsRouter({ services }));
+  use(createPhotosRouter({ services }));
+  use(createCheckRunsReportRouter({ services }));
+  use(createMetaRouter({ mailboxEnabled: config.fakeSmtp }));
+  use(createAuditRouter({ services }));
+  use(createJobsRouter({ services, control: options.jobControl ?? null }));
+  use(createSubmissionsRouter({ services }));
+  use(createReviewRouter({ services }));
+  use(createCageRecordsRouter({ services }));
+  use(createTubeStockRouter({ services }));
+  use(createJournalRouter({ services }));
+  use(createFabricationRouter({ services }));
+  use(createVerifyRouter({ services, limits: options.verifyLimits ?? defaultVerifyLimit }));
   // The development mailbox exists only while the fake SMTP server does; otherwise its routes are 404.
-  if (config.fakeSmtp) api.use(createMailboxRouter({ services }));
+  if (config.fakeSmtp) use(createMailboxRouter({ services }));
+  use(createOpenApiRouter({ routes: () => mounted, version: appVersion }));
   api.use(apiNotFound);
   app.use('/api', api);
 

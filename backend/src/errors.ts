@@ -1,5 +1,5 @@
 // Typed application errors. Services throw these; the single error handler turns each into the wire
-// shape `{ error: { code, message, details } }` (docs/api.md). Anything else becomes a 500 without
+// shape `{ error: { code, message, details, requestId } }` (docs/api.md). Anything else becomes a 500 without
 // its message or stack reaching the client.
 
 export interface FieldIssue {
@@ -81,11 +81,19 @@ export class InternalError extends AppError {
 }
 
 export interface ErrorBody {
-  error: { code: string; message: string; details?: unknown };
+  error: { code: string; message: string; details?: unknown; requestId?: string };
 }
 
-export function errorBody(err: AppError): ErrorBody {
-  return { error: { code: err.code, message: err.message, ...(err.details !== undefined ? { details: err.details } : {}) } };
+/** The wire shape; `requestId` (the request log's id) lets a person quote what the server logged. */
+export function errorBody(err: AppError, requestId?: string): ErrorBody {
+  return {
+    error: {
+      code: err.code,
+      message: err.message,
+      ...(err.details !== undefined ? { details: err.details } : {}),
+      ...(requestId !== undefined ? { requestId } : {}),
+    },
+  };
 }
 
 // Error codes node-postgres and PostgreSQL give when the server cannot be reached or went away:

@@ -1,5 +1,9 @@
-// A small structured logger: one JSON line per event, filtered by level. Enough for a single
-// process behind a supervisor; nothing here ever logs passwords, tokens or session ids.
+// Structured logging with pino: one JSON line per event (`time`, `level`, `msg`, fields), filtered by
+// level. The app's request log (middleware/request-log.ts) is pino-http on the same pino, so every line
+// about a request carries its `reqId`. Secrets never reach a line: cookies, the CSRF header and any
+// authorization header are replaced by "[redacted]" wherever a request or response is logged, and
+// nothing here ever logs passwords, tokens or session ids.
+import pino, { type Logger as Pino } from 'pino';
 import type { LogLevel } from './config';
 
 export interface Logger {
@@ -7,21 +11,43 @@ export interface Logger {
   warn(msg: string, fields?: Record<string, unknown>): void;
   info(msg: string, fields?: Record<string, unknown>): void;
   debug(msg: string, fields?: Record<string, unknown>): void;
+  /** The pino logger underneath (for pino-http and request-scoped children). */
+  readonly pino: Pino;
 }
 
-const rank: Record<LogLevel, number> = { silent: 0, error: 1, warn: 2, info: 3, debug: 4 };
+export const redactedPaths = [
+  'req.headers.cookie',
+  'req.headers["x-csrf-token"]',
+  'req.headers.authorization',
+  'res.headers["set-cookie"]',
+];
+export const redactedText = '[redacted]';
 
-export function createLogger(level: LogLevel, write: (line: string) => void = (l) => process.stdout.write(l + '\n')): Logger {
-  const emit = (lvl: Exclude<LogLevel, 'silent'>, msg: string, fields?: Record<string, unknown>) => {
-    if (rank[lvl] > rank[level]) return;
-    write(JSON.stringify({ time: new Date().toISOString(), level: lvl, msg, ...fields }));
-  };
+/** A Logger over a pino logger (so request-scoped children keep the same four calls). */
+export function wrapPino(p: Pino): Logger {
   return {
-    error: (m, f) => emit('error', m, f),
-    warn: (m, f) => emit('warn', m, f),
-    info: (m, f) => emit('info', m, f),
-    debug: (m, f) => emit('debug', m, f),
+    error: (m, f) => p.error(f ?? {}, m),
+    warn: (m, f) => p.warn(f ?? {}, m),
+    info: (m, f) => p.info(f ?? {}, m),
+    debug: (m, f) => p.debug(f ?? {}, m),
+    pino: p,
   };
+}
+
+/** The process's logger; `write` receives each line without its newline (default: standard output). */
+export function createLogger(level: LogLevel, write?: (line: string) => void): Logger {
+  const destination = write ? { write: (line: string) => write(line.replace(/\n$/, '')) } : pino.destination({ fd: 1, sync: true });
+  const p = pino(
+    {
+      level,
+      base: { pid: process.pid },
+      timestamp: pino.stdTimeFunctions.isoTime,
+      formatters: { level: (label) => ({ level: label }) },
+      redact: { paths: redactedPaths, censor: redactedText },
+    },
+    destination,
+  );
+  return wrapPino(p);
 }
 
 /** Turns an unknown thrown value into loggable fields (message and stack stay in the log only). */

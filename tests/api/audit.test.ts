@@ -4,7 +4,7 @@
 import type { Express } from 'express';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { appendOnlySqlState } from '../../backend/src/db/migrations/1796083500000-outbox-and-audit';
-import { agentFor, demo, demoClubId, makeTestApp, signIn, useTestDatabase, type Agent } from './helpers';
+import { type Agent, agentFor, demo, demoClubId, hasErrorBody, makeTestApp, signIn, useTestDatabase } from './helpers';
 
 const db = useTestDatabase();
 let app: Express;
@@ -153,7 +153,7 @@ describe('reading the log', () => {
     await signIn(agent, email);
     await agent
       .get(`/api/clubs/${clubId}/audit`)
-      .expect(403, { error: { code: 'forbidden', message: 'Your role does not allow this.' } });
+      .expect(403).expect(hasErrorBody({ error: { code: 'forbidden', message: 'Your role does not allow this.' } }));
   });
 
   it('hides a club from a non-member (404) and refuses the signed-out (401)', async () => {
@@ -162,7 +162,7 @@ describe('reading the log', () => {
     );
     await admin
       .get(`/api/clubs/${other[0]!.id}/audit`)
-      .expect(404, { error: { code: 'not_found', message: 'Club not found.' } });
+      .expect(404).expect(hasErrorBody({ error: { code: 'not_found', message: 'Club not found.' } }));
     await agentFor(app).get(`/api/clubs/${clubId}/audit`).expect(401);
   });
 });

@@ -1,7 +1,7 @@
 // Sign-in, sessions, sign-out, CSRF, the rate limit, password change and the account (docs/api.md).
 import { describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { agentFor, csrfToken, demo, demoClubId, makeTestApp, signIn, testConfig, useTestDatabase } from './helpers';
+import { agentFor, csrfToken, demo, demoClubId, errorBody, hasErrorBody, makeTestApp, signIn, testConfig, useTestDatabase } from './helpers';
 import { demoPassword } from '../../backend/src/db/seed-data';
 
 const db = useTestDatabase();
@@ -54,9 +54,9 @@ describe('sign-in', () => {
       .send({ email: 'nobody@tarnwick.example', password: 'not-it-at-all' });
     expect(wrong.status).toBe(401);
     expect(unknown.status).toBe(401);
-    expect(wrong.body).toEqual(invalidCredentials);
-    expect(unknown.body).toEqual(invalidCredentials);
-    await agent.get('/api/auth/me').expect(401, unauthenticated);
+    expect(wrong.body).toEqual(errorBody(invalidCredentials));
+    expect(unknown.body).toEqual(errorBody(invalidCredentials));
+    await agent.get('/api/auth/me').expect(401).expect(hasErrorBody(unauthenticated));
   });
 
   it('replaces the session at sign-in (new id, old CSRF token no longer valid)', async () => {
@@ -65,7 +65,7 @@ describe('sign-in', () => {
     const login = await agent.post('/api/auth/login').set('X-CSRF-Token', before).send({ email: demo.builder, password: demoPassword }).expect(200);
     expect(login.headers['set-cookie']?.[0]).toMatch(/^cw\.sid=/);
     const res = await agent.patch('/api/account').set('X-CSRF-Token', before).send({ displayName: 'Robin A.' }).expect(403);
-    expect(res.body).toEqual(csrfFailed);
+    expect(res.body).toEqual(errorBody(csrfFailed));
     const after = await csrfToken(agent);
     expect(after).not.toBe(before);
   });
@@ -87,14 +87,14 @@ describe('sign-in', () => {
     const token = await csrfToken(agent);
     const res = await agent.post('/api/auth/login').set('X-CSRF-Token', token).send({ email: 'pending@tarnwick.example', password: 'anything-at-all' });
     expect(res.status).toBe(401);
-    expect(res.body).toEqual(invalidCredentials);
+    expect(res.body).toEqual(errorBody(invalidCredentials));
   });
 
   it('lists every invalid field of a sign-in body', async () => {
     const agent = agentFor(makeTestApp(db.ds));
     const token = await csrfToken(agent);
     const res = await agent.post('/api/auth/login').set('X-CSRF-Token', token).send({ email: 'not-an-email', password: '' }).expect(400);
-    expect(res.body).toEqual({
+    expect(res.body).toEqual(errorBody({
       error: {
         code: 'validation_failed',
         message: 'Some fields are invalid.',
@@ -103,7 +103,7 @@ describe('sign-in', () => {
           { path: 'password', message: 'Must not be empty' },
         ],
       },
-    });
+    }));
   });
 });
 
@@ -121,7 +121,7 @@ describe('rate limit', () => {
     for (let i = 0; i < 3; i++) expect((await attempt(demo.builder)).status).toBe(401);
     const limited = await attempt(demo.builder, demoPassword);
     expect(limited.status).toBe(429);
-    expect(limited.body).toEqual(rateLimited);
+    expect(limited.body).toEqual(errorBody(rateLimited));
     // Another e-mail is not affected by that counter.
     expect((await attempt(demo.steward, demoPassword)).status).toBe(200);
   });
@@ -131,7 +131,7 @@ describe('rate limit', () => {
     for (const email of ['a@x.example', 'b@x.example', 'c@x.example']) expect((await attempt(email)).status).toBe(401);
     const limited = await attempt(demo.admin, demoPassword);
     expect(limited.status).toBe(429);
-    expect(limited.body).toEqual(rateLimited);
+    expect(limited.body).toEqual(errorBody(rateLimited));
   });
 
   it('does not count successful sign-ins', async () => {
@@ -148,9 +148,9 @@ describe('sign-out', () => {
     const cookie = (await agent.get('/api/auth/me').expect(200)).request.cookies;
     const res = await agent.post('/api/auth/logout').set('X-CSRF-Token', token).expect(204);
     expect(res.headers['set-cookie']?.[0]).toMatch(/^cw\.sid=;/);
-    await agent.get('/api/auth/me').expect(401, unauthenticated);
+    await agent.get('/api/auth/me').expect(401).expect(hasErrorBody(unauthenticated));
     // The old cookie no longer opens anything: the row is gone from the store.
-    await request(makeTestApp(db.ds)).get('/api/auth/me').set('Cookie', cookie).expect(401, unauthenticated);
+    await request(makeTestApp(db.ds)).get('/api/auth/me').set('Cookie', cookie).expect(401).expect(hasErrorBody(unauthenticated));
   });
 });
 
@@ -164,14 +164,14 @@ describe('CSRF', () => {
     const req = agent.patch('/api/account').send({ displayName: 'Sneaky' });
     if (header) req.set('X-CSRF-Token', header);
     const res = await req.expect(403);
-    expect(res.body).toEqual(csrfFailed);
+    expect(res.body).toEqual(errorBody(csrfFailed));
     const me = await agent.get('/api/auth/me').expect(200);
     expect(me.body.user.displayName).toBe('Robin Ashcombe');
   });
 
   it('refuses a sign-in without a token', async () => {
     const res = await request(makeTestApp(db.ds)).post('/api/auth/login').send({ email: demo.builder, password: demoPassword }).expect(403);
-    expect(res.body).toEqual(csrfFailed);
+    expect(res.body).toEqual(errorBody(csrfFailed));
   });
 });
 
@@ -184,7 +184,7 @@ describe('account', () => {
     expect((await agent.get('/api/auth/me')).body.user.preferredUnits).toBe('metric');
 
     const bad = await agent.patch('/api/account').set('X-CSRF-Token', token).send({ preferredUnits: 'cubits', displayName: '', role: 'admin' }).expect(400);
-    expect(bad.body).toEqual({
+    expect(bad.body).toEqual(errorBody({
       error: {
         code: 'validation_failed',
         message: 'Some fields are invalid.',
@@ -194,14 +194,14 @@ describe('account', () => {
           { path: '', message: 'Unrecognized key: "role"' },
         ],
       },
-    });
+    }));
     await agent.patch('/api/account').set('X-CSRF-Token', token).send({ displayName: 'Robin Ashcombe', preferredUnits: 'imperial' }).expect(200);
   });
 
   it('needs a signed-in user', async () => {
     const agent = agentFor(makeTestApp(db.ds));
     const token = await csrfToken(agent);
-    await agent.patch('/api/account').set('X-CSRF-Token', token).send({ preferredUnits: 'metric' }).expect(401, unauthenticated);
+    await agent.patch('/api/account').set('X-CSRF-Token', token).send({ preferredUnits: 'metric' }).expect(401).expect(hasErrorBody(unauthenticated));
   });
 });
 
@@ -214,19 +214,19 @@ describe('change password', () => {
     const token = await signIn(agent, demo.steward);
 
     const wrong = await agent.post('/api/auth/password').set('X-CSRF-Token', token).send({ currentPassword: 'not-the-one', newPassword: 'a-new-long-password' }).expect(400);
-    expect(wrong.body).toEqual({
+    expect(wrong.body).toEqual(errorBody({
       error: { code: 'validation_failed', message: 'Some fields are invalid.', details: [{ path: 'currentPassword', message: 'The current password is wrong' }] },
-    });
+    }));
     const short = await agent.post('/api/auth/password').set('X-CSRF-Token', token).send({ currentPassword: demoPassword, newPassword: 'short' }).expect(400);
     expect(short.body.error.details).toEqual([{ path: 'newPassword', message: 'At least 10 characters' }]);
 
     await agent.post('/api/auth/password').set('X-CSRF-Token', token).send({ currentPassword: demoPassword, newPassword: 'a-new-long-password' }).expect(204);
     await agent.get('/api/auth/me').expect(200);
-    await elsewhere.get('/api/auth/me').expect(401, unauthenticated);
+    await elsewhere.get('/api/auth/me').expect(401).expect(hasErrorBody(unauthenticated));
 
     const fresh = agentFor(app);
     const t = await csrfToken(fresh);
-    await fresh.post('/api/auth/login').set('X-CSRF-Token', t).send({ email: demo.steward, password: demoPassword }).expect(401, invalidCredentials);
+    await fresh.post('/api/auth/login').set('X-CSRF-Token', t).send({ email: demo.steward, password: demoPassword }).expect(401).expect(hasErrorBody(invalidCredentials));
     await fresh.post('/api/auth/login').set('X-CSRF-Token', t).send({ email: demo.steward, password: 'a-new-long-password' }).expect(200);
   });
 });

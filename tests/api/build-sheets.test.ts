@@ -4,7 +4,7 @@
 import { randomUUID } from 'node:crypto';
 import { beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { makeTestApp, useTestDatabase } from './helpers';
+import { hasErrorBody, makeTestApp, useTestDatabase } from './helpers';
 import { carWithSheet, everyone, garageFixture, saloonSpec, type GarageFixture } from './garage-fixtures';
 
 const db = useTestDatabase();
@@ -64,7 +64,7 @@ describe('a new build sheet', () => {
     const cls = await post({ classId: 'formula-x' }).expect(400);
     expect(cls.body.error.details).toEqual([{ path: 'classId', message: expect.stringContaining('"club-saloon"') }]);
     await post({ rulesetVersionId: randomUUID() }).expect(404);
-    await post({ clubId: randomUUID() }).expect(404, { error: { code: 'not_found', message: 'Club not found.' } });
+    await post({ clubId: randomUUID() }).expect(404).expect(hasErrorBody({ error: { code: 'not_found', message: 'Club not found.' } }));
     const bad = await post({ specification: { vehicle: { classId: 'club-saloon' }, members: [{ id: 'mh', kind: 'main_hoop', odMm: 44.45, wallMm: 30 }] } }).expect(400);
     expect(bad.body.error.details).toEqual([{ path: 'specification.members.0.wallMm', message: expect.any(String) }]);
   });
@@ -73,7 +73,7 @@ describe('a new build sheet', () => {
     const car = await who.steward.agent.post('/api/cars').set('X-CSRF-Token', who.steward.token).send({ name: 'Stewards car', chassisType: 'tube_frame' }).expect(201);
     await who.steward.agent.post(`/api/cars/${car.body.car.id}/build-sheets`).set('X-CSRF-Token', who.steward.token)
       .send({ name: 'X', clubId: fx.clubId, rulesetVersionId: fx.versionId, classId: 'club-saloon' })
-      .expect(403, { error: { code: 'forbidden', message: 'You need the builder role in this club to keep build sheets for it.' } });
+      .expect(403).expect(hasErrorBody({ error: { code: 'forbidden', message: 'You need the builder role in this club to keep build sheets for it.' } }));
   });
 });
 
@@ -139,6 +139,16 @@ describe('plausible ranges on write (issue 9 §1)', () => {
     ]);
   });
 
+  it('refuses a cage approved in the future and a side on a member that spans the car, at their paths (issue 9 "Bad input")', async () => {
+    const spec = saloonSpec() as Record<string, unknown> & { members: Record<string, unknown>[] };
+    spec.cage = { approvedOn: '2999-01-01' };
+    spec.members[0]!.side = 'left'; // the main hoop
+    spec.members[6]!.side = 'right'; // a door bar may have one
+    const res = await who.builder.agent.post(`/api/cars/${carId}/build-sheets`).set('X-CSRF-Token', who.builder.token)
+      .send({ name: 'Future', clubId: fx.clubId, rulesetVersionId: fx.versionId, classId: 'club-saloon', specification: spec }).expect(400);
+    expect(res.body.error.details.map((d: { path: string }) => d.path).sort()).toEqual(['specification.cage.approvedOn', 'specification.members.0.side']);
+  });
+
   it('still checks a revision stored before its value was judged implausible: ranges apply to writes only', async () => {
     const { sheetId: oldSheet } = await carWithSheet(who.builder, fx);
     const latest = await db.ds.query('SELECT id, specification FROM build_sheet_revisions WHERE build_sheet_id = $1 AND number = 1', [oldSheet]);
@@ -176,26 +186,26 @@ describe('who may see and change a sheet', () => {
     await agent.get(`/api/build-sheets/${sheetId}/revisions`).expect(200);
     await agent.get(`/api/build-sheets/${sheetId}/revisions/1/diff/3`).expect(200);
     await agent.put(`/api/build-sheets/${sheetId}/specification`).set('X-CSRF-Token', token)
-      .send({ baseRevision: 3, rulesetVersionId: fx.versionId, classId: 'club-saloon', specification: saloonSpec() }).expect(403, forbidden);
-    await agent.patch(`/api/build-sheets/${sheetId}`).set('X-CSRF-Token', token).send({ name: 'Mine now' }).expect(403, forbidden);
-    await agent.post(`/api/build-sheets/${sheetId}/archive`).set('X-CSRF-Token', token).expect(403, forbidden);
+      .send({ baseRevision: 3, rulesetVersionId: fx.versionId, classId: 'club-saloon', specification: saloonSpec() }).expect(403).expect(hasErrorBody(forbidden));
+    await agent.patch(`/api/build-sheets/${sheetId}`).set('X-CSRF-Token', token).send({ name: 'Mine now' }).expect(403).expect(hasErrorBody(forbidden));
+    await agent.post(`/api/build-sheets/${sheetId}/archive`).set('X-CSRF-Token', token).expect(403).expect(hasErrorBody(forbidden));
     // The car itself is only ever the owner's.
     await agent.get(`/api/cars/${carId}`).expect(404);
   });
 
   it.each(['otherBuilder', 'outsider'] as const)('the %s gets 404 for reading and editing alike', async (role) => {
     const { agent, token } = who[role];
-    await agent.get(`/api/build-sheets/${sheetId}`).expect(404, notFound);
-    await agent.get(`/api/build-sheets/${sheetId}/revisions`).expect(404, notFound);
-    await agent.get(`/api/build-sheets/${sheetId}/revisions/1/diff/2`).expect(404, notFound);
+    await agent.get(`/api/build-sheets/${sheetId}`).expect(404).expect(hasErrorBody(notFound));
+    await agent.get(`/api/build-sheets/${sheetId}/revisions`).expect(404).expect(hasErrorBody(notFound));
+    await agent.get(`/api/build-sheets/${sheetId}/revisions/1/diff/2`).expect(404).expect(hasErrorBody(notFound));
     await agent.put(`/api/build-sheets/${sheetId}/specification`).set('X-CSRF-Token', token)
-      .send({ baseRevision: 3, rulesetVersionId: fx.versionId, classId: 'club-saloon', specification: saloonSpec() }).expect(404, notFound);
-    await agent.patch(`/api/build-sheets/${sheetId}`).set('X-CSRF-Token', token).send({ name: 'Mine now' }).expect(404, notFound);
+      .send({ baseRevision: 3, rulesetVersionId: fx.versionId, classId: 'club-saloon', specification: saloonSpec() }).expect(404).expect(hasErrorBody(notFound));
+    await agent.patch(`/api/build-sheets/${sheetId}`).set('X-CSRF-Token', token).send({ name: 'Mine now' }).expect(404).expect(hasErrorBody(notFound));
   });
 
   it('answers 401 when signed out, 404 for an unknown sheet, 400 for a malformed id', async () => {
     await request(app).get(`/api/build-sheets/${sheetId}`).expect(401);
-    await who.builder.agent.get(`/api/build-sheets/${randomUUID()}`).expect(404, notFound);
+    await who.builder.agent.get(`/api/build-sheets/${randomUUID()}`).expect(404).expect(hasErrorBody(notFound));
     const bad = await who.builder.agent.get('/api/build-sheets/not-an-id').expect(400);
     expect(bad.body.error.details[0].path).toBe('params.sheetId');
   });

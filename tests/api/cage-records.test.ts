@@ -8,7 +8,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { addMonthsUtc, parseRecordNumber } from '../../backend/src/domain/review/cage-record';
-import { makeTestApp, testPublicUrl, useTestDatabase } from './helpers';
+import { errorBody, makeTestApp, testPublicUrl, useTestDatabase } from './helpers';
 import type { SignedIn } from './garage-fixtures';
 import { act, failingSpec, reviewFixture, submitNew, type ReviewFixture } from './review-fixtures';
 
@@ -88,7 +88,7 @@ describe('reading and revoking', () => {
     await fx.who.builder.agent.get(`/api/cage-records/${record.id}`).expect(200);
     for (const who of [fx.who.otherBuilder, fx.who.outsider, fx.who.foreignSteward]) {
       const res = await who.agent.get(`/api/cage-records/${record.id}`).expect(404);
-      expect(res.body).toEqual({ error: { code: 'not_found', message: 'Cage record not found.' } });
+      expect(res.body).toEqual(errorBody({ error: { code: 'not_found', message: 'Cage record not found.' } }));
     }
     await fx.who.foreignSteward.agent.post(`/api/cage-records/${record.id}/revoke`).set('X-CSRF-Token', fx.who.foreignSteward.token).send({ reason: 'Crash damage to the main hoop.' }).expect(404);
   });

@@ -8,7 +8,7 @@ import { createServices, type Services } from '../../backend/src/services';
 import { createCheckService, newCheckRunCode, type CheckServiceOptions } from '../../backend/src/services/checks.service';
 import { isWellFormedVerificationCode } from '../../backend/src/domain/review/verification-code';
 import { hashPassword } from '../../backend/src/services/passwords';
-import { agentFor, demo, makeTestApp, signIn, testPublicUrl, useTestDatabase, type Agent } from './helpers';
+import { type Agent, agentFor, demo, errorBody, hasErrorBody, makeTestApp, signIn, testPublicUrl, useTestDatabase } from './helpers';
 
 const db = useTestDatabase();
 const IN = 25.4; // mm per inch, exact (F-UNIT-1)
@@ -182,7 +182,7 @@ describe('POST /api/checks: a dry run', () => {
     delete members[4]!.id;
     (spec.vehicle as Json).weightWithDriverKg = 0;
     const res = await post({ agent: builder, token: builderToken }, { ...dryRunBody('club-saloon', spec), rulesetVersionId: 'v1' }).expect(400);
-    expect(res.body).toEqual({
+    expect(res.body).toEqual(errorBody({
       error: {
         code: 'validation_failed',
         message: 'Some fields are invalid.',
@@ -197,7 +197,7 @@ describe('POST /api/checks: a dry run', () => {
           { path: 'specification.members.4.id', message: 'Invalid input: expected string, received undefined' },
         ],
       },
-    });
+    }));
   });
 
   it('refuses a wall of half the OD or more, and an OD that cannot be a cage tube, with messages', async () => {
@@ -219,25 +219,25 @@ describe('POST /api/checks: a dry run', () => {
 
   it('refuses a specification whose vehicle names another class than the one checked', async () => {
     const res = await post({ agent: builder, token: builderToken }, { ...dryRunBody('club-saloon'), classId: 'heavy-special' }).expect(400);
-    expect(res.body).toEqual({
+    expect(res.body).toEqual(errorBody({
       error: { code: 'validation_failed', message: 'Some fields are invalid.', details: [{ path: 'specification.vehicle.classId', message: 'Must be the class being checked ("heavy-special")' }] },
-    });
+    }));
   });
 
   it('answers 404 for an unknown version and for an unknown class', async () => {
-    await post({ agent: builder, token: builderToken }, { ...dryRunBody('club-saloon'), rulesetVersionId: randomUUID() }).expect(404, versionNotFound);
+    await post({ agent: builder, token: builderToken }, { ...dryRunBody('club-saloon'), rulesetVersionId: randomUUID() }).expect(404).expect(hasErrorBody(versionNotFound));
     const spec = validSpecs['club-saloon']!();
     (spec.vehicle as Json).classId = 'rally-cross';
     const res = await post({ agent: builder, token: builderToken }, { ...dryRunBody('club-saloon', spec), classId: 'rally-cross' }).expect(404);
-    expect(res.body).toEqual({ error: { code: 'not_found', message: 'Unknown class "rally-cross". This ruleset has: open-sprint, club-saloon, heavy-special.' } });
+    expect(res.body).toEqual(errorBody({ error: { code: 'not_found', message: 'Unknown class "rally-cross". This ruleset has: open-sprint, club-saloon, heavy-special.' } }));
   });
 
   it('answers 404 to a member of another club, 401 when signed out, 403 without the CSRF token', async () => {
-    await post(await signedIn('admin@harrowgate.example', 'second-builder-password'), dryRunBody('club-saloon')).expect(404, versionNotFound);
+    await post(await signedIn('admin@harrowgate.example', 'second-builder-password'), dryRunBody('club-saloon')).expect(404).expect(hasErrorBody(versionNotFound));
     await agentFor(app).post('/api/checks').send(dryRunBody('club-saloon')).expect(403);
     const anon = agentFor(app);
     const token = (await anon.get('/api/auth/csrf')).body.token as string;
-    await anon.post('/api/checks').set('X-CSRF-Token', token).send(dryRunBody('club-saloon')).expect(401, { error: { code: 'unauthenticated', message: 'Please sign in.' } });
+    await anon.post('/api/checks').set('X-CSRF-Token', token).send(dryRunBody('club-saloon')).expect(401).expect(hasErrorBody({ error: { code: 'unauthenticated', message: 'Please sign in.' } }));
   });
 
   it('lets stewards and admins check too', async () => {
@@ -245,6 +245,27 @@ describe('POST /api/checks: a dry run', () => {
       const { report } = (await post(await signedIn(email), dryRunBody('hill-saloon')).expect(200)).body;
       expect(report.verdict).toBe('pass');
     }
+  });
+
+  it('refuses values outside their fields\' plausible ranges, as a sheet write does (issue 9 §1), and stores nothing', async () => {
+    const spec = validSpecs['club-saloon']!();
+    // "2,800 lb" read as 2.8 lb: 1.27 kg (F-UNIT-1, 1 lb = 0.45359237 kg), and a wall typed as an OD.
+    (spec.vehicle as Json).weightWithDriverKg = 2.8 * LB;
+    (spec.members as Json[])[2]!.wallMm = 12;
+    const res = await post({ agent: builder, token: builderToken }, dryRunBody('club-saloon', spec)).expect(400);
+    expect(res.body.error).toEqual({
+      code: 'validation_failed',
+      message: 'Some fields are invalid.',
+      details: [
+        { path: 'specification.vehicle.weightWithDriverKg', message: "A race car's weight is 200 to 5,000 kg (441 to 11,023 lb): check the units." },
+        { path: 'specification.members.2.wallMm', message: "A cage tube's wall is 0.5 to 10 mm (0.02 to 0.394 in): check the units." },
+      ],
+    });
+    // The same car at 2,800 lb is in range and checked.
+    const heavy = validSpecs['club-saloon']!();
+    (heavy.vehicle as Json).weightWithDriverKg = 2800 * LB;
+    expect((await post({ agent: builder, token: builderToken }, dryRunBody('club-saloon', heavy)).expect(200)).body.report.classId).toBe('club-saloon');
+    expect(await db.ds.query('SELECT count(*)::int AS n FROM check_runs')).toEqual([{ n: 0 }]);
   });
 
   it('writes reason texts in the units asked for, numbers staying canonical', async () => {
@@ -268,8 +289,8 @@ describe('ruleset version states', () => {
     );
     const draft = { ...dryRunBody('hill-saloon'), rulesetVersionId: rows[0]!.id };
     expect((await post(await signedIn(demo.admin), draft).expect(200)).body.report.verdict).toBe('pass');
-    await post({ agent: builder, token: builderToken }, draft).expect(404, versionNotFound);
-    await post(await signedIn(demo.steward), draft).expect(404, versionNotFound);
+    await post({ agent: builder, token: builderToken }, draft).expect(404).expect(hasErrorBody(versionNotFound));
+    await post(await signedIn(demo.steward), draft).expect(404).expect(hasErrorBody(versionNotFound));
     await db.ds.query('DELETE FROM ruleset_versions WHERE id = $1', [rows[0]!.id]);
   });
 
@@ -285,13 +306,13 @@ describe('ruleset version states', () => {
     // A superseded version can still be checked against (older cars may hold to it).
     expect((await post({ agent: builder, token: builderToken }, dryRunBody('hill-saloon')).expect(200)).body.report.verdict).toBe('pass');
     await db.ds.query(`UPDATE ruleset_versions SET status = 'retired' WHERE id = $1`, [v1]);
-    await post({ agent: builder, token: builderToken }, dryRunBody('hill-saloon')).expect(409, {
+    await post({ agent: builder, token: builderToken }, dryRunBody('hill-saloon')).expect(409).expect(hasErrorBody({
       error: {
         code: 'conflict',
         message: 'This ruleset version is retired: checks against it are no longer possible. Check against the rulebook’s current version.',
         details: { currentVersionId: rows[0]!.id },
       },
-    });
+    }));
     versions[hillSlug] = rows[0]!.id;
   });
 });
@@ -338,9 +359,9 @@ describe('saved check runs', () => {
     for (const email of [demo.steward, demo.admin]) {
       expect((await (await signedIn(email)).agent.get(`/api/check-runs/${runId}`).expect(200)).body.checkRun.id).toBe(runId);
     }
-    await (await signedIn('builder2@tarnwick.example', 'second-builder-password')).agent.get(`/api/check-runs/${runId}`).expect(404, runNotFound);
-    await (await signedIn('admin@harrowgate.example', 'second-builder-password')).agent.get(`/api/check-runs/${runId}`).expect(404, runNotFound);
-    await builder.get(`/api/check-runs/${randomUUID()}`).expect(404, runNotFound);
+    await (await signedIn('builder2@tarnwick.example', 'second-builder-password')).agent.get(`/api/check-runs/${runId}`).expect(404).expect(hasErrorBody(runNotFound));
+    await (await signedIn('admin@harrowgate.example', 'second-builder-password')).agent.get(`/api/check-runs/${runId}`).expect(404).expect(hasErrorBody(runNotFound));
+    await builder.get(`/api/check-runs/${randomUUID()}`).expect(404).expect(hasErrorBody(runNotFound));
     await agentFor(app).get(`/api/check-runs/${runId}`).expect(401);
   });
 

@@ -2,7 +2,7 @@
 // field listed, and no stack traces (docs/api.md, "Errors"). Also the security headers.
 import { describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { agentFor, csrfToken, demo, demoClubId, makeTestApp, signIn, useTestDatabase } from './helpers';
+import { agentFor, csrfToken, demo, demoClubId, errorBody, makeTestApp, signIn, useTestDatabase } from './helpers';
 
 const db = useTestDatabase();
 
@@ -16,7 +16,7 @@ describe('error shape', () => {
       .set('Content-Type', 'application/json')
       .send('{"email": "builder@tarnwick.example", ')
       .expect(400);
-    expect(res.body).toEqual({ error: { code: 'malformed_json', message: 'The request body is not valid JSON.' } });
+    expect(res.body).toEqual(errorBody({ error: { code: 'malformed_json', message: 'The request body is not valid JSON.' } }));
     expect(JSON.stringify(res.body)).not.toMatch(/at |SyntaxError|node_modules/);
   });
 
@@ -28,7 +28,7 @@ describe('error shape', () => {
       .set('X-CSRF-Token', token)
       .send({ displayName: 'x'.repeat(101 * 1024) })
       .expect(413);
-    expect(res.body).toEqual({ error: { code: 'payload_too_large', message: 'The request body is larger than 100 kB.' } });
+    expect(res.body).toEqual(errorBody({ error: { code: 'payload_too_large', message: 'The request body is larger than 100 kB.' } }));
   });
 
   it('accepts a body just under the limit (and then validates it)', async () => {
@@ -44,7 +44,7 @@ describe('error shape', () => {
     ['GET', '/api/clubs'],
   ])('answers an unknown API route (%s %s) with a JSON 404', async (_method, path) => {
     const res = await request(makeTestApp(db.ds)).get(path).expect(404).expect('Content-Type', /json/);
-    expect(res.body).toEqual({ error: { code: 'not_found', message: 'No such API route.' } });
+    expect(res.body).toEqual(errorBody({ error: { code: 'not_found', message: 'No such API route.' } }));
   });
 
   it('lists every invalid field, with nested paths', async () => {
@@ -56,7 +56,7 @@ describe('error shape', () => {
       .set('X-CSRF-Token', token)
       .send({ email: 'nope', roles: ['builder', 'pilot', 'builder'] })
       .expect(400);
-    expect(res.body).toEqual({
+    expect(res.body).toEqual(errorBody({
       error: {
         code: 'validation_failed',
         message: 'Some fields are invalid.',
@@ -65,7 +65,7 @@ describe('error shape', () => {
           { path: 'roles.1', message: 'Must be builder, steward or admin' },
         ],
       },
-    });
+    }));
     const missing = await agent.post(`/api/clubs/${clubId}/members`).set('X-CSRF-Token', token).send({}).expect(400);
     expect(missing.body.error.details).toEqual([
       { path: 'email', message: 'Must be text' },
@@ -80,9 +80,9 @@ describe('error shape', () => {
     const token = await signIn(agent, demo.admin);
     const clubId = await demoClubId(db.ds);
     const res = await agent.patch(`/api/clubs/${clubId}/members/not-a-uuid`).set('X-CSRF-Token', token).send({ roles: ['builder'] }).expect(400);
-    expect(res.body).toEqual({
+    expect(res.body).toEqual(errorBody({
       error: { code: 'validation_failed', message: 'Some fields are invalid.', details: [{ path: 'params.userId', message: 'Must be an id' }] },
-    });
+    }));
   });
 });
 

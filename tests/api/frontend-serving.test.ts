@@ -4,7 +4,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import request from 'supertest';
 import { describe, expect, it } from 'vitest';
-import { makeTestApp, useTestDatabase } from './helpers';
+import { errorBody, makeTestApp, useTestDatabase } from './helpers';
 
 const db = useTestDatabase();
 
@@ -32,7 +32,7 @@ describe('front-end build', () => {
       expect(missing.text).not.toContain('<div id="app">');
     }
     const api = await request(app).get('/api/not-a-route').expect(404);
-    expect(api.body).toEqual({ error: { code: 'not_found', message: 'No such API route.' } });
+    expect(api.body).toEqual(errorBody({ error: { code: 'not_found', message: 'No such API route.' } }));
   });
 
   it('has no fallback when there is no build', async () => {

@@ -3,7 +3,7 @@
 import { randomUUID } from 'node:crypto';
 import { beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { makeTestApp, useTestDatabase } from './helpers';
+import { errorOf, hasErrorBody, makeTestApp, useTestDatabase } from './helpers';
 import { carWithSheet, everyone, garageFixture, type GarageFixture } from './garage-fixtures';
 
 const db = useTestDatabase();
@@ -69,27 +69,27 @@ describe('cars', () => {
     const list = await who.builder.agent.get('/api/cars').expect(200);
     const grey = list.body.cars.find((c: { name: string }) => c.name === 'Grey Saloon');
     const refused = await who.builder.agent.delete(`/api/cars/${grey.id}`).set('X-CSRF-Token', t).expect(409);
-    expect(refused.body.error).toEqual({ code: 'conflict', message: 'This car has 1 build sheet, so it cannot be deleted. Archive it instead.', details: { buildSheets: 1 } });
+    expect(refused.body.error).toEqual(errorOf({ code: 'conflict', message: 'This car has 1 build sheet, so it cannot be deleted. Archive it instead.', details: { buildSheets: 1 } }));
     await who.builder.agent.delete(`/api/cars/${carId}`).set('X-CSRF-Token', t).expect(204);
-    await who.builder.agent.get(`/api/cars/${carId}`).expect(404, carNotFound);
+    await who.builder.agent.get(`/api/cars/${carId}`).expect(404).expect(hasErrorBody(carNotFound));
   });
 
   it.each(['otherBuilder', 'steward', 'admin', 'outsider'] as const)('gives the %s 404 for someone else’s car, whatever the action', async (role) => {
     const list = await who.builder.agent.get('/api/cars').expect(200);
     const id = list.body.cars[0].id;
     const { agent, token } = who[role];
-    await agent.get(`/api/cars/${id}`).expect(404, carNotFound);
-    await agent.patch(`/api/cars/${id}`).set('X-CSRF-Token', token).send({ name: 'Taken' }).expect(404, carNotFound);
-    await agent.post(`/api/cars/${id}/archive`).set('X-CSRF-Token', token).expect(404, carNotFound);
-    await agent.delete(`/api/cars/${id}`).set('X-CSRF-Token', token).expect(404, carNotFound);
+    await agent.get(`/api/cars/${id}`).expect(404).expect(hasErrorBody(carNotFound));
+    await agent.patch(`/api/cars/${id}`).set('X-CSRF-Token', token).send({ name: 'Taken' }).expect(404).expect(hasErrorBody(carNotFound));
+    await agent.post(`/api/cars/${id}/archive`).set('X-CSRF-Token', token).expect(404).expect(hasErrorBody(carNotFound));
+    await agent.delete(`/api/cars/${id}`).set('X-CSRF-Token', token).expect(404).expect(hasErrorBody(carNotFound));
     await agent.post(`/api/cars/${id}/build-sheets`).set('X-CSRF-Token', token)
-      .send({ name: 'X', clubId: fx.clubId, rulesetVersionId: fx.versionId, classId: 'club-saloon' }).expect(404, carNotFound);
+      .send({ name: 'X', clubId: fx.clubId, rulesetVersionId: fx.versionId, classId: 'club-saloon' }).expect(404).expect(hasErrorBody(carNotFound));
     expect((await agent.get('/api/cars').expect(200)).body.cars).toEqual([]);
   });
 
   it('answers 401 signed out, 403 without a CSRF token, 404 for an unknown car', async () => {
     await request(app).get('/api/cars').expect(401);
     await who.builder.agent.post('/api/cars').send({ name: 'X', chassisType: 'unibody' }).expect(403);
-    await who.builder.agent.get(`/api/cars/${randomUUID()}`).expect(404, carNotFound);
+    await who.builder.agent.get(`/api/cars/${randomUUID()}`).expect(404).expect(hasErrorBody(carNotFound));
   });
 });

@@ -3,7 +3,7 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import type { DataSource } from 'typeorm';
-import { agentFor, demo, makeTestApp, openDataSource, signIn, startDbProxy, useTestDatabase, type DbProxy } from './helpers';
+import { agentFor, type DbProxy, demo, errorBody, makeTestApp, openDataSource, signIn, startDbProxy, useTestDatabase } from './helpers';
 
 const db = useTestDatabase();
 const unavailable = {
@@ -44,14 +44,14 @@ describe('when PostgreSQL goes away and comes back', () => {
     expect(health.body).toEqual({ status: 'degraded', db: 'down' });
     // The session store cannot load the session: the request fails cleanly.
     const me = await agent.get('/api/auth/me').expect(503);
-    expect(me.body).toEqual(unavailable);
+    expect(me.body).toEqual(errorBody(unavailable));
     const patch = await agent.patch('/api/account').set('X-CSRF-Token', token).send({ displayName: 'Offline' }).expect(503);
-    expect(patch.body).toEqual(unavailable);
+    expect(patch.body).toEqual(errorBody(unavailable));
     // Without a session cookie, a route that queries the database directly also reports 503.
     const fresh = agentFor(app);
-    expect((await fresh.get('/api/auth/csrf').expect(503)).body).toEqual(unavailable);
+    expect((await fresh.get('/api/auth/csrf').expect(503)).body).toEqual(errorBody(unavailable));
     const invitation = await request(app).get('/api/invitations/' + 'a'.repeat(43)).expect(503);
-    expect(invitation.body).toEqual(unavailable);
+    expect(invitation.body).toEqual(errorBody(unavailable));
 
     await proxy.restore();
 

@@ -89,6 +89,25 @@ export async function signIn(agent: Agent, email: string, password = demoPasswor
   return csrfToken(agent);
 }
 
+const requestIdPattern = /^[0-9a-f]{8}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{4}-[0-9a-f]{12}$/;
+
+/** An error body as the API sends it: the code, message and details given, and the request's id. */
+export function errorBody(body: { error: object }): { error: object } {
+  return { error: { ...body.error, requestId: expect.stringMatching(requestIdPattern) } };
+}
+
+/** The `error` member of errorBody, for `expect(res.body.error).toEqual(…)`. */
+export function errorOf(error: object): object {
+  return errorBody({ error }).error;
+}
+
+/** errorBody for supertest's `.expect(fn)` (its `.expect(status, body)` compares exactly, so it cannot match "any id"). */
+export function hasErrorBody(body: { error: object }): (res: { body: unknown }) => void {
+  return (res) => {
+    expect(res.body).toEqual(errorBody(body));
+  };
+}
+
 export function agentFor(app: Express): Agent {
   return request.agent(app);
 }

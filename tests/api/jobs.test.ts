@@ -7,7 +7,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createLogger } from '../../backend/src/logger';
 import { createJobs, defaultQueueOptions, type Jobs } from '../../backend/src/services/jobs';
 import type { JobProgressWire } from '../../backend/src/contracts/jobs';
-import { agentFor, demo, demoClubId, makeTestApp, signIn, testConfig, useTestDatabase } from './helpers';
+import { agentFor, demo, demoClubId, hasErrorBody, makeTestApp, signIn, testConfig, useTestDatabase } from './helpers';
 
 const db = useTestDatabase();
 let jobs: Jobs;
@@ -159,7 +159,7 @@ describe('GET /api/jobs/:id', () => {
     await signIn(agent, email);
     await agent
       .get(`/api/jobs/${jobId}`)
-      .expect(403, { error: { code: 'forbidden', message: 'Your role does not allow this.' } });
+      .expect(403).expect(hasErrorBody({ error: { code: 'forbidden', message: 'Your role does not allow this.' } }));
   });
 
   it('hides another club’s job and an unknown one (404), and refuses the signed-out (401)', async () => {
@@ -170,8 +170,8 @@ describe('GET /api/jobs/:id', () => {
     const agent = agentFor(app);
     await signIn(agent, demo.admin);
     const notFound = { error: { code: 'not_found', message: 'Job not found.' } };
-    await agent.get(`/api/jobs/${foreign}`).expect(404, notFound);
-    await agent.get('/api/jobs/00000000-0000-4000-8000-000000000000').expect(404, notFound);
+    await agent.get(`/api/jobs/${foreign}`).expect(404).expect(hasErrorBody(notFound));
+    await agent.get('/api/jobs/00000000-0000-4000-8000-000000000000').expect(404).expect(hasErrorBody(notFound));
     await agent.get('/api/jobs/nope').expect(400);
     await agentFor(app).get(`/api/jobs/${jobId}`).expect(401);
   });

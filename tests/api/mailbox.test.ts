@@ -4,7 +4,7 @@ import type { Express } from 'express';
 import { beforeAll, beforeEach, describe, expect, it } from 'vitest';
 import { createMailboxService } from '../../backend/src/services/mail';
 import { hashPassword } from '../../backend/src/services/passwords';
-import { agentFor, csrfToken, demo, makeTestApp, signIn, testConfig, useTestDatabase } from './helpers';
+import { agentFor, csrfToken, demo, hasErrorBody, makeTestApp, signIn, testConfig, useTestDatabase } from './helpers';
 import { clearMailTables } from './mail-helpers';
 
 const db = useTestDatabase();
@@ -74,9 +74,9 @@ describe('with FAKE_SMTP off', () => {
   it('answers 404 on every mailbox address, even to an admin', async () => {
     const agent = agentFor(off);
     const token = await signIn(agent, demo.admin);
-    await agent.get('/api/dev/mailbox').expect(404, notFound);
-    await agent.get(`/api/dev/mailbox/${ids[0]}`).expect(404, notFound);
-    await agent.delete('/api/dev/mailbox').set('X-CSRF-Token', token).expect(404, notFound);
+    await agent.get('/api/dev/mailbox').expect(404).expect(hasErrorBody(notFound));
+    await agent.get(`/api/dev/mailbox/${ids[0]}`).expect(404).expect(hasErrorBody(notFound));
+    await agent.delete('/api/dev/mailbox').set('X-CSRF-Token', token).expect(404).expect(hasErrorBody(notFound));
     const rows: unknown[] = await db.ds.query('SELECT 1 FROM dev_mailbox');
     expect(rows).toHaveLength(2);
   });
@@ -122,16 +122,16 @@ describe('with FAKE_SMTP on', () => {
   it.each([demo.builder, demo.steward])('refuses %s (no admin role anywhere) with 403', async (email) => {
     const agent = agentFor(on);
     const token = await signIn(agent, email);
-    await agent.get('/api/dev/mailbox').expect(403, forbidden);
-    await agent.get(`/api/dev/mailbox/${ids[0]}`).expect(403, forbidden);
-    await agent.delete('/api/dev/mailbox').set('X-CSRF-Token', token).expect(403, forbidden);
+    await agent.get('/api/dev/mailbox').expect(403).expect(hasErrorBody(forbidden));
+    await agent.get(`/api/dev/mailbox/${ids[0]}`).expect(403).expect(hasErrorBody(forbidden));
+    await agent.delete('/api/dev/mailbox').set('X-CSRF-Token', token).expect(403).expect(hasErrorBody(forbidden));
     expect(await db.ds.query('SELECT 1 FROM dev_mailbox')).toHaveLength(2);
   });
 
   it('refuses the signed-out with 401', async () => {
     await agentFor(on)
       .get('/api/dev/mailbox')
-      .expect(401, { error: { code: 'unauthenticated', message: 'Please sign in.' } });
+      .expect(401).expect(hasErrorBody({ error: { code: 'unauthenticated', message: 'Please sign in.' } }));
   });
 
   it('gives 400 for a malformed id and 404 for an unknown one', async () => {
@@ -139,16 +139,16 @@ describe('with FAKE_SMTP on', () => {
     await signIn(agent, demo.admin);
     await agent
       .get('/api/dev/mailbox/not-a-uuid')
-      .expect(400, {
+      .expect(400).expect(hasErrorBody({
         error: {
           code: 'validation_failed',
           message: 'Some fields are invalid.',
           details: [{ path: 'params.id', message: 'Must be an id' }],
         },
-      });
+      }));
     await agent
       .get('/api/dev/mailbox/00000000-0000-4000-8000-000000000000')
-      .expect(404, { error: { code: 'not_found', message: 'No such message in the mailbox.' } });
+      .expect(404).expect(hasErrorBody({ error: { code: 'not_found', message: 'No such message in the mailbox.' } }));
   });
 
   it('clears only with the CSRF token', async () => {

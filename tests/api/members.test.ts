@@ -3,7 +3,7 @@
 import { randomUUID } from 'node:crypto';
 import { beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { agentFor, csrfToken, demo, demoClubId, makeTestApp, signIn, testPublicUrl, useTestDatabase, type Agent } from './helpers';
+import { type Agent, agentFor, csrfToken, demo, demoClubId, errorBody, hasErrorBody, makeTestApp, signIn, testPublicUrl, useTestDatabase } from './helpers';
 import { hashPassword } from '../../backend/src/services/passwords';
 import { hashToken } from '../../backend/src/services/members.service';
 
@@ -56,28 +56,28 @@ describe('who may list members', () => {
   it.each([demo.builder, demo.steward])('refuses %s with 403 (member without the admin role)', async (email) => {
     const agent = agentFor(app);
     const token = await signIn(agent, email);
-    await agent.get(`/api/clubs/${clubId}/members`).expect(403, forbidden);
-    await agent.post(`/api/clubs/${clubId}/members`).set('X-CSRF-Token', token).send({ email: 'x@y.example', roles: ['builder'] }).expect(403, forbidden);
+    await agent.get(`/api/clubs/${clubId}/members`).expect(403).expect(hasErrorBody(forbidden));
+    await agent.post(`/api/clubs/${clubId}/members`).set('X-CSRF-Token', token).send({ email: 'x@y.example', roles: ['builder'] }).expect(403).expect(hasErrorBody(forbidden));
     const target = await userId(demo.builder);
-    await agent.patch(`/api/clubs/${clubId}/members/${target}`).set('X-CSRF-Token', token).send({ roles: ['admin'] }).expect(403, forbidden);
-    await agent.delete(`/api/clubs/${clubId}/members/${target}`).set('X-CSRF-Token', token).expect(403, forbidden);
+    await agent.patch(`/api/clubs/${clubId}/members/${target}`).set('X-CSRF-Token', token).send({ roles: ['admin'] }).expect(403).expect(hasErrorBody(forbidden));
+    await agent.delete(`/api/clubs/${clubId}/members/${target}`).set('X-CSRF-Token', token).expect(403).expect(hasErrorBody(forbidden));
   });
 
   it('answers 404 for a club the caller does not belong to, an unknown club and a malformed id', async () => {
     const agent = agentFor(app);
     const token = await signIn(agent, demo.admin);
-    await agent.get(`/api/clubs/${otherClubId}/members`).expect(404, clubNotFound);
-    await agent.post(`/api/clubs/${otherClubId}/members`).set('X-CSRF-Token', token).send({ email: demo.builder, roles: ['admin'] }).expect(404, clubNotFound);
-    await agent.get(`/api/clubs/${randomUUID()}/members`).expect(404, clubNotFound);
-    await agent.get('/api/clubs/tarnwick-vale/members').expect(404, clubNotFound);
+    await agent.get(`/api/clubs/${otherClubId}/members`).expect(404).expect(hasErrorBody(clubNotFound));
+    await agent.post(`/api/clubs/${otherClubId}/members`).set('X-CSRF-Token', token).send({ email: demo.builder, roles: ['admin'] }).expect(404).expect(hasErrorBody(clubNotFound));
+    await agent.get(`/api/clubs/${randomUUID()}/members`).expect(404).expect(hasErrorBody(clubNotFound));
+    await agent.get('/api/clubs/tarnwick-vale/members').expect(404).expect(hasErrorBody(clubNotFound));
     // And the other club's admin cannot see Tarnwick Vale either.
     const other = agentFor(app);
     await signIn(other, 'admin@harrowgate.example', 'other-admin-password');
-    await other.get(`/api/clubs/${clubId}/members`).expect(404, clubNotFound);
+    await other.get(`/api/clubs/${clubId}/members`).expect(404).expect(hasErrorBody(clubNotFound));
   });
 
   it('answers 401 when not signed in', async () => {
-    await request(app).get(`/api/clubs/${clubId}/members`).expect(401, unauthenticated);
+    await request(app).get(`/api/clubs/${clubId}/members`).expect(401).expect(hasErrorBody(unauthenticated));
   });
 });
 
@@ -95,7 +95,7 @@ describe('adding and changing members', () => {
       member: { user: { id: await userId('admin@harrowgate.example'), email: 'admin@harrowgate.example', displayName: 'Ola Brent' }, roles: ['steward'], invitationPending: false },
     });
     const again = await agent.post(`/api/clubs/${clubId}/members`).set('X-CSRF-Token', token).send({ email: 'admin@harrowgate.example', roles: ['builder'] }).expect(409);
-    expect(again.body).toEqual({ error: { code: 'conflict', message: 'This person is already a member of the club.' } });
+    expect(again.body).toEqual(errorBody({ error: { code: 'conflict', message: 'This person is already a member of the club.' } }));
   });
 
   it('changes roles, and 404s for someone who is not a member', async () => {
@@ -109,9 +109,9 @@ describe('adding and changing members', () => {
       ['harrowgate-sprint', ['admin']],
       ['tarnwick-vale', ['builder', 'steward']],
     ]);
-    await agent.patch(`/api/clubs/${clubId}/members/${randomUUID()}`).set('X-CSRF-Token', token).send({ roles: ['builder'] }).expect(404, {
+    await agent.patch(`/api/clubs/${clubId}/members/${randomUUID()}`).set('X-CSRF-Token', token).send({ roles: ['builder'] }).expect(404).expect(hasErrorBody({
       error: { code: 'not_found', message: 'Member not found.' },
-    });
+    }));
   });
 
   it('removes a member', async () => {
@@ -128,20 +128,20 @@ describe('the last admin', () => {
     const agent = agentFor(app);
     const token = await signIn(agent, demo.admin);
     const self = await userId(demo.admin);
-    await agent.patch(`/api/clubs/${clubId}/members/${self}`).set('X-CSRF-Token', token).send({ roles: ['steward'] }).expect(409, lastAdmin);
-    await agent.delete(`/api/clubs/${clubId}/members/${self}`).set('X-CSRF-Token', token).expect(409, lastAdmin);
+    await agent.patch(`/api/clubs/${clubId}/members/${self}`).set('X-CSRF-Token', token).send({ roles: ['steward'] }).expect(409).expect(hasErrorBody(lastAdmin));
+    await agent.delete(`/api/clubs/${clubId}/members/${self}`).set('X-CSRF-Token', token).expect(409).expect(hasErrorBody(lastAdmin));
 
     // A pending (not yet accepted) admin does not count: they cannot sign in to run the club.
     const invited = await agent.post(`/api/clubs/${clubId}/members`).set('X-CSRF-Token', token).send({ email: 'future-admin@tarnwick.example', roles: ['admin'] }).expect(201);
     expect(invited.body.member.invitationPending).toBe(true);
-    await agent.patch(`/api/clubs/${clubId}/members/${self}`).set('X-CSRF-Token', token).send({ roles: ['steward'] }).expect(409, lastAdmin);
+    await agent.patch(`/api/clubs/${clubId}/members/${self}`).set('X-CSRF-Token', token).send({ roles: ['steward'] }).expect(409).expect(hasErrorBody(lastAdmin));
     await agent.delete(`/api/clubs/${clubId}/members/${invited.body.member.user.id}`).set('X-CSRF-Token', token).expect(204);
 
     // With a second active admin, the first may step down, and then loses access to the list.
     const steward = await userId(demo.steward);
     await agent.patch(`/api/clubs/${clubId}/members/${steward}`).set('X-CSRF-Token', token).send({ roles: ['steward', 'admin'] }).expect(200);
     await agent.patch(`/api/clubs/${clubId}/members/${self}`).set('X-CSRF-Token', token).send({ roles: ['steward'] }).expect(200);
-    await agent.get(`/api/clubs/${clubId}/members`).expect(403, forbidden);
+    await agent.get(`/api/clubs/${clubId}/members`).expect(403).expect(hasErrorBody(forbidden));
 
     // Put things back for the tests below.
     const stewardAgent = agentFor(app);
@@ -180,9 +180,9 @@ describe('invitations', () => {
     await guest.get('/api/auth/me').expect(200);
 
     // The link works once.
-    await guest.get(`/api/invitations/${inviteToken}`).expect(404, invitationGone);
+    await guest.get(`/api/invitations/${inviteToken}`).expect(404).expect(hasErrorBody(invitationGone));
     const t2 = await csrfToken(guest);
-    await guest.post(`/api/invitations/${inviteToken}/accept`).set('X-CSRF-Token', t2).send({ password: 'another-password' }).expect(404, invitationGone);
+    await guest.post(`/api/invitations/${inviteToken}/accept`).set('X-CSRF-Token', t2).send({ password: 'another-password' }).expect(404).expect(hasErrorBody(invitationGone));
     // And the new password signs in.
     await signIn(agentFor(app), 'new.builder@tarnwick.example', 'my-own-password');
     const after = await admin.get(`/api/clubs/${clubId}/members`).expect(200);
@@ -195,9 +195,9 @@ describe('invitations', () => {
     const res = await admin.post(`/api/clubs/${clubId}/members`).set('X-CSRF-Token', token).send({ email: 'late@tarnwick.example', roles: ['steward'] }).expect(201);
     const inviteToken = String(res.body.invitationUrl).split('/').pop()!;
     await db.ds.query(`UPDATE invitations SET expires_at = now() - interval '1 minute' WHERE email = 'late@tarnwick.example'`);
-    await request(app).get(`/api/invitations/${inviteToken}`).expect(404, invitationGone);
-    await request(app).get(`/api/invitations/${'b'.repeat(43)}`).expect(404, invitationGone);
-    await request(app).get('/api/invitations/short').expect(404, invitationGone);
+    await request(app).get(`/api/invitations/${inviteToken}`).expect(404).expect(hasErrorBody(invitationGone));
+    await request(app).get(`/api/invitations/${'b'.repeat(43)}`).expect(404).expect(hasErrorBody(invitationGone));
+    await request(app).get('/api/invitations/short').expect(404).expect(hasErrorBody(invitationGone));
   });
 
   it('drops a pending invitation when the member is removed', async () => {
@@ -206,6 +206,6 @@ describe('invitations', () => {
     const res = await admin.post(`/api/clubs/${clubId}/members`).set('X-CSRF-Token', token).send({ email: 'changed-mind@tarnwick.example', roles: ['builder'] }).expect(201);
     const inviteToken = String(res.body.invitationUrl).split('/').pop()!;
     await admin.delete(`/api/clubs/${clubId}/members/${res.body.member.user.id}`).set('X-CSRF-Token', token).expect(204);
-    await request(app).get(`/api/invitations/${inviteToken}`).expect(404, invitationGone);
+    await request(app).get(`/api/invitations/${inviteToken}`).expect(404).expect(hasErrorBody(invitationGone));
   });
 });

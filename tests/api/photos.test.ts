@@ -7,7 +7,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import sharp from 'sharp';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { makeTestApp, testConfig, useTestDatabase } from './helpers';
+import { errorBody, errorOf, hasErrorBody, makeTestApp, testConfig, useTestDatabase } from './helpers';
 import { carWithSheet, everyone, garageFixture, testJpeg, type SignedIn } from './garage-fixtures';
 
 const db = useTestDatabase();
@@ -70,10 +70,10 @@ describe('uploading photos', () => {
   ])('refuses %s with 400 naming the file, together with a good one, and keeps nothing', async (_label, make, name, message) => {
     const before = await filesOnDisk();
     const res = await upload().attach('photos', await testJpeg(), 'good.jpg').attach('photos', await make(), name).expect(400);
-    expect(res.body.error).toEqual({
+    expect(res.body.error).toEqual(errorOf({
       code: 'validation_failed', message: 'Some files are not photos Cagewright can use. Nothing was saved.',
       details: [{ path: 'photos.1', message: expect.stringMatching(message) }],
-    });
+    }));
     expect(res.body.error.details[0].message).toContain(`"${name}"`);
     expect(await filesOnDisk()).toEqual(before);
     expect((await who.builder.agent.get(`/api/build-sheets/${sheetId}/photos`)).body.photos).toHaveLength(2);
@@ -82,7 +82,7 @@ describe('uploading photos', () => {
   it('refuses a file over 15 MB with 413', async () => {
     const big = Buffer.concat([await testJpeg(), Buffer.alloc(15 * 1024 * 1024)]);
     const res = await upload().attach('photos', big, 'huge.jpg').expect(413);
-    expect(res.body.error).toEqual({ code: 'payload_too_large', message: 'Each photo may be at most 15 MB. Nothing was saved.' });
+    expect(res.body.error).toEqual(errorOf({ code: 'payload_too_large', message: 'Each photo may be at most 15 MB. Nothing was saved.' }));
     expect(await filesOnDisk()).toHaveLength(4);
   });
 
@@ -120,7 +120,7 @@ describe('uploading photos', () => {
     await db.ds.query(`CREATE TRIGGER cw_test_refuse_photo BEFORE INSERT ON photos FOR EACH ROW EXECUTE FUNCTION cw_test_refuse_photo()`);
     try {
       const res = await upload().attach('photos', await testJpeg(), 'a.jpg').attach('photos', await testJpeg(), 'b.jpg').expect(500);
-      expect(res.body).toEqual({ error: { code: 'internal_error', message: 'Something went wrong on our side.' } });
+      expect(res.body).toEqual(errorBody({ error: { code: 'internal_error', message: 'Something went wrong on our side.' } }));
     } finally {
       await db.ds.query('DROP TRIGGER cw_test_refuse_photo ON photos');
       await db.ds.query('DROP FUNCTION cw_test_refuse_photo()');
@@ -137,9 +137,9 @@ describe('uploading photos', () => {
     try {
       const jpeg = await testJpeg(64, 48);
       const res = await upload().attach('photos', jpeg, 'a.jpg').attach('photos', jpeg, 'b.jpg').expect(409);
-      expect(res.body.error).toEqual({
+      expect(res.body.error).toEqual(errorOf({
         code: 'conflict', message: 'A build sheet holds at most 60 photos. This one has 59, so at most 1 more can be added.', details: { limit: 60, current: 59 },
-      });
+      }));
     } finally {
       await db.ds.query(`DELETE FROM photos WHERE storage_key LIKE 'fake/%'`);
     }
@@ -175,10 +175,10 @@ describe('editing, deleting and who may see photos', () => {
     const { agent, token } = who[role];
     const gone = { error: { code: 'not_found', message: 'Photo not found.' } };
     await agent.get(`/api/build-sheets/${sheetId}/photos`).expect(404);
-    await agent.get(photo.imageUrl).expect(404, gone);
-    await agent.get(photo.thumbnailUrl).expect(404, gone);
-    await agent.patch(`/api/photos/${photo.id}`).set('X-CSRF-Token', token).send({ caption: 'x' }).expect(404, gone);
-    await agent.delete(`/api/photos/${photo.id}`).set('X-CSRF-Token', token).expect(404, gone);
+    await agent.get(photo.imageUrl).expect(404).expect(hasErrorBody(gone));
+    await agent.get(photo.thumbnailUrl).expect(404).expect(hasErrorBody(gone));
+    await agent.patch(`/api/photos/${photo.id}`).set('X-CSRF-Token', token).send({ caption: 'x' }).expect(404).expect(hasErrorBody(gone));
+    await agent.delete(`/api/photos/${photo.id}`).set('X-CSRF-Token', token).expect(404).expect(hasErrorBody(gone));
     await upload(who[role]).attach('photos', await testJpeg(64, 48), 'a.jpg').expect(404);
     expect(await filesOnDisk()).toHaveLength(4);
   });

@@ -9,7 +9,7 @@ import { join } from 'node:path';
 import { randomUUID } from 'node:crypto';
 import { beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
-import { makeTestApp, testConfig, testPublicUrl, useTestDatabase } from './helpers';
+import { hasErrorBody, makeTestApp, testConfig, testPublicUrl, useTestDatabase } from './helpers';
 import { carWithSheet, everyone, garageFixture, saloonSpec, testJpeg, type GarageFixture } from './garage-fixtures';
 
 const db = useTestDatabase();
@@ -131,7 +131,7 @@ describe('the PDF report', () => {
     // their stored parts in the reader's metric, sizes included, and a failing one says what to change.
     const flat = text.replace(/\s+/g, ' ');
     expect(flat).toContain('To pass, use');
-    expect(flat).toMatch(/Nearest: 38\.1 × 2\.41 mm/); // 1.500 × 0.095 in (F-UNIT-1, computed)
+    expect(flat).toMatch(/Nearest: mild steel 38\.1 × 2\.41 mm/); // 1.500 × 0.095 in (F-UNIT-1, computed)
     expect(flat).not.toMatch(/\d in (is|\(|;|in )/);
     await who.builder.agent.get(`/api/check-runs/${runId}/report.pdf?units=furlongs`).expect(400);
   });
@@ -143,7 +143,7 @@ describe('the PDF report', () => {
 
   it.each(['otherBuilder', 'outsider'] as const)('is 404 for the %s, as for an unknown run', async (role) => {
     const gone = { error: { code: 'not_found', message: 'Check run not found.' } };
-    await who[role].agent.get(`/api/check-runs/${runId}/report.pdf`).expect(404, gone);
-    await who.builder.agent.get(`/api/check-runs/${randomUUID()}/report.pdf`).expect(404, gone);
+    await who[role].agent.get(`/api/check-runs/${runId}/report.pdf`).expect(404).expect(hasErrorBody(gone));
+    await who.builder.agent.get(`/api/check-runs/${randomUUID()}/report.pdf`).expect(404).expect(hasErrorBody(gone));
   });
 });

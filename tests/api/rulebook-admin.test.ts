@@ -96,6 +96,32 @@ describe('rulebook administration', () => {
     await del(who.admin, `/api/ruleset-drafts/${draft.id}`).expect(204);
   });
 
+  it('lists each new form\'s bad input at its path (issue 9 "Bad input") and refuses to put such a draft in force', async () => {
+    const draft = await newDraft();
+    const doc = structuredClone(draft.document) as Doc & { requirements: unknown[] };
+    const n = doc.requirements.length;
+    const rule = (id: string, scope: unknown, requires: unknown) => ({ id, title: id, section: `X${id.length}`, severity: 'mandatory', area: 'mounting', scope, requires, explanation: '' });
+    doc.requirements.push(
+      // k × a fact of another dimension: a side as k × an area.
+      rule('bad-k', { kind: 'plate', locations: ['main_hoop_foot'] }, { template: 'limit', checks: [{ fact: 'plate.leastSideMm', operator: 'atLeast', value: { times: 2, of: 'plate.areaMm2' } }] }),
+      rule('bad-grade', { kind: 'member', memberKinds: ['main_hoop'] }, { template: 'limit', checks: [{ fact: 'member.grade', operator: 'atLeast', value: 'Grade 9000' }] }),
+      rule('bad-tolerance', { kind: 'member', memberKinds: ['main_hoop'] }, { template: 'tube_table', bands: [{ rows: [{ alternatives: [{ od: 1.5, wall: 0.12 }] }] }], measuredWall: { method: 'ultrasonic', tolerance: { percent: 50 } } }),
+      rule('bad-side', { kind: 'vehicle' }, { template: 'required_members', members: [{ kinds: ['main_hoop'], min: 1, side: 'each' }] }),
+    );
+    const saved = await put(who.admin, `/api/ruleset-drafts/${draft.id}`).send({ lockVersion: draft.lockVersion, document: doc }).expect(200);
+    const paths = saved.body.draft.problems.map((p: { path: string }) => p.path);
+    expect(paths).toEqual(expect.arrayContaining([
+      `requirements.${n}.requires.checks.0.value.of`,
+      `requirements.${n + 1}.requires.checks.0.value`,
+      `requirements.${n + 2}.requires.measuredWall.tolerance.percent`,
+      `requirements.${n + 3}.requires.members.0.side`,
+    ]));
+    expect(paths).toHaveLength(4);
+    const refused = await post(who.admin, `/api/ruleset-drafts/${draft.id}/publish`).send({ lockVersion: saved.body.draft.lockVersion, effectiveDate: '2028-01-01' }).expect(409);
+    expect(refused.body.error.details.problems.map((p: { path: string }) => p.path)).toEqual(paths);
+    await del(who.admin, `/api/ruleset-drafts/${draft.id}`).expect(204);
+  });
+
   it('imports a document; bad JSON and a bad schema give 400 with paths and leave the draft untouched', async () => {
     const draft = await newDraft();
     const badJson = await post(who.admin, `/api/ruleset-drafts/${draft.id}/import`).send({ lockVersion: draft.lockVersion, text: '{"formatVersion": 1,' }).expect(400);

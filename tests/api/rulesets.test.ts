@@ -10,7 +10,7 @@ import { seedDemo } from '../../backend/src/db/seed';
 import { loadDemoRulesets, rulesetSeedStep, seedDemoRulesets } from '../../backend/src/db/seed-rulesets';
 import { validateRulesetDocument } from '../../backend/src/domain';
 import { hashPassword } from '../../backend/src/services/passwords';
-import { agentFor, demo, demoClubId, makeTestApp, signIn, useTestDatabase } from './helpers';
+import { agentFor, demo, demoClubId, hasErrorBody, makeTestApp, signIn, useTestDatabase } from './helpers';
 
 const db = useTestDatabase();
 const versionNotFound = { error: { code: 'not_found', message: 'Ruleset version not found.' } };
@@ -158,9 +158,9 @@ describe('GET /api/clubs/:clubId/rulebooks', () => {
   it('answers 404 to a member of another club and for an unknown club, 401 when signed out', async () => {
     const agent = agentFor(app);
     await signIn(agent, outsider, 'other-admin-password');
-    await agent.get(`/api/clubs/${clubId}/rulebooks`).expect(404, clubNotFound);
-    await agent.get(`/api/clubs/${randomUUID()}/rulebooks`).expect(404, clubNotFound);
-    await agentFor(app).get(`/api/clubs/${clubId}/rulebooks`).expect(401, unauthenticated);
+    await agent.get(`/api/clubs/${clubId}/rulebooks`).expect(404).expect(hasErrorBody(clubNotFound));
+    await agent.get(`/api/clubs/${randomUUID()}/rulebooks`).expect(404).expect(hasErrorBody(clubNotFound));
+    await agentFor(app).get(`/api/clubs/${clubId}/rulebooks`).expect(401).expect(hasErrorBody(unauthenticated));
   });
 });
 
@@ -185,12 +185,12 @@ describe('GET /api/ruleset-versions/:versionId', () => {
     const id = await versionIdOf(cageFile);
     const agent = agentFor(app);
     await signIn(agent, outsider, 'other-admin-password');
-    await agent.get(`/api/ruleset-versions/${id}`).expect(404, versionNotFound);
-    await agent.get(`/api/ruleset-versions/${randomUUID()}`).expect(404, versionNotFound);
-    await agent.get('/api/ruleset-versions/not-an-id').expect(400, {
+    await agent.get(`/api/ruleset-versions/${id}`).expect(404).expect(hasErrorBody(versionNotFound));
+    await agent.get(`/api/ruleset-versions/${randomUUID()}`).expect(404).expect(hasErrorBody(versionNotFound));
+    await agent.get('/api/ruleset-versions/not-an-id').expect(400).expect(hasErrorBody({
       error: { code: 'validation_failed', message: 'Some fields are invalid.', details: [{ path: 'params.versionId', message: 'Must be an id' }] },
-    });
-    await agentFor(app).get(`/api/ruleset-versions/${id}`).expect(401, unauthenticated);
+    }));
+    await agentFor(app).get(`/api/ruleset-versions/${id}`).expect(401).expect(hasErrorBody(unauthenticated));
   });
 });
 
@@ -217,7 +217,7 @@ describe('drafts', () => {
       await signIn(agent, email);
       const res = await agent.get(`/api/clubs/${clubId}/rulebooks`).expect(200);
       expect(res.body.rulebooks[0].versions.map((v: { versionNumber: number }) => v.versionNumber)).toEqual([1]);
-      await agent.get(`/api/ruleset-versions/${draftId}`).expect(404, versionNotFound);
+      await agent.get(`/api/ruleset-versions/${draftId}`).expect(404).expect(hasErrorBody(versionNotFound));
     }
   });
 

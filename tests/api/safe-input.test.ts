@@ -6,7 +6,7 @@
 import type { Express } from 'express';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { testJpeg } from './garage-fixtures';
-import { agentFor, demo, makeTestApp, signIn, useTestDatabase, type Agent } from './helpers';
+import { type Agent, agentFor, demo, errorBody, makeTestApp, signIn, useTestDatabase } from './helpers';
 
 const db = useTestDatabase();
 let app: Express;
@@ -114,6 +114,6 @@ describe('/api/verify/<anything>', () => {
   it.each(['%00', 'abc%00', '%ED%A0%80', '%E0', '%', 'CW-%F0%9F%9A%97', 'x'.repeat(3000)])('answers the documented 404 for a code like %#', async (code) => {
     const res = await agentFor(app).get(`/api/verify/${code}`);
     expect(res.status).toBe(404);
-    expect(res.body).toEqual(notFound);
+    expect(res.body).toEqual(errorBody(notFound));
   });
 });

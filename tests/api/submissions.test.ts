@@ -3,7 +3,7 @@
 // and other people see nothing (404); a builder cannot decide (403); a withdrawn submission cannot
 // be approved; two approvals at once give one record and one 409; resubmission shows what changed.
 import { beforeAll, describe, expect, it } from 'vitest';
-import { makeTestApp, useTestDatabase } from './helpers';
+import { errorBody, makeTestApp, useTestDatabase } from './helpers';
 import { testJpeg } from './garage-fixtures';
 import { act, current, failingSpec, passingSpec, reviewFixture, savedRun, submitNew, type ReviewFixture } from './review-fixtures';
 import { outboxRows } from './mail-helpers';
@@ -44,7 +44,7 @@ describe('submitting', () => {
     const { sheetId } = await carWithSheet(builder, fx);
     const runId = await savedRun(builder, sheetId);
     const stranger = await otherBuilder.agent.post('/api/submissions').set('X-CSRF-Token', otherBuilder.token).send({ checkRunId: runId }).expect(404);
-    expect(stranger.body).toEqual({ error: { code: 'not_found', message: 'Check run not found.' } });
+    expect(stranger.body).toEqual(errorBody({ error: { code: 'not_found', message: 'Check run not found.' } }));
     await steward.agent.post('/api/submissions').set('X-CSRF-Token', steward.token).send({ checkRunId: runId }).expect(403);
     const bad = await builder.agent.post('/api/submissions').set('X-CSRF-Token', builder.token).send({ checkRunId: 'nope' }).expect(400);
     expect(bad.body.error.details[0].path).toBe('checkRunId');
@@ -56,7 +56,7 @@ describe('who may see and act', () => {
     const { submissionId } = await submitNew(fx.who.builder, fx);
     for (const who of [fx.who.foreignSteward, fx.who.otherBuilder, fx.who.outsider]) {
       const read = await who.agent.get(`/api/submissions/${submissionId}`).expect(404);
-      expect(read.body).toEqual({ error: { code: 'not_found', message: 'Submission not found.' } });
+      expect(read.body).toEqual(errorBody({ error: { code: 'not_found', message: 'Submission not found.' } }));
       await who.agent.post(`/api/submissions/${submissionId}/actions`).set('X-CSRF-Token', who.token)
         .send({ type: 'claim', expected: { state: 'pending', version: 1 } }).expect(404);
       await who.agent.post(`/api/submissions/${submissionId}/annotations`).set('X-CSRF-Token', who.token)

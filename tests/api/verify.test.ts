@@ -7,7 +7,7 @@ import { randomBytes } from 'node:crypto';
 import request from 'supertest';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { CODE_RANDOM_BYTES, newVerificationCode } from '../../backend/src/domain/review/verification-code';
-import { makeTestApp, useTestDatabase } from './helpers';
+import { errorBody, hasErrorBody, makeTestApp, useTestDatabase } from './helpers';
 import { act, failingSpec, reviewFixture, savedRun, submitNew, type ReviewFixture } from './review-fixtures';
 import { carWithSheet } from './garage-fixtures';
 
@@ -72,7 +72,7 @@ describe('GET /api/verify/:code', () => {
       const res = await verify(c);
       return { status: res.status, body: res.body, type: res.headers['content-type'] };
     }));
-    for (const a of answers) expect(a).toEqual({ status: 404, body: notFound, type: answers[0]!.type });
+    for (const a of answers) expect(a).toEqual({ status: 404, body: errorBody(notFound), type: answers[0]!.type });
   });
 
   it('allows 30 look-ups a minute per IP, then answers 429', async () => {
@@ -136,7 +136,7 @@ describe('check-run codes (issue 9 §5)', () => {
     expect(res.body.kind).toBe('check_run');
     expect(res.body.checkRun.verdict).toBe('fail');
     expect((await verify('q4m7-zt2k-x9b3-hdno-prwc-5v8e').expect(200)).body.kind).toBe('check_run');
-    await verify(`${legacy.slice(0, -1)}${legacy.endsWith('0') ? '1' : '0'}`).expect(404, notFound);
+    await verify(`${legacy.slice(0, -1)}${legacy.endsWith('0') ? '1' : '0'}`).expect(404).expect(hasErrorBody(notFound));
   });
 
   it('a steward of the club, and the builder, look a check run up by its code (current or older form); others get 404', async () => {
@@ -147,9 +147,9 @@ describe('check-run codes (issue 9 §5)', () => {
     const legacyId = await legacyCopyOf(runId, 'M2K8ZQ4TX7B9HDN3PRWC5V0E');
     expect((await byCode(fx.who.steward, 'M2K8-ZQ4T-X7B9-HDN3-PRWC-5V0E').expect(200)).body.checkRun.id).toBe(legacyId);
     const refused = { error: { code: 'not_found', message: 'No check run you may see has this code.' } };
-    await byCode(fx.who.foreignSteward, code).expect(404, refused);
-    await byCode(fx.who.steward, newVerificationCode(randomBytes(CODE_RANDOM_BYTES))).expect(404, refused);
-    await byCode(fx.who.steward, 'hello').expect(404, refused);
+    await byCode(fx.who.foreignSteward, code).expect(404).expect(hasErrorBody(refused));
+    await byCode(fx.who.steward, newVerificationCode(randomBytes(CODE_RANDOM_BYTES))).expect(404).expect(hasErrorBody(refused));
+    await byCode(fx.who.steward, 'hello').expect(404).expect(hasErrorBody(refused));
     await request(app).get(`/api/check-runs/by-code/${code}`).expect(401);
   });
 });

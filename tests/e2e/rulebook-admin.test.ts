@@ -80,6 +80,11 @@ test('the demo admin raises a minimum wall, sees the impact, puts it in force, a
   // thinner-wall allowance with it (else a 1.750 in tube would still pass on 0.095 in).
   const wall = saloon.getByLabel('Band 2, row 1, size 2: wall (in)');
   expect(await wall.inputValue()).toBe('0.095');
+  // Issue 9 §1: numbers are read as rulebooks print them; a decimal comma in an inch-pound document
+  // is refused beside the field and the draft keeps 0.095 until a clear value is typed.
+  await wall.fill('0,12');
+  await saloon.getByText('in inch-pound units a comma groups thousands').waitFor();
+  await shots(page, 'draft-typed-number-refused');
   await wall.fill('0.12');
   await saloon.getByLabel('Thinner wall allowed: minimum wall').fill('0.12');
   await page.getByText('All changes saved').waitFor();
@@ -88,6 +93,19 @@ test('the demo admin raises a minimum wall, sees the impact, puts it in force, a
     await page.getByRole('tab', { name: tab }).click();
     await shots(page, `draft-${name}`);
   }
+  // A new rule without JSON (issue 9 §3): braces the same size as the hoop, then removed again after
+  // the question, so this draft stays the one the journey publishes.
+  await page.getByRole('tab', { name: 'Required members' }).click();
+  await page.getByRole('group', { name: 'Add a rule' }).getByRole('button', { name: /Member against member/ }).click();
+  const added = page.getByRole('article', { name: /Member against member/ });
+  await added.getByText('Compared with every').waitFor();
+  await added.scrollIntoViewIfNeeded();
+  await shots(page, 'draft-new-rule');
+  await added.getByRole('button', { name: 'Remove this rule…' }).click();
+  await page.getByRole('alertdialog').getByRole('button', { name: 'Remove the rule' }).click();
+  await added.waitFor({ state: 'detached' });
+  await page.getByText('All changes saved').waitFor();
+  await page.getByRole('tab', { name: 'Other rules' }).click();
   // The advanced view of one rule, with a problem pointed at by its path.
   const process = page.getByRole('article', { name: /C4\.1\.2/ });
   await process.getByRole('button', { name: 'Show the JSON' }).click();

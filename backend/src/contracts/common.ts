@@ -28,7 +28,8 @@ export const displayNameSchema = z
   .max(120, 'At most 120 characters');
 
 export interface ApiErrorBody {
-  error: { code: string; message: string; details?: unknown };
+  /** `requestId` is the id on the server's log lines about the request (and its X-Request-Id header). */
+  error: { code: string; message: string; details?: unknown; requestId?: string };
 }
 
 export interface FieldIssueWire {

@@ -169,7 +169,7 @@ export const limitCheckSchema = z.object({
 
 export const limitSchema = z.object({
   template: z.literal('limit'),
-  checks: z.array(limitCheckSchema).min(1).max(L.checks),
+  checks: z.array(limitCheckSchema).min(1, 'Add at least one limit.').max(L.checks),
 });
 
 export const allowedValuesSchema = z.object({

@@ -13,6 +13,13 @@ export const MEMBER_KIND_LABELS: Readonly<Record<MemberKind, string>> = {
   roof_bar: 'roof bar', a_pillar: 'A-pillar bar', dash_bar: 'dash bar', gusset: 'gusset', other: 'other member',
 };
 
+/** The same, counted: "number of door bars on the right", never "number of door bar". */
+export const MEMBER_KIND_PLURAL_LABELS: Readonly<Record<MemberKind, string>> = {
+  main_hoop: 'main hoops', front_hoop: 'front hoops', halo_hoop: 'halo hoops', lateral_hoop: 'lateral hoops',
+  rear_brace: 'rear braces (backstays)', harness_bar: 'harness bars', door_bar: 'door bars', diagonal: 'diagonals',
+  roof_bar: 'roof bars', a_pillar: 'A-pillar bars', dash_bar: 'dash bars', gusset: 'gussets', other: 'other members',
+};
+
 export const MATERIALS = ['mild_steel', 'chromoly_4130', 'other'] as const;
 export const PROCESSES = ['dom', 'erw', 'seamless', 'cds', 'other'] as const;
 
@@ -47,3 +54,14 @@ export type DriverSide = (typeof DRIVER_SIDES)[number];
  */
 export const SIDED_MEMBER_KINDS: readonly MemberKind[] = ['lateral_hoop', 'rear_brace', 'door_bar', 'diagonal', 'roof_bar', 'a_pillar', 'gusset', 'other'];
 export const MEMBER_SIDE_LABELS: Readonly<Record<MemberSide, string>> = { left: 'left', right: 'right', centre: 'centre' };
+
+/**
+ * Words for the other vocabulary keys that reach a generated sentence (a condition on the member kinds
+ * present, a welding process, a padding standard), so no reason shows "roof_bar" or "fia_8857_2001".
+ */
+export const OTHER_VOCABULARY_WORDS: Readonly<Record<string, string>> = {
+  ...MEMBER_KIND_LABELS,
+  tube_frame: 'tube frame', tig: 'TIG', mig: 'MIG', sfi_45_1: 'SFI 45.1', fia_8857_2001: 'FIA 8857-2001', non_homologated: 'non-homologated',
+  main_hoop_foot: 'main hoop foot', front_hoop_foot: 'front hoop foot', rear_brace_foot: 'rear brace foot', lateral_hoop_foot: 'lateral hoop foot',
+  inspection_hole: 'inspection hole',
+};

@@ -1,8 +1,16 @@
-// The one error handler: every error becomes `{ error: { code, message, details } }`. 5xx errors
-// are logged with their stack; the client never sees one.
-import type { ErrorRequestHandler, RequestHandler } from 'express';
+// The one error handler: every error becomes `{ error: { code, message, details, requestId } }`. 5xx
+// errors are logged with their stack, on the request's own logger so the line has the same request id
+// as the body; the client never sees a stack.
+import type { ErrorRequestHandler, Request, RequestHandler } from 'express';
 import { errorBody, NotFoundError, toAppError } from '../errors';
-import { errorFields, type Logger } from '../logger';
+import { errorFields, wrapPino, type Logger } from '../logger';
+import { requestIdOf } from './request-log';
+
+/** The request's logger (pino-http's child, carrying `reqId`), else the app's. */
+function loggerFor(req: Request, fallback: Logger): Logger {
+  const log = (req as { log?: Logger['pino'] }).log;
+  return log ? wrapPino(log) : fallback;
+}
 
 export function createErrorHandler(logger: Logger): ErrorRequestHandler {
   return (err, req, res, next) => {
@@ -10,11 +18,12 @@ export function createErrorHandler(logger: Logger): ErrorRequestHandler {
     if (appError.status >= 500) {
       // An outage is expected and logged briefly; a 500 is a bug and keeps its stack.
       const fields = { method: req.method, path: req.path, ...errorFields(err) };
-      if (appError.status === 503) logger.warn(appError.code, { ...fields, stack: undefined });
-      else logger.error(appError.code, fields);
+      const log = loggerFor(req, logger);
+      if (appError.status === 503) log.warn(appError.code, { ...fields, stack: undefined });
+      else log.error(appError.code, fields);
     }
     if (res.headersSent) return next(err);
-    res.status(appError.status).json(errorBody(appError));
+    res.status(appError.status).json(errorBody(appError, requestIdOf(req)));
   };
 }
 

@@ -2,16 +2,15 @@
 import { Router } from 'express';
 import { auditQuerySchema } from '../contracts/audit';
 import { clubParamsSchema } from '../contracts/clubs';
-import { requireClubRole } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createAuditRouter({ services }: { services: Services }): Router {
+export function createAuditRouter({ services }: { services: Services }): RouteTableRouter {
   return mountRoutes(Router(), [
     route({
       method: 'get',
       path: '/clubs/:clubId/audit',
-      guards: [requireClubRole(['admin'])],
+      access: 'club.admin',
       params: clubParamsSchema,
       query: auditQuerySchema,
       handler: async ({ res, params, query }) => {

@@ -4,24 +4,24 @@ import type { PassportStatic } from 'passport';
 import { changePasswordBodySchema, loginBodySchema } from '../contracts/auth';
 import { InvalidCredentialsError } from '../errors';
 import { csrfTokenFor } from '../middleware/csrf';
-import { publicRoute, requireSignedIn, signedInUserId } from '../middleware/guards';
+import { signedInUserId } from '../middleware/guards';
 import { sessionCookieName } from '../middleware/session';
 import type { Services } from '../services';
 import { authenticateLocal, destroySession, logIn, saveSession } from './promisified';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
 export function createAuthRouter(deps: {
   services: Services;
   passport: PassportStatic;
   loginLimiters: RequestHandler[];
   passwordLimiter: RequestHandler;
-}): Router {
+}): RouteTableRouter {
   const { accounts } = deps.services;
   return mountRoutes(Router(), [
     route({
       method: 'get',
       path: '/auth/csrf',
-      guards: [publicRoute],
+      access: 'public',
       handler: async ({ req, res }) => {
         const token = csrfTokenFor(req.session);
         // Anonymous sessions are only stored once they hold a token (saveUninitialized is off).
@@ -32,7 +32,7 @@ export function createAuthRouter(deps: {
     route({
       method: 'post',
       path: '/auth/login',
-      guards: [publicRoute],
+      access: 'public',
       before: deps.loginLimiters,
       body: loginBodySchema,
       handler: async ({ req, res, body }) => {
@@ -46,7 +46,7 @@ export function createAuthRouter(deps: {
     route({
       method: 'post',
       path: '/auth/logout',
-      guards: [publicRoute],
+      access: 'public',
       handler: async ({ req, res }) => {
         await destroySession(req);
         res.clearCookie(sessionCookieName, { path: '/', httpOnly: true, sameSite: 'lax' });
@@ -56,7 +56,7 @@ export function createAuthRouter(deps: {
     route({
       method: 'get',
       path: '/auth/me',
-      guards: [requireSignedIn],
+      access: 'signedIn',
       handler: async ({ req, res }) => {
         res.json(await accounts.sessionView(signedInUserId(req)));
       },
@@ -64,7 +64,7 @@ export function createAuthRouter(deps: {
     route({
       method: 'post',
       path: '/auth/password',
-      guards: [requireSignedIn],
+      access: 'signedIn',
       before: [deps.passwordLimiter],
       body: changePasswordBodySchema,
       handler: async ({ req, res, body }) => {

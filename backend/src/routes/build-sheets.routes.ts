@@ -3,69 +3,71 @@
 // and admins read (403 when they try to edit); anyone else gets 404.
 import { Router } from 'express';
 import { diffParamsSchema, moveEditionBodySchema, revisionParamsSchema, saveRevisionBodySchema, sheetParamsSchema, updateSheetBodySchema } from '../contracts/garage';
-import { requireSignedIn, signedInUserId } from '../middleware/guards';
+import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createBuildSheetsRouter({ services }: { services: Services }): Router {
+export function createBuildSheetsRouter({ services }: { services: Services }): RouteTableRouter {
   const { buildSheets, sheetEditions } = services;
   return mountRoutes(Router(), [
     route({
-      method: 'get', path: '/build-sheets/:sheetId', guards: [requireSignedIn], params: sheetParamsSchema,
+      method: 'get', path: '/build-sheets/:sheetId', access: 'sheet.read', params: sheetParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json(await buildSheets.get(params.sheetId, signedInUserId(req)));
       },
     }),
     route({
-      method: 'patch', path: '/build-sheets/:sheetId', guards: [requireSignedIn], params: sheetParamsSchema, body: updateSheetBodySchema,
+      method: 'patch', path: '/build-sheets/:sheetId', access: 'sheet.edit', params: sheetParamsSchema, body: updateSheetBodySchema,
       handler: async ({ req, res, params, body }) => {
         res.json(await buildSheets.rename(params.sheetId, signedInUserId(req), body.name));
       },
     }),
     route({
-      method: 'post', path: '/build-sheets/:sheetId/archive', guards: [requireSignedIn], params: sheetParamsSchema,
+      method: 'post', path: '/build-sheets/:sheetId/archive', access: 'sheet.edit', params: sheetParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json(await buildSheets.setArchived(params.sheetId, signedInUserId(req), true));
       },
     }),
     route({
-      method: 'post', path: '/build-sheets/:sheetId/unarchive', guards: [requireSignedIn], params: sheetParamsSchema,
+      method: 'post', path: '/build-sheets/:sheetId/unarchive', access: 'sheet.edit', params: sheetParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json(await buildSheets.setArchived(params.sheetId, signedInUserId(req), false));
       },
     }),
     route({
-      method: 'put', path: '/build-sheets/:sheetId/specification', guards: [requireSignedIn], params: sheetParamsSchema, body: saveRevisionBodySchema,
+      method: 'put', path: '/build-sheets/:sheetId/specification', access: 'sheet.edit', params: sheetParamsSchema, body: saveRevisionBodySchema,
       handler: async ({ req, res, params, body }) => {
         res.json(await buildSheets.saveRevision(params.sheetId, signedInUserId(req), body));
       },
     }),
     route({
-      method: 'get', path: '/build-sheets/:sheetId/editions', guards: [requireSignedIn], params: sheetParamsSchema,
+      method: 'get', path: '/build-sheets/:sheetId/editions', access: 'sheet.read', params: sheetParamsSchema,
+      summary: 'The sheet’s edition and the newest of its rulebook, with what the sheet gets under each.',
       handler: async ({ req, res, params }) => {
         res.json({ editions: await sheetEditions.editions(params.sheetId, signedInUserId(req)) });
       },
     }),
     route({
-      method: 'post', path: '/build-sheets/:sheetId/move-edition', guards: [requireSignedIn], params: sheetParamsSchema, body: moveEditionBodySchema,
+      method: 'post', path: '/build-sheets/:sheetId/move-edition', access: 'sheet.edit', params: sheetParamsSchema, body: moveEditionBodySchema,
+      summary: 'Moves the sheet to a newer edition of its rulebook as a new revision.',
       handler: async ({ req, res, params, body }) => {
         res.json(await sheetEditions.move(params.sheetId, signedInUserId(req), body));
       },
     }),
     route({
-      method: 'get', path: '/build-sheets/:sheetId/revisions', guards: [requireSignedIn], params: sheetParamsSchema,
+      method: 'get', path: '/build-sheets/:sheetId/revisions', access: 'sheet.read', params: sheetParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ revisions: await buildSheets.revisions(params.sheetId, signedInUserId(req)) });
       },
     }),
     route({
-      method: 'get', path: '/build-sheets/:sheetId/revisions/:number', guards: [requireSignedIn], params: revisionParamsSchema,
+      method: 'get', path: '/build-sheets/:sheetId/revisions/:number', access: 'sheet.read', params: revisionParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ revision: await buildSheets.revision(params.sheetId, signedInUserId(req), params.number) });
       },
     }),
     route({
-      method: 'get', path: '/build-sheets/:sheetId/revisions/:from/diff/:to', guards: [requireSignedIn], params: diffParamsSchema,
+      method: 'get', path: '/build-sheets/:sheetId/revisions/:from/diff/:to', access: 'sheet.read', params: diffParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json(await buildSheets.diff(params.sheetId, signedInUserId(req), params.from, params.to));
       },

@@ -3,33 +3,33 @@
 // settings (number prefix, validity in months) are read by stewards and admins, changed by admins.
 import { Router } from 'express';
 import { clubParamsSchema, recordParamsSchema, recordSettingsBodySchema, revokeBodySchema } from '../contracts/review';
-import { requireClubRole, requireSignedIn, signedInUserId } from '../middleware/guards';
+import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createCageRecordsRouter({ services }: { services: Services }): Router {
+export function createCageRecordsRouter({ services }: { services: Services }): RouteTableRouter {
   const { cageRecords } = services;
   return mountRoutes(Router(), [
     route({
-      method: 'get', path: '/cage-records/:recordId', guards: [requireSignedIn], params: recordParamsSchema,
+      method: 'get', path: '/cage-records/:recordId', access: 'record.read', params: recordParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ record: await cageRecords.get(params.recordId, signedInUserId(req)) });
       },
     }),
     route({
-      method: 'post', path: '/cage-records/:recordId/revoke', guards: [requireSignedIn], params: recordParamsSchema, body: revokeBodySchema,
+      method: 'post', path: '/cage-records/:recordId/revoke', access: 'record.revoke', params: recordParamsSchema, body: revokeBodySchema,
       handler: async ({ req, res, params, body }) => {
         res.json({ record: await cageRecords.revoke(params.recordId, signedInUserId(req), body.reason) });
       },
     }),
     route({
-      method: 'get', path: '/clubs/:clubId/record-settings', guards: [requireClubRole(['steward', 'admin'])], params: clubParamsSchema,
+      method: 'get', path: '/clubs/:clubId/record-settings', access: 'club.reviewer', params: clubParamsSchema,
       handler: async ({ res, params }) => {
         res.json({ settings: await cageRecords.settings(params.clubId) });
       },
     }),
     route({
-      method: 'patch', path: '/clubs/:clubId/record-settings', guards: [requireClubRole(['admin'])], params: clubParamsSchema, body: recordSettingsBodySchema,
+      method: 'patch', path: '/clubs/:clubId/record-settings', access: 'club.admin', params: clubParamsSchema, body: recordSettingsBodySchema,
       handler: async ({ req, res, params, body }) => {
         res.json({ settings: await cageRecords.updateSettings(params.clubId, signedInUserId(req), body) });
       },

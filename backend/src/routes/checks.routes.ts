@@ -2,18 +2,18 @@
 // from build sheets (their routes call services.checks.saveRun); here they are only read.
 import { Router } from 'express';
 import { checkRunCodeParamsSchema, checkRunParamsSchema, dryRunBodySchema } from '../contracts/checks';
-import { requireSignedIn, signedInUserId } from '../middleware/guards';
+import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createChecksRouter({ services }: { services: Services }): Router {
+export function createChecksRouter({ services }: { services: Services }): RouteTableRouter {
   const { checks } = services;
   return mountRoutes(Router(), [
     route({
       method: 'post',
       path: '/checks',
       // The version's club is known only after loading it, so the service checks membership.
-      guards: [requireSignedIn],
+      access: 'version.read',
       body: dryRunBodySchema,
       handler: async ({ req, res, body }) => {
         // The report arrives as JSON text from the check engine; wrapping it avoids a second serialisation.
@@ -25,7 +25,7 @@ export function createChecksRouter({ services }: { services: Services }): Router
       // Before '/check-runs/:id', whose id must be a UUID.
       method: 'get',
       path: '/check-runs/by-code/:code',
-      guards: [requireSignedIn],
+      access: 'checkRun.read',
       params: checkRunCodeParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ checkRun: await checks.getRunByCode(params.code, signedInUserId(req)) });
@@ -34,7 +34,7 @@ export function createChecksRouter({ services }: { services: Services }): Router
     route({
       method: 'get',
       path: '/check-runs/:id',
-      guards: [requireSignedIn],
+      access: 'checkRun.read',
       params: checkRunParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ checkRun: await checks.getRun(params.id, signedInUserId(req)) });

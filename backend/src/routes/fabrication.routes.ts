@@ -3,24 +3,24 @@
 import { Router } from 'express';
 import { bendScheduleBodySchema, copeBodySchema, copePdfBodySchema, fabricationSettingsSchema, legTrimBodySchema, unitsSchema } from '../contracts/fabrication';
 import { sheetParamsSchema } from '../contracts/garage';
-import { requireSignedIn, signedInUserId } from '../middleware/guards';
+import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 import { z } from 'zod';
 
 const unitsQuery = z.object({ units: unitsSchema.default('metric') });
 
-export function createFabricationRouter({ services }: { services: Services }): Router {
+export function createFabricationRouter({ services }: { services: Services }): RouteTableRouter {
   const { fabrication } = services;
   return mountRoutes(Router(), [
     route({
-      method: 'post', path: '/fabrication/cope', guards: [requireSignedIn], body: copeBodySchema,
+      method: 'post', path: '/fabrication/cope', access: 'signedIn', body: copeBodySchema,
       handler: ({ res, body }) => {
         res.json({ cope: fabrication.cope(body) });
       },
     }),
     route({
-      method: 'post', path: '/fabrication/cope.pdf', guards: [requireSignedIn], body: copePdfBodySchema,
+      method: 'post', path: '/fabrication/cope.pdf', access: 'signedIn', body: copePdfBodySchema,
       handler: async ({ res, body }) => {
         const pdf = await fabrication.copePdf(body);
         res.setHeader('Content-Type', 'application/pdf');
@@ -30,37 +30,37 @@ export function createFabricationRouter({ services }: { services: Services }): R
       },
     }),
     route({
-      method: 'post', path: '/fabrication/leg-trim', guards: [requireSignedIn], body: legTrimBodySchema, query: unitsQuery,
+      method: 'post', path: '/fabrication/leg-trim', access: 'signedIn', body: legTrimBodySchema, query: unitsQuery,
       handler: ({ res, body, query }) => {
         res.json({ legTrim: fabrication.legTrim(body, query.units) });
       },
     }),
     route({
-      method: 'post', path: '/fabrication/bend-schedule', guards: [requireSignedIn], body: bendScheduleBodySchema,
+      method: 'post', path: '/fabrication/bend-schedule', access: 'signedIn', body: bendScheduleBodySchema,
       handler: async ({ req, res, body }) => {
         res.json({ plan: await fabrication.bendSchedule(body, signedInUserId(req)) });
       },
     }),
     route({
-      method: 'get', path: '/fabrication/settings', guards: [requireSignedIn],
+      method: 'get', path: '/fabrication/settings', access: 'signedIn',
       handler: async ({ req, res }) => {
         res.json({ settings: await fabrication.settings(signedInUserId(req)) });
       },
     }),
     route({
-      method: 'put', path: '/fabrication/settings', guards: [requireSignedIn], body: fabricationSettingsSchema,
+      method: 'put', path: '/fabrication/settings', access: 'signedIn', body: fabricationSettingsSchema,
       handler: async ({ req, res, body }) => {
         res.json({ settings: await fabrication.saveSettings(signedInUserId(req), body) });
       },
     }),
     route({
-      method: 'get', path: '/build-sheets/:sheetId/fabrication', guards: [requireSignedIn], params: sheetParamsSchema,
+      method: 'get', path: '/build-sheets/:sheetId/fabrication', access: 'sheet.read', params: sheetParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ fabrication: await fabrication.forSheet(params.sheetId, signedInUserId(req)) });
       },
     }),
     route({
-      method: 'get', path: '/build-sheets/:sheetId/buying-list.csv', guards: [requireSignedIn], params: sheetParamsSchema, query: unitsQuery,
+      method: 'get', path: '/build-sheets/:sheetId/buying-list.csv', access: 'sheet.read', params: sheetParamsSchema, query: unitsQuery,
       handler: async ({ req, res, params, query }) => {
         const { csv, sheetName } = await fabrication.buyingListCsv(params.sheetId, signedInUserId(req), query.units);
         const safeName = sheetName.replace(/[^A-Za-z0-9_-]+/g, '-').replace(/^-|-$/g, '').slice(0, 60) || 'sheet';

@@ -4,8 +4,7 @@
 import { Router } from 'express';
 import type { DataSource } from 'typeorm';
 import { createGuardedPool } from '../db/pg-pool';
-import { publicRoute } from '../middleware/guards';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
 const probeTimeoutMs = 3000;
 
@@ -40,12 +39,12 @@ export function createHealthProbe(ds: DataSource): HealthProbe {
   };
 }
 
-export function createHealthRouter(probe: HealthProbe): Router {
+export function createHealthRouter(probe: HealthProbe): RouteTableRouter {
   return mountRoutes(Router(), [
     route({
       method: 'get',
       path: '/health',
-      guards: [publicRoute],
+      access: 'public',
       handler: async ({ res }) => {
         const up = await probe.databaseIsUp();
         res.set('Cache-Control', 'no-store');

@@ -2,10 +2,9 @@
 import { Router } from 'express';
 import { acceptInvitationBodySchema, invitationTokenParamsSchema } from '../contracts/auth';
 import { NotFoundError } from '../errors';
-import { publicRoute } from '../middleware/guards';
 import type { Services } from '../services';
 import { logIn } from './promisified';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
 // A malformed token is just an unknown one: answer 404, as for any invitation that cannot be used.
 function tokenOf(params: Record<string, string>): string {
@@ -14,12 +13,12 @@ function tokenOf(params: Record<string, string>): string {
   return parsed.data.token;
 }
 
-export function createInvitationsRouter({ services }: { services: Services }): Router {
+export function createInvitationsRouter({ services }: { services: Services }): RouteTableRouter {
   return mountRoutes(Router(), [
     route({
       method: 'get',
       path: '/invitations/:token',
-      guards: [publicRoute],
+      access: 'public',
       handler: async ({ res, params }) => {
         res.json(await services.members.getInvitation(tokenOf(params)));
       },
@@ -27,7 +26,7 @@ export function createInvitationsRouter({ services }: { services: Services }): R
     route({
       method: 'post',
       path: '/invitations/:token/accept',
-      guards: [publicRoute],
+      access: 'public',
       body: acceptInvitationBodySchema,
       handler: async ({ req, res, params, body }) => {
         const userId = await services.members.acceptInvitation(tokenOf(params), body.password, body.displayName);

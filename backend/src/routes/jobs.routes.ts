@@ -1,17 +1,17 @@
 // Background job progress, for admins of the job's club (docs/api.md, "Background jobs").
 import { Router } from 'express';
 import { jobParamsSchema } from '../contracts/jobs';
-import { requireSignedIn, signedInUserId } from '../middleware/guards';
+import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
 import type { JobControl } from '../services/jobs';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createJobsRouter({ services, control }: { services: Services; control: JobControl | null }): Router {
+export function createJobsRouter({ services, control }: { services: Services; control: JobControl | null }): RouteTableRouter {
   return mountRoutes(Router(), [
     route({
       method: 'get',
       path: '/jobs/:id',
-      guards: [requireSignedIn],
+      access: 'job.admin',
       params: jobParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ job: await services.jobProgress.forAdmin(signedInUserId(req), params.id) });
@@ -20,7 +20,7 @@ export function createJobsRouter({ services, control }: { services: Services; co
     route({
       method: 'post',
       path: '/jobs/:id/retry',
-      guards: [requireSignedIn],
+      access: 'job.admin',
       params: jobParamsSchema,
       handler: async ({ req, res, params }) => {
         res.status(202).json({ job: await services.jobProgress.retryForAdmin(signedInUserId(req), params.id, control) });

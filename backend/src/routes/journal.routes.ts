@@ -9,11 +9,11 @@ import { PHOTO_LIMITS, sheetParamsSchema } from '../contracts/garage';
 import {
   createJournalEntryBodySchema, journalEntryParamsSchema, journalPhotoParamsSchema, updateJournalEntryBodySchema, updateJournalPhotoBodySchema,
 } from '../contracts/journal';
-import { requireSignedIn, servicesOf, signedInUserId } from '../middleware/guards';
+import { servicesOf, signedInUserId } from '../middleware/guards';
 import { parseOrThrow } from '../middleware/validate';
 import type { Services } from '../services';
 import { uploadError } from './photos.routes';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
 const receive = multer({
   storage: multer.memoryStorage(),
@@ -29,11 +29,11 @@ const mayUpload: RequestHandler = (req, _res, next) => {
   servicesOf(req).journal.assertCanUpload(entryId, signedInUserId(req)).then(() => next(), next);
 };
 
-export function createJournalRouter({ services }: { services: Services }): Router {
+export function createJournalRouter({ services }: { services: Services }): RouteTableRouter {
   const { journal } = services;
   const serve = (which: 'image' | 'thumbnail') =>
     route({
-      method: 'get', path: `/journal-photos/:photoId/${which}`, guards: [requireSignedIn], params: journalPhotoParamsSchema,
+      method: 'get', path: `/journal-photos/:photoId/${which}`, access: 'sheet.read', params: journalPhotoParamsSchema,
       handler: async ({ req, res, params }) => {
         const { photo, bytes } = await journal.bytes(params.photoId, signedInUserId(req), which);
         res.setHeader('Content-Type', 'image/jpeg');
@@ -44,32 +44,32 @@ export function createJournalRouter({ services }: { services: Services }): Route
     });
   return mountRoutes(Router(), [
     route({
-      method: 'get', path: '/build-sheets/:sheetId/journal', guards: [requireSignedIn], params: sheetParamsSchema,
+      method: 'get', path: '/build-sheets/:sheetId/journal', access: 'sheet.read', params: sheetParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json(await journal.get(params.sheetId, signedInUserId(req)));
       },
     }),
     route({
-      method: 'post', path: '/build-sheets/:sheetId/journal', guards: [requireSignedIn], params: sheetParamsSchema, body: createJournalEntryBodySchema,
+      method: 'post', path: '/build-sheets/:sheetId/journal', access: 'sheet.edit', params: sheetParamsSchema, body: createJournalEntryBodySchema,
       handler: async ({ req, res, params, body }) => {
         res.status(201).json({ entry: await journal.record(params.sheetId, signedInUserId(req), body) });
       },
     }),
     route({
-      method: 'patch', path: '/journal-entries/:entryId', guards: [requireSignedIn], params: journalEntryParamsSchema, body: updateJournalEntryBodySchema,
+      method: 'patch', path: '/journal-entries/:entryId', access: 'sheet.edit', params: journalEntryParamsSchema, body: updateJournalEntryBodySchema,
       handler: async ({ req, res, params, body }) => {
         res.json({ entry: await journal.update(params.entryId, signedInUserId(req), body) });
       },
     }),
     route({
-      method: 'delete', path: '/journal-entries/:entryId', guards: [requireSignedIn], params: journalEntryParamsSchema,
+      method: 'delete', path: '/journal-entries/:entryId', access: 'sheet.edit', params: journalEntryParamsSchema,
       handler: async ({ req, res, params }) => {
         await journal.remove(params.entryId, signedInUserId(req));
         res.status(204).end();
       },
     }),
     route({
-      method: 'post', path: '/journal-entries/:entryId/photos', guards: [requireSignedIn], before: [mayUpload, receivePhotos], params: journalEntryParamsSchema,
+      method: 'post', path: '/journal-entries/:entryId/photos', access: 'sheet.edit', before: [mayUpload, receivePhotos], params: journalEntryParamsSchema,
       handler: async ({ req, res, params }) => {
         const files = ((req.files as Express.Multer.File[] | undefined) ?? []).map((f) => ({ originalName: f.originalname, bytes: f.buffer }));
         const body = (req.body ?? {}) as { captions?: string | string[] };
@@ -79,13 +79,13 @@ export function createJournalRouter({ services }: { services: Services }): Route
     serve('image'),
     serve('thumbnail'),
     route({
-      method: 'patch', path: '/journal-photos/:photoId', guards: [requireSignedIn], params: journalPhotoParamsSchema, body: updateJournalPhotoBodySchema,
+      method: 'patch', path: '/journal-photos/:photoId', access: 'sheet.edit', params: journalPhotoParamsSchema, body: updateJournalPhotoBodySchema,
       handler: async ({ req, res, params, body }) => {
         res.json({ photo: await journal.updatePhoto(params.photoId, signedInUserId(req), body) });
       },
     }),
     route({
-      method: 'delete', path: '/journal-photos/:photoId', guards: [requireSignedIn], params: journalPhotoParamsSchema,
+      method: 'delete', path: '/journal-photos/:photoId', access: 'sheet.edit', params: journalPhotoParamsSchema,
       handler: async ({ req, res, params }) => {
         await journal.removePhoto(params.photoId, signedInUserId(req));
         res.status(204).end();

@@ -1,32 +1,18 @@
 // The development mailbox (docs/api.md, "Development mailbox"): what the local fake SMTP server caught.
 // Mounted only while FAKE_SMTP is on, so with it off every address here is the ordinary JSON 404.
-// It shows every club's mail, so it is for admins (of any club) only.
-import { Router, type NextFunction, type Request, type Response } from 'express';
+// It shows every club's mail, so it is for admins (of any club) only: the access policy's `anyClub.admin`.
+import { Router } from 'express';
 import { mailboxParamsSchema } from '../contracts/mail';
-import { ForbiddenError } from '../errors';
-import { servicesOf, signedInUserId, type Guard } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-const adminOfAnyClub: Guard = Object.assign(
-  (req: Request, _res: Response, next: NextFunction) => {
-    Promise.resolve()
-      .then(async () => {
-        if (!(await servicesOf(req).mailbox.isAdminOfAnyClub(signedInUserId(req))))
-          throw new ForbiddenError();
-      })
-      .then(() => next(), next);
-  },
-  { guardName: 'adminOfAnyClub' },
-);
-
-export function createMailboxRouter({ services }: { services: Services }): Router {
+export function createMailboxRouter({ services }: { services: Services }): RouteTableRouter {
   const { mailbox } = services;
   return mountRoutes(Router(), [
     route({
       method: 'get',
       path: '/dev/mailbox',
-      guards: [adminOfAnyClub],
+      access: 'anyClub.admin',
       handler: async ({ res }) => {
         res.json({ messages: await mailbox.list() });
       },
@@ -34,7 +20,7 @@ export function createMailboxRouter({ services }: { services: Services }): Route
     route({
       method: 'get',
       path: '/dev/mailbox/:id',
-      guards: [adminOfAnyClub],
+      access: 'anyClub.admin',
       params: mailboxParamsSchema,
       handler: async ({ res, params }) => {
         res.json({ message: await mailbox.get(params.id) });
@@ -43,7 +29,7 @@ export function createMailboxRouter({ services }: { services: Services }): Route
     route({
       method: 'delete',
       path: '/dev/mailbox',
-      guards: [adminOfAnyClub],
+      access: 'anyClub.admin',
       handler: async ({ res }) => {
         await mailbox.clear();
         res.status(204).end();

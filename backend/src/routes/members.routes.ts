@@ -1,19 +1,18 @@
 // A club's members, for that club's admins (docs/api.md, "Clubs and members").
 import { Router } from 'express';
 import { addMemberBodySchema, clubParamsSchema, memberParamsSchema, updateMemberBodySchema } from '../contracts/clubs';
-import { requireClubRole, signedInUserId } from '../middleware/guards';
+import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-const adminOnly = requireClubRole(['admin']);
 
-export function createMembersRouter({ services }: { services: Services }): Router {
+export function createMembersRouter({ services }: { services: Services }): RouteTableRouter {
   const { members } = services;
   return mountRoutes(Router(), [
     route({
       method: 'get',
       path: '/clubs/:clubId/members',
-      guards: [adminOnly],
+      access: 'club.admin',
       params: clubParamsSchema,
       handler: async ({ res, params }) => {
         res.json({ members: await members.list(params.clubId) });
@@ -22,7 +21,7 @@ export function createMembersRouter({ services }: { services: Services }): Route
     route({
       method: 'post',
       path: '/clubs/:clubId/members',
-      guards: [adminOnly],
+      access: 'club.admin',
       params: clubParamsSchema,
       body: addMemberBodySchema,
       handler: async ({ req, res, params, body }) => {
@@ -32,7 +31,7 @@ export function createMembersRouter({ services }: { services: Services }): Route
     route({
       method: 'patch',
       path: '/clubs/:clubId/members/:userId',
-      guards: [adminOnly],
+      access: 'club.admin',
       params: memberParamsSchema,
       body: updateMemberBodySchema,
       handler: async ({ req, res, params, body }) => {
@@ -42,7 +41,7 @@ export function createMembersRouter({ services }: { services: Services }): Route
     route({
       method: 'delete',
       path: '/clubs/:clubId/members/:userId',
-      guards: [adminOnly],
+      access: 'club.admin',
       params: memberParamsSchema,
       handler: async ({ req, res, params }) => {
         await members.remove(params.clubId, params.userId, signedInUserId(req));

@@ -4,20 +4,20 @@ import { resolve } from 'node:path';
 import { Router } from 'express';
 import { projectRoot } from '../config';
 import type { MetaWire } from '../contracts/mail';
-import { publicRoute } from '../middleware/guards';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-const version = (
+/** The app's version, from package.json. */
+export const appVersion = (
   JSON.parse(readFileSync(resolve(projectRoot, 'package.json'), 'utf8')) as { version: string }
 ).version;
 
-export function createMetaRouter({ mailboxEnabled }: { mailboxEnabled: boolean }): Router {
-  const meta: MetaWire = { mailboxEnabled, version };
+export function createMetaRouter({ mailboxEnabled }: { mailboxEnabled: boolean }): RouteTableRouter {
+  const meta: MetaWire = { mailboxEnabled, version: appVersion };
   return mountRoutes(Router(), [
     route({
       method: 'get',
       path: '/meta',
-      guards: [publicRoute],
+      access: 'public',
       handler: ({ res }) => {
         res.json(meta);
       },

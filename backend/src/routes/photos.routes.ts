@@ -6,11 +6,11 @@ import { Router } from 'express';
 import multer from 'multer';
 import { PHOTO_LIMITS, photoParamsSchema, sheetParamsSchema, updatePhotoBodySchema } from '../contracts/garage';
 import { AppError, ValidationError } from '../errors';
-import { requireSignedIn, servicesOf, signedInUserId } from '../middleware/guards';
+import { servicesOf, signedInUserId } from '../middleware/guards';
 import { parseOrThrow } from '../middleware/validate';
 import type { Services } from '../services';
 import type { UploadFields } from '../services/photos.service';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
 const megabytes = PHOTO_LIMITS.bytesPerFile / (1024 * 1024);
 
@@ -54,11 +54,11 @@ const mayUpload: RequestHandler = (req, _res, next) => {
 
 const imageCache = 'private, max-age=31536000, immutable';
 
-export function createPhotosRouter({ services }: { services: Services }): Router {
+export function createPhotosRouter({ services }: { services: Services }): RouteTableRouter {
   const { photos } = services;
   const serve = (which: 'image' | 'thumbnail') =>
     route({
-      method: 'get', path: `/photos/:photoId/${which}`, guards: [requireSignedIn], params: photoParamsSchema,
+      method: 'get', path: `/photos/:photoId/${which}`, access: 'sheet.read', params: photoParamsSchema,
       handler: async ({ req, res, params }) => {
         const { photo, bytes } = await photos.bytes(params.photoId, signedInUserId(req), which);
         // The bytes under a photo id never change (an edit changes the caption, a new photo gets a new id).
@@ -71,13 +71,13 @@ export function createPhotosRouter({ services }: { services: Services }): Router
     });
   return mountRoutes(Router(), [
     route({
-      method: 'get', path: '/build-sheets/:sheetId/photos', guards: [requireSignedIn], params: sheetParamsSchema,
+      method: 'get', path: '/build-sheets/:sheetId/photos', access: 'sheet.read', params: sheetParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ photos: await photos.list(params.sheetId, signedInUserId(req)) });
       },
     }),
     route({
-      method: 'post', path: '/build-sheets/:sheetId/photos', guards: [requireSignedIn], before: [mayUpload, receivePhotos], params: sheetParamsSchema,
+      method: 'post', path: '/build-sheets/:sheetId/photos', access: 'sheet.edit', before: [mayUpload, receivePhotos], params: sheetParamsSchema,
       handler: async ({ req, res, params }) => {
         const files = ((req.files as Express.Multer.File[] | undefined) ?? []).map((f) => ({ originalName: f.originalname, bytes: f.buffer }));
         const body = (req.body ?? {}) as UploadFields;
@@ -88,13 +88,13 @@ export function createPhotosRouter({ services }: { services: Services }): Router
     serve('image'),
     serve('thumbnail'),
     route({
-      method: 'patch', path: '/photos/:photoId', guards: [requireSignedIn], params: photoParamsSchema, body: updatePhotoBodySchema,
+      method: 'patch', path: '/photos/:photoId', access: 'sheet.edit', params: photoParamsSchema, body: updatePhotoBodySchema,
       handler: async ({ req, res, params, body }) => {
         res.json({ photo: await photos.update(params.photoId, signedInUserId(req), body) });
       },
     }),
     route({
-      method: 'delete', path: '/photos/:photoId', guards: [requireSignedIn], params: photoParamsSchema,
+      method: 'delete', path: '/photos/:photoId', access: 'sheet.edit', params: photoParamsSchema,
       handler: async ({ req, res, params }) => {
         await photos.remove(params.photoId, signedInUserId(req));
         res.status(204).end();

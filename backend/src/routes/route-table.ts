@@ -1,10 +1,12 @@
-// Route tables: each route reads as method + path + guards + validation + handler. Guards are
-// required (at least one), params/body/query are parsed with zod before the handler runs, and the
-// handler receives the parsed values. Handlers stay thin and call one service method.
+// Route tables: each route reads as method + path + access rule + validation + handler. The access rule
+// (domain/access-policy.ts) is required: it makes the route's guard, and it is what the access matrix
+// test and the OpenAPI document read. Params/body/query are parsed with zod before the handler runs, and
+// the handler receives the parsed values. Handlers stay thin and call one service method.
 import type { Request, RequestHandler, Response, Router } from 'express';
 import type { z } from 'zod';
+import type { AccessRuleName } from '../domain/access-policy';
 import { ValidationError, type AppError } from '../errors';
-import type { Guard } from '../middleware/guards';
+import { guardFor } from '../middleware/guards';
 import { assertSafeInput, unsafeInputIssues } from '../middleware/safe-input';
 import { parseOrThrow } from '../middleware/validate';
 
@@ -21,7 +23,10 @@ export interface RouteInput<P, B, Q> {
 export interface RouteSpec<P, B, Q> {
   method: Method;
   path: string;
-  guards: [Guard, ...Guard[]];
+  /** Who may call it: a rule of the one access policy. The guard comes from it; services decide the rest by the same rule. */
+  access: AccessRuleName;
+  /** One line for the OpenAPI document. */
+  summary?: string;
   /** Extra middleware after the guards, before validation (rate limits, say). */
   before?: RequestHandler[];
   params?: z.ZodType<P>;
@@ -35,9 +40,15 @@ export interface RouteSpec<P, B, Q> {
 export interface Route {
   method: Method;
   path: string;
-  guardNames: string[];
+  access: AccessRuleName;
+  summary?: string;
+  /** The zod schemas of its input, for the OpenAPI document. */
+  schemas: { params?: z.ZodType; body?: z.ZodType; query?: z.ZodType };
   mount(router: Router): void;
 }
+
+/** A router made by mountRoutes, with the routes it holds (app.ts collects them for /api/openapi.json). */
+export type RouteTableRouter = Router & { routes: readonly Route[] };
 
 export function route<P = Record<string, string>, B = undefined, Q = undefined>(spec: RouteSpec<P, B, Q>): Route {
   const run: RequestHandler = async (req, res) => {
@@ -57,14 +68,20 @@ export function route<P = Record<string, string>, B = undefined, Q = undefined>(
     const query = spec.query ? parseOrThrow(spec.query, req.query, 'query') : (undefined as Q);
     await spec.handler({ req, res, params, body, query });
   };
-  return {
+  const described: Route = {
     method: spec.method,
     path: spec.path,
-    guardNames: spec.guards.map((g) => g.guardName),
+    access: spec.access,
+    ...(spec.summary ? { summary: spec.summary } : {}),
+    schemas: { ...(spec.params ? { params: spec.params } : {}), ...(spec.body ? { body: spec.body } : {}), ...(spec.query ? { query: spec.query } : {}) },
     mount(router) {
-      router[spec.method](spec.path, ...spec.guards, ...(spec.before ?? []), run);
+      // The last handler carries the route's description, so whoever walks Express's own router (the
+      // access matrix test) finds which rule a mounted path answers to, and a path mounted some other
+      // way stands out.
+      router[spec.method](spec.path, guardFor(spec.access), ...(spec.before ?? []), Object.assign(run, { routeSpec: described }));
     },
   };
+  return described;
 }
 
 /** File names by form field, as `{ photos: [{ name }] }`, for the text check. */
@@ -74,7 +91,7 @@ function groupNames(files: { fieldname: string; originalname: string }[]): Recor
   return out;
 }
 
-export function mountRoutes(router: Router, routes: Route[]): Router {
+export function mountRoutes(router: Router, routes: Route[]): RouteTableRouter {
   for (const r of routes) r.mount(router);
-  return router;
+  return Object.assign(router, { routes });
 }

@@ -10,18 +10,18 @@ import {
   rulebookParamsSchema,
   saveDraftBodySchema,
 } from '../contracts/rulebook-admin';
-import { requireSignedIn, signedInUserId } from '../middleware/guards';
+import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
 import type { RepublishQueue } from '../services/rulebook-admin.service';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createRulebookAdminRouter({ services, republishQueue }: { services: Services; republishQueue: RepublishQueue | null }): Router {
+export function createRulebookAdminRouter({ services, republishQueue }: { services: Services; republishQueue: RepublishQueue | null }): RouteTableRouter {
   const admin = services.rulebookAdmin;
   return mountRoutes(Router(), [
     route({
       method: 'post',
       path: '/rulebooks/:rulebookId/drafts',
-      guards: [requireSignedIn],
+      access: 'rulebook.admin',
       params: rulebookParamsSchema,
       handler: async ({ req, res, params }) => {
         res.status(201).json({ version: await admin.createDraft(params.rulebookId, signedInUserId(req)) });
@@ -30,7 +30,7 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
     route({
       method: 'put',
       path: '/ruleset-drafts/:versionId',
-      guards: [requireSignedIn],
+      access: 'version.admin',
       params: draftParamsSchema,
       body: saveDraftBodySchema,
       handler: async ({ req, res, params, body }) => {
@@ -40,7 +40,7 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
     route({
       method: 'post',
       path: '/ruleset-drafts/:versionId/import',
-      guards: [requireSignedIn],
+      access: 'version.admin',
       params: draftParamsSchema,
       body: importDraftBodySchema,
       handler: async ({ req, res, params, body }) => {
@@ -50,7 +50,7 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
     route({
       method: 'delete',
       path: '/ruleset-drafts/:versionId',
-      guards: [requireSignedIn],
+      access: 'version.admin',
       params: draftParamsSchema,
       handler: async ({ req, res, params }) => {
         await admin.deleteDraft(params.versionId, signedInUserId(req));
@@ -60,7 +60,7 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
     route({
       method: 'get',
       path: '/ruleset-drafts/:versionId/impact',
-      guards: [requireSignedIn],
+      access: 'version.admin',
       params: draftParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ impact: await admin.impact(params.versionId, signedInUserId(req)) });
@@ -69,7 +69,7 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
     route({
       method: 'post',
       path: '/ruleset-drafts/:versionId/publish',
-      guards: [requireSignedIn],
+      access: 'version.admin',
       params: draftParamsSchema,
       body: publishBodySchema,
       handler: async ({ req, res, params, body }) => {
@@ -79,7 +79,7 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
     route({
       method: 'post',
       path: '/ruleset-versions/:versionId/retire',
-      guards: [requireSignedIn],
+      access: 'version.admin',
       params: draftParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ version: await admin.retire(params.versionId, signedInUserId(req)) });
@@ -88,7 +88,7 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
     route({
       method: 'get',
       path: '/ruleset-versions/:versionId/compare/:otherId',
-      guards: [requireSignedIn],
+      access: 'version.admin',
       params: compareParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json(await admin.compare(params.versionId, params.otherId, signedInUserId(req)));
@@ -97,7 +97,7 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
     route({
       method: 'get',
       path: '/ruleset-versions/:versionId/export',
-      guards: [requireSignedIn],
+      access: 'version.admin',
       params: draftParamsSchema,
       handler: async ({ req, res, params }) => {
         const file = await admin.exportVersion(params.versionId, signedInUserId(req));

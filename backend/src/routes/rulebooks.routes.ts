@@ -2,31 +2,32 @@
 import { Router } from 'express';
 import { clubParamsSchema } from '../contracts/clubs';
 import { rulesetVersionParamsSchema } from '../contracts/checks';
+import { allows } from '../domain/access-policy';
 import type { ClubRole } from '../entities';
-import { requireClubRole, requireSignedIn, signedInUserId } from '../middleware/guards';
+import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-const anyMember = requireClubRole(['builder', 'steward', 'admin']);
 
-export function createRulebooksRouter({ services }: { services: Services }): Router {
+export function createRulebooksRouter({ services }: { services: Services }): RouteTableRouter {
   const { rulesets } = services;
   return mountRoutes(Router(), [
     route({
       method: 'get',
       path: '/clubs/:clubId/rulebooks',
-      guards: [anyMember],
+      access: 'club.member',
       params: clubParamsSchema,
-      handler: async ({ res, params }) => {
-        const roles = res.locals.clubRoles as ClubRole[];
-        res.json({ rulebooks: await rulesets.listRulebooks(params.clubId, { includeDrafts: roles.includes('admin') }) });
+      handler: async ({ req, res, params }) => {
+        // Drafts are listed for those who may see a draft.
+        const includeDrafts = allows('version.read', { actorId: signedInUserId(req), roles: res.locals.clubRoles as ClubRole[], draft: true });
+        res.json({ rulebooks: await rulesets.listRulebooks(params.clubId, { includeDrafts }) });
       },
     }),
     route({
       method: 'get',
       path: '/ruleset-versions/:versionId',
       // Membership of the owning club is checked by the service: a stranger gets 404, as for an unknown id.
-      guards: [requireSignedIn],
+      access: 'version.read',
       params: rulesetVersionParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ version: await rulesets.getVersion(params.versionId, signedInUserId(req)) });

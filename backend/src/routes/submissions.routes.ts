@@ -4,16 +4,16 @@
 import { Router } from 'express';
 import { reportQuerySchema } from '../contracts/garage';
 import { actionBodySchema, annotationBodySchema, mySubmissionsQuerySchema, resubmitBodySchema, submissionParamsSchema, submitBodySchema } from '../contracts/review';
-import { requireSignedIn, signedInUserId } from '../middleware/guards';
+import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export function createSubmissionsRouter({ services }: { services: Services }): Router {
+export function createSubmissionsRouter({ services }: { services: Services }): RouteTableRouter {
   const { review, reviewReader } = services;
   const detail = (id: string, userId: string) => reviewReader.detail(id, userId);
   return mountRoutes(Router(), [
     route({
-      method: 'post', path: '/submissions', guards: [requireSignedIn], body: submitBodySchema,
+      method: 'post', path: '/submissions', access: 'submission.create', body: submitBodySchema,
       handler: async ({ req, res, body }) => {
         const userId = signedInUserId(req);
         const { id } = await review.submit(userId, body);
@@ -21,19 +21,19 @@ export function createSubmissionsRouter({ services }: { services: Services }): R
       },
     }),
     route({
-      method: 'get', path: '/submissions', guards: [requireSignedIn], query: mySubmissionsQuerySchema,
+      method: 'get', path: '/submissions', access: 'signedIn', query: mySubmissionsQuerySchema,
       handler: async ({ req, res, query }) => {
         res.json({ submissions: await review.mine(signedInUserId(req), query.checkRunId) });
       },
     }),
     route({
-      method: 'get', path: '/submissions/:submissionId', guards: [requireSignedIn], params: submissionParamsSchema,
+      method: 'get', path: '/submissions/:submissionId', access: 'submission.read', params: submissionParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ submission: await detail(params.submissionId, signedInUserId(req)) });
       },
     }),
     route({
-      method: 'post', path: '/submissions/:submissionId/actions', guards: [requireSignedIn], params: submissionParamsSchema, body: actionBodySchema,
+      method: 'post', path: '/submissions/:submissionId/actions', access: 'submission.act', params: submissionParamsSchema, body: actionBodySchema,
       handler: async ({ req, res, params, body }) => {
         const userId = signedInUserId(req);
         await review.act(params.submissionId, userId, body);
@@ -41,7 +41,7 @@ export function createSubmissionsRouter({ services }: { services: Services }): R
       },
     }),
     route({
-      method: 'post', path: '/submissions/:submissionId/resubmit', guards: [requireSignedIn], params: submissionParamsSchema, body: resubmitBodySchema,
+      method: 'post', path: '/submissions/:submissionId/resubmit', access: 'submission.resubmit', params: submissionParamsSchema, body: resubmitBodySchema,
       handler: async ({ req, res, params, body }) => {
         const userId = signedInUserId(req);
         const { id } = await review.resubmit(params.submissionId, userId, body);
@@ -49,7 +49,7 @@ export function createSubmissionsRouter({ services }: { services: Services }): R
       },
     }),
     route({
-      method: 'post', path: '/submissions/:submissionId/annotations', guards: [requireSignedIn], params: submissionParamsSchema, body: annotationBodySchema,
+      method: 'post', path: '/submissions/:submissionId/annotations', access: 'submission.annotate', params: submissionParamsSchema, body: annotationBodySchema,
       handler: async ({ req, res, params, body }) => {
         const userId = signedInUserId(req);
         await review.annotate(params.submissionId, userId, body);
@@ -57,7 +57,7 @@ export function createSubmissionsRouter({ services }: { services: Services }): R
       },
     }),
     route({
-      method: 'get', path: '/submissions/:submissionId/report.pdf', guards: [requireSignedIn], params: submissionParamsSchema, query: reportQuerySchema,
+      method: 'get', path: '/submissions/:submissionId/report.pdf', access: 'submission.read', params: submissionParamsSchema, query: reportQuerySchema,
       handler: async ({ req, res, params, query }) => {
         const { pdf, recordNumber } = await reviewReader.approvedPdf(params.submissionId, signedInUserId(req), query.units);
         res.setHeader('Content-Type', 'application/pdf');

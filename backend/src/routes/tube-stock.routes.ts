@@ -5,75 +5,73 @@ import { Router } from 'express';
 import { clubParamsSchema } from '../contracts/clubs';
 import { sheetParamsSchema } from '../contracts/garage';
 import { ownStockTubeParamsSchema, stockTubeBodySchema, stockTubeParamsSchema, stockTubePatchSchema, tubeChoiceQuerySchema } from '../contracts/tube-stock';
-import { requireClubRole, requireSignedIn, signedInUserId } from '../middleware/guards';
+import { signedInUserId } from '../middleware/guards';
 import type { ClubRole } from '../entities';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-const anyMember = requireClubRole(['builder', 'steward', 'admin']);
-const adminOnly = requireClubRole(['admin']);
 
-export function createTubeStockRouter({ services }: { services: Services }): Router {
+export function createTubeStockRouter({ services }: { services: Services }): RouteTableRouter {
   const { tubeStock, tubeChoice } = services;
   return mountRoutes(Router(), [
     route({
-      method: 'get', path: '/clubs/:clubId/tube-stock', guards: [anyMember], params: clubParamsSchema,
-      handler: async ({ res, params }) => {
-        res.json(await tubeStock.listClub(params.clubId, (res.locals.clubRoles ?? []) as ClubRole[]));
+      method: 'get', path: '/clubs/:clubId/tube-stock', access: 'club.member', params: clubParamsSchema,
+      handler: async ({ req, res, params }) => {
+        res.json(await tubeStock.listClub(params.clubId, signedInUserId(req), (res.locals.clubRoles ?? []) as ClubRole[]));
       },
     }),
     route({
-      method: 'post', path: '/clubs/:clubId/tube-stock', guards: [adminOnly], params: clubParamsSchema, body: stockTubeBodySchema,
+      method: 'post', path: '/clubs/:clubId/tube-stock', access: 'club.admin', params: clubParamsSchema, body: stockTubeBodySchema,
       handler: async ({ req, res, params, body }) => {
         res.status(201).json({ tube: await tubeStock.addClub(params.clubId, signedInUserId(req), body) });
       },
     }),
     route({
-      method: 'post', path: '/clubs/:clubId/tube-stock/common', guards: [adminOnly], params: clubParamsSchema,
+      method: 'post', path: '/clubs/:clubId/tube-stock/common', access: 'club.admin', params: clubParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json(await tubeStock.addCommonSizes(params.clubId, signedInUserId(req)));
       },
     }),
     route({
-      method: 'patch', path: '/clubs/:clubId/tube-stock/:tubeId', guards: [adminOnly], params: stockTubeParamsSchema, body: stockTubePatchSchema,
+      method: 'patch', path: '/clubs/:clubId/tube-stock/:tubeId', access: 'club.admin', params: stockTubeParamsSchema, body: stockTubePatchSchema,
       handler: async ({ req, res, params, body }) => {
         res.json({ tube: await tubeStock.updateClub(params.clubId, params.tubeId, signedInUserId(req), body) });
       },
     }),
     route({
-      method: 'delete', path: '/clubs/:clubId/tube-stock/:tubeId', guards: [adminOnly], params: stockTubeParamsSchema,
+      method: 'delete', path: '/clubs/:clubId/tube-stock/:tubeId', access: 'club.admin', params: stockTubeParamsSchema,
       handler: async ({ req, res, params }) => {
         await tubeStock.removeClub(params.clubId, params.tubeId, signedInUserId(req));
         res.status(204).end();
       },
     }),
     route({
-      method: 'get', path: '/tube-stock/mine', guards: [requireSignedIn],
+      method: 'get', path: '/tube-stock/mine', access: 'signedIn',
       handler: async ({ req, res }) => {
         res.json(await tubeStock.listMine(signedInUserId(req)));
       },
     }),
     route({
-      method: 'post', path: '/tube-stock/mine', guards: [requireSignedIn], body: stockTubeBodySchema,
+      method: 'post', path: '/tube-stock/mine', access: 'self.builder', body: stockTubeBodySchema,
       handler: async ({ req, res, body }) => {
         res.status(201).json({ tube: await tubeStock.addMine(signedInUserId(req), body) });
       },
     }),
     route({
-      method: 'patch', path: '/tube-stock/mine/:tubeId', guards: [requireSignedIn], params: ownStockTubeParamsSchema, body: stockTubePatchSchema,
+      method: 'patch', path: '/tube-stock/mine/:tubeId', access: 'self.builder', params: ownStockTubeParamsSchema, body: stockTubePatchSchema,
       handler: async ({ req, res, params, body }) => {
         res.json({ tube: await tubeStock.updateMine(signedInUserId(req), params.tubeId, body) });
       },
     }),
     route({
-      method: 'delete', path: '/tube-stock/mine/:tubeId', guards: [requireSignedIn], params: ownStockTubeParamsSchema,
+      method: 'delete', path: '/tube-stock/mine/:tubeId', access: 'signedIn', params: ownStockTubeParamsSchema,
       handler: async ({ req, res, params }) => {
         await tubeStock.removeMine(signedInUserId(req), params.tubeId);
         res.status(204).end();
       },
     }),
     route({
-      method: 'get', path: '/build-sheets/:sheetId/tube-choice', guards: [requireSignedIn], params: sheetParamsSchema, query: tubeChoiceQuerySchema,
+      method: 'get', path: '/build-sheets/:sheetId/tube-choice', access: 'sheet.read', params: sheetParamsSchema, query: tubeChoiceQuerySchema,
       handler: async ({ req, res, params, query }) => {
         res.json(await tubeChoice.choose(params.sheetId, signedInUserId(req), { anyMaterial: query.anyMaterial }));
       },

@@ -4,13 +4,12 @@ import { Router, type ErrorRequestHandler } from 'express';
 import { rateLimit } from 'express-rate-limit';
 import { verifyParamsSchema } from '../contracts/review';
 import { NotFoundError, RateLimitedError } from '../errors';
-import { publicRoute } from '../middleware/guards';
 import type { Services } from '../services';
-import { mountRoutes, route } from './route-table';
+import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
 export const defaultVerifyLimit = { windowMs: 60_000, limit: 30 };
 
-export function createVerifyRouter({ services, limits = defaultVerifyLimit }: { services: Services; limits?: { windowMs: number; limit: number } }): Router {
+export function createVerifyRouter({ services, limits = defaultVerifyLimit }: { services: Services; limits?: { windowMs: number; limit: number } }): RouteTableRouter {
   const limiter = rateLimit({
     windowMs: limits.windowMs,
     limit: limits.limit,
@@ -21,7 +20,7 @@ export function createVerifyRouter({ services, limits = defaultVerifyLimit }: { 
   const notFound = () => new NotFoundError('No cage record or check run has this code.');
   const router = mountRoutes(Router(), [
     route({
-      method: 'get', path: '/verify/:code', guards: [publicRoute], before: [limiter], params: verifyParamsSchema, unsafeParams: notFound,
+      method: 'get', path: '/verify/:code', access: 'public', before: [limiter], params: verifyParamsSchema, unsafeParams: notFound,
       handler: async ({ res, params }) => {
         const result = await services.verification.verify(params.code);
         // Nobody caches a status that can change (a revocation must show at once).

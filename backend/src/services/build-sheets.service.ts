@@ -9,10 +9,10 @@ import type {
 } from '../contracts/garage';
 import type { Specification } from '../contracts/specification';
 import type { UnitSystem } from '../domain/units';
-import { implausibleValues } from '../domain/field-ranges';
-import { BuildSheet, BuildSheetRevision, Car, Club, Membership, Rulebook, RulesetVersion, User } from '../entities';
-import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors';
-import { parseSpecificationOrThrow } from './checks.service';
+import { BuildSheet, BuildSheetRevision, Car, Club, Rulebook, RulesetVersion, User } from '../entities';
+import { ConflictError, NotFoundError, ValidationError } from '../errors';
+import { parseSpecificationOrThrow, refuseImplausibleValues } from './checks.service';
+import { enforce, rolesIn } from './access';
 import { sheetFor, type SheetAccessResult } from './garage.service';
 import { diffSpecifications } from './garage/revision-diff';
 import { tubeDataFor } from './garage/tube-data';
@@ -48,8 +48,7 @@ function revisionView(r: BuildSheetRevision): RevisionWire {
  */
 export function parseSheetSpecificationForWrite(json: unknown, classId: string): Specification {
   const specification = parseSpecificationOrThrow(json, classId);
-  const problems = implausibleValues(specification);
-  if (problems.length > 0) throw new ValidationError(problems.map((p) => ({ path: `specification.${p.path}`, message: p.message })));
+  refuseImplausibleValues(specification);
   return specification;
 }
 
@@ -125,11 +124,13 @@ export function createBuildSheetService(ds: DataSource) {
       return ds.transaction(async (tx) => {
         // The car row is locked so a concurrent delete of the car cannot slip between.
         const car = await tx.getRepository(Car).findOne({ where: { id: carId }, lock: { mode: 'pessimistic_write' } });
-        if (!car || car.ownerId !== userId) throw new NotFoundError('Car not found.');
+        if (!car) throw new NotFoundError('Car not found.');
+        enforce('car.owner', { actorId: userId, ownerId: car.ownerId }, { notFound: 'Car not found.' });
         if (car.archivedAt) throw new ConflictError('This car is archived. Unarchive it before adding a build sheet.');
-        const membership = await tx.getRepository(Membership).findOneBy({ userId, clubId: body.clubId });
-        if (!membership) throw new NotFoundError('Club not found.');
-        if (!membership.roles.includes('builder')) throw new ForbiddenError('You need the builder role in this club to keep build sheets for it.');
+        // The owner passed; what `car.addSheet` still asks is the builder role in the sheet's club.
+        enforce('car.addSheet', { actorId: userId, ownerId: car.ownerId, roles: await rolesIn(tx, userId, body.clubId) }, {
+          notFound: 'Club not found.', forbidden: 'You need the builder role in this club to keep build sheets for it.',
+        });
         const version = await usableVersion(tx, body.clubId, body.rulesetVersionId, body.classId);
         const specification: Specification =
           body.specification === undefined

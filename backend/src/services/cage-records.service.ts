@@ -1,7 +1,8 @@
 // Cage records: issued inside the approval's transaction (number from a per-club, per-year sequence
 // bumped with an upsert, so concurrent approvals never share one; a fresh verification code; expiry
 // from the club's validity setting), superseding the car's earlier records; read by the car's owner
-// and the club's stewards and admins; revoked by a steward or admin with a reason.
+// and the club's stewards and admins, revoked by a steward or admin with a reason (the access
+// policy's `record.read` and `record.revoke`).
 import { randomBytes, randomUUID } from 'node:crypto';
 import type { DataSource, EntityManager } from 'typeorm';
 import type { CageRecordWire, RecordSettingsBody, RecordSettingsWire } from '../contracts/review';
@@ -10,10 +11,12 @@ import {
   type CageRecord as DomainRecord,
 } from '../domain/review/cage-record';
 import { CODE_RANDOM_BYTES, newVerificationCode } from '../domain/review/verification-code';
-import { CageRecord, Car, Club, ClubRecordSettings, User } from '../entities';
-import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors';
+import { CageRecord, Car, Club, ClubRecordSettings, User, type ClubRole } from '../entities';
+import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import type { AuditService } from './audit.service';
-import { rolesIn } from './review-access';
+import { allows } from '../domain/access-policy';
+import { enforce } from './access';
+import { rolesOf } from './review-access';
 import { mailRevoked, type ReviewMailDeps } from './review-mail';
 
 export const DEFAULT_VALIDITY_MONTHS = 12;
@@ -41,7 +44,7 @@ export function createCageRecordService(ds: DataSource, deps: ReviewMailDeps & {
     return { recordPrefix: defaultPrefix(club.name), validityMonths: DEFAULT_VALIDITY_MONTHS, saved: false };
   }
 
-  async function view(em: EntityManager, r: CageRecord, viewerRoles: readonly string[], now = new Date()): Promise<CageRecordWire> {
+  async function view(em: EntityManager, r: CageRecord, viewer: { userId: string; roles: readonly ClubRole[] }, now = new Date()): Promise<CageRecordWire> {
     const car = await em.getRepository(Car).findOneByOrFail({ id: r.carId });
     const steward = r.stewardId ? await em.getRepository(User).findOneBy({ id: r.stewardId }) : null;
     const status = recordStatus(toDomain(r), now);
@@ -52,7 +55,7 @@ export function createCageRecordService(ds: DataSource, deps: ReviewMailDeps & {
       issuedAt: r.issuedAt.toISOString(), expiresAt: r.expiresAt.toISOString(), revokedAt: r.revokedAt?.toISOString() ?? null,
       revokedReason: r.revokedReason, supersededAt: r.supersededAt?.toISOString() ?? null, verificationCode: r.verificationCode,
       verificationUrl: verificationUrl(deps.publicUrl, r.verificationCode), submissionId: r.submissionId,
-      canRevoke: !r.revokedAt && (viewerRoles.includes('steward') || viewerRoles.includes('admin')),
+      canRevoke: !r.revokedAt && allows('record.revoke', { actorId: viewer.userId, ownerId: car.ownerId, roles: viewer.roles }),
     };
   }
 
@@ -60,11 +63,11 @@ export function createCageRecordService(ds: DataSource, deps: ReviewMailDeps & {
   async function recordFor(em: EntityManager, recordId: string, userId: string, lock = false) {
     const r = await em.getRepository(CageRecord).findOne({ where: { id: recordId }, ...(lock ? { lock: { mode: 'pessimistic_write' as const } } : {}) });
     if (!r) throw new NotFoundError('Cage record not found.');
-    const roles = await rolesIn(em, userId, r.clubId);
+    const roles = await rolesOf(em, userId, r.clubId);
     const car = await em.getRepository(Car).findOneByOrFail({ id: r.carId });
-    const reviewer = roles.includes('steward') || roles.includes('admin');
-    if (!reviewer && car.ownerId !== userId) throw new NotFoundError('Cage record not found.');
-    return { r, roles, car, reviewer };
+    const facts = { actorId: userId, ownerId: car.ownerId, roles };
+    enforce('record.read', facts, { notFound: 'Cage record not found.' });
+    return { r, roles, car, facts };
   }
 
   return {
@@ -107,13 +110,13 @@ export function createCageRecordService(ds: DataSource, deps: ReviewMailDeps & {
 
     async get(recordId: string, userId: string): Promise<CageRecordWire> {
       const { r, roles } = await recordFor(ds.manager, recordId, userId);
-      return view(ds.manager, r, roles);
+      return view(ds.manager, r, { userId, roles });
     },
 
     async revoke(recordId: string, userId: string, reason: string): Promise<CageRecordWire> {
       return ds.transaction(async (tx) => {
-        const { r, roles, car, reviewer } = await recordFor(tx, recordId, userId, true);
-        if (!reviewer) throw new ForbiddenError('Only a steward or admin of the club can revoke a cage record.');
+        const { r, roles, car, facts } = await recordFor(tx, recordId, userId, true);
+        enforce('record.revoke', facts, { notFound: 'Cage record not found.', forbidden: 'Only a steward or admin of the club can revoke a cage record.' });
         const now = new Date();
         const result = revokeRecord(toDomain(r), reason, now);
         if (!result.ok) {
@@ -131,7 +134,7 @@ export function createCageRecordService(ds: DataSource, deps: ReviewMailDeps & {
           builder, clubId: club.id, clubName: club.name, carName: car.name, recordNumber: r.number, reason: result.record.revokedReason ?? '', recordId: r.id,
         });
         const fresh = await tx.getRepository(CageRecord).findOneByOrFail({ id: r.id });
-        return view(tx, fresh, roles, now);
+        return view(tx, fresh, { userId, roles }, now);
       });
     },
 

@@ -1,7 +1,7 @@
 // Checks: a specification against a ruleset version for one class. A dry run answers with the
 // report and stores nothing; a saved run stores the specification as checked and its report as an
-// immutable record with a verification code. Who may check: a member of the club that owns the
-// version (builder, steward or admin; drafts only its admins). Anyone else gets the same 404 as
+// immutable record with a verification code. Who may check: the access policy's `version.read` — a
+// member of the club that owns the version (drafts only its admins). Anyone else gets the same 404 as
 // for a version that does not exist.
 import { randomBytes } from 'node:crypto';
 import type { DataSource, EntityManager } from 'typeorm';
@@ -9,11 +9,13 @@ import type { CheckRunWire } from '../contracts/checks';
 import type { CheckReport } from '../contracts/report';
 import type { Specification } from '../contracts/specification';
 import type { UnitSystem } from '../domain/units';
-import { CheckRun, User, type ClubRole } from '../entities';
+import { implausibleValues } from '../domain/field-ranges';
+import { CheckRun, User } from '../entities';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import { createInProcessEngine, createWorkerEngine, type CheckEngine } from './check-engine';
 import { parseCheckSpecification } from './check-input';
-import { canSeeVersion, type RulesetService } from './rulesets.service';
+import { enforce } from './access';
+import { versionFacts, type RulesetService } from './rulesets.service';
 import { CODE_RANDOM_BYTES, codeForLookup, newVerificationCode } from '../domain/review/verification-code';
 
 export interface CheckInput {
@@ -34,9 +36,6 @@ export interface SaveRunInput extends CheckInput {
   manager?: EntityManager;
 }
 
-const checkerRoles: readonly ClubRole[] = ['builder', 'steward', 'admin'];
-const reviewerRoles: readonly ClubRole[] = ['steward', 'admin'];
-
 /**
  * A new check run's code: the same generator and form as a cage record's (27 random Crockford
  * base32 characters and a check character, in groups of four). Runs saved before keep their older
@@ -51,6 +50,17 @@ export function parseSpecificationOrThrow(json: unknown, classId: string): Speci
   const outcome = parseCheckSpecification(json, classId);
   if (!outcome.ok) throw new ValidationError(outcome.problems);
   return outcome.specification;
+}
+
+/**
+ * Refuses a specification typed by a person whose values are outside their fields' plausible ranges
+ * (a units slip: "2,800 lb" read as 2.8), each at `specification.<path>`. For writes of typed input
+ * only (a sheet saved, a dry run from the browser); a stored revision is re-checked without it, so a
+ * revision saved before a range existed keeps checking.
+ */
+export function refuseImplausibleValues(specification: unknown): void {
+  const problems = implausibleValues(specification);
+  if (problems.length > 0) throw new ValidationError(problems.map((p) => ({ path: `specification.${p.path}`, message: p.message })));
 }
 
 function runView(run: CheckRun, creator: User | null): CheckRunWire {
@@ -88,9 +98,9 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService, opt
   // event loop does not pay for it twice; the route has already parsed it once for its 400s.
   async function check(input: CheckInput): Promise<{ specification: Specification; reportJson: string }> {
     const access = await rulesets.access(input.rulesetVersionId, input.userId);
-    if (!access || !canSeeVersion(access) || !access.roles!.some((r) => checkerRoles.includes(r))) {
-      throw new NotFoundError('Ruleset version not found.');
-    }
+    if (!access) throw new NotFoundError('Ruleset version not found.');
+    // Every member may check against a version they see (builders, stewards and admins alike).
+    enforce('version.read', versionFacts(access, input.userId), { notFound: 'Ruleset version not found.' });
     if (access.status === 'retired') {
       const currentVersionId = await rulesets.currentVersionOf(access.id);
       throw new ConflictError(
@@ -108,10 +118,9 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService, opt
 
   async function visibleRun(run: CheckRun | null, viewerUserId: string, notFound: string): Promise<CheckRunWire> {
     if (!run) throw new NotFoundError(notFound);
-    if (run.createdById !== viewerUserId) {
-      const access = await rulesets.access(run.rulesetVersionId, viewerUserId);
-      if (!access?.roles?.some((r) => reviewerRoles.includes(r))) throw new NotFoundError(notFound);
-    }
+    // Whoever saved the run needs no roles; spare the query.
+    const roles = run.createdById === viewerUserId ? null : ((await rulesets.access(run.rulesetVersionId, viewerUserId))?.roles ?? null);
+    enforce('checkRun.read', { actorId: viewerUserId, ownerId: run.createdById, roles }, { notFound });
     return runView(run, run.createdBy ?? null);
   }
 
@@ -122,8 +131,12 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService, opt
     /** Ends the worker threads (they never keep the process alive, but tests and shutdown tidy up). */
     close: () => engine.close(),
 
-    /** A check whose report is returned and nothing is stored. */
+    /**
+     * A check whose report is returned and nothing is stored. Its specification is typed input (the
+     * sheet being edited), so implausible values are refused as when a sheet is written.
+     */
     async dryRun(input: CheckInput): Promise<CheckReport> {
+      refuseImplausibleValues(input.specification);
       return JSON.parse((await check(input)).reportJson) as CheckReport;
     },
 
@@ -132,6 +145,7 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService, opt
      * report is serialised once, off the event loop.
      */
     async dryRunJson(input: CheckInput): Promise<string> {
+      refuseImplausibleValues(input.specification);
       return (await check(input)).reportJson;
     },
 

@@ -1,14 +1,21 @@
-// The builder's cars (each sheet with its latest verdict and where it stands in review), and the one
-// place that decides who may see or change a build sheet: its car's owner edits; the stewards and
-// admins of the sheet's club read. Everyone else gets the same 404 as for a sheet that does not
-// exist, so nobody learns which ids are in use.
+// The builder's cars (each sheet with its latest verdict and where it stands in review), and loading a
+// build sheet for someone: the access policy's `sheet.read` and `sheet.edit` (domain/access-policy.ts)
+// decide — its car's owner edits; the stewards and admins of the sheet's club read. Everyone else gets
+// the same 404 as for a sheet that does not exist, so nobody learns which ids are in use.
 import type { DataSource, EntityManager } from 'typeorm';
 import type { CarWire, CreateCarBody, ListQuery, SheetAccess, SheetReviewWire, SheetSummaryWire, UpdateCarBody } from '../contracts/garage';
+import { BuildSheet, Car } from '../entities';
+import { ConflictError, NotFoundError } from '../errors';
+import { enforce, rolesIn } from './access';
 import { sheetReviews } from './garage/sheet-reviews';
-import { BuildSheet, Car, Membership, type ClubRole } from '../entities';
-import { ConflictError, ForbiddenError, NotFoundError } from '../errors';
 
-const reviewerRoles: readonly ClubRole[] = ['steward', 'admin'];
+const sheetRules = { read: 'sheet.read', edit: 'sheet.edit', submit: 'submission.create' } as const;
+const sheetWords = {
+  read: { notFound: 'Build sheet not found.' },
+  edit: { notFound: 'Build sheet not found.', forbidden: 'Only the builder who owns this car can change its build sheets.' },
+  // Submitting a saved check of the sheet: its caller rewords the 404 as the check run's.
+  submit: { notFound: 'Build sheet not found.', forbidden: 'Only the builder who saved this check can submit it.' },
+} as const;
 
 export interface SheetAccessResult {
   sheet: BuildSheet;
@@ -53,19 +60,20 @@ export function carView(c: Car, sheets: BuildSheet[], reviews: ReadonlyMap<strin
 
 /**
  * Loads a sheet for `userId` or throws: 404 when they may not see it, 403 when they may see it but
- * `need` is edit. `lock` takes a row lock on the sheet (inside a transaction) so saves serialise.
+ * `need` is edit (or submit, a check of it). `lock` takes a row lock on the sheet (inside a
+ * transaction) so saves serialise.
  */
 export async function sheetFor(
-  em: EntityManager, sheetId: string, userId: string, need: 'read' | 'edit', lock = false,
+  em: EntityManager, sheetId: string, userId: string, need: 'read' | 'edit' | 'submit', lock = false,
 ): Promise<SheetAccessResult> {
   const sheet = await em.getRepository(BuildSheet).findOne({ where: { id: sheetId }, ...(lock ? { lock: { mode: 'pessimistic_write' as const } } : {}) });
   const car = sheet ? await em.getRepository(Car).findOneBy({ id: sheet.carId }) : null;
   if (!sheet || !car) throw new NotFoundError('Build sheet not found.');
-  if (car.ownerId === userId) return { sheet, car, access: 'owner' };
-  const membership = await em.getRepository(Membership).findOneBy({ userId, clubId: sheet.clubId });
-  if (!membership || !membership.roles.some((r) => reviewerRoles.includes(r))) throw new NotFoundError('Build sheet not found.');
-  if (need === 'edit') throw new ForbiddenError('Only the builder who owns this car can change its build sheets.');
-  return { sheet, car, access: 'reviewer' };
+  const owner = car.ownerId === userId;
+  // The owner's roles in the club do not matter to any sheet rule: spare the query.
+  const roles = owner ? null : await rolesIn(em, userId, sheet.clubId);
+  enforce(sheetRules[need], { actorId: userId, ownerId: car.ownerId, roles }, sheetWords[need]);
+  return { sheet, car, access: owner ? 'owner' : 'reviewer' };
 }
 
 export type GarageService = ReturnType<typeof createGarageService>;
@@ -75,7 +83,8 @@ export function createGarageService(ds: DataSource, options: { now?: () => Date 
   async function ownCar(em: EntityManager, carId: string, userId: string, lock = false): Promise<Car> {
     const car = await em.getRepository(Car).findOne({ where: { id: carId }, ...(lock ? { lock: { mode: 'pessimistic_write' as const } } : {}) });
     // Another builder's car is not found, never forbidden.
-    if (!car || car.ownerId !== userId) throw new NotFoundError('Car not found.');
+    if (!car) throw new NotFoundError('Car not found.');
+    enforce('car.owner', { actorId: userId, ownerId: car.ownerId }, { notFound: 'Car not found.' });
     return car;
   }
 

@@ -1,5 +1,6 @@
 // Builds every service from the DataSource and configuration. Services never see req/res.
 import type { DataSource } from 'typeorm';
+import { createAccessReader, type AccessReader } from './access';
 import { createAccountService, type AccountService } from './accounts.service';
 import { createMemberService, type MemberService } from './members.service';
 import { createCheckService, type CheckService } from './checks.service';
@@ -26,6 +27,8 @@ import { createClubSettingsService, type ClubSettingsService } from './club-sett
 import { createSheetEditionService, type SheetEditionService } from './sheet-editions.service';
 
 export interface Services {
+  /** The access policy's look-ups for the route guards (roles in a club, roles anywhere). */
+  access: AccessReader;
   accounts: AccountService;
   members: MemberService;
   rulesets: RulesetService;
@@ -73,6 +76,7 @@ export function createServices(
   const tubeStock = createTubeStockService(ds, { audit });
   const clubSettings = createClubSettingsService(ds, { audit, now });
   return {
+    access: createAccessReader(ds),
     accounts: createAccountService(ds),
     members,
     rulesets,
@@ -80,7 +84,7 @@ export function createServices(
     audit,
     mail,
     mailbox: createMailboxService(ds),
-    jobProgress: createJobProgressReader(createJobProgressStore((text, values) => ds.query(text, values)), members),
+    jobProgress: createJobProgressReader(createJobProgressStore((text, values) => ds.query(text, values)), ds),
     garage: createGarageService(ds, { now }),
     buildSheets,
     photos,

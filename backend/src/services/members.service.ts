@@ -64,10 +64,6 @@ export function createMemberService(ds: DataSource, options: { publicUrl: string
   }
 
   return {
-    async rolesInClub(userId: string, clubId: string): Promise<ClubRole[] | null> {
-      const m = await ds.getRepository(Membership).findOneBy({ userId, clubId });
-      return m ? m.roles : null;
-    },
 
     async list(clubId: string): Promise<MemberWire[]> {
       const rows = await ds.getRepository(Membership).find({

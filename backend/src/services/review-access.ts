@@ -1,36 +1,39 @@
-// Who may see and act on a submission, and the mapping between its row and the pure workflow's
-// value. The builder who submitted it and the stewards and admins of its club see it; everyone
-// else gets the same 404 as for an id that does not exist. Workflow refusals become typed errors.
+// Loading a submission for someone, and the mapping between its row and the pure workflow's value.
+// The access policy's `submission.read` decides who sees it (the builder who submitted it and the
+// stewards and admins of its club); everyone else gets the same 404 as for an id that does not exist.
+// Workflow refusals become typed errors.
 import type { EntityManager } from 'typeorm';
 import type { CheckReport } from '../contracts/report';
 import type { ClubRole } from '../domain/review/workflow';
 import type { ReviewRefusal, Submission as DomainSubmission } from '../domain/review/workflow';
-import { Membership, Submission } from '../entities';
+import type { AccessFacts } from '../domain/access-policy';
+import { Submission } from '../entities';
 import { AppError, ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors';
+import { enforce, rolesIn } from './access';
 
 export interface SubmissionAccess {
   row: Submission;
   roles: ClubRole[];
   isBuilder: boolean;
-  isReviewer: boolean;
 }
 
 export const notFound = () => new NotFoundError('Submission not found.');
 
-export async function rolesIn(em: EntityManager, userId: string, clubId: string): Promise<ClubRole[]> {
-  const m = await em.getRepository(Membership).findOneBy({ userId, clubId });
-  return m ? [...m.roles] : [];
+/** The caller's roles in `clubId`; none when they are not a member (what the workflow's actor carries). */
+export async function rolesOf(em: EntityManager, userId: string, clubId: string): Promise<ClubRole[]> {
+  return (await rolesIn(em, userId, clubId)) ?? [];
 }
+
+/** The policy's facts about a submission and its caller. */
+export const submissionFacts = (a: Pick<SubmissionAccess, 'row' | 'roles'>, userId: string): AccessFacts => ({ actorId: userId, ownerId: a.row.builderId, roles: a.roles });
 
 /** Loads a submission `userId` may see (locked FOR UPDATE when `lock`), or throws 404. */
 export async function submissionFor(em: EntityManager, submissionId: string, userId: string, lock = false): Promise<SubmissionAccess> {
   const row = await em.getRepository(Submission).findOne({ where: { id: submissionId }, ...(lock ? { lock: { mode: 'pessimistic_write' as const } } : {}) });
   if (!row) throw notFound();
-  const roles = await rolesIn(em, userId, row.clubId);
-  const isBuilder = row.builderId === userId;
-  const isReviewer = roles.includes('steward') || roles.includes('admin');
-  if (!isBuilder && !isReviewer) throw notFound();
-  return { row, roles, isBuilder, isReviewer };
+  const roles = await rolesOf(em, userId, row.clubId);
+  enforce('submission.read', { actorId: userId, ownerId: row.builderId, roles }, { notFound: 'Submission not found.' });
+  return { row, roles, isBuilder: row.builderId === userId };
 }
 
 export function toDomain(row: Submission, report: CheckReport): DomainSubmission {

@@ -15,7 +15,8 @@ import { diffSpecifications } from './garage/revision-diff';
 import type { ReportService } from './reports.service';
 import { approvedSubmissionPdf } from './review-report';
 import { photoView } from './photos.service';
-import { submissionFor } from './review-access';
+import { allows } from '../domain/access-policy';
+import { submissionFacts, submissionFor } from './review-access';
 
 const AGE_DAYS: Record<QueueQuery['age'], number> = { any: 0, over_3_days: 3, over_7_days: 7, over_14_days: 14 };
 const iso = (d: Date | string | null) => (d ? new Date(d).toISOString() : null);
@@ -156,14 +157,14 @@ export function createReviewReader(ds: DataSource, deps: { records: CageRecordSe
         annotations: await Promise.all(annotations.map(async (a) => ({ id: a.id, findingKey: a.findingKey, text: a.text, author: await who(a.authorId), createdAt: a.createdAt.toISOString() }))),
         history,
         changesSince: await changesSince(s, run, units),
-        record: recordRow ? await deps.records.view(ds.manager, recordRow, roles) : null,
+        record: recordRow ? await deps.records.view(ds.manager, recordRow, { userId, roles }) : null,
         can: {
           claim: isSteward && s.state === 'pending',
           release: s.state === 'in_review' && ((isSteward && s.assignedStewardId === userId) || roles.includes('admin')),
           decide: isSteward && s.state === 'in_review' && s.assignedStewardId === userId,
           withdraw: isBuilder && (s.state === 'pending' || s.state === 'in_review'),
           resubmit: isBuilder && s.state === 'changes_requested' && !s.resubmittedAsId,
-          annotate: isSteward && s.state !== 'withdrawn',
+          annotate: allows('submission.annotate', submissionFacts({ row: s, roles }, userId)) && s.state !== 'withdrawn',
         },
       };
     },

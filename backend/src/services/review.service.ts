@@ -10,11 +10,12 @@ import { findingKey, overallWithWaivers } from '../domain/review/waivers';
 import { formatIsoDate } from '../domain/dates';
 import { MEMBER_KIND_LABELS } from '../domain/vocabulary';
 import { BuildSheetRevision, Car, CheckRun, Club, FindingAnnotation, Photo, StewardMailOptIn, Submission, SubmissionEvent, User } from '../entities';
-import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors';
+import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import type { AuditService } from './audit.service';
 import type { CageRecordService } from './cage-records.service';
 import { sheetFor } from './garage.service';
-import { refusalError, rolesIn, submissionFor, toDomain } from './review-access';
+import { enforce, rolesIn } from './access';
+import { refusalError, rolesOf, submissionFacts, submissionFor, toDomain } from './review-access';
 import { mailDecision, mailNewSubmission, type DecisionKind, type ReviewMailDeps } from './review-mail';
 
 export interface ReviewDeps extends ReviewMailDeps {
@@ -42,12 +43,11 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
     if (!run || !revision) throw new NotFoundError('Check run not found.');
     let found;
     try {
-      found = await sheetFor(tx, revision.buildSheetId, userId, 'read', true);
+      found = await sheetFor(tx, revision.buildSheetId, userId, 'submit', true);
     } catch (err) {
       if (err instanceof NotFoundError) throw new NotFoundError('Check run not found.');
       throw err;
     }
-    if (found.access !== 'owner') throw new ForbiddenError('Only the builder who saved this check can submit it.');
     const open = await tx.getRepository(Submission).findOne({ where: OPEN_STATES.map((state) => ({ buildSheetId: found.sheet.id, state })) });
     if (open) throw new ConflictError('This build sheet already has a submission waiting for review. Withdraw it first, or wait for the decision.', { reason: 'already_open', submissionId: open.id });
     const photos = await tx.getRepository(Photo).find({ where: { buildSheetId: found.sheet.id }, order: { createdAt: 'ASC', id: 'ASC' } });
@@ -66,7 +66,7 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
     async submit(userId: string, body: SubmitBody): Promise<{ id: string }> {
       return ds.transaction(async (tx) => {
         const { run, sheet, car, photoIds } = await runToSubmit(tx, body.checkRunId, userId);
-        const roles = await rolesIn(tx, userId, sheet.clubId);
+        const roles = await rolesOf(tx, userId, sheet.clubId);
         const resubmittable = await tx.getRepository(Submission).findOne({ where: { buildSheetId: sheet.id, state: 'changes_requested', resubmittedAsId: IsNull() } });
         if (resubmittable)
           throw new ConflictError('A steward asked for changes on this build sheet: resubmit that submission instead, so the steward sees what changed.', { reason: 'resubmit_instead', submissionId: resubmittable.id });
@@ -85,8 +85,9 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
 
     async resubmit(previousId: string, userId: string, body: ResubmitBody): Promise<{ id: string }> {
       return ds.transaction(async (tx) => {
-        const { row: prev, roles } = await submissionFor(tx, previousId, userId, true);
-        if (prev.builderId !== userId) throw new ForbiddenError('Only the builder who submitted it can resubmit.');
+        const found = await submissionFor(tx, previousId, userId, true);
+        enforce('submission.resubmit', submissionFacts(found, userId), { notFound: 'Submission not found.', forbidden: 'Only the builder who submitted it can resubmit.' });
+        const { row: prev, roles } = found;
         const { run, sheet, car, photoIds } = await runToSubmit(tx, body.checkRunId, userId);
         if (sheet.id !== prev.buildSheetId) throw new ValidationError([{ path: 'checkRunId', message: 'Resubmit a check run of the same build sheet.' }]);
         if (run.id === prev.checkRunId) throw new ValidationError([{ path: 'checkRunId', message: 'This is the check the steward already saw. Make the changes, run a new check, then resubmit.' }]);
@@ -160,9 +161,12 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
 
     async annotate(submissionId: string, userId: string, body: AnnotationBody): Promise<void> {
       await ds.transaction(async (tx) => {
-        const { row, roles } = await submissionFor(tx, submissionId, userId, true);
-        if (!roles.includes('steward')) throw new ForbiddenError('Only a steward of this club can annotate findings.');
-        if (row.builderId === userId) throw new ForbiddenError('A steward cannot review their own submission; another steward must.');
+        const found = await submissionFor(tx, submissionId, userId, true);
+        const { row, roles } = found;
+        enforce('submission.annotate', submissionFacts(found, userId), {
+          notFound: 'Submission not found.',
+          forbidden: roles.includes('steward') ? 'A steward cannot review their own submission; another steward must.' : 'Only a steward of this club can annotate findings.',
+        });
         const run = await tx.getRepository(CheckRun).findOneByOrFail({ id: row.checkRunId });
         if (!run.report.findings.some((f) => findingKey(f) === body.findingKey))
           throw new ValidationError([{ path: 'findingKey', message: 'That finding is not in this submission’s report.' }]);
@@ -194,8 +198,8 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
     },
 
     async setMailOptIn(clubId: string, userId: string, enabled: boolean): Promise<boolean> {
-      const roles = await rolesIn(ds.manager, userId, clubId);
-      if (!roles.includes('steward')) throw new ForbiddenError('Only stewards can ask for mail on new submissions.');
+      // The route's guard asked `club.steward` already; the service does not rely on it.
+      enforce('club.steward', { actorId: userId, roles: await rolesIn(ds.manager, userId, clubId) }, { notFound: 'Club not found.', forbidden: 'Only stewards can ask for mail on new submissions.' });
       if (enabled) await ds.getRepository(StewardMailOptIn).upsert({ clubId, userId }, ['userId', 'clubId']);
       else await ds.getRepository(StewardMailOptIn).delete({ clubId, userId });
       return enabled;

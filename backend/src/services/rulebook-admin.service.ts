@@ -23,8 +23,9 @@ import { validateRulesetDocument } from '../domain/rules/validate';
 import { describeRulesetChanges, type RulesetChange } from '../domain/rulebook/diff';
 import { activateDueVersions, startDraftFrom, transitionVersion, type RulebookVersion, type StateChange } from '../domain/rulebook/lifecycle';
 import { calendarDateIn } from '../domain/dates';
-import type { ClubRole, RulesetStatus } from '../entities';
-import { AppError, ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors';
+import type { RulesetStatus } from '../entities';
+import { AppError, ConflictError, NotFoundError, ValidationError } from '../errors';
+import { enforce, rolesIn } from './access';
 import type { AuditService } from './audit.service';
 import type { RulesetService } from './rulesets.service';
 import type { ClubSettingsService } from './club-settings.service';
@@ -95,6 +96,8 @@ function refusal(code: string, message: string, problems?: DocumentProblem[]): A
   return new ConflictError(message);
 }
 
+const adminsOnly = 'Only the club’s admins keep its rulebooks.';
+
 export type RulebookAdminService = ReturnType<typeof createRulebookAdminService>;
 
 export interface ActivatedEdition {
@@ -110,11 +113,6 @@ export function createRulebookAdminService(
 ) {
   const { rulesets, audit, clubSettings } = deps;
 
-  async function rolesIn(em: EntityManager, clubId: string, userId: string): Promise<ClubRole[] | null> {
-    const rows: { roles: ClubRole[] }[] = await em.query(`SELECT roles FROM memberships WHERE club_id = $1 AND user_id = $2`, [clubId, userId]);
-    return rows[0]?.roles ?? null;
-  }
-
   /** The version (locked for update inside a transaction when asked); 404 for strangers, 403 for non-admins. */
   async function adminVersion(em: EntityManager, versionId: string, userId: string, lock = false): Promise<VersionRow> {
     const rows: VersionRow[] = await em.query(
@@ -122,11 +120,9 @@ export function createRulebookAdminService(
       [versionId],
     );
     const row = rows[0];
-    const roles = row ? await rolesIn(em, row.clubId, userId) : null;
-    if (!row || !roles || roles.length === 0 || (row.status === 'draft' && !roles.includes('admin'))) {
-      throw new NotFoundError('Ruleset version not found.');
-    }
-    if (!roles.includes('admin')) throw new ForbiddenError('Only the club’s admins keep its rulebooks.');
+    if (!row) throw new NotFoundError('Ruleset version not found.');
+    const roles = await rolesIn(em, userId, row.clubId);
+    enforce('version.admin', { actorId: userId, roles, draft: row.status === 'draft' }, { notFound: 'Ruleset version not found.', forbidden: adminsOnly });
     return row;
   }
 
@@ -198,9 +194,8 @@ export function createRulebookAdminService(
       const id = await ds.transaction(async (tx) => {
         const books: { clubId: string }[] = await tx.query(`SELECT club_id AS "clubId" FROM rulebooks WHERE id = $1 FOR UPDATE`, [rulebookId]);
         const book = books[0];
-        const roles = book ? await rolesIn(tx, book.clubId, userId) : null;
-        if (!book || !roles || roles.length === 0) throw new NotFoundError('Rulebook not found.');
-        if (!roles.includes('admin')) throw new ForbiddenError('Only the club’s admins keep its rulebooks.');
+        if (!book) throw new NotFoundError('Rulebook not found.');
+        enforce('rulebook.admin', { actorId: userId, roles: await rolesIn(tx, userId, book.clubId) }, { notFound: 'Rulebook not found.', forbidden: adminsOnly });
         const siblings = await siblingsOf(tx, rulebookId);
         const latest = [...siblings].filter((s) => s.status !== 'draft').sort((a, b) => b.versionNumber - a.versionNumber)[0] ?? siblings[siblings.length - 1];
         if (!latest) throw new ConflictError('This rulebook has no version to start from; import a document into a new rulebook instead.');

@@ -5,11 +5,13 @@ import type { DataSource } from 'typeorm';
 import type { RulebookWire, RulesetVersionSummaryWire, RulesetVersionWire } from '../contracts/checks';
 import type { RulesetDocument } from '../contracts/ruleset';
 import { compileRuleset, validateRulesetDocument, type CompiledRuleset } from '../domain';
+import type { AccessFacts } from '../domain/access-policy';
 import { Rulebook, RulesetVersion, type ClubRole, type RulesetStatus } from '../entities';
 import { ConflictError, NotFoundError } from '../errors';
+import { enforce } from './access';
 import { compiledCacheKey, createCompiledRulesetCache, type CacheKeyParts, type CompiledRulesetCache } from './compiled-ruleset-cache';
 
-/** What the access rules need to know about a version and the person asking. */
+/** What the access policy needs to know about a version and the person asking. */
 export interface VersionAccess {
   id: string;
   status: RulesetStatus;
@@ -19,10 +21,9 @@ export interface VersionAccess {
   roles: ClubRole[] | null;
 }
 
-/** Members see published, superseded and retired versions; drafts only the club's admins. */
-export function canSeeVersion(access: VersionAccess): boolean {
-  if (access.roles === null || access.roles.length === 0) return false;
-  return access.status !== 'draft' || access.roles.includes('admin');
+/** The facts of `version.read` / `version.admin` (members see published, superseded and retired versions; drafts only the club's admins). */
+export function versionFacts(access: VersionAccess, userId: string): AccessFacts {
+  return { actorId: userId, roles: access.roles, draft: access.status === 'draft' };
 }
 
 function summaryView(v: RulesetVersion): RulesetVersionSummaryWire {
@@ -107,7 +108,8 @@ export function createRulesetService(ds: DataSource, options: { cache?: Compiled
     /** One version with its document, for members of the owning club (drafts: admins); else 404. */
     async getVersion(versionId: string, userId: string): Promise<RulesetVersionWire> {
       const access = await this.access(versionId, userId);
-      if (!access || !canSeeVersion(access)) throw new NotFoundError('Ruleset version not found.');
+      if (!access) throw new NotFoundError('Ruleset version not found.');
+      enforce('version.read', versionFacts(access, userId), { notFound: 'Ruleset version not found.' });
       const v = await ds.getRepository(RulesetVersion).findOneOrFail({ where: { id: versionId }, relations: { rulebook: true } });
       const book = v.rulebook!;
       return {

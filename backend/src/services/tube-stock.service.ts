@@ -5,9 +5,11 @@ import type { DataSource, EntityManager } from 'typeorm';
 import type { StockListWire, StockTubeBody, StockTubePatch, StockTubeWire } from '../contracts/tube-stock';
 import { COMMON_STOCK } from '../domain/common-stock';
 import { tubeSectionProperties, tubeSizeProblems } from '../domain/tube';
-import { Membership, StockTube } from '../entities';
+import { allows } from '../domain/access-policy';
+import { StockTube } from '../entities';
 import type { ClubRole } from '../entities';
-import { ConflictError, ForbiddenError, NotFoundError, ValidationError } from '../errors';
+import { ConflictError, NotFoundError, ValidationError } from '../errors';
+import { enforce, rolesAnywhere } from './access';
 import type { AuditService } from './audit.service';
 
 /** Enough for any real stock list; stops a runaway script filling the table. */
@@ -99,17 +101,19 @@ export function createTubeStockService(ds: DataSource, deps: { audit: AuditServi
 
   const auditDetails = (t: StockTube) => ({ label: t.label, odMm: t.odMm, wallMm: t.wallMm, material: t.material, process: t.process });
 
+  /** The access policy's `self.builder`: own sizes are kept by whoever builds for some club. */
   async function requireBuilderSomewhere(userId: string): Promise<void> {
-    const memberships = await ds.getRepository(Membership).findBy({ userId });
-    if (!memberships.some((m) => m.roles.includes('builder'))) throw new ForbiddenError('Your own stock sizes are for builders; you hold no builder role in any club.');
+    enforce('self.builder', { actorId: userId, rolesAnywhere: await rolesAnywhere(ds.manager, userId) }, {
+      notFound: 'Stock size not found.', forbidden: 'Your own stock sizes are for builders; you hold no builder role in any club.',
+    });
   }
 
   return {
     ensureSeeded: (clubId: string) => ensureSeeded(ds.manager, clubId),
 
-    async listClub(clubId: string, roles: readonly ClubRole[]): Promise<StockListWire> {
+    async listClub(clubId: string, userId: string, roles: readonly ClubRole[]): Promise<StockListWire> {
       await ensureSeeded(ds.manager, clubId);
-      return { tubes: (await rows(ds.manager, { clubId })).map(stockTubeView), canEdit: roles.includes('admin') };
+      return { tubes: (await rows(ds.manager, { clubId })).map(stockTubeView), canEdit: allows('club.admin', { actorId: userId, roles }) };
     },
 
     async addClub(clubId: string, actorId: string, body: StockTubeBody): Promise<StockTubeWire> {
@@ -150,8 +154,8 @@ export function createTubeStockService(ds: DataSource, deps: { audit: AuditServi
     },
 
     async listMine(userId: string): Promise<StockListWire> {
-      const memberships = await ds.getRepository(Membership).findBy({ userId });
-      return { tubes: (await rows(ds.manager, { ownerId: userId })).map(stockTubeView), canEdit: memberships.some((m) => m.roles.includes('builder')) };
+      const canEdit = allows('self.builder', { actorId: userId, rolesAnywhere: await rolesAnywhere(ds.manager, userId) });
+      return { tubes: (await rows(ds.manager, { ownerId: userId })).map(stockTubeView), canEdit };
     },
 
     async addMine(userId: string, body: StockTubeBody): Promise<StockTubeWire> {

@@ -1,5 +1,5 @@
-// ApiError: the API's one error shape `{ error: { code, message, details } }` as a typed exception, with
-// field errors indexed by path so forms can show each message beside its input.
+// ApiError: the API's one error shape `{ error: { code, message, details, requestId } }` as a typed
+// exception, with field errors indexed by path so forms can show each message beside its input.
 
 export interface FieldErrorDetail {
   path: string;
@@ -27,15 +27,18 @@ export class ApiError extends Error {
   readonly status: number;
   readonly code: ApiErrorCode;
   readonly details: unknown;
+  /** The server's id of the request (on its log lines), when it sent one. */
+  readonly requestId: string | undefined;
   /** First message per field path, e.g. `{ newPassword: 'Must be at least 10 characters' }`. */
   readonly fieldErrors: Readonly<Record<string, string>>;
 
-  constructor(status: number, code: ApiErrorCode, message: string, details?: unknown) {
+  constructor(status: number, code: ApiErrorCode, message: string, details?: unknown, requestId?: string) {
     super(message);
     this.name = 'ApiError';
     this.status = status;
     this.code = code;
     this.details = details;
+    this.requestId = requestId;
     this.fieldErrors = indexFieldErrors(details);
   }
 
@@ -75,10 +78,10 @@ export function apiErrorFromBody(status: number, body: unknown): ApiError {
   const envelope =
     typeof body === 'object' && body !== null ? (body as { error?: unknown }).error : undefined;
   if (typeof envelope === 'object' && envelope !== null) {
-    const { code, message, details } = envelope as Record<string, unknown>;
+    const { code, message, details, requestId } = envelope as Record<string, unknown>;
     if (typeof code === 'string') {
       const text = typeof message === 'string' && message ? message : fallbackFor(status);
-      return new ApiError(status, code, text, details);
+      return new ApiError(status, code, text, details, typeof requestId === 'string' ? requestId : undefined);
     }
   }
   return new ApiError(status, 'unexpected_response', fallbackFor(status));

@@ -5,7 +5,7 @@ import fc from 'fast-check';
 import { checkReportSchema } from '@backend/contracts/report';
 import { UnknownClassError, evaluateSpecification } from '@backend/domain/index';
 import { FACTS_BY_NAME } from '@backend/domain/facts';
-import { IN, LB, check, compileFile, finding } from './helpers';
+import { IN, LB, check, compileFile, finding, loadJson } from './helpers';
 
 const demo = compileFile('rulesets/tarnwick-vale-mc-cage-regulations-2027.json');
 const metric = compileFile('rulesets/tarnwick-vale-mc-hillclimb-2027-metric.json');
@@ -204,6 +204,41 @@ describe('a finding never passes when a required value is missing (property)', (
 });
 
 describe('demo rulesets', () => {
+  // Issue 9, "Done when": the demo rulebooks use at least proportional plates, sides, ultrasonic walls
+  // and a legacy date, and each decides a verdict (the rulebooks and their sections are invented).
+  type Doc = { requirements: { id: string; requires: Record<string, unknown> }[] };
+  const docs = [loadJson('rulesets/tarnwick-vale-mc-cage-regulations-2027.json'), loadJson('rulesets/tarnwick-vale-mc-hillclimb-2027-metric.json')] as Doc[];
+  const uses = (pred: (r: Record<string, unknown>) => boolean) => docs.flatMap((d) => d.requirements.filter((r) => pred(r.requires)).map((r) => r.id));
+  test('use proportional plates, per-side counts, ultrasonic walls and a legacy date', () => {
+    expect(uses((q) => JSON.stringify(q.checks ?? []).includes('"times"'))).toEqual(['tv-plates-welded']);
+    expect(uses((q) => JSON.stringify(q.members ?? []).includes('"side"'))).toEqual(['hc-members']);
+    expect(uses((q) => (q.measuredWall as { method?: string } | undefined)?.method === 'ultrasonic')).toEqual(['tv-heavy-tubes', 'hc-main-tubes']);
+    expect(uses((q) => JSON.stringify(q.bands ?? []).includes('"approvedBefore"'))).toEqual(['hc-main-tubes']);
+  });
+  const hill = (members: Record<string, unknown>[], cage: Record<string, unknown> = {}) =>
+    check(metric, { vehicle: { classId: 'hill-saloon' }, cage, geometry: { rearBraceAngleFromVerticalDeg: 35 }, members });
+  const hoop = (id: string, kind: string, odMm: number, wallMm: number, extra: Record<string, unknown> = {}) => ({ id, kind, odMm, wallMm, material: 'mild_steel', process: 'cds', ...extra });
+  test('hillclimb H1.2.1: a backstay on each side, counted per side (two on the left fail)', async () => {
+    const sonic = { wallReadings: [{ wallMm: 2.4, method: 'ultrasonic' }] };
+    const base = [hoop('mh', 'main_hoop', 45, 2.5, sonic), hoop('fh', 'front_hoop', 45, 2.5, sonic), hoop('dg', 'diagonal', 38, 2.5)];
+    const oneSide = await hill([...base, hoop('b1', 'rear_brace', 45, 2.5, { ...sonic, side: 'left' }), hoop('b2', 'rear_brace', 45, 2.5, { ...sonic, side: 'left' })]);
+    expect(finding(oneSide, 'hc-members').verdict).toBe('fail');
+    const both = await hill([...base, hoop('b1', 'rear_brace', 45, 2.5, { ...sonic, side: 'left' }), hoop('b2', 'rear_brace', 45, 2.5, { ...sonic, side: 'right' })]);
+    expect(finding(both, 'hc-members').verdict).toBe('pass');
+  });
+  test('hillclimb H2.1.1: a sonic reading 0.25 mm under the listed wall at most (2.25 mm on 2.5 mm), and 40 × 2.0 mm only for cages approved before 1 Jan 2000', async () => {
+    const sonic = (wallMm: number) => ({ wallReadings: [{ wallMm, method: 'ultrasonic' }] });
+    expect(finding(await hill([hoop('mh', 'main_hoop', 45, 2.5, sonic(2.25))]), 'hc-main-tubes', 'mh').verdict).toBe('pass');
+    // 2.15 mm is beyond the 0.05 mm measurement tolerance too: the reading limit is not widened by it.
+    const newCage = { approvedOn: '2026-02-01' };
+    expect(finding(await hill([hoop('mh', 'main_hoop', 45, 2.5, sonic(2.15))], newCage), 'hc-main-tubes', 'mh').verdict).toBe('fail');
+    // Without an approval date the legacy 40 × 2.0 mm row (reading ≥ 1.75 mm) might still take it: not a pass, not a fail.
+    expect(finding(await hill([hoop('mh', 'main_hoop', 45, 2.5, sonic(2.15))]), 'hc-main-tubes', 'mh').verdict).toBe('needs_information');
+    expect(finding(await hill([hoop('mh', 'main_hoop', 40, 2.0, sonic(1.9))], { approvedOn: '1998-05-14' }), 'hc-main-tubes', 'mh').verdict).toBe('pass');
+    expect(finding(await hill([hoop('mh', 'main_hoop', 40, 2.0, sonic(1.9))], { approvedOn: '2003-05-14' }), 'hc-main-tubes', 'mh').verdict).toBe('fail');
+    expect(finding(await hill([hoop('mh', 'main_hoop', 40, 2.0, sonic(1.9))]), 'hc-main-tubes', 'mh').verdict).toBe('needs_information');
+  });
+
   test('every document in rulesets/ validates, and has at least three classes in the main one', () => {
     expect(Object.keys(demo.classes)).toEqual(['open-sprint', 'club-saloon', 'heavy-special']);
     expect(demo.requirements.length).toBeGreaterThanOrEqual(15);

@@ -235,7 +235,7 @@ describe('Motorsport UK NCR 2026 Ch. 7 App. 3 (F-MSUK-*, source: ebooks.motorspo
     });
     const f = finding(r, 'msuk-backstays');
     expect(f.verdict).toBe('fail');
-    expect(f.reason).toMatch(/rear brace \(backstay\) on the right 0 \(required at least 1\)/);
+    expect(f.reason).toMatch(/number of rear braces \(backstays\) on the right 0 \(required at least 1\)/);
   });
   test('F-MSUK-G1: backstays without sides cannot be counted per side → needs_information naming the side', async () => {
     const r = await check(msuk, {

@@ -55,8 +55,8 @@ describe('a failing tube finding (2,800 lb, 1.625 × 0.083 in)', () => {
     const f = finding(await check(demo, sprint(2800, 0.083)), 'tv-sprint-tubes', 'mh');
     expect(f.verdict).toBe('fail');
     // F-ENG-1 (computed): 1.750 × 0.095 in has 318.7 mm² of steel, 1.500 × 0.120 in 335.6 mm², so 1.750 × 0.095 is lighter.
-    expect(f.reason).toContain('To pass, use one of the sizes this band lists, lightest first: 1.750 × 0.095 in in mild steel; 1.500 × 0.120 in in mild steel.');
-    expect(f.reason).toMatch(/^No listed size fits for over 1,500 lb\. Nearest: 1\.750 × 0\.095 in in mild steel \(OD 1\.625 in is under 1\.750 in; wall 0\.083 in is under 0\.095 in\)\./);
+    expect(f.reason).toContain('To pass, use one of the sizes this band lists, lightest first: mild steel 1.750 × 0.095 in; mild steel 1.500 × 0.120 in.');
+    expect(f.reason).toMatch(/^No listed size fits for over 1,500 lb\. Nearest: mild steel 1\.750 × 0\.095 in \(OD 1\.625 in is under 1\.750 in; wall 0\.083 in is under 0\.095 in\)\./);
   });
 
   test('read by a metric steward, the same stored finding is written wholly in metric', async () => {
@@ -65,7 +65,7 @@ describe('a failing tube finding (2,800 lb, 1.625 × 0.083 in)', () => {
     // 1,500 lb = 680.4 kg; 1.750 in = 44.45 mm; 0.083 in = 2.108 mm (F-UNIT-1, computed)
     expect(metric).toContain('for over 680 kg');
     expect(metric).toContain('OD 41.3 mm is under 44.5 mm');
-    expect(metric).toContain('lightest first: 44.45 × 2.41 mm in mild steel; 38.1 × 3.05 mm in mild steel.');
+    expect(metric).toContain('lightest first: mild steel 44.45 × 2.41 mm; mild steel 38.1 × 3.05 mm.');
     expect(metric).not.toMatch(/\d ?(in|lb)\b/);
     expect(findingReason(f, 'imperial')).not.toMatch(/\d ?(mm|kg)\b/);
   });

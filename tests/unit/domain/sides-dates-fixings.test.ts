@@ -40,7 +40,7 @@ describe('per-side counts ("at least one door bar on each side")', () => {
     expect(finding(await check(each, { vehicle: { classId: 'c' }, members: [bar('l', 'left'), bar('r', 'right')] }), 'doors').verdict).toBe('pass');
     const f = finding(await check(each, { vehicle: { classId: 'c' }, members: [bar('l1', 'left'), bar('l2', 'left')] }), 'doors');
     expect(f.verdict).toBe('fail');
-    expect(f.reason).toBe('Does not meet it: number of door bar on the right 0 (required at least 1). To pass: number of door bar on the right at least 1.');
+    expect(f.reason).toBe('Does not meet it: number of door bars on the right 0 (required at least 1). To pass: number of door bars on the right at least 1.');
   });
   test('a centre member counts on neither side', async () => {
     expect(finding(await check(each, { vehicle: { classId: 'c' }, members: [bar('l', 'left'), bar('c', 'centre')] }), 'doors').verdict).toBe('fail');

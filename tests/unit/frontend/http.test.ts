@@ -114,6 +114,15 @@ describe('errors', () => {
     expect(error.fieldErrors).toEqual({});
   });
 
+  test('keeps the request id the server put into the error body (it is on the server’s log lines)', async () => {
+    mock.on('GET', '/api/cars', json(500, { error: { code: 'internal_error', message: 'Something went wrong on our side.', requestId: 'b7f0c3d2-5a14-4e1b-9c2a-0f6e8d1a2b3c' } }));
+
+    const error = (await client.get('/cars').catch((e: unknown) => e)) as ApiError;
+
+    expect(error.requestId).toBe('b7f0c3d2-5a14-4e1b-9c2a-0f6e8d1a2b3c');
+    expect(error.message).toBe('Something went wrong on our side.');
+  });
+
   test('a body that is not the error shape still gives a readable ApiError', async () => {
     mock.on('GET', '/api/health', () => ({ status: 502, body: undefined }));
 

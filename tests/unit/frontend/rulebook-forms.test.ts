@@ -51,6 +51,55 @@ describe('RulebookLimits: proportional limits and grades', () => {
   });
 });
 
+describe('RulebookLimits: adding and removing a limit without JSON', () => {
+  const mountVehicle = (model: Limit) =>
+    mount(RulebookLimits, { props: { modelValue: model, readOnly: false, unitSystem: 'imperial', scope: 'vehicle', path: 'requirements.5.requires', problems: [] }, global });
+
+  it('adds "included angle at least 30°" beside the angle from vertical (F-SCCA-G1 writes its 30° as an included angle)', async () => {
+    const model = reactive<Limit>({ template: 'limit', checks: [{ fact: 'geometry.rearBraceAttachBelowTopMm', operator: 'atMost', value: 6 }] });
+    const w = mountVehicle(model);
+    const add = w.get('select[aria-label="Add a limit on a measurement"]');
+    const offered = add.findAll('option').map((o) => o.element.value);
+    expect(offered).toEqual(expect.arrayContaining(['geometry.rearBraceIncludedAngleDeg', 'geometry.rearBraceAngleFromVerticalDeg', 'cage.approvedOn']));
+    // Member and plate measurements belong to member and plate rules; counts by kind need the checklist.
+    expect(offered).not.toContain('member.odMm');
+    expect(offered).not.toContain('vehicle.memberCountOnSide');
+    await add.setValue('geometry.rearBraceIncludedAngleDeg');
+    expect(model.checks[1]).toEqual({ fact: 'geometry.rearBraceIncludedAngleDeg', operator: 'atLeast', value: 0 });
+    await w.get('input[aria-label="Included angle between rear brace and main hoop (deg)"]').setValue('30');
+    expect(model.checks[1]!.value).toBe(30);
+    await w.get('button[aria-label="Remove the limit on rear brace attachment below main hoop top"]').trigger('click');
+    expect(model.checks.map((c) => c.fact)).toEqual(['geometry.rearBraceIncludedAngleDeg']);
+    // The last limit of a rule is not removed (the rule would check nothing).
+    expect(w.find('button[aria-label^="Remove the limit"]').exists()).toBe(false);
+  });
+
+  it('adds a legacy date as "approved before" a date (F-MSUK-3: before 1 Jan 1995)', async () => {
+    const model = reactive<Limit>({ template: 'limit', checks: [{ fact: 'geometry.hoopAboveHelmetMm', operator: 'atLeast', value: 2 }] });
+    const w = mountVehicle(model);
+    await w.get('select[aria-label="Add a limit on a measurement"]').setValue('cage.approvedOn');
+    expect(model.checks[1]).toEqual({ fact: 'cage.approvedOn', operator: 'below', value: '' });
+    expect(w.get('select[aria-label="Cage approval date: comparison"]').findAll('option').map((o) => o.text())).toContain('before');
+    await w.get('input[aria-label="Cage approval date: date"]').setValue('1995-01-01');
+    await w.get('input[aria-label="Cage approval date: date"]').trigger('change');
+    expect(model.checks[1]!.value).toBe('1995-01-01');
+  });
+
+  it('adds a bolt grade floor on a plate rule, starting from the weakest grade', async () => {
+    const model = reactive<Limit>({ template: 'limit', checks: [{ fact: 'plate.boltCount', operator: 'atLeast', value: 3 }] });
+    const w = mount(RulebookLimits, { props: { modelValue: model, readOnly: false, unitSystem: 'metric', scope: 'plate', path: 'requirements.5.requires', problems: [] }, global });
+    await w.get('select[aria-label="Add a limit on a measurement"]').setValue('plate.boltGrade');
+    expect(model.checks[1]).toEqual({ fact: 'plate.boltGrade', operator: 'atLeast', value: 'ISO 8.8' });
+  });
+
+  it('offers nothing to add on a published version', () => {
+    const model = reactive<Limit>({ template: 'limit', checks: [{ fact: 'plate.boltCount', operator: 'atLeast', value: 3 }] });
+    const w = mount(RulebookLimits, { props: { modelValue: model, readOnly: true, unitSystem: 'metric', scope: 'plate' }, global });
+    expect(w.find('select[aria-label="Add a limit on a measurement"]').exists()).toBe(false);
+    expect(w.find('button').exists()).toBe(false);
+  });
+});
+
 describe('RulebookMemberMatch', () => {
   it('ticks the kinds to compare with (never its own) and sets OD and wall comparisons', async () => {
     const model = reactive<MemberMatch>({ template: 'member_match', of: ['main_hoop'], checks: [{ measure: 'od', operator: 'equals' }] });

@@ -7,7 +7,7 @@ import { DEFAULT_UNIT, isUnitName, toCanonical, unitDimension } from '../units.j
 import { FACTS_BY_NAME, SIDE_PARAMS, factAvailableIn } from '../facts.js';
 import { isIsoDate } from '../dates.js';
 import type { FactDefinition, FactScope } from '../facts.js';
-import { MEMBER_KINDS, MEMBER_KIND_LABELS } from '../vocabulary.js';
+import { MEMBER_KINDS, MEMBER_KIND_PLURAL_LABELS } from '../vocabulary.js';
 import type { MemberKind } from '../vocabulary.js';
 import { DATE_OPERATORS, ENGINE_OPERATORS, EQUALITY_OPERATORS, FRIENDLY_FROM_ENGINE, LIST_OPERATORS, MEMBERSHIP_OPERATORS, NUMERIC_OPERATORS, numericComparison } from './operators.js';
 import type { EngineOperator } from './operators.js';
@@ -149,8 +149,8 @@ export function compileLeaf(input: LeafInput, path: Path, ctx: CompileContext, l
   if (typeof input.priority === 'number' && Number.isInteger(input.priority) && input.priority > 0) base.priority = input.priority;
   const onSide = fact.params === 'kindsOnSide' && addressing.params ? (addressing.params as { kinds: MemberKind[]; side: string }) : undefined;
   const defaultLabel = addressing.path
-    ? `number of ${MEMBER_KIND_LABELS[addressing.path as MemberKind]} members`
-    : onSide ? `number of ${onSide.kinds.map((k) => MEMBER_KIND_LABELS[k]).join(' / ')} ${sideWords(onSide.side)}` : fact.label;
+    ? `number of ${MEMBER_KIND_PLURAL_LABELS[addressing.path as MemberKind]}`
+    : onSide ? `number of ${onSide.kinds.map((k) => MEMBER_KIND_PLURAL_LABELS[k]).join(' / ')} ${sideWords(onSide.side)}` : fact.label;
   const metaBase = {
     fact: fact.name, label: label ?? defaultLabel, operator: FRIENDLY_FROM_ENGINE[operator], ...(addressing.path ? { path: addressing.path } : {}),
     ...(onSide ? { paramsKey: `${onSide.kinds.join(',')}@${onSide.side}` } : {}),

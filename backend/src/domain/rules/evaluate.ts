@@ -18,7 +18,7 @@ import { memberReadings, modelLengths, vehicleReadings } from '../model-facts.js
 import type { Disagreement } from '../model-facts.js';
 import { formatQuantity } from '../units.js';
 import type { Dimension, UnitSystem } from '../units.js';
-import { MATERIAL_LABELS, MEMBER_KIND_LABELS, PROCESS_LABELS } from '../vocabulary.js';
+import { MATERIAL_LABELS, MEMBER_KIND_LABELS, OTHER_VOCABULARY_WORDS, PROCESS_LABELS } from '../vocabulary.js';
 import type { MemberKind, PlateLocation } from '../vocabulary.js';
 import { customOperators } from './operators.js';
 import { TEMPLATE_KINDS } from './template-kinds.js';
@@ -448,7 +448,7 @@ function bandFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject, choic
 function word(value: unknown): string {
   if (typeof value === 'boolean') return value ? 'yes' : 'no';
   const v = String(value);
-  return (MATERIAL_LABELS as Record<string, string>)[v] ?? (PROCESS_LABELS as Record<string, string>)[v] ?? v;
+  return (MATERIAL_LABELS as Record<string, string>)[v] ?? (PROCESS_LABELS as Record<string, string>)[v] ?? OTHER_VOCABULARY_WORDS[v] ?? (/^[a-z0-9]+(_[a-z0-9]+)+$/.test(v) ? v.replace(/_/g, ' ') : v);
 }
 
 function display(value: unknown, dimension: Dimension | null, system: UnitSystem, facts: FactSet = {}): string {
@@ -698,25 +698,33 @@ function tubeTableFinding(
   const v: Finding['verdict'] = verdict === 'unknown' ? 'needs_information' : verdict ? 'pass' : 'fail';
   const materialWords = (list: readonly string[]) => list.map((m) => MATERIAL_LABELS[m as keyof typeof MATERIAL_LABELS] ?? m).join(' or ');
   const processWords = (list: readonly string[]) => list.map((x) => PROCESS_LABELS[x as keyof typeof PROCESS_LABELS] ?? x).join(', ');
-  const restrictions = (a: typeof pickMeta) =>
-    a
-      ? [
-          a.materials ? ` in ${materialWords(a.materials)}` : '',
-          a.processes ? ` (${processWords(a.processes)})` : '',
-          a.approvedBefore ? `, for cages approved before ${formatIsoDate(a.approvedBefore)}` : '',
-        ].join('')
-      : '';
   // A size as the reader reads it: the rulebook's printed label in its own units, else OD × wall in theirs.
+  // A printed equivalent is the rulebook's size in the other system: each reader gets both in their own units.
   const sizeParts = (a: NonNullable<typeof pickMeta>): ReasonSegment =>
-    bySystem((s) => (s === docSystem ? a.label : a.source === 'allowance' ? `${formatQuantity(a.odMm, 'length', s).text} OD or larger with ${formatQuantity(a.wallMm, 'length', s).text} wall` : tubeSizeText(a.odMm, a.wallMm, s)));
+    bySystem((s) =>
+      a.equivalentOf
+        ? `${tubeSizeText(a.odMm, a.wallMm, s)} (printed equivalent of ${tubeSizeText(a.equivalentOf.odMm, a.equivalentOf.wallMm, s)})`
+        : s === docSystem
+          ? a.label
+          : a.source === 'allowance'
+            ? `${formatQuantity(a.odMm, 'length', s).text} OD or larger with ${formatQuantity(a.wallMm, 'length', s).text} wall`
+            : tubeSizeText(a.odMm, a.wallMm, s));
+  // The material before the size ("mild steel 1.750 × 0.095 in", never "0.095 in in mild steel"),
+  // the process and approval date after it.
+  const described = (a: NonNullable<typeof pickMeta>): ReasonSegment[] => [
+    a.materials ? `${materialWords(a.materials)} ` : '',
+    sizeParts(a),
+    a.processes ? ` (${processWords(a.processes)})` : '',
+    a.approvedBefore ? `, for cages approved before ${formatIsoDate(a.approvedBefore)}` : '',
+  ];
   const readingLabel = (a: NonNullable<typeof pickMeta>) => (a.readingFact ? (FACTS_BY_NAME.get(a.readingFact)?.label ?? a.readingFact) : '');
   const parts: ReasonSegment[] = [];
   if (v === 'pass' && pickMeta) {
-    parts.push('Matches ', sizeParts(pickMeta), restrictions(pickMeta), ...bandParts);
+    parts.push('Matches ', ...described(pickMeta), ...bandParts);
     if (pickMeta.requiredReadingMm !== undefined && reading !== undefined && pickMeta.readingFact)
       parts.push(', with ', `${readingLabel(pickMeta)} `, { q: reading, d: 'length' }, ' (at least ', { q: pickMeta.requiredReadingMm, d: 'length' }, ' needed)');
     parts.push('.');
-  } else if (v === 'needs_information') parts.push(`Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')} `, ...(bandParts.length ? [' (band ', bandParts[1]!, ')'] : []), '.');
+  } else if (v === 'needs_information') parts.push(`Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')}`, ...(bandParts.length ? [' (band ', bandParts[1]!, ')'] : []), '.');
   else if (pickMeta) {
     const gaps: ReasonSegment[][] = [];
     const wallReq = required.find((r) => r.fact === 'member.wallMm');
@@ -728,13 +736,13 @@ function tubeTableFinding(
     if (pickMeta.processes && process !== undefined && !pickMeta.processes.includes(process)) gaps.push([`process ${processWords([process])} is not ${processWords(pickMeta.processes)}`]);
     if (pickMeta.approvedBefore && approvedOn !== undefined && !(approvedOn < pickMeta.approvedBefore))
       gaps.push([`the cage was approved on ${formatIsoDate(approvedOn)}, not before ${formatIsoDate(pickMeta.approvedBefore)}`]);
-    parts.push('No listed size fits', ...bandParts, '. Nearest: ', sizeParts(pickMeta), restrictions(pickMeta));
+    parts.push('No listed size fits', ...bandParts, '. Nearest: ', ...described(pickMeta));
     if (gaps.length) {
       parts.push(' (');
       gaps.forEach((g, i) => parts.push(...(i > 0 ? ['; '] : []), ...g));
       parts.push(')');
     }
-    parts.push('.', ...passingSizesParts(alts.map((n) => req.alternatives[String(n.name)]!), { material, process, approvedOn }, sizeParts, restrictions));
+    parts.push('.', ...passingSizesParts(alts.map((n) => req.alternatives[String(n.name)]!), { material, process, approvedOn }, described));
   } else parts.push('No listed size fits', ...bandParts, '.');
   const f = withReason(ctx, baseFinding(ctx, req, subject, v, ''), parts);
   f.measured = measured;
@@ -749,7 +757,7 @@ function tubeTableFinding(
  */
 function passingSizesParts(
   alts: AlternativeMeta[], member: { material?: string; process?: string; approvedOn?: string },
-  sizeParts: (a: AlternativeMeta) => ReasonSegment, restrictions: (a: AlternativeMeta) => string,
+  described: (a: AlternativeMeta) => ReasonSegment[],
 ): ReasonSegment[] {
   const usable = alts.filter(
     (a) => (!a.materials || member.material === undefined || a.materials.includes(member.material))
@@ -761,7 +769,7 @@ function passingSizesParts(
   const sorted = list.map((a, i) => ({ a, i, m: mass(a) })).sort((x, y) => x.m - y.m || x.i - y.i).map((x) => x.a);
   if (sorted.length === 0) return [];
   const out: ReasonSegment[] = [sorted.length === 1 ? ' To pass, use the size this band lists: ' : ' To pass, use one of the sizes this band lists, lightest first: '];
-  sorted.forEach((a, i) => out.push(...(i > 0 ? ['; '] : []), sizeParts(a), restrictions(a)));
+  sorted.forEach((a, i) => out.push(...(i > 0 ? ['; '] : []), ...described(a)));
   out.push(usable.length > 0 ? '.' : ' (each needs another material, process or approval date).');
   return out;
 }

@@ -4,7 +4,7 @@ import type { Requirement, TubeTable } from '../../contracts/ruleset.js';
 import { toCanonical } from '../units.js';
 import { tubeSizeProblems } from '../tube.js';
 import { isIsoDate } from '../dates.js';
-import { MEMBER_KIND_LABELS, SIDED_MEMBER_KINDS } from '../vocabulary.js';
+import { MEMBER_KIND_LABELS, MEMBER_KIND_PLURAL_LABELS, SIDED_MEMBER_KINDS } from '../vocabulary.js';
 import type { SideParam } from '../facts.js';
 import { compileConditionTree, compileLeaf, resolveUnit, sideWords } from './conditions.js';
 import type { CompileContext, EngineNode, Path, Problems } from './conditions.js';
@@ -175,7 +175,7 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
             alternatives.push(
               sizeNode(eq.printedAs.odMm, eq.printedAs.wallMm, {
                 label: `${eq.printedAs.label} (printed equivalent of ${label})`, odMm: eq.printedAs.odMm, wallMm: eq.printedAs.wallMm,
-                source: 'printed_equivalent', ...(eq.note ? { note: eq.note } : {}),
+                source: 'printed_equivalent', equivalentOf: { odMm: s.odMm, wallMm: s.wallMm }, ...(eq.note ? { note: eq.note } : {}),
               }),
             );
           }
@@ -223,7 +223,7 @@ function compileRequiredMembers(r: TemplateOf<'required_members'>, path: Path, c
   r.members.forEach((entry, i) => {
     const p = [...path, 'members', i];
     const kinds = [...new Set(entry.kinds)];
-    const kindWords = kinds.map((k) => MEMBER_KIND_LABELS[k]).join(' / ');
+    const kindWords = kinds.map((k) => MEMBER_KIND_PLURAL_LABELS[k]).join(' / ');
     if (entry.max !== undefined && entry.max < entry.min) ctx.problems.add([...p, 'max'], 'The maximum must not be below the minimum.');
     // Per side (opt-in): each side is its own count, so two door bars on one side do not stand
     // in for none on the other.

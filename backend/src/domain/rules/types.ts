@@ -34,6 +34,8 @@ export interface AlternativeMeta {
   /** Counts only for cages approved before this date (YYYY-MM-DD). */
   approvedBefore?: string;
   source: 'table' | 'allowance' | 'printed_equivalent';
+  /** A printed equivalent: the listed size it stands for (canonical mm), so each reader gets both in their units. */
+  equivalentOf?: { odMm: number; wallMm: number };
   /** With a tube table's `measuredWall`: the thinnest reading the member needs, and its fact. */
   requiredReadingMm?: number;
   readingFact?: string;

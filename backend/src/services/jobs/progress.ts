@@ -4,7 +4,9 @@
 // that has been superseded (a stale heartbeat handed the job to another worker) change nothing. The club is kept with the row so that only that club's
 // admins see it. Works over any `query` function, so the pg-boss pool and the app's DataSource share it.
 import type { JobProgressWire, JobState } from '../../contracts/jobs';
-import { ConflictError, ForbiddenError, NotFoundError } from '../../errors';
+import type { DataSource } from 'typeorm';
+import { ConflictError, NotFoundError } from '../../errors';
+import { enforce, rolesIn } from '../access';
 
 export type SqlQuery = (text: string, values: unknown[]) => Promise<unknown[]>;
 
@@ -136,18 +138,16 @@ export function createJobProgressStore(query: SqlQuery) {
 export type JobProgressReader = ReturnType<typeof createJobProgressReader>;
 
 /**
- * Progress as the API shows it: only to admins of the job's club. Not a member (or a job without a club)
- * reads as 404, as for any club thing; a member without the admin role gets 403.
+ * Progress as the API shows it: the access policy's `job.admin`, only to admins of the job's club. Not a
+ * member (or a job without a club) reads as 404, as for any club thing; a member without the admin role
+ * gets 403.
  */
-export function createJobProgressReader(
-  store: Pick<JobProgressStore, 'get'>,
-  members: { rolesInClub(userId: string, clubId: string): Promise<readonly string[] | null> },
-) {
+export function createJobProgressReader(store: Pick<JobProgressStore, 'get'>, ds: DataSource) {
   async function forAdmin(userId: string, jobId: string): Promise<JobProgressWire> {
     const progress = await store.get(jobId);
-    const roles = progress?.clubId ? await members.rolesInClub(userId, progress.clubId) : null;
-    if (!progress || roles === null) throw new NotFoundError('Job not found.');
-    if (!roles.includes('admin')) throw new ForbiddenError();
+    if (!progress) throw new NotFoundError('Job not found.');
+    const roles = progress.clubId ? await rolesIn(ds.manager, userId, progress.clubId) : null;
+    enforce('job.admin', { actorId: userId, roles }, { notFound: 'Job not found.' });
     const { clubId: _clubId, requestedBy: _requestedBy, ...wire } = progress;
     return wire;
   }

@@ -64,15 +64,6 @@ export function createMailboxService(ds: DataSource) {
       return { ...summary(r), text: r.text_body, html: r.html_body };
     },
 
-    /** The mailbox shows every club's mail, so any club's admin may read it (and only while it exists). */
-    async isAdminOfAnyClub(userId: string): Promise<boolean> {
-      const rows: unknown[] = await ds.query(
-        `SELECT 1 FROM memberships WHERE user_id = $1 AND 'admin' = ANY(roles) LIMIT 1`,
-        [userId],
-      );
-      return rows.length > 0;
-    },
-
     async clear(): Promise<number> {
       const [, count]: [unknown, number] = await ds.query(`DELETE FROM dev_mailbox`);
       return count;

@@ -84,6 +84,28 @@ describe('rule kind registry', () => {
     if (!v.ok) expect(v.problems).toContainEqual({ path: 'requirements.0.scope', message: TEMPLATE_KINDS[name].scopeMessage });
   });
 
+  // The editor's "Add a rule" starts from the registry's starter: what the admin must still choose is
+  // refused at its path (the section always; a tube table's sizes; a limit's first measurement), and
+  // nothing else is, so a new rule can never be put in force with a value nobody typed.
+  const MUST_FILL: Record<TemplateName, string[]> = {
+    tube_table: ['requirements.0.requires.bands.0.rows.0.alternatives.0.od', 'requirements.0.requires.bands.0.rows.0.alternatives.0.wall'],
+    required_members: [],
+    limit: ['requirements.0.requires.checks'],
+    allowed_values: [],
+    conditions: [],
+    member_match: [],
+  };
+  test.each(TEMPLATE_NAMES)('%s: its starter is refused only where the admin must choose, in a scope its kind allows', (name) => {
+    const { scope, requires, area, label } = TEMPLATE_KINDS[name].starter;
+    expect(TEMPLATE_KINDS[name].scopes).toContain(scope.kind);
+    expect(label.length).toBeGreaterThan(5);
+    const d = doc(scope, structuredClone(requires));
+    d.requirements[0]!.section = '';
+    d.requirements[0]!.area = area;
+    const v = validateRulesetDocument(d);
+    expect(v.ok ? [] : v.problems.map((p) => p.path).sort()).toEqual(['requirements.0.section', ...MUST_FILL[name]].sort());
+  });
+
   test.each(TEMPLATE_NAMES)('%s: the compare view has words for it and sees a change', (name) => {
     expect(TEMPLATE_WORDS[name]).toBe(TEMPLATE_KINDS[name].words);
     const side = { system: 'metric', display: 'metric' } as const;
