@@ -153,7 +153,7 @@ test('a stricter edition scheduled ahead of its date: the builder’s sheet show
     await banner.waitFor({ state: 'detached' });
     await builder.getByText('Moved to edition 2028').waitFor();
     expect(await builder.locator('.sheet-head__meta').innerText()).toContain('Tarnwick Vale MC Hillclimb Cage Schedule, 2028 · revision 2');
-    expect(await builder.locator('[data-test="edition-pinned-scheduled"]').innerText()).toBe(`This sheet is checked against edition 2028, in force from ${shown(effective)} (scheduled). Until then edition 2027 is in force.`);
+    expect((await builder.locator('[data-test="edition-pinned-scheduled"]').innerText()).trim()).toBe(`This sheet is checked against edition 2028, in force from ${shown(effective)} (scheduled). Until then edition 2027 is in force.`);
     await screenshot(builder, 'edition-sheet-moved');
     const revisions = await api<{ revisions: { number: number; rulesetVersionId: string }[] }>(builder, 'GET', `/build-sheets/${sheetId}/revisions`);
     expect(revisions.revisions.map((r) => [r.number, r.rulesetVersionId])).toEqual([[2, draft.version.id], [1, inForce.id]]);
