@@ -1,23 +1,25 @@
 // createApp builds the Express application and never listens (server.ts does), so tests can drive
 // it with supertest. Order matters: the request log (an id for every request), security headers,
 // health (no session, so it answers even when the session store cannot), JSON body, session +
-// passport, CSRF, the route tables (collected for /api/openapi.json), the JSON 404 for /api, the
-// front-end build with its SPA fallback, and finally the one error handler.
+// passport, cookies + CSRF, the route tables (collected for /api/openapi.json), the JSON 404 for /api,
+// the front-end build with its SPA fallback, and finally the one error handler.
+// Limits (services/limits) count in PostgreSQL, so every server process on one database shares them.
 import { existsSync } from 'node:fs';
 import { join, resolve } from 'node:path';
+import cookieParser from 'cookie-parser';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
 import type { DataSource } from 'typeorm';
 import { projectRoot, type Config } from './config';
 import { createLogger, type Logger } from './logger';
-import { requireCsrfToken } from './middleware/csrf';
+import { createCsrfProtection } from './middleware/csrf';
 import { createRequestLog } from './middleware/request-log';
 import { refuseUnsafeInput } from './middleware/safe-input';
 import { apiNotFound, createErrorHandler } from './middleware/error-handler';
-import { createFailureLimiter, createLoginLimiters, defaultLoginLimits, type LoginLimits } from './middleware/rate-limit';
 import { createPassport, createSessionMiddleware, type SessionSetup } from './middleware/session';
 import { createAccountRouter } from './routes/account.routes';
 import { createAuthRouter } from './routes/auth.routes';
+import { createPasswordResetRouter } from './routes/password-reset.routes';
 import { createBuildSheetsRouter } from './routes/build-sheets.routes';
 import { createCarsRouter } from './routes/cars.routes';
 import { createCheckRunsReportRouter } from './routes/check-runs-report.routes';
@@ -38,13 +40,14 @@ import { createRulebooksRouter } from './routes/rulebooks.routes';
 import { createSubmissionsRouter } from './routes/submissions.routes';
 import { createReviewRouter } from './routes/review.routes';
 import { createCageRecordsRouter } from './routes/cage-records.routes';
-import { createVerifyRouter, defaultVerifyLimit } from './routes/verify.routes';
+import { createVerifyRouter } from './routes/verify.routes';
 import { createRulebookAdminRouter } from './routes/rulebook-admin.routes';
 import { createTubeStockRouter } from './routes/tube-stock.routes';
 import { createJournalRouter } from './routes/journal.routes';
 import { createFabricationRouter } from './routes/fabrication.routes';
 import type { RepublishQueue } from './services/rulebook-admin.service';
 import { createServices, type Services } from './services';
+import { createLimits, limitSettings, type LimitOverrides } from './services/limits';
 import type { JobControl } from './services/jobs';
 
 export interface CreateAppOptions {
@@ -54,13 +57,12 @@ export interface CreateAppOptions {
   logger?: Logger;
   /** Replace the services (tests); built from the DataSource by default. */
   services?: Services;
-  loginLimits?: LoginLimits;
-  /** Prune expired sessions on a timer (default: on, except when NODE_ENV=test). */
+  /** Smaller limits than services/limits' defaults (tests). */
+  limits?: LimitOverrides;
+  /** Prune expired sessions and limit counters on a timer (default: on, except when NODE_ENV=test). */
   pruneSessions?: boolean;
   /** Folder of the production front-end build; null turns static serving off. */
   frontendDist?: string | null;
-  /** Look-ups per IP on the public verification route (default 30 a minute). */
-  verifyLimits?: { windowMs: number; limit: number };
   /** Where a publish sends its re-check job (pg-boss in server.ts); without it publishing queues nothing. */
   republishQueue?: RepublishQueue | null;
   /** Runs a failed job again (POST /api/jobs/:id/retry); pg-boss in server.ts. Without it that route answers 409. */
@@ -127,7 +129,6 @@ export function createApp(options: CreateAppOptions): Express {
   const { dataSource, config } = options;
   const logger = options.logger ?? createLogger(config.logLevel);
   const services = options.services ?? createServices(dataSource, { publicUrl: config.publicUrl, uploadDir: config.uploadDir });
-  const limits = options.loginLimits ?? defaultLoginLimits;
 
   const app = express();
   app.locals.services = services;
@@ -145,15 +146,12 @@ export function createApp(options: CreateAppOptions): Express {
   mounted.push(...healthRouter.routes);
   app.use('/api', healthRouter);
 
-  const sessionSetup: SessionSetup = createSessionMiddleware({
-    dataSource,
-    secret: config.sessionSecret,
-    logger,
-    pruneSessions: options.pruneSessions ?? config.nodeEnv !== 'test',
-  });
+  const prune = options.pruneSessions ?? config.nodeEnv !== 'test';
+  const sessionSetup: SessionSetup = createSessionMiddleware({ dataSource, secret: config.sessionSecret, logger, pruneSessions: prune });
   app.locals.sessionStore = sessionSetup.store;
   const passport = createPassport(services);
-  const { perIp, perEmail } = createLoginLimiters(limits);
+  const limits = createLimits(dataSource, limitSettings(options.limits), { clearExpired: prune });
+  const csrf = createCsrfProtection(config.sessionSecret);
 
   const api = express.Router();
   // Answers are personal (a session's clubs, sheets, photos): no shared cache may keep them, and no
@@ -167,19 +165,15 @@ export function createApp(options: CreateAppOptions): Express {
   api.use(refuseUnsafeInput);
   api.use(sessionSetup.middleware);
   api.use(passport.session());
-  api.use(requireCsrfToken);
+  // After the session middleware, which reads its own cookie (csrf-csrf's advice).
+  api.use(cookieParser());
+  api.use(csrf.middleware);
   const use = (router: RouteTableRouter) => {
     api.use(router);
     mounted.push(...router.routes);
   };
-  use(
-    createAuthRouter({
-      services,
-      passport,
-      loginLimiters: [perIp, perEmail],
-      passwordLimiter: createFailureLimiter(limits.windowMs, limits.perEmail),
-    }),
-  );
+  use(createAuthRouter({ services, passport, limits, csrf }));
+  use(createPasswordResetRouter({ services, limits }));
   use(createAccountRouter({ services }));
   use(createInvitationsRouter({ services }));
   use(createMembersRouter({ services }));
@@ -201,7 +195,7 @@ export function createApp(options: CreateAppOptions): Express {
   use(createTubeStockRouter({ services }));
   use(createJournalRouter({ services }));
   use(createFabricationRouter({ services }));
-  use(createVerifyRouter({ services, limits: options.verifyLimits ?? defaultVerifyLimit }));
+  use(createVerifyRouter({ services, limits }));
   // The development mailbox exists only while the fake SMTP server does; otherwise its routes are 404.
   if (config.fakeSmtp) use(createMailboxRouter({ services }));
   use(createOpenApiRouter({ routes: () => mounted, version: appVersion }));

@@ -65,7 +65,8 @@ export class PayloadTooLargeError extends AppError {
   }
 }
 export class RateLimitedError extends AppError {
-  constructor(message = 'Too many attempts. Wait a few minutes and try again.') {
+  /** Sent as `Retry-After` (seconds) when known. */
+  constructor(message = 'Too many attempts. Wait a few minutes and try again.', readonly retryAfterSeconds?: number) {
     super(429, 'rate_limited', message);
   }
 }

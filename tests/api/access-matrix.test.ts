@@ -108,6 +108,18 @@ async function invitationToken(): Promise<string> {
   return String(res.body.invitationUrl).split('/').pop()!;
 }
 
+let resetCount = 0;
+/** A usable reset link's token, for an account of its own (using it ends that account's sessions only). */
+async function resetToken(): Promise<string> {
+  const email = `reset-${++resetCount}@tarnwick.example`;
+  await db.ds.query(`INSERT INTO users (email, display_name, password_hash) VALUES ($1, 'Reset person', $2)`, [email, await hashPassword(otherPassword)]);
+  const asked = agentFor(app);
+  const token = await csrfToken(asked); // before the request: the agent attaches its cookies when one is made
+  await asked.post('/api/auth/password-reset').set('X-CSRF-Token', token).send({ email }).expect(202);
+  const [mail]: { text_body: string }[] = await db.ds.query(`SELECT text_body FROM outbox_messages WHERE to_address = $1`, [email]);
+  return /\/reset-password\/([A-Za-z0-9_-]+)/.exec(mail!.text_body)![1]!;
+}
+
 async function draftLock(versionId: string): Promise<number> {
   return ((await db.ds.query(`SELECT lock_version FROM ruleset_versions WHERE id = $1`, [versionId])) as { lock_version: number }[])[0]!.lock_version;
 }
@@ -124,6 +136,9 @@ const FIXTURES: Record<string, Fixture> = {
   'POST /api/auth/logout': { fresh: true, ok: 204 },
   'GET /api/auth/me': {},
   'POST /api/auth/password': { fresh: true, last: true, ok: 204, req: (a) => (a === 'anonymous' ? { body: { currentPassword: demoPassword, newPassword: demoPassword } } : { body: { currentPassword: passwordOf(a), newPassword: passwordOf(a) } }) },
+  'POST /api/auth/password-reset': { ok: 202, req: () => ({ body: { email: 'nobody-here@tarnwick.example' } }) },
+  'GET /api/auth/password-reset/:token': { req: async () => ({ params: { token: await resetToken() } }) },
+  'POST /api/auth/password-reset/:token': { ok: 204, req: async () => ({ params: { token: await resetToken() }, body: { password: 'a-new-reset-password' } }) },
   'PATCH /api/account': { req: () => ({ body: { preferredUnits: 'metric' } }) },
   'GET /api/invitations/:token': { req: () => ({ params: { token: ids.invitation! } }) },
   'POST /api/invitations/:token/accept': { fresh: true, req: async () => ({ params: { token: await invitationToken() }, body: { password: 'a-new-member-password' } }) },
@@ -133,6 +148,7 @@ const FIXTURES: Record<string, Fixture> = {
   'DELETE /api/clubs/:clubId/members/:userId': { ok: 204, req: () => ({ params: { userId: ids.leavingMember! } }) },
   'GET /api/clubs/:clubId/rulebooks': {},
   'GET /api/ruleset-versions/:versionId': { req: () => ({ params: { versionId: fx.versionId } }) },
+  'POST /api/clubs/:clubId/rulebooks': { ok: 201, req: () => ({ body: { start: 'blank', title: `Matrix rulebook ${++invitationCount}`, publisher: 'Tarnwick Vale Motor Club', edition: '2028', unitSystem: 'imperial' } }) },
   'POST /api/rulebooks/:rulebookId/drafts': { ok: 201, req: () => ({ params: { rulebookId: ids.draftlessRulebook! } }) },
   'PUT /api/ruleset-drafts/:versionId': { variant: 'draft', req: async () => ({ params: { versionId: ids.draft! }, body: { lockVersion: await draftLock(ids.draft!), document: ids.draftDocument ? JSON.parse(ids.draftDocument) : {} } }) },
   'POST /api/ruleset-drafts/:versionId/import': { variant: 'draft', req: async () => ({ params: { versionId: ids.draft! }, body: { lockVersion: await draftLock(ids.draft!), text: ids.draftDocument } }) },
@@ -287,8 +303,12 @@ const errorCode = { 401: 'unauthenticated', 403: 'forbidden', 404: 'not_found' }
 beforeAll(async () => {
   app = makeTestApp(db.ds, {
     config: testConfig({ FAKE_SMTP: 'true' }),
-    verifyLimits: { windowMs: 60_000, limit: 1_000_000 },
-    loginLimits: { windowMs: 60_000, perIp: 1_000_000, perEmail: 1_000_000 },
+    limits: {
+      verify: { limit: 1_000_000 },
+      signIn: { perEmailAndIp: 1_000_000, perIp: 1_000_000, delay: { freeFailures: 1_000_000, firstDelayMs: 0, maxDelayMs: 0 } },
+      passwordChange: { limit: 1_000_000 },
+      passwordReset: { perEmail: 1_000_000, perIp: 1_000_000 },
+    },
     jobControl: { retry: async (id) => void jobRetries.push(id) },
   });
   fx = await garageFixture(db.ds);

@@ -45,7 +45,7 @@ beforeAll(async () => {
 
 describe('member changes are logged', () => {
   it('starts empty', async () => {
-    expect(await log()).toEqual({ entries: [], page: 1, pageSize: 25, total: 0, actions: [] });
+    expect(await log()).toMatchObject({ entries: [], page: 1, pageSize: 25, total: 0, actions: [] });
   });
 
   it('records adding, changing roles, and removing, with who did it', async () => {
@@ -81,7 +81,7 @@ describe('member changes are logged', () => {
         'membership.added',
         demo.admin,
         wynId,
-        { email: 'wyn@tarnwick.example', roles: ['builder'], invited: true },
+        { email: 'wyn@tarnwick.example', roles: ['builder'], invited: true, mailId: expect.any(String) },
       ],
     ]);
     expect(page.actions).toEqual(['membership.added', 'membership.removed', 'membership.roles_changed']);

@@ -1,4 +1,6 @@
-// Sign-in, sessions, sign-out, CSRF, the rate limit, password change and the account (docs/api.md).
+// Sign-in, sessions, sign-out, CSRF, password change and the account (docs/api.md). The limits are in
+// auth-limits.test.ts, anonymous CSRF and bounded sessions in auth-sessions.test.ts, resets in
+// auth-password-reset.test.ts.
 import { describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { agentFor, csrfToken, demo, demoClubId, errorBody, hasErrorBody, makeTestApp, signIn, testConfig, useTestDatabase } from './helpers';
@@ -34,14 +36,28 @@ describe('sign-in', () => {
     expect(res.body.user).not.toHaveProperty('passwordHash');
   });
 
-  it('marks the cookie Secure behind a trusted TLS proxy, and only then', async () => {
-    const behindProxy = makeTestApp(db.ds, { config: testConfig({ TRUST_PROXY: '1' }) });
-    const tls = await request(behindProxy).get('/api/auth/csrf').set('X-Forwarded-Proto', 'https').expect(200);
-    expect(tls.headers['set-cookie']?.[0]).toMatch(/^cw\.sid=.*; Secure/);
+  it('marks the cookies Secure behind a trusted TLS proxy, and only then', async () => {
+    const signInOver = async (app: ReturnType<typeof makeTestApp>) => {
+      const csrf = await request(app).get('/api/auth/csrf').set('X-Forwarded-Proto', 'https').expect(200);
+      // By hand: a cookie jar would not send a Secure cookie back over this plain socket.
+      const cookie = (csrf.headers['set-cookie']?.[0] ?? '').split(';')[0]!;
+      const login = await request(app)
+        .post('/api/auth/login')
+        .set('X-Forwarded-Proto', 'https')
+        .set('Cookie', cookie)
+        .set('X-CSRF-Token', csrf.body.token)
+        .send({ email: demo.builder, password: demoPassword })
+        .expect(200);
+      return [csrf.headers['set-cookie']?.[0] ?? '', login.headers['set-cookie']?.[0] ?? ''];
+    };
+    const [tlsCsrf, tlsSession] = await signInOver(makeTestApp(db.ds, { config: testConfig({ TRUST_PROXY: '1' }) }));
+    expect(tlsCsrf).toMatch(/^cw\.csrf=.*; Secure/);
+    expect(tlsSession).toMatch(/^cw\.sid=.*; Secure/);
     // Without trust proxy the header is ignored: a client cannot talk its way into TLS.
-    const spoofed = await request(makeTestApp(db.ds)).get('/api/auth/csrf').set('X-Forwarded-Proto', 'https').expect(200);
-    expect(spoofed.headers['set-cookie']?.[0]).toMatch(/^cw\.sid=/);
-    expect(spoofed.headers['set-cookie']?.[0]).not.toMatch(/Secure/);
+    const [plainCsrf, plainSession] = await signInOver(makeTestApp(db.ds));
+    expect(plainCsrf).toMatch(/^cw\.csrf=/);
+    expect(plainSession).toMatch(/^cw\.sid=/);
+    expect(plainCsrf + plainSession).not.toMatch(/Secure/);
   });
 
   it('gives the same 401 for a wrong password and an unknown e-mail', async () => {
@@ -104,40 +120,6 @@ describe('sign-in', () => {
         ],
       },
     }));
-  });
-});
-
-describe('rate limit', () => {
-  const rateLimited = { error: { code: 'rate_limited', message: 'Too many attempts. Wait a few minutes and try again.' } };
-
-  async function attempts(limits: { perIp: number; perEmail: number }) {
-    const agent = agentFor(makeTestApp(db.ds, { loginLimits: { windowMs: 60_000, ...limits } }));
-    const token = await csrfToken(agent);
-    return (email: string, password = 'wrong-password') => agent.post('/api/auth/login').set('X-CSRF-Token', token).send({ email, password });
-  }
-
-  it('answers 429 after too many failures for one e-mail, even with the right password then', async () => {
-    const attempt = await attempts({ perIp: 100, perEmail: 3 });
-    for (let i = 0; i < 3; i++) expect((await attempt(demo.builder)).status).toBe(401);
-    const limited = await attempt(demo.builder, demoPassword);
-    expect(limited.status).toBe(429);
-    expect(limited.body).toEqual(errorBody(rateLimited));
-    // Another e-mail is not affected by that counter.
-    expect((await attempt(demo.steward, demoPassword)).status).toBe(200);
-  });
-
-  it('answers 429 after too many failures from one IP across different e-mails', async () => {
-    const attempt = await attempts({ perIp: 3, perEmail: 100 });
-    for (const email of ['a@x.example', 'b@x.example', 'c@x.example']) expect((await attempt(email)).status).toBe(401);
-    const limited = await attempt(demo.admin, demoPassword);
-    expect(limited.status).toBe(429);
-    expect(limited.body).toEqual(errorBody(rateLimited));
-  });
-
-  it('does not count successful sign-ins', async () => {
-    const app = makeTestApp(db.ds, { loginLimits: { windowMs: 60_000, perIp: 2, perEmail: 2 } });
-    // signIn expects 200 each time; a counted success would give 429 on the third.
-    for (let i = 0; i < 4; i++) await signIn(agentFor(app), demo.builder);
   });
 });
 

@@ -8,7 +8,7 @@ import { createServices, type Services } from '../../backend/src/services';
 import { createCheckService, newCheckRunCode, type CheckServiceOptions } from '../../backend/src/services/checks.service';
 import { isWellFormedVerificationCode } from '../../backend/src/domain/review/verification-code';
 import { hashPassword } from '../../backend/src/services/passwords';
-import { type Agent, agentFor, demo, errorBody, hasErrorBody, makeTestApp, signIn, testPublicUrl, useTestDatabase } from './helpers';
+import { type Agent, agentFor, demo, errorBody, errorOf, hasErrorBody, makeTestApp, signIn, testPublicUrl, useTestDatabase } from './helpers';
 
 const db = useTestDatabase();
 const IN = 25.4; // mm per inch, exact (F-UNIT-1)
@@ -253,14 +253,14 @@ describe('POST /api/checks: a dry run', () => {
     (spec.vehicle as Json).weightWithDriverKg = 2.8 * LB;
     (spec.members as Json[])[2]!.wallMm = 12;
     const res = await post({ agent: builder, token: builderToken }, dryRunBody('club-saloon', spec)).expect(400);
-    expect(res.body.error).toEqual({
+    expect(res.body.error).toEqual(errorOf({
       code: 'validation_failed',
       message: 'Some fields are invalid.',
       details: [
         { path: 'specification.vehicle.weightWithDriverKg', message: "A race car's weight is 200 to 5,000 kg (441 to 11,023 lb): check the units." },
         { path: 'specification.members.2.wallMm', message: "A cage tube's wall is 0.5 to 10 mm (0.02 to 0.394 in): check the units." },
       ],
-    });
+    }));
     // The same car at 2,800 lb is in range and checked.
     const heavy = validSpecs['club-saloon']!();
     (heavy.vehicle as Json).weightWithDriverKg = 2800 * LB;

@@ -115,7 +115,14 @@ async function signedIn(email: string) {
 }
 
 beforeAll(async () => {
-  app = makeTestApp(db.ds, { verifyLimits: { windowMs: 60_000, limit: 1_000_000 }, loginLimits: { windowMs: 60_000, perIp: 1_000_000, perEmail: 1_000_000 } });
+  app = makeTestApp(db.ds, {
+    limits: {
+      verify: { windowMs: 60_000, limit: 1_000_000 },
+      signIn: { windowMs: 60_000, perIp: 1_000_000, perEmailAndIp: 1_000_000, delay: { freeFailures: 1_000_000, firstDelayMs: 0, maxDelayMs: 0 } },
+      passwordChange: { windowMs: 60_000, limit: 1_000_000 },
+      passwordReset: { windowMs: 60_000, perIp: 1_000_000, perEmail: 1_000_000 },
+    },
+  });
   builder = await signedIn(demo.builder);
   admin = await signedIn(demo.admin);
   const q = async <T>(sql: string, values: unknown[] = []) => ((await db.ds.query(sql, values)) as T[])[0]!;

@@ -47,9 +47,12 @@ describe('when PostgreSQL goes away and comes back', () => {
     expect(me.body).toEqual(errorBody(unavailable));
     const patch = await agent.patch('/api/account').set('X-CSRF-Token', token).send({ displayName: 'Offline' }).expect(503);
     expect(patch.body).toEqual(errorBody(unavailable));
-    // Without a session cookie, a route that queries the database directly also reports 503.
+    // Without a session cookie, a route that queries the database directly also reports 503. An
+    // anonymous CSRF token needs no database (a signed cookie), so the sign-in is what fails.
     const fresh = agentFor(app);
-    expect((await fresh.get('/api/auth/csrf').expect(503)).body).toEqual(errorBody(unavailable));
+    const anonymousToken = (await fresh.get('/api/auth/csrf').expect(200)).body.token as string;
+    const login = await fresh.post('/api/auth/login').set('X-CSRF-Token', anonymousToken).send({ email: demo.builder, password: 'whatever-it-is' }).expect(503);
+    expect(login.body).toEqual(errorBody(unavailable));
     const invitation = await request(app).get('/api/invitations/' + 'a'.repeat(43)).expect(503);
     expect(invitation.body).toEqual(errorBody(unavailable));
 

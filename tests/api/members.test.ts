@@ -159,7 +159,12 @@ describe('invitations', () => {
     expect(res.body).toEqual({
       member: { user: { id: expect.any(String), email: 'new.builder@tarnwick.example', displayName: 'new.builder' }, roles: ['builder'], invitationPending: true },
       invitationUrl: expect.stringMatching(new RegExp(`^${testPublicUrl}/invitations/[A-Za-z0-9_-]{43}$`)),
+      invitationMailed: true,
     });
+    // The same link goes out by e-mail through the outbox (tests/api/audit-sentences.test.ts follows it out).
+    const mailed: { text_body: string }[] = await db.ds.query(`SELECT text_body FROM outbox_messages WHERE to_address = 'new.builder@tarnwick.example'`);
+    expect(mailed).toHaveLength(1);
+    expect(mailed[0]!.text_body).toContain(String(res.body.invitationUrl));
     const inviteToken = String(res.body.invitationUrl).split('/').pop()!;
     // Only the token's hash is stored.
     const stored: { token_hash: string; invited_by: string }[] = await db.ds.query('SELECT token_hash, invited_by FROM invitations WHERE email = $1', ['new.builder@tarnwick.example']);

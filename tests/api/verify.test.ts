@@ -7,7 +7,7 @@ import { randomBytes } from 'node:crypto';
 import request from 'supertest';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { CODE_RANDOM_BYTES, newVerificationCode } from '../../backend/src/domain/review/verification-code';
-import { errorBody, hasErrorBody, makeTestApp, useTestDatabase } from './helpers';
+import { clearLimits, errorBody, hasErrorBody, makeTestApp, useTestDatabase } from './helpers';
 import { act, failingSpec, reviewFixture, savedRun, submitNew, type ReviewFixture } from './review-fixtures';
 import { carWithSheet } from './garage-fixtures';
 
@@ -17,7 +17,7 @@ let fx: ReviewFixture;
 
 beforeAll(async () => {
   // A high limit here; the rate limit has its own app below.
-  app = makeTestApp(db.ds, { verifyLimits: { windowMs: 60_000, limit: 10_000 } });
+  app = makeTestApp(db.ds, { limits: { verify: { windowMs: 60_000, limit: 10_000 } } });
   fx = await reviewFixture(db.ds, app);
 });
 
@@ -76,12 +76,15 @@ describe('GET /api/verify/:code', () => {
   });
 
   it('allows 30 look-ups a minute per IP, then answers 429', async () => {
+    // The counters live in PostgreSQL and the look-ups above counted under the same IP: start afresh.
+    await clearLimits(db.ds);
     const limited = makeTestApp(db.ds);
     const statuses: number[] = [];
     for (let i = 0; i < 31; i++) statuses.push((await request(limited).get('/api/verify/nothing')).status);
     expect(statuses.slice(0, 30).every((s) => s === 404)).toBe(true);
     const last = await request(limited).get('/api/verify/nothing').expect(429);
     expect(last.body.error.code).toBe('rate_limited');
+    expect(Number(last.headers['retry-after'])).toBeGreaterThan(0);
     expect(statuses[30]).toBe(429);
   });
 });

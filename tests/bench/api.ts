@@ -123,8 +123,9 @@ function request(child: ChildProcess, type: string, answer: string): Promise<Rec
 /** Signs the demo builder in; the session cookie and CSRF token every bench request carries. */
 async function signIn(base: string): Promise<{ cookie: string; token: string }> {
   const { demoPassword } = await import('../../backend/src/db/seed-data');
+  // Signing in uses the anonymous CSRF cookie (cw.csrf); after it, the session cookie (cw.sid) alone.
   const first = await fetch(`${base}/api/auth/csrf`);
-  let cookie = (first.headers.get('set-cookie') ?? '').split(';')[0]!;
+  let cookie = (first.headers.getSetCookie()[0] ?? '').split(';')[0]!;
   const { token } = (await first.json()) as { token: string };
   const login = await fetch(`${base}/api/auth/login`, {
     method: 'POST',
@@ -132,7 +133,7 @@ async function signIn(base: string): Promise<{ cookie: string; token: string }> 
     body: JSON.stringify({ email: 'builder@tarnwick.example', password: demoPassword }),
   });
   if (login.status !== 200) throw new Error(`bench sign-in failed: ${login.status}`);
-  cookie = (login.headers.get('set-cookie') ?? '').split(';')[0]!;
+  cookie = (login.headers.getSetCookie().find((c) => c.startsWith('cw.sid=')) ?? '').split(';')[0]!;
   const fresh = (await (await fetch(`${base}/api/auth/csrf`, { headers: { cookie } })).json()) as { token: string };
   return { cookie, token: fresh.token };
 }

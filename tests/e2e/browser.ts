@@ -50,8 +50,15 @@ export async function openBrowser(viewport = { width: 1280, height: 800 }): Prom
   };
 }
 
-/** Saves a full-page PNG as .artifacts/screens/<name>.png and returns its path. */
+/**
+ * Saves a full-page PNG as .artifacts/screens/<name>.png and returns its path. Waits (up to 2 s) for
+ * finite animations to end first, so a message that slides in is pictured whole; spinners run forever
+ * and are not waited for.
+ */
 export async function screenshot(page: Page, name: string): Promise<string> {
+  await page
+    .waitForFunction(() => document.getAnimations().every((a) => a.effect?.getTiming().iterations === Infinity), undefined, { timeout: 2000 })
+    .catch(() => undefined);
   mkdirSync(screensDir, { recursive: true });
   const path = join(screensDir, `${name}.png`);
   await page.screenshot({ path, fullPage: true });

@@ -13,6 +13,8 @@ declare module 'vitest' {
   export interface ProvidedContext {
     e2eBaseUrl: string;
     e2eSmtpPort: number;
+    /** The server's database, for the few journeys that must move a clock (a link an hour old). */
+    e2eDatabaseUrl: string;
   }
 }
 
@@ -172,5 +174,6 @@ export default async function setup(project: TestProject): Promise<() => Promise
   }
   project.provide('e2eBaseUrl', baseUrl);
   project.provide('e2eSmtpPort', smtpPort);
+  project.provide('e2eDatabaseUrl', databaseUrl);
   return teardown;
 }

@@ -1,13 +1,16 @@
-// Wire contracts for sign-in, the session's user, the account and invitations (docs/api.md).
+// Wire contracts for sign-in, the session's user, the account, password reset and invitations (docs/api.md).
 import { z } from 'zod';
 import { displayNameSchema, emailSchema, unitSystemSchema, type ClubRoleWire } from './common';
+import { passwordMaxLength, passwordMinLength } from './password-rules';
+
+export { passwordMaxLength, passwordMinLength } from './password-rules';
 
 // Long inputs are refused before they reach the (deliberately slow) password hash.
-const passwordInput = z.string('Must be text').min(1, 'Must not be empty').max(200, 'At most 200 characters');
+const passwordInput = z.string('Must be text').min(1, 'Must not be empty').max(passwordMaxLength, `At most ${passwordMaxLength} characters`);
 export const newPasswordSchema = z
   .string('Must be text')
-  .min(10, 'At least 10 characters')
-  .max(200, 'At most 200 characters');
+  .min(passwordMinLength, `At least ${passwordMinLength} characters`)
+  .max(passwordMaxLength, `At most ${passwordMaxLength} characters`);
 
 export const loginBodySchema = z.object({ email: emailSchema, password: passwordInput });
 export type LoginBody = z.infer<typeof loginBodySchema>;
@@ -19,6 +22,26 @@ export const updateAccountBodySchema = z
   .object({ displayName: displayNameSchema.optional(), preferredUnits: unitSystemSchema.optional() })
   .strict();
 export type UpdateAccountBody = z.infer<typeof updateAccountBodySchema>;
+
+export const passwordResetRequestBodySchema = z.object({ email: emailSchema });
+export type PasswordResetRequestBody = z.infer<typeof passwordResetRequestBodySchema>;
+
+export const passwordResetTokenParamsSchema = z.object({
+  token: z.string().regex(/^[A-Za-z0-9_-]{43}$/, 'Not a reset token'),
+});
+
+export const passwordResetBodySchema = z.object({ password: newPasswordSchema });
+export type PasswordResetBody = z.infer<typeof passwordResetBodySchema>;
+
+/** `POST /api/auth/password-reset`: the same answer whether or not the address has an account. */
+export interface PasswordResetRequestedWire {
+  message: string;
+}
+
+/** `GET /api/auth/password-reset/:token`. */
+export interface PasswordResetWire {
+  email: string;
+}
 
 export const invitationTokenParamsSchema = z.object({
   token: z.string().regex(/^[A-Za-z0-9_-]{20,100}$/, 'Not an invitation token'),

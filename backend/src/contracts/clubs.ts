@@ -25,8 +25,10 @@ export interface MembersListWire {
 
 export interface AddMemberWire {
   member: MemberWire;
-  /** Present when an invitation was created; the admin passes the link on. */
+  /** Present when an invitation was created; the admin may pass the link on as well. */
   invitationUrl?: string;
+  /** True when the invitation was also queued as an e-mail to the person (the outbox sends it). */
+  invitationMailed?: boolean;
 }
 
 // ---------------------------------------------------------------- club settings

@@ -23,22 +23,47 @@ export type SaveDraftBody = z.infer<typeof saveDraftBodySchema>;
  * An import: the file's text as it was read, so bad JSON can be named precisely. The contract unpacks
  * it, so the boundary's text check also sees what the text carries (`text.requirements.0.section`).
  */
+const fileTextSchema = z
+  .string('Must be the file text')
+  .min(1, 'The file is empty')
+  .max(90_000, 'The file is larger than 90 kB')
+  .transform((text, ctx): unknown => {
+    try {
+      return JSON.parse(text) as unknown;
+    } catch (err) {
+      ctx.addIssue({ code: 'custom', message: `The file is not valid JSON: ${(err as Error).message}` });
+      return z.NEVER;
+    }
+  });
+
 export const importDraftBodySchema = z.object({
   lockVersion: lockVersionSchema,
-  text: z
-    .string('Must be the file text')
-    .min(1, 'The file is empty')
-    .max(90_000, 'The file is larger than 90 kB')
-    .transform((text, ctx): unknown => {
-      try {
-        return JSON.parse(text) as unknown;
-      } catch (err) {
-        ctx.addIssue({ code: 'custom', message: `The file is not valid JSON: ${(err as Error).message}` });
-        return z.NEVER;
-      }
-    }),
+  text: fileTextSchema,
 });
 export type ImportDraftBody = z.infer<typeof importDraftBodySchema>;
+
+const nameText = (what: string) =>
+  z.string(`Must be the ${what}`).trim().min(1, `Give the ${what}`).max(200, 'At most 200 characters');
+
+/**
+ * A new rulebook: blank (a first class and an empty tube table to fill in, in the units chosen), or
+ * from a ruleset file, which must be a valid document (its rulebook block names the book).
+ */
+export const createRulebookBodySchema = z.discriminatedUnion(
+  'start',
+  [
+    z.object({
+      start: z.literal('blank'),
+      title: nameText('title'),
+      publisher: nameText('publisher'),
+      edition: nameText('edition name'),
+      unitSystem: z.enum(['imperial', 'metric'], 'Must be imperial or metric'),
+    }),
+    z.object({ start: z.literal('file'), text: fileTextSchema }),
+  ],
+  { error: 'Must be "blank" or "file"' },
+);
+export type CreateRulebookBody = z.infer<typeof createRulebookBodySchema>;
 
 export const publishBodySchema = z.object({ lockVersion: lockVersionSchema, effectiveDate: dateSchema });
 export type PublishBody = z.infer<typeof publishBodySchema>;

@@ -18,8 +18,9 @@ import { FindingAnnotation } from './finding-annotation.entity';
 import { CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn } from './cage-record.entity';
 import { ClubStockSeed, StockTube } from './stock-tube.entity';
 import { JournalEntry, JournalPhoto } from './journal.entity';
+import { PasswordReset } from './password-reset.entity';
 
-export { Club, Invitation, Membership, User };
+export { Club, Invitation, Membership, User, PasswordReset };
 export { clubRoles, type ClubRole } from './membership.entity';
 export { unitSystems, type UnitSystem } from './user.entity';
 export { Rulebook, RulesetVersion, CheckRun };
@@ -35,4 +36,4 @@ export { stockMaterials, stockProcesses } from './stock-tube.entity';
 
 export const entities = [User, Club, Membership, Invitation, Rulebook, RulesetVersion, CheckRun, Car, BuildSheet, BuildSheetRevision, Photo, OutboxMessage, AuditEntry,
   Submission, SubmissionEvent, FindingAnnotation, CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn,
-  StockTube, ClubStockSeed, JournalEntry, JournalPhoto];
+  StockTube, ClubStockSeed, JournalEntry, JournalPhoto, PasswordReset];

@@ -2,7 +2,7 @@
 // errors are logged with their stack, on the request's own logger so the line has the same request id
 // as the body; the client never sees a stack.
 import type { ErrorRequestHandler, Request, RequestHandler } from 'express';
-import { errorBody, NotFoundError, toAppError } from '../errors';
+import { errorBody, NotFoundError, RateLimitedError, toAppError } from '../errors';
 import { errorFields, wrapPino, type Logger } from '../logger';
 import { requestIdOf } from './request-log';
 
@@ -23,6 +23,7 @@ export function createErrorHandler(logger: Logger): ErrorRequestHandler {
       else log.error(appError.code, fields);
     }
     if (res.headersSent) return next(err);
+    if (appError instanceof RateLimitedError && appError.retryAfterSeconds) res.setHeader('Retry-After', String(appError.retryAfterSeconds));
     res.status(appError.status).json(errorBody(appError, requestIdOf(req)));
   };
 }

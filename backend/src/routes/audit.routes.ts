@@ -2,6 +2,7 @@
 import { Router } from 'express';
 import { auditQuerySchema } from '../contracts/audit';
 import { clubParamsSchema } from '../contracts/clubs';
+import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
 import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
@@ -13,8 +14,8 @@ export function createAuditRouter({ services }: { services: Services }): RouteTa
       access: 'club.admin',
       params: clubParamsSchema,
       query: auditQuerySchema,
-      handler: async ({ res, params, query }) => {
-        res.json(await services.audit.list(params.clubId, query));
+      handler: async ({ req, res, params, query }) => {
+        res.json(await services.audit.list(params.clubId, signedInUserId(req), query));
       },
     }),
   ]);

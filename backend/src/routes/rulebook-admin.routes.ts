@@ -1,9 +1,12 @@
 // Rulebook administration for club admins (docs/api.md, "Rulebook administration"). Every route
 // needs the admin role in the club that owns the rulebook: strangers get 404, other roles 403.
-// The service checks the club through the version or rulebook id; the guard only demands a session.
+// Creating a rulebook names the club in the path (its access rule checks the role there); the other
+// routes name a version or rulebook, whose club the service checks through the access policy.
 import { Router } from 'express';
+import { clubParamsSchema } from '../contracts/clubs';
 import {
   compareParamsSchema,
+  createRulebookBodySchema,
   draftParamsSchema,
   importDraftBodySchema,
   publishBodySchema,
@@ -18,6 +21,16 @@ import { mountRoutes, route, type RouteTableRouter } from './route-table';
 export function createRulebookAdminRouter({ services, republishQueue }: { services: Services; republishQueue: RepublishQueue | null }): RouteTableRouter {
   const admin = services.rulebookAdmin;
   return mountRoutes(Router(), [
+    route({
+      method: 'post',
+      path: '/clubs/:clubId/rulebooks',
+      access: 'club.admin',
+      params: clubParamsSchema,
+      body: createRulebookBodySchema,
+      handler: async ({ req, res, params, body }) => {
+        res.status(201).json({ version: await admin.createRulebook(params.clubId, signedInUserId(req), body) });
+      },
+    }),
     route({
       method: 'post',
       path: '/rulebooks/:rulebookId/drafts',

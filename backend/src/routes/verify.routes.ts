@@ -1,22 +1,18 @@
 // The public verification of a code (docs/api.md, "Review and cage records"): a cage record's or a
 // check run's. No sign-in, rate-limited per IP, and one plain 404 for every code that names neither.
-import { Router, type ErrorRequestHandler } from 'express';
-import { rateLimit } from 'express-rate-limit';
+import { Router, type ErrorRequestHandler, type RequestHandler } from 'express';
 import { verifyParamsSchema } from '../contracts/review';
-import { NotFoundError, RateLimitedError } from '../errors';
+import { NotFoundError } from '../errors';
+import { clientKey } from '../middleware/client-key';
 import type { Services } from '../services';
+import type { Limits } from '../services/limits';
 import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
-export const defaultVerifyLimit = { windowMs: 60_000, limit: 30 };
-
-export function createVerifyRouter({ services, limits = defaultVerifyLimit }: { services: Services; limits?: { windowMs: number; limit: number } }): RouteTableRouter {
-  const limiter = rateLimit({
-    windowMs: limits.windowMs,
-    limit: limits.limit,
-    standardHeaders: 'draft-8',
-    legacyHeaders: false,
-    handler: (_req, _res, next) => next(new RateLimitedError('Too many look-ups from here. Wait a minute and try again.')),
-  });
+export function createVerifyRouter({ services, limits }: { services: Services; limits: Limits }): RouteTableRouter {
+  // Every look-up counts (in PostgreSQL, shared by every server process), found or not.
+  const limiter: RequestHandler = (req, _res, next) => {
+    limits.verify.begin(clientKey(req)).then(() => next(), next);
+  };
   const notFound = () => new NotFoundError('No cage record or check run has this code.');
   const router = mountRoutes(Router(), [
     route({

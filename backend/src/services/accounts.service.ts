@@ -8,6 +8,9 @@ import { membershipView, userView } from './views';
 
 export type AccountService = ReturnType<typeof createAccountService>;
 
+/** Signed-in sessions one user may hold at once (phone, laptop, the garage PC…); signing in again ends the oldest. */
+export const maxSessionsPerUser = 10;
+
 export function createAccountService(ds: DataSource) {
   const users = ds.getRepository(User);
   const memberships = ds.getRepository(Membership);
@@ -49,6 +52,21 @@ export function createAccountService(ds: DataSource) {
       if (patch.preferredUnits !== undefined) user.preferredUnits = patch.preferredUnits;
       await users.save(user);
       return userView(user);
+    },
+
+    /**
+     * Keeps the session rows bounded: after a sign-in, the user's sessions beyond the newest
+     * `maxSessionsPerUser` (by last use) end. `currentSessionId` is the new one, not stored yet.
+     * `expire` moves with every use but only to the second; the cookie's expiry in `sess` (milliseconds,
+     * rewritten at each save) breaks the ties.
+     */
+    async endOldestSessions(userId: string, currentSessionId: string, max = maxSessionsPerUser): Promise<void> {
+      await ds.query(
+        `DELETE FROM "session" WHERE sid IN (
+           SELECT sid FROM "session" WHERE sess->'passport'->>'user' = $1 AND sid <> $2
+           ORDER BY expire DESC, sess->'cookie'->>'expires' DESC OFFSET $3)`,
+        [userId, currentSessionId, Math.max(0, max - 1)],
+      );
     },
 
     /** Changes the password and signs the user out everywhere else (all other sessions end). */

@@ -125,7 +125,7 @@ export function createCageRecordService(ds: DataSource, deps: ReviewMailDeps & {
         }
         await tx.getRepository(CageRecord).update({ id: r.id }, { revokedAt: now, revokedReason: result.record.revokedReason, revokedById: userId });
         await deps.audit.record(
-          { clubId: r.clubId, actorId: userId, action: 'cage_record.revoked', entity: { type: 'cage_record', id: r.id }, details: { number: r.number, reason: result.record.revokedReason } },
+          { clubId: r.clubId, actorId: userId, action: 'cage_record.revoked', entity: { type: 'cage_record', id: r.id }, details: { number: r.number, reason: result.record.revokedReason, carId: car.id, carName: car.name, submissionId: r.submissionId } },
           { manager: tx },
         );
         const builder = await tx.getRepository(User).findOneByOrFail({ id: car.ownerId });

@@ -3,6 +3,7 @@ import type { DataSource } from 'typeorm';
 import { createAccessReader, type AccessReader } from './access';
 import { createAccountService, type AccountService } from './accounts.service';
 import { createMemberService, type MemberService } from './members.service';
+import { createPasswordResetService, type PasswordResetService } from './password-resets.service';
 import { createCheckService, type CheckService } from './checks.service';
 import { createRulesetService, type RulesetService } from './rulesets.service';
 import { createAuditService, type AuditService } from './audit.service';
@@ -31,6 +32,7 @@ export interface Services {
   access: AccessReader;
   accounts: AccountService;
   members: MemberService;
+  passwordResets: PasswordResetService;
   rulesets: RulesetService;
   checks: CheckService;
   audit: AuditService;
@@ -63,13 +65,13 @@ export function createServices(
   const now = options.now ?? (() => new Date());
   const rulesets = createRulesetService(ds);
   const audit = createAuditService(ds);
-  const members = createMemberService(ds, { publicUrl: options.publicUrl, audit });
+  const mail = createMailService(ds);
+  const members = createMemberService(ds, { publicUrl: options.publicUrl, audit, mail });
   const checks = createCheckService(ds, rulesets);
   const buildSheets = createBuildSheetService(ds);
   // Sheet photos and journal photos share one store (their keys differ: sheets/… and journal/…).
   const photoStorage = options.photoStorage ?? new LocalDiskPhotoStorage(options.uploadDir ?? '.data/uploads');
   const photos = createPhotoService(ds, photoStorage);
-  const mail = createMailService(ds);
   const cageRecords = createCageRecordService(ds, { mail, audit, publicUrl: options.publicUrl });
   const fabricationSettings = createFabricationSettingsService(ds);
   const reports = createReportService(ds, { checks, sheets: buildSheets, photos, fabricationSettings, publicUrl: options.publicUrl });
@@ -79,6 +81,7 @@ export function createServices(
     access: createAccessReader(ds),
     accounts: createAccountService(ds),
     members,
+    passwordResets: createPasswordResetService(ds, { mail, publicUrl: options.publicUrl }),
     rulesets,
     checks,
     audit,

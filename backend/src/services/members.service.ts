@@ -1,4 +1,5 @@
-// A club's members, for its admins: list, add (by e-mail, inviting people without an account),
+// A club's members, for its admins: list, add (by e-mail, inviting people without an account: the link
+// is e-mailed through the outbox and also returned for the admin to copy),
 // change roles, remove, and the invitation accept path. The club row is locked while a change runs,
 // so two admins cannot both remove the last admin at once. Every change is written to the activity log
 // in the same transaction.
@@ -10,6 +11,8 @@ import type { InvitationWire } from '../contracts/auth';
 import { Club, Invitation, Membership, User, type ClubRole } from '../entities';
 import { ConflictError, NotFoundError } from '../errors';
 import type { AuditService } from './audit.service';
+import { mailInvitation } from './invitation-mail';
+import type { MailService } from './mail';
 import { hashPassword } from './passwords';
 import { memberView } from './views';
 
@@ -21,7 +24,7 @@ export function hashToken(token: string): string {
 
 export type MemberService = ReturnType<typeof createMemberService>;
 
-export function createMemberService(ds: DataSource, options: { publicUrl: string; audit: AuditService; now?: () => Date }) {
+export function createMemberService(ds: DataSource, options: { publicUrl: string; audit: AuditService; mail: MailService; now?: () => Date }) {
   const now = options.now ?? (() => new Date());
   const { audit } = options;
 
@@ -76,7 +79,7 @@ export function createMemberService(ds: DataSource, options: { publicUrl: string
 
     async add(clubId: string, invitedById: string, body: AddMemberBody): Promise<AddMemberWire> {
       return ds.transaction(async (tx) => {
-        await lockClub(tx, clubId);
+        const club = await lockClub(tx, clubId);
         const users = tx.getRepository(User);
         let user = await users.findOneBy({ email: body.email });
         if (user && (await tx.getRepository(Membership).existsBy({ clubId, userId: user.id }))) {
@@ -87,29 +90,36 @@ export function createMemberService(ds: DataSource, options: { publicUrl: string
         const membership = await tx.getRepository(Membership).save({ clubId, userId: user.id, roles: body.roles });
         membership.user = user;
         const invited = user.passwordHash === null;
-        await audit.record(
-          {
-            clubId,
-            actorId: invitedById,
-            action: 'membership.added',
-            entity: { type: 'membership', id: user.id },
-            details: { email: user.email, roles: body.roles, invited },
-          },
-          { manager: tx },
-        );
-        if (!invited) return { member: memberView(membership) };
+        if (!invited) {
+          await audit.record(
+            { clubId, actorId: invitedById, action: 'membership.added', entity: { type: 'membership', id: user.id }, details: { email: user.email, roles: body.roles, invited } },
+            { manager: tx },
+          );
+          return { member: memberView(membership) };
+        }
 
         const token = randomBytes(32).toString('base64url');
+        const expiresAt = new Date(now().getTime() + invitationLifetimeMs);
         await tx.getRepository(Invitation).save({
           tokenHash: hashToken(token),
           email: user.email,
           clubId,
           roles: body.roles,
           invitedById: invitedById,
-          expiresAt: new Date(now().getTime() + invitationLifetimeMs),
+          expiresAt,
           acceptedAt: null,
         });
-        return { member: memberView(membership), invitationUrl: `${options.publicUrl}/invitations/${token}` };
+        const invitationUrl = `${options.publicUrl}/invitations/${token}`;
+        const inviter = await tx.getRepository(User).findOneBy({ id: invitedById });
+        const mailId = await mailInvitation(options.mail, tx, {
+          to: user.email, clubId, clubName: club.name, inviterName: inviter?.displayName ?? `An admin of ${club.name}`, roles: body.roles, url: invitationUrl, expiresAt,
+        });
+        // The log reads the outbox row (mailId) to say "e-mailed" once it went out, "invited" until then.
+        await audit.record(
+          { clubId, actorId: invitedById, action: 'membership.added', entity: { type: 'membership', id: user.id }, details: { email: user.email, roles: body.roles, invited, mailId } },
+          { manager: tx },
+        );
+        return { member: memberView(membership), invitationUrl, invitationMailed: true };
       });
     },
 

@@ -9,7 +9,7 @@ import { resubmit, submitForReview, applyReviewAction, FINAL_STATES, type AuditE
 import { findingKey, overallWithWaivers } from '../domain/review/waivers';
 import { formatIsoDate } from '../domain/dates';
 import { MEMBER_KIND_LABELS } from '../domain/vocabulary';
-import { BuildSheetRevision, Car, CheckRun, Club, FindingAnnotation, Photo, StewardMailOptIn, Submission, SubmissionEvent, User } from '../entities';
+import { BuildSheet, BuildSheetRevision, Car, CheckRun, Club, FindingAnnotation, Photo, StewardMailOptIn, Submission, SubmissionEvent, User } from '../entities';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import type { AuditService } from './audit.service';
 import type { CageRecordService } from './cage-records.service';
@@ -25,13 +25,30 @@ export interface ReviewDeps extends ReviewMailDeps {
 
 const OPEN_STATES = ['pending', 'in_review'] as const;
 
+interface SubmissionAbout {
+  car: { id: string; name: string };
+  sheet: { id: string; name: string };
+  record?: { id: string; number: string };
+}
+
 export type ReviewService = ReturnType<typeof createReviewService>;
 
 export function createReviewService(ds: DataSource, deps: ReviewDeps) {
-  async function storeEvent(tx: EntityManager, submissionId: string, clubId: string, event: AuditEvent): Promise<void> {
+  /**
+   * The event, and its activity-log entry with the names the log reads in words (the car, the sheet, the
+   * record an approval issued), so the entry still says what it was about after any of them is renamed.
+   */
+  async function storeEvent(tx: EntityManager, submissionId: string, clubId: string, event: AuditEvent, about: SubmissionAbout): Promise<void> {
     await tx.getRepository(SubmissionEvent).insert({ submissionId, fromState: event.from, toState: event.to, action: event.action, actorId: event.actorId, note: event.note });
+    const record = about.record ? { recordId: about.record.id, recordNumber: about.record.number } : {};
     await deps.audit.record(
-      { clubId, actorId: event.actorId, action: `submission.${event.action}`, entity: { type: 'submission', id: submissionId }, details: { from: event.from, to: event.to, ...(event.note ? { note: event.note } : {}) } },
+      {
+        clubId, actorId: event.actorId, action: `submission.${event.action}`, entity: { type: 'submission', id: submissionId },
+        details: {
+          from: event.from, to: event.to, ...(event.note ? { note: event.note } : {}),
+          carId: about.car.id, carName: about.car.name, sheetId: about.sheet.id, sheetName: about.sheet.name, ...record,
+        },
+      },
       { manager: tx },
     );
   }
@@ -77,7 +94,7 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
           state: 'pending', version: 1, classId: run.classId, builderNote: note(body.note), assignedStewardId: null, previousSubmissionId: null,
           resubmittedAsId: null, waivers: [], photoIds, decisionNote: null, decidedAt: null,
         }));
-        await storeEvent(tx, s.id, s.clubId, { ...result.event, note: s.builderNote });
+        await storeEvent(tx, s.id, s.clubId, { ...result.event, note: s.builderNote }, { car, sheet });
         await announce(tx, s, car.name, false);
         return { id: s.id };
       });
@@ -101,8 +118,8 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
           resubmittedAsId: null, waivers: [], photoIds, decisionNote: null, decidedAt: null,
         }));
         await repo.update({ id: prev.id, version: prev.version }, { resubmittedAsId: s.id, version: result.previous.version });
-        await storeEvent(tx, prev.id, prev.clubId, result.events.previous);
-        await storeEvent(tx, s.id, s.clubId, { ...result.events.submission, note: s.builderNote ?? result.events.submission.note });
+        await storeEvent(tx, prev.id, prev.clubId, result.events.previous, { car, sheet });
+        await storeEvent(tx, s.id, s.clubId, { ...result.events.submission, note: s.builderNote ?? result.events.submission.note }, { car, sheet });
         await announce(tx, s, car.name, true);
         return { id: s.id };
       });
@@ -123,25 +140,28 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
           { state: next.state, version: next.version, assignedStewardId: next.assignedStewardId, waivers: [...next.waivers], decisionNote: next.decisionNote, ...(decided ? { decidedAt: now } : {}) },
         );
         if (updated.affected !== 1) throw new ConflictError('The submission changed meanwhile. Reload it and decide again.', { reason: 'conflict' });
-        await storeEvent(tx, row.id, row.clubId, result.event);
+        const car = await tx.getRepository(Car).findOneByOrFail({ id: row.carId });
+        const sheet = await tx.getRepository(BuildSheet).findOneByOrFail({ id: row.buildSheetId });
+        // An approval issues the record first, so its entry can say "approved <car>, record <number>".
+        const record = body.type === 'approve'
+          ? await deps.records.issue(tx, {
+            clubId: row.clubId, submissionId: row.id, carId: row.carId, classId: run.classId, className: run.report.className,
+            rulesetVersionId: run.rulesetVersionId, rulebookTitle: run.report.rulebook.title, edition: run.report.rulebook.edition, stewardId: userId, at: now,
+          })
+          : null;
+        await storeEvent(tx, row.id, row.clubId, result.event, { car, sheet, ...(record ? { record } : {}) });
+        if (record) {
+          await deps.audit.record(
+            {
+              clubId: row.clubId, actorId: userId, action: 'cage_record.issued', entity: { type: 'cage_record', id: record.id },
+              details: { number: record.number, submissionId: row.id, carId: car.id, carName: car.name, sheetId: sheet.id, sheetName: sheet.name },
+            },
+            { manager: tx },
+          );
+        }
         if (body.type === 'approve' || body.type === 'request_changes' || body.type === 'reject') {
-          const car = await tx.getRepository(Car).findOneByOrFail({ id: row.carId });
           const club = await tx.getRepository(Club).findOneByOrFail({ id: row.clubId });
           const steward = await tx.getRepository(User).findOneByOrFail({ id: userId });
-          let recordNumber: string | undefined;
-          let expiresOn: string | undefined;
-          if (body.type === 'approve') {
-            const record = await deps.records.issue(tx, {
-              clubId: row.clubId, submissionId: row.id, carId: row.carId, classId: run.classId, className: run.report.className,
-              rulesetVersionId: run.rulesetVersionId, rulebookTitle: run.report.rulebook.title, edition: run.report.rulebook.edition, stewardId: userId, at: now,
-            });
-            recordNumber = record.number;
-            expiresOn = formatIsoDate(record.expiresAt.toISOString().slice(0, 10));
-            await deps.audit.record(
-              { clubId: row.clubId, actorId: userId, action: 'cage_record.issued', entity: { type: 'cage_record', id: record.id }, details: { number: record.number, submissionId: row.id } },
-              { manager: tx },
-            );
-          }
           const builder = await tx.getRepository(User).findOneByOrFail({ id: row.builderId });
           const byKey = new Map(run.report.findings.map((f) => [findingKey(f), f]));
           const waived = body.type === 'approve'
@@ -153,7 +173,8 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
             : [];
           await mailDecision(deps, tx, {
             builder, steward: steward.displayName, clubId: club.id, clubName: club.name, carName: car.name, submissionId: row.id,
-            decision: body.type as DecisionKind, note: next.decisionNote, waived, ...(recordNumber ? { recordNumber } : {}), ...(expiresOn ? { expiresOn } : {}),
+            decision: body.type as DecisionKind, note: next.decisionNote, waived,
+            ...(record ? { recordNumber: record.number, expiresOn: formatIsoDate(record.expiresAt.toISOString().slice(0, 10)) } : {}),
           });
         }
       });
@@ -171,8 +192,12 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
         if (!run.report.findings.some((f) => findingKey(f) === body.findingKey))
           throw new ValidationError([{ path: 'findingKey', message: 'That finding is not in this submission’s report.' }]);
         const saved = await tx.getRepository(FindingAnnotation).save({ submissionId: row.id, findingKey: body.findingKey, authorId: userId, text: body.text });
+        const car = await tx.getRepository(Car).findOneByOrFail({ id: row.carId });
         await deps.audit.record(
-          { clubId: row.clubId, actorId: userId, action: 'submission.annotated', entity: { type: 'submission', id: row.id }, details: { findingKey: body.findingKey, annotationId: saved.id } },
+          {
+            clubId: row.clubId, actorId: userId, action: 'submission.annotated', entity: { type: 'submission', id: row.id },
+            details: { findingKey: body.findingKey, annotationId: saved.id, carId: car.id, carName: car.name },
+          },
           { manager: tx },
         );
       });

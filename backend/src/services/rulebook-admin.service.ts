@@ -9,6 +9,7 @@
 import type { DataSource, EntityManager } from 'typeorm';
 import type { DocumentProblem, RulesetDocument } from '../contracts/ruleset';
 import type {
+  CreateRulebookBody,
   DraftConflictDetails,
   ImpactSheetWire,
   ImpactWire,
@@ -20,6 +21,7 @@ import type {
 } from '../contracts/rulebook-admin';
 import type { RulesetVersionWire } from '../contracts/checks';
 import { validateRulesetDocument } from '../domain/rules/validate';
+import { TEMPLATE_KINDS } from '../domain/rules/template-kinds';
 import { describeRulesetChanges, type RulesetChange } from '../domain/rulebook/diff';
 import { activateDueVersions, startDraftFrom, transitionVersion, type RulebookVersion, type StateChange } from '../domain/rulebook/lifecycle';
 import { calendarDateIn } from '../domain/dates';
@@ -188,7 +190,79 @@ export function createRulebookAdminService(
     return affectedClassIds(changes, doc.classes.map((c) => c.id));
   }
 
+  /**
+   * The starting document of a blank rulebook: one class and the registry's starter tube table, whose
+   * section is empty and whose one size is 0 × 0, so it cannot be put in force until both are filled in.
+   */
+  function blankDocument(body: Extract<CreateRulebookBody, { start: 'blank' }>, today: string): Record<string, unknown> {
+    const starter = structuredClone(TEMPLATE_KINDS.tube_table.starter);
+    return {
+      formatVersion: 1,
+      rulebook: { publisher: body.publisher, title: body.title, edition: body.edition, effectiveDate: today },
+      unitSystem: body.unitSystem,
+      measurementTolerance: {},
+      acceptPrintedEquivalents: false,
+      printedEquivalents: [],
+      classes: [{ id: 'class-1', name: 'First class', weightBasis: 'with_driver' }],
+      requirements: [{ id: 'tubes-1', title: starter.label, section: '', severity: 'mandatory', area: starter.area, scope: starter.scope, requires: starter.requires, explanation: '' }],
+    };
+  }
+
+  /** A slug of the title, unique in the club (`-2`, `-3` … when taken). */
+  async function freeSlug(tx: EntityManager, clubId: string, title: string): Promise<string> {
+    const base = title.toLowerCase().normalize('NFKD').replace(/[^a-z0-9]+/g, '-').replace(/^-|-$/g, '').slice(0, 70) || 'rulebook';
+    const taken = new Set(((await tx.query(`SELECT slug FROM rulebooks WHERE club_id = $1 AND slug LIKE $2`, [clubId, `${base}%`])) as { slug: string }[]).map((r) => r.slug));
+    let slug = base;
+    for (let n = 2; taken.has(slug); n++) slug = `${base}-${n}`;
+    return slug;
+  }
+
   return {
+    /**
+     * A new rulebook of the club with its first version as a draft: blank, or a ruleset file (a bad
+     * file is refused at its paths and nothing is created). The title must not be one the club has.
+     */
+    async createRulebook(clubId: string, userId: string, body: CreateRulebookBody): Promise<RulesetVersionWire> {
+      let document: Record<string, unknown>;
+      const today = new Date().toISOString().slice(0, 10);
+      if (body.start === 'file') {
+        const validation = validateRulesetDocument(body.text);
+        if (!validation.ok) throw documentInvalid(validation.problems, 'text.');
+        document = validation.document as unknown as Record<string, unknown>;
+      } else {
+        document = blankDocument(body, today);
+      }
+      const book = (document as { rulebook: { title: string; publisher: string; edition: string; effectiveDate?: string } }).rulebook;
+      const id = await ds.transaction(async (tx) => {
+        // Serialises creations in the club, so two admins cannot both take the same title.
+        await tx.query(`SELECT id FROM clubs WHERE id = $1 FOR UPDATE`, [clubId]);
+        const same: unknown[] = await tx.query(`SELECT 1 FROM rulebooks WHERE club_id = $1 AND lower(title) = lower($2)`, [clubId, book.title]);
+        if (same.length > 0) {
+          const path = body.start === 'blank' ? 'title' : 'text.rulebook.title';
+          throw new ValidationError([{ path, message: `The club already has a rulebook called “${book.title}”. Start a new edition of it instead, or choose another title.` }]);
+        }
+        const [created] = (await tx.query(
+          `INSERT INTO rulebooks (club_id, slug, title, publisher) VALUES ($1, $2, $3, $4) RETURNING id`,
+          [clubId, await freeSlug(tx, clubId, book.title), book.title, book.publisher],
+        )) as { id: string }[];
+        const rows: { id: string }[] = await tx.query(
+          `INSERT INTO ruleset_versions (rulebook_id, version_number, status, edition, effective_date, document, created_by)
+           VALUES ($1, 1, 'draft', $2, $3, $4::jsonb, $5) RETURNING id`,
+          [created!.id, book.edition, /^\d{4}-\d{2}-\d{2}$/.test(book.effectiveDate ?? '') ? book.effectiveDate : today, JSON.stringify(document), userId],
+        );
+        const versionId = rows[0]!.id;
+        await audit.record(
+          {
+            clubId, actorId: userId, action: 'ruleset.rulebook_created', entity: { type: 'ruleset_version', id: versionId },
+            details: { rulebookId: created!.id, rulebookTitle: book.title, versionNumber: 1, edition: book.edition, fromFile: body.start === 'file' },
+          },
+          { manager: tx },
+        );
+        return versionId;
+      });
+      return rulesets.getVersion(id, userId);
+    },
+
     /** A new draft copied from the rulebook's newest version (one open draft per rulebook). */
     async createDraft(rulebookId: string, userId: string): Promise<RulesetVersionWire> {
       const id = await ds.transaction(async (tx) => {
@@ -243,7 +317,9 @@ export function createRulebookAdminService(
         const done = transitionVersion(asLifecycle(v), { type: 'delete' }, { siblings: [], now: new Date().toISOString() });
         if (!done.ok) throw refusal(done.code, done.message);
         await tx.query(`DELETE FROM ruleset_versions WHERE id = $1 AND status = 'draft'`, [v.id]);
-        await audit.record({ clubId: v.clubId, actorId: userId, action: 'ruleset.draft_deleted', entity: { type: 'ruleset_version', id: v.id }, details: { versionNumber: v.versionNumber, edition: v.edition } }, { manager: tx });
+        // The version is gone: the entry keeps the rulebook's title so the log can still name it.
+        const [book] = (await tx.query(`SELECT title FROM rulebooks WHERE id = $1`, [v.rulebookId])) as { title: string }[];
+        await audit.record({ clubId: v.clubId, actorId: userId, action: 'ruleset.draft_deleted', entity: { type: 'ruleset_version', id: v.id }, details: { versionNumber: v.versionNumber, edition: v.edition, rulebookTitle: book?.title ?? null } }, { manager: tx });
       });
     },
 

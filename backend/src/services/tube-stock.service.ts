@@ -39,7 +39,10 @@ const whereList = (key: ListKey) => ('clubId' in key ? { clubId: key.clubId } : 
 export type TubeStockService = ReturnType<typeof createTubeStockService>;
 
 export function createTubeStockService(ds: DataSource, deps: { audit: AuditService }) {
-  /** Starts a club's list from the common sizes, once; safe under concurrent first reads. */
+  /**
+   * Starts a club's list from the common sizes, once; safe under concurrent first reads when `em` is a
+   * transaction: a second reader's insert of the seed row waits for the first one's commit, sizes and all.
+   */
   async function ensureSeeded(em: EntityManager, clubId: string): Promise<void> {
     const inserted: unknown[] = await em.query(`INSERT INTO club_stock_seeds (club_id) VALUES ($1) ON CONFLICT DO NOTHING RETURNING club_id`, [clubId]);
     if (inserted.length === 0) return;
@@ -109,10 +112,10 @@ export function createTubeStockService(ds: DataSource, deps: { audit: AuditServi
   }
 
   return {
-    ensureSeeded: (clubId: string) => ensureSeeded(ds.manager, clubId),
+    ensureSeeded: (clubId: string) => ds.transaction((tx) => ensureSeeded(tx, clubId)),
 
     async listClub(clubId: string, userId: string, roles: readonly ClubRole[]): Promise<StockListWire> {
-      await ensureSeeded(ds.manager, clubId);
+      await ds.transaction((tx) => ensureSeeded(tx, clubId));
       return { tubes: (await rows(ds.manager, { clubId })).map(stockTubeView), canEdit: allows('club.admin', { actorId: userId, roles }) };
     },
 
@@ -174,7 +177,7 @@ export function createTubeStockService(ds: DataSource, deps: { audit: AuditServi
 
     /** The stock a sheet's chooser uses: its club's list and its builder's own sizes. */
     async stockFor(clubId: string, ownerId: string): Promise<{ club: StockTube[]; mine: StockTube[] }> {
-      await ensureSeeded(ds.manager, clubId);
+      await ds.transaction((tx) => ensureSeeded(tx, clubId));
       const [club, mine] = await Promise.all([rows(ds.manager, { clubId }), rows(ds.manager, { ownerId })]);
       return { club, mine };
     },

@@ -1,5 +1,6 @@
-// Sign-in, sign-out, the session probe and password change. The CSRF token is bound to the session, so
-// every call that swaps the session drops the cached token.
+// Sign-in, sign-out, the session probe, password change and reset. The CSRF token is bound to the
+// session, so every call that swaps the session drops the cached token.
+import type { PasswordResetRequestedWire, PasswordResetWire } from '@contracts/auth';
 import { ApiError } from './errors';
 import { http } from './http';
 import type { SessionPayload } from './types';
@@ -34,4 +35,21 @@ export async function fetchSession(): Promise<SessionPayload | null> {
 
 export function changePassword(currentPassword: string, newPassword: string): Promise<void> {
   return http.post<void>('/auth/password', { currentPassword, newPassword });
+}
+
+/** Asks for a reset link; the answer is the same whether or not the address has an account. */
+export async function requestPasswordReset(email: string): Promise<string> {
+  const { message } = await http.post<PasswordResetRequestedWire>('/auth/password-reset', { email }, { allowUnauthenticated: true });
+  return message;
+}
+
+const resetPath = (token: string) => `/auth/password-reset/${encodeURIComponent(token)}`;
+
+/** The address a reset link belongs to; a 404 ApiError when the link cannot be used. */
+export function fetchPasswordReset(token: string): Promise<PasswordResetWire> {
+  return http.get<PasswordResetWire>(resetPath(token), { allowUnauthenticated: true });
+}
+
+export function resetPassword(token: string, password: string): Promise<void> {
+  return http.post<void>(resetPath(token), { password }, { allowUnauthenticated: true });
 }

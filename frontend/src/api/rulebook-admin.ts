@@ -1,5 +1,5 @@
-// Rulebook administration calls (docs/api.md, "Rulebook administration"): drafts, autosave, import,
-// compare, impact, publish, retire, export, and the publish job's progress.
+// Rulebook administration calls (docs/api.md, "Rulebook administration"): new rulebooks, drafts,
+// autosave, import, compare, impact, publish, retire, export, and the publish job's progress.
 import { http } from './http';
 import type { RulesetVersionWire } from '@contracts/checks';
 import type { ImpactWire, PublishedWire, SavedDraftWire, DraftConflictDetails } from '@contracts/rulebook-admin';
@@ -9,6 +9,15 @@ import type { JobProgressWire } from '@contracts/jobs';
 export type { ImpactWire, PublishedWire, SavedDraftWire, DraftConflictDetails, RulesetChange, JobProgressWire };
 
 const enc = encodeURIComponent;
+
+/** A new rulebook: blank (title, publisher, edition, units) or from a ruleset file's text. */
+export type NewRulebook =
+  | { start: 'blank'; title: string; publisher: string; edition: string; unitSystem: 'imperial' | 'metric' }
+  | { start: 'file'; text: string };
+
+export async function createRulebook(clubId: string, body: NewRulebook): Promise<RulesetVersionWire> {
+  return (await http.post<{ version: RulesetVersionWire }>(`/clubs/${enc(clubId)}/rulebooks`, body)).version;
+}
 
 export async function startDraft(rulebookId: string): Promise<RulesetVersionWire> {
   return (await http.post<{ version: RulesetVersionWire }>(`/rulebooks/${enc(rulebookId)}/drafts`)).version;

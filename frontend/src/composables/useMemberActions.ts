@@ -27,7 +27,7 @@ export function useMemberActions(
   const busyUserId = ref<string | null>(null);
   const adding = ref(false);
   const addErrors = ref<Record<string, string>>({});
-  const invitation = ref<{ email: string; url: string } | null>(null);
+  const invitation = ref<{ email: string; url: string; mailed: boolean } | null>(null);
 
   const describe = (error: unknown) =>
     error instanceof ApiError && error.code === 'conflict' ? LAST_ADMIN : errorMessage(error);
@@ -46,7 +46,9 @@ export function useMemberActions(
     try {
       const result = await add(email, roles);
       done();
-      invitation.value = result.invitationUrl ? { email, url: result.invitationUrl } : null;
+      invitation.value = result.invitationUrl
+        ? { email, url: result.invitationUrl, mailed: result.invitationMailed === true }
+        : null;
       toast.add({ severity: 'success', summary: `${email} added to ${clubName.value}`, life: 3000 });
     } catch (error) {
       if (error instanceof ApiError) addErrors.value = { ...error.fieldErrors };

@@ -1,10 +1,10 @@
 // The route table. Views load lazily so the first page stays small; the signed-in shell is the parent
-// route, and sign-in, invitation and not-found pages sit outside it.
+// route, and sign-in, password reset, invitation and not-found pages sit outside it.
 import type { RouteRecordRaw } from 'vue-router';
 import type { Role } from '@/api/types';
 
 /** Every route name; links and redirects use these, never raw paths. */
-export type RouteName = 'sign-in' | 'invitation' | 'home' | 'account' | 'club-members' | 'not-found'
+export type RouteName = 'sign-in' | 'forgot-password' | 'reset-password' | 'invitation' | 'home' | 'account' | 'club-members' | 'not-found'
   | 'garage' | 'car' | 'build-sheet' | 'check-run'
   | 'review-queue' | 'submission' | 'cage-record' | 'verify' | 'verify-code'
   | 'dev-mailbox' | 'club-activity'
@@ -31,6 +31,18 @@ export const routes: NamedRoute[] = [
     name: 'sign-in',
     component: () => import('@/views/SignInView.vue'),
     meta: { public: true, title: 'Sign in' },
+  },
+  {
+    path: '/forgot-password',
+    name: 'forgot-password',
+    component: () => import('@/views/ForgotPasswordView.vue'),
+    meta: { public: true, title: 'Forgot your password?' },
+  },
+  {
+    path: '/reset-password/:token',
+    name: 'reset-password',
+    component: () => import('@/views/ResetPasswordView.vue'),
+    meta: { public: true, title: 'Choose a new password' },
   },
   {
     path: '/invitations/:token',

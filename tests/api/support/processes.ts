@@ -114,13 +114,18 @@ export interface HttpClient {
 }
 
 export async function signedInClient(baseUrl: string, email: string, password: string): Promise<HttpClient> {
-  let cookie = '';
+  // The session cookie (cw.sid) and, before signing in, the anonymous CSRF cookie (cw.csrf).
+  const jar = new Map<string, string>();
   let token = '';
   const keepCookie = (res: Response) => {
-    const set = res.headers.getSetCookie().find((c) => c.startsWith('cw.sid='));
-    if (set) cookie = set.split(';')[0]!;
+    for (const set of res.headers.getSetCookie()) {
+      const [pair] = set.split(';');
+      const at = pair!.indexOf('=');
+      jar.set(pair!.slice(0, at), pair!.slice(at + 1));
+    }
   };
   const call = async (method: string, path: string, body?: unknown) => {
+    const cookie = [...jar].filter(([, v]) => v !== '').map(([k, v]) => `${k}=${v}`).join('; ');
     const res = await fetch(`${baseUrl}${path}`, {
       method,
       headers: { ...(cookie ? { cookie } : {}), ...(token ? { 'x-csrf-token': token } : {}), ...(body !== undefined ? { 'content-type': 'application/json' } : {}) },

@@ -28,10 +28,8 @@ afterEach(() => {
   document.body.innerHTML = '';
 });
 
-async function openPage() {
-  const mounted = await mountAt(`/clubs/${tarnwick.id}/members`, ClubMembersView, () =>
-    useSessionStore().setSession(me),
-  );
+async function openPage(path = `/clubs/${tarnwick.id}/members`) {
+  const mounted = await mountAt(path, ClubMembersView, () => useSessionStore().setSession(me));
   await settle();
   return mounted;
 }
@@ -111,7 +109,7 @@ describe('roles and additions', () => {
     expect(mock.calls.find((c) => c.method === 'PATCH')?.body).toEqual({ roles: ['builder', 'steward'] });
   });
 
-  test('adding someone without an account shows the invitation link to copy', async () => {
+  test('adding someone without an account says the invitation is e-mailed, and shows its link to copy', async () => {
     const newcomer = member(
       'c0000000-0000-4000-8000-00000000000c',
       'sam@tarnwick.example',
@@ -122,7 +120,11 @@ describe('roles and additions', () => {
     mock.on(
       'POST',
       membersPath,
-      json(201, { member: newcomer, invitationUrl: '/invitations/abcdefghijklmnopqrstuvwxyz' }),
+      json(201, {
+        member: newcomer,
+        invitationUrl: '/invitations/abcdefghijklmnopqrstuvwxyz',
+        invitationMailed: true,
+      }),
     );
     const { wrapper } = await openPage();
 
@@ -137,7 +139,14 @@ describe('roles and additions', () => {
     });
     const link = wrapper.find<HTMLInputElement>('#invitation-link').element.value;
     expect(link).toBe(`${window.location.origin}/invitations/abcdefghijklmnopqrstuvwxyz`);
+    expect(wrapper.text()).toContain('We are e-mailing them an invitation');
     expect(wrapper.text()).toContain('Invitation pending');
+  });
+
+  test('a link to one member (from the activity log) marks their row', async () => {
+    const { wrapper } = await openPage(`/clubs/${tarnwick.id}/members#member-${robin.user.id}`);
+    expect(wrapper.find(`#member-${robin.user.id}`).classes()).toContain('member--shown');
+    expect(wrapper.findAll('.member--shown')).toHaveLength(1);
   });
 
   test('an invalid address from the API is shown beside the e-mail field', async () => {

@@ -1,0 +1,39 @@
+// The invitation e-mail: queued through the outbox in the transaction that creates the invitation, so
+// the person added gets their link by mail; the admin still sees the same link to copy and pass on.
+import type { EntityManager } from 'typeorm';
+import type { MailService } from './mail';
+import { renderMail } from './mail';
+
+const roleWords: Record<string, string> = { builder: 'builder', steward: 'steward', admin: 'admin' };
+
+function listed(words: string[]): string {
+  return words.length <= 1 ? (words[0] ?? '') : `${words.slice(0, -1).join(', ')} and ${words[words.length - 1]}`;
+}
+
+/** Queues the mail; returns its outbox id, which the activity log reads to say whether it went out. */
+export async function mailInvitation(
+  mail: MailService, em: EntityManager,
+  input: { to: string; clubId: string; clubName: string; inviterName: string; roles: string[]; url: string; expiresAt: Date },
+): Promise<string> {
+  const roles = listed(input.roles.map((r) => roleWords[r] ?? r));
+  const until = input.expiresAt.toISOString().slice(0, 10);
+  const { id } = await mail.enqueue(
+    {
+      to: input.to,
+      kind: 'invitation.sent',
+      related: { clubId: input.clubId },
+      ...renderMail({
+        subject: `${input.inviterName} invited you to ${input.clubName} on Cagewright`,
+        greeting: 'Hello,',
+        paragraphs: [
+          `${input.inviterName} added you to ${input.clubName} as ${roles}.`,
+          `Choose a password to join. The link works once, until ${until}.`,
+        ],
+        action: { label: 'Set your password and join', url: input.url },
+        reason: `An admin of ${input.clubName} added this address. If you did not expect it, ignore this mail: nothing happens without the link.`,
+      }),
+    },
+    { manager: em },
+  );
+  return id;
+}
