@@ -14,6 +14,8 @@ import SheetEditionBanner from '@/components/sheet/SheetEditionBanner.vue';
 import { http } from '@/api/http';
 import type { QueueItem } from '@/api/review';
 import type { SheetEditions } from '@/api/garage';
+import type { AuditEntry } from '@/api/audit';
+import { auditSentence } from '@/components/audit/auditText';
 import { createFetchMock, csrfToken, json } from './fetch-mock';
 import { mountAt, settle } from './mount-app';
 import { sheetDetail, sheetId, versionId } from './garage-fixtures';
@@ -185,5 +187,22 @@ describe('the newer-edition banner on a build sheet', () => {
     mock.on('GET', `/api/build-sheets/${sheetId}/editions`, json(200, { editions: { ...editions, newer: null } }));
     await render();
     expect(document.querySelector('[data-test="edition-banner"]')).toBeNull();
+  });
+});
+
+describe('the activity log in words', () => {
+  const edition = { id: '7e57e57e-0000-4000-8000-000000000002', name: 'Tarnwick cage rules, version 2 (edition 2028)', open: true };
+  const entry = (action: string, details: Record<string, unknown>, actor: AuditEntry['actor']): AuditEntry => ({
+    id: 'e0000000-0000-4000-8000-000000000099', action, entityType: 'ruleset_version', entityId: edition.id, actor, details, subjects: { edition }, createdAt: '2026-12-02T10:00:00.000Z',
+  });
+  const admin = { id: 'a0000000-0000-4000-8000-00000000000a', email: 'admin@tarnwick.example', displayName: 'Dara Quill', open: true };
+  const words = (e: AuditEntry) => auditSentence(e, 'c0000000-0000-4000-8000-000000000001').map((p) => p.text).join('');
+
+  test.each([
+    [entry('ruleset.scheduled', { effectiveDate: '2027-01-01' }, admin), `Dara Quill scheduled ${edition.name} to come into force on 2027-01-01.`],
+    [entry('ruleset.in_force', { effectiveDate: '2027-01-01', supersededVersions: [1] }, null), `On its date, ${edition.name} came into force, replacing version 1.`],
+    [entry('club.settings_changed', { timeZone: { from: 'UTC', to: 'Europe/London' } }, admin), "Dara Quill changed the club's time zone from UTC to Europe/London."],
+  ])('%#: %s', (e, sentence) => {
+    expect(words(e)).toBe(sentence);
   });
 });

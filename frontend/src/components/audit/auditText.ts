@@ -9,7 +9,6 @@ import type { AuditRefWire } from '@contracts/audit';
 import { roleLabels } from '@/components/common/roles';
 import type { Role } from '@/api/types';
 import { JOURNAL_STAGE_LABELS, type JournalStage } from '@/api/journal';
-import { formatIsoDate } from '@domain/dates';
 
 export type SentencePart = { text: string; to?: RouteLocationRaw; title?: string };
 
@@ -356,12 +355,12 @@ export function auditSentence(entry: AuditEntry, clubId: string): SentencePart[]
       break;
     case 'ruleset.published':
       s.actor(entry).say(' put ').edition(edition).say(' in force');
-      if (text(d.effectiveDate)) s.say(` from ${formatIsoDate(text(d.effectiveDate))}`);
+      if (text(d.effectiveDate)) s.say(` from ${text(d.effectiveDate)}`);
       if (typeof d.supersededVersion === 'number') s.say(`, replacing version ${d.supersededVersion}`);
       break;
     case 'ruleset.scheduled':
       s.actor(entry).say(' scheduled ').edition(edition);
-      if (text(d.effectiveDate)) s.say(` to come into force on ${formatIsoDate(text(d.effectiveDate))}`);
+      if (text(d.effectiveDate)) s.say(` to come into force on ${text(d.effectiveDate)}`);
       break;
     case 'ruleset.in_force': {
       const replaced = Array.isArray(d.supersededVersions) ? d.supersededVersions.filter((n): n is number => typeof n === 'number') : [];
