@@ -128,7 +128,7 @@ function serveFrontend(app: Express, dist: string): void {
 export function createApp(options: CreateAppOptions): Express {
   const { dataSource, config } = options;
   const logger = options.logger ?? createLogger(config.logLevel);
-  const services = options.services ?? createServices(dataSource, { publicUrl: config.publicUrl, uploadDir: config.uploadDir });
+  const services = options.services ?? createServices(dataSource, { publicUrl: config.publicUrl, uploadDir: config.uploadDir, storage: config.photoStorage, recheckWorkers: config.recheckWorkers, recheckBatchSize: config.recheckBatchSize });
 
   const app = express();
   app.locals.services = services;

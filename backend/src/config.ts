@@ -2,9 +2,11 @@
 // process with one message that names every bad variable, instead of failing later mid-request.
 import { randomBytes } from 'node:crypto';
 import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { availableParallelism } from 'node:os';
 import { dirname, isAbsolute, resolve } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { z } from 'zod';
+import type { PhotoStorageSettings } from './services/photos/photo-storage';
 
 /** The repository root (backend/src/config.ts is two folders below it). */
 export const projectRoot = resolve(dirname(fileURLToPath(import.meta.url)), '../..');
@@ -41,6 +43,26 @@ const envSchema = z.object({
   // still this long is handed to another attempt; build sheets re-checked per stored page.
   JOB_STALE_AFTER_SECONDS: z.coerce.number().int().min(1).max(3600).default(30),
   RECHECK_BATCH_SIZE: z.coerce.number().int().min(1).max(1000).default(200),
+  // Worker threads for bulk re-checks (publish, impact); 0 runs them on the main thread. Default: one per core.
+  RECHECK_WORKERS: z.coerce.number().int().min(0).max(64).optional(),
+  // More than one server (README): server processes `npm start` runs behind one port, `auto` one per core.
+  SERVER_PROCESSES: z
+    .string()
+    .regex(/^(auto|[1-9]\d?)$/, 'must be auto or a number of processes from 1 to 99')
+    .default('1')
+    .transform((v) => (v === 'auto' ? availableParallelism() : Number(v))),
+  // Photos: on local disk under UPLOAD_DIR (default), or in S3-compatible object storage.
+  PHOTO_STORAGE: z.enum(['disk', 's3'], 'must be disk or s3').default('disk'),
+  S3_BUCKET: z
+    .string()
+    .regex(/^[a-z0-9][a-z0-9.-]{1,61}[a-z0-9]$/, 'must be an S3 bucket name (3–63 lower-case letters, digits, dots, hyphens)')
+    .optional(),
+  S3_REGION: z.string().regex(/^[a-z0-9-]+$/, 'must be a region name such as eu-west-2').default('us-east-1'),
+  S3_ENDPOINT: z.url({ protocol: /^https?$/, error: 'must be an http:// or https:// URL' }).optional(),
+  S3_FORCE_PATH_STYLE: z.enum(['true', 'false', '1', '0'], 'must be true or false').optional(),
+  S3_ACCESS_KEY_ID: z.string().optional(),
+  S3_SECRET_ACCESS_KEY: z.string().optional(),
+  S3_PREFIX: z.string().regex(/^([a-zA-Z0-9_.-]+\/)*$/, 'must be empty or folder names ending in /, e.g. cagewright/').default(''),
 });
 
 export interface Config {
@@ -63,6 +85,12 @@ export interface Config {
   jobStaleAfterSeconds: number;
   /** Build sheets per page of a re-check (each page stored in one transaction). */
   recheckBatchSize: number;
+  /** Worker threads for bulk re-checks; 0 runs them on the main thread. */
+  recheckWorkers: number;
+  /** Server processes `npm start` runs behind one port (node:cluster); 1 runs the server alone. */
+  serverProcesses: number;
+  /** Where photo bytes are kept (services/photos/photo-storage.ts). */
+  photoStorage: PhotoStorageSettings;
 }
 
 export class ConfigError extends Error {
@@ -98,6 +126,28 @@ function mailSettings(e: z.infer<typeof envSchema>): Pick<Config, 'smtpUrl' | 'm
   return { smtpUrl, mailFrom: e.MAIL_FROM, fakeSmtp };
 }
 
+const truthy = (v: string | undefined) => v === 'true' || v === '1';
+
+function photoStorageSettings(e: z.infer<typeof envSchema>, uploadDir: string): PhotoStorageSettings {
+  if (e.PHOTO_STORAGE === 'disk') return { kind: 'disk', dir: uploadDir };
+  const problems: string[] = [];
+  if (!e.S3_BUCKET) problems.push('  S3_BUCKET: required when PHOTO_STORAGE=s3');
+  if (Boolean(e.S3_ACCESS_KEY_ID) !== Boolean(e.S3_SECRET_ACCESS_KEY)) {
+    problems.push('  S3_ACCESS_KEY_ID / S3_SECRET_ACCESS_KEY: give both or neither (neither: the AWS SDK finds credentials itself)');
+  }
+  if (problems.length) throw new ConfigError(`Invalid configuration:\n${problems.join('\n')}`);
+  return {
+    kind: 's3',
+    bucket: e.S3_BUCKET!,
+    region: e.S3_REGION,
+    endpoint: e.S3_ENDPOINT ?? null,
+    // S3-compatible services (and the local fake) want the bucket in the path; AWS itself takes either.
+    forcePathStyle: e.S3_FORCE_PATH_STYLE === undefined ? e.S3_ENDPOINT !== undefined : truthy(e.S3_FORCE_PATH_STYLE),
+    credentials: e.S3_ACCESS_KEY_ID && e.S3_SECRET_ACCESS_KEY ? { accessKeyId: e.S3_ACCESS_KEY_ID, secretAccessKey: e.S3_SECRET_ACCESS_KEY } : null,
+    prefix: e.S3_PREFIX,
+  };
+}
+
 const productionSecretLine = '  SESSION_SECRET: required in production (at least 32 characters)';
 
 export interface LoadConfigOptions {
@@ -125,6 +175,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, options: LoadCo
     sessionSecret =
       e.NODE_ENV === 'test' ? randomBytes(32).toString('base64url') : developmentSecret(options.secretFile ?? devSecretFile);
   }
+  const uploadDir = isAbsolute(e.UPLOAD_DIR) ? e.UPLOAD_DIR : resolve(projectRoot, e.UPLOAD_DIR);
   return {
     nodeEnv: e.NODE_ENV,
     port: e.PORT,
@@ -132,11 +183,14 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env, options: LoadCo
     databaseUrl: e.DATABASE_URL,
     sessionSecret,
     trustProxy: e.TRUST_PROXY,
-    uploadDir: isAbsolute(e.UPLOAD_DIR) ? e.UPLOAD_DIR : resolve(projectRoot, e.UPLOAD_DIR),
+    uploadDir,
     publicUrl: e.PUBLIC_URL,
     logLevel: e.LOG_LEVEL ?? (e.NODE_ENV === 'test' ? 'silent' : 'info'),
     ...mailSettings(e),
     jobStaleAfterSeconds: e.JOB_STALE_AFTER_SECONDS,
     recheckBatchSize: e.RECHECK_BATCH_SIZE,
+    recheckWorkers: e.RECHECK_WORKERS ?? availableParallelism(),
+    serverProcesses: e.SERVER_PROCESSES,
+    photoStorage: photoStorageSettings(e, uploadDir),
   };
 }

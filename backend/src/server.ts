@@ -4,6 +4,10 @@
 // Background work runs here too (docs/mail-and-jobs.md): the fake SMTP server when FAKE_SMTP is on, the
 // outbox dispatcher when SMTP_URL is known, the pg-boss job workers, and the edition clock that brings
 // scheduled rulebook editions into force on their date.
+// Under `npm start` with SERVER_PROCESSES above 1 this file runs once per process as a node:cluster
+// worker (supervisor.ts): only the first process runs the fake SMTP server (one port), the others send
+// to it; everything else runs in each process and is safe to (docs/decisions/0012-more-than-one-server.md).
+import cluster from 'node:cluster';
 import { createServer } from 'node:http';
 import type { DataSource } from 'typeorm';
 import { closeApp, createApp } from './app';
@@ -16,6 +20,8 @@ import { createLogger, errorFields, type Logger } from './logger';
 import { createMailboxService, createSmtpTransport, startOutboxDispatcher, type OutboxDispatcher } from './services/mail';
 import { createJobs } from './services/jobs';
 import { createServices } from './services';
+import { createPhotoStorage } from './services/photos/storage';
+import { registerImpactWorker } from './services/publish/impact-job';
 import { registerRepublishWorker } from './services/publish/republish-job';
 import { startEditionClock } from './services/publish/edition-clock';
 import { exitCodeConfig } from './supervisor';
@@ -50,6 +56,8 @@ async function connect(ds: DataSource, logger: Logger, attempts = 30): Promise<v
 loadDotEnv();
 const config = readConfig();
 const logger = createLogger(config.logLevel);
+// 0 … n−1 under the cluster supervisor (kept across a process's restarts); 0 when run alone.
+const processIndex = Number(process.env.CAGEWRIGHT_PROCESS_INDEX ?? 0);
 process.on('unhandledRejection', (err) => logger.error('unhandled rejection', errorFields(err)));
 
 const dataSource = createDataSource({ databaseUrl: config.databaseUrl, logger });
@@ -62,8 +70,16 @@ try {
   process.exit(1);
 }
 
+const photoStorage = createPhotoStorage(config.photoStorage);
+try {
+  await photoStorage.check?.();
+} catch (err) {
+  logger.error('cannot start: photo storage unusable', errorFields(err));
+  process.exit(1);
+}
+
 let fakeSmtp: FakeSmtp | null = null;
-if (config.fakeSmtp && config.smtpUrl) {
+if (config.fakeSmtp && config.smtpUrl && processIndex === 0) {
   const port = Number(new URL(config.smtpUrl).port);
   try {
     fakeSmtp = await startFakeSmtp({ store: createMailboxService(dataSource).store, port, logger });
@@ -87,8 +103,11 @@ try {
 }
 
 // One set of services for the app and the publish job, so both share the compiled-ruleset cache.
-const services = createServices(dataSource, { publicUrl: config.publicUrl, uploadDir: config.uploadDir });
-await registerRepublishWorker(jobs, { ds: dataSource, rulesets: services.rulesets, mail: services.mail, audit: services.audit, publicUrl: config.publicUrl, batchSize: config.recheckBatchSize });
+const services = createServices(dataSource, { publicUrl: config.publicUrl, photoStorage, recheckWorkers: config.recheckWorkers, recheckBatchSize: config.recheckBatchSize });
+// Both re-checks run in the check service's bulk pool of worker threads (RECHECK_WORKERS).
+await registerRepublishWorker(jobs, { ds: dataSource, evaluator: services.checks.bulk, mail: services.mail, audit: services.audit, publicUrl: config.publicUrl, batchSize: config.recheckBatchSize });
+await registerImpactWorker(jobs, { rulebookAdmin: services.rulebookAdmin });
+// Every process runs the clock: each round locks the rulebooks it moves (docs/decisions/0014).
 const editionClock = startEditionClock(() => services.rulebookAdmin.activateDueEditions(), logger);
 const app = createApp({ dataSource, config, logger, services, republishQueue: jobs, jobControl: jobs });
 const server = createServer(app);
@@ -98,7 +117,10 @@ server.on('error', (err) => {
   process.exit(1);
 });
 server.listen(config.port, config.host, () => {
-  logger.info('listening', { url: `http://${config.host}:${config.port}`, publicUrl: config.publicUrl, env: config.nodeEnv });
+  logger.info('listening', {
+    url: `http://${config.host}:${config.port}`, publicUrl: config.publicUrl, env: config.nodeEnv, photos: config.photoStorage.kind,
+    ...(cluster.isWorker ? { process: `${processIndex + 1} of ${process.env.CAGEWRIGHT_PROCESS_COUNT ?? '?'}` } : {}),
+  });
 });
 
 let stopping = false;
@@ -114,14 +136,18 @@ async function shutdown(signal: string): Promise<void> {
   const force = setTimeout(() => server.closeAllConnections(), 10_000);
   force.unref();
   await new Promise<void>((resolve) => server.close(() => resolve()));
+  // Jobs first: a running re-check finishes its page (or is handed back for a retry) while the check
+  // workers it uses are still there.
+  await jobs.stop();
   await closeApp(app);
   editionClock.stop();
   await dispatcher?.stop();
-  await jobs.stop();
   await fakeSmtp?.stop();
   await dataSource.destroy();
   logger.info('stopped');
   process.exit(0);
 }
 process.on('SIGTERM', () => void shutdown('SIGTERM'));
-process.on('SIGINT', () => void shutdown('SIGINT'));
+// A cluster worker shares the terminal's process group: Ctrl-C reaches it directly and again through
+// the primary (as SIGTERM). It waits for the primary's word, so one Ctrl-C is one graceful stop.
+process.on('SIGINT', () => (cluster.isWorker ? logger.debug('SIGINT left to the cluster primary') : void shutdown('SIGINT')));

@@ -153,7 +153,8 @@ const FIXTURES: Record<string, Fixture> = {
   'PUT /api/ruleset-drafts/:versionId': { variant: 'draft', req: async () => ({ params: { versionId: ids.draft! }, body: { lockVersion: await draftLock(ids.draft!), document: ids.draftDocument ? JSON.parse(ids.draftDocument) : {} } }) },
   'POST /api/ruleset-drafts/:versionId/import': { variant: 'draft', req: async () => ({ params: { versionId: ids.draft! }, body: { lockVersion: await draftLock(ids.draft!), text: ids.draftDocument } }) },
   'DELETE /api/ruleset-drafts/:versionId': { variant: 'draft', ok: 204, req: () => ({ params: { versionId: ids.doomedDraft! } }) },
-  'GET /api/ruleset-drafts/:versionId/impact': { variant: 'draft', req: () => ({ params: { versionId: ids.draft! } }) },
+  // This app runs no job queue: the admin is let through and told the impact cannot be worked out here.
+  'POST /api/ruleset-drafts/:versionId/impact': { variant: 'draft', ok: 409, req: () => ({ params: { versionId: ids.draft! } }) },
   // A lock version older than the draft's: the admin is let through and then told someone saved since.
   'POST /api/ruleset-drafts/:versionId/publish': { variant: 'draft', ok: 409, req: async () => ({ params: { versionId: ids.draft! }, body: { lockVersion: (await draftLock(ids.draft!)) + 1000, effectiveDate: '2029-01-01' } }) },
   'POST /api/ruleset-versions/:versionId/retire': { req: () => ({ params: { versionId: ids.retirable! } }) },

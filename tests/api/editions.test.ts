@@ -116,7 +116,7 @@ describe('an edition published ahead of its date', () => {
     expect(e.newer.newFindings[0]).toMatchObject({ verdict: 'fail', section: expect.any(String), subject: expect.stringMatching(/main hoop mh|front hoop fh|rear brace/) });
     // The re-check at publishing mails the builder the same sentences the sheet's banner shows.
     await runRepublish(
-      { ds: db.ds, rulesets: services.rulesets, mail: services.mail, audit: services.audit, publicUrl: testPublicUrl },
+      { ds: db.ds, evaluator: services.checks.bulk, mail: services.mail, audit: services.audit, publicUrl: testPublicUrl },
       { id: randomUUID(), data: { versionId: next.id, previousVersionId: fx.versionId, classIds: ['club-saloon'] }, progress: { setTotal: async () => undefined, advance: async () => undefined } },
     );
     const [mail] = await db.ds.query(`SELECT text_body FROM outbox_messages WHERE kind = 'verdict.changed' AND related->>'buildSheetId' = $1`, [sheetId]);

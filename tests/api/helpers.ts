@@ -11,6 +11,7 @@ import { loadConfig, type Config } from '../../backend/src/config';
 import { createDataSource } from '../../backend/src/db/data-source';
 import { seedDemo } from '../../backend/src/db/seed';
 import { demoPassword } from '../../backend/src/db/seed-data';
+import type { S3StorageSettings } from '../../backend/src/services/photos/photo-storage';
 
 export type Agent = ReturnType<typeof request.agent>;
 export const testPublicUrl = 'http://cagewright.test';
@@ -182,4 +183,10 @@ export async function startDbProxy(databaseUrl = testDatabaseUrl()): Promise<DbP
   const url = new URL(databaseUrl);
   url.port = String(port);
   return { port, url: url.toString(), cut, restore: listen, close: cut };
+}
+
+/** Settings for photos in the local S3 fake the global setup started, under a prefix of this test's own. */
+export function fakeS3Settings(prefix = `t-${Math.random().toString(36).slice(2, 10)}/`): S3StorageSettings {
+  const { endpoint, bucket } = inject('fakeS3');
+  return { bucket, region: 'us-east-1', endpoint, forcePathStyle: true, credentials: { accessKeyId: 'S3RVER', secretAccessKey: 'S3RVER' }, prefix };
 }

@@ -133,6 +133,8 @@ describe('GET /api/jobs/:id', () => {
         createdAt: expect.any(String),
         updatedAt: expect.any(String),
         finishedAt: expect.any(String),
+        // This job kept no result (the impact and the publish re-check do).
+        result: null,
       },
     });
   });

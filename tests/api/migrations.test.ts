@@ -1,6 +1,6 @@
 // Entities and migrations must not drift: on a fresh database, after the migrations, TypeORM's schema
 // builder must find nothing to change (the equivalent of `migration:generate --check`). The
-// migrations must also revert cleanly.
+// migrations must also revert cleanly, and servers starting at once migrate one at a time.
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { DataSource } from 'typeorm';
 import { migrate } from '../../backend/src/db/migrate';
@@ -53,5 +53,26 @@ describe('migrations', () => {
     expect(tables).toEqual([]);
     await migrate(ds);
     expect((await ds.driver.createSchemaBuilder().log()).upQueries).toEqual([]);
+  });
+
+  it('run once when three servers start at the same moment (the migration lock)', async () => {
+    for (let i = 0; i < migrations.length; i++) await ds.undoLastMigration({ transaction: 'each' });
+    const url = new URL(testDatabaseUrl());
+    url.pathname = `/${scratchDb}`;
+    // Pools of one, as the global setup uses: the lock must not take the migrations' connection.
+    const servers = await Promise.all([1, 2, 3].map(async () => {
+      const { createDataSource } = await import('../../backend/src/db/data-source');
+      const one = createDataSource({ databaseUrl: url.toString(), poolSize: 1 });
+      return one.initialize();
+    }));
+    try {
+      const ran = await Promise.all(servers.map((s) => migrate(s)));
+      // One server ran them all; the others waited for the lock and found nothing to do.
+      expect(ran.map((r) => r.length).sort((a, b) => a - b)).toEqual([0, 0, migrations.length]);
+      const rows: { n: number }[] = await ds.query(`SELECT count(*)::int AS n FROM typeorm_migrations`);
+      expect(rows[0]!.n).toBe(migrations.length);
+    } finally {
+      await Promise.all(servers.map((s) => s.destroy()));
+    }
   });
 });

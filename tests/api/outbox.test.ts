@@ -98,6 +98,36 @@ describe('mail.enqueue', () => {
   });
 });
 
+describe('mail.enqueueMany', () => {
+  it('stores a page of mails in one go, each key once, and names the row already there for a known key', async () => {
+    const mail = createMailService(db.ds);
+    const { id: earlier } = await mail.enqueue(sample(1), { idempotencyKey: 'page:1' });
+    const ids = await db.ds.transaction((tx) =>
+      mail.enqueueMany(
+        [
+          { mail: sample(1), idempotencyKey: 'page:1' },
+          { mail: sample(2), idempotencyKey: 'page:2' },
+          { mail: sample(3), idempotencyKey: 'page:3' },
+          // The same key twice in one page is stored once.
+          { mail: sample(3), idempotencyKey: 'page:3' },
+        ],
+        { manager: tx },
+      ),
+    );
+    expect(ids.get('page:1')).toBe(earlier);
+    const rows = await outboxRows(db.ds);
+    expect(rows.map((r) => r.subject)).toEqual(['Verdict changed 1', 'Verdict changed 2', 'Verdict changed 3']);
+    expect([ids.get('page:2'), ids.get('page:3')].sort()).toEqual(rows.filter((r) => r.subject !== 'Verdict changed 1').map((r) => r.id).sort());
+    expect(await mail.enqueueMany([])).toEqual(new Map());
+  });
+
+  it('refuses the whole page when one mail is bad, and stores none of it', async () => {
+    const mail = createMailService(db.ds);
+    await expect(mail.enqueueMany([{ mail: sample(1), idempotencyKey: 'a' }, { mail: { ...sample(2), to: 'not-an-address' }, idempotencyKey: 'b' }])).rejects.toThrow(/to: Must be an e-mail address/);
+    expect(await outboxRows(db.ds)).toEqual([]);
+  });
+});
+
 describe('the dispatcher', () => {
   it('keeps mail while SMTP is down and delivers all of it once the server is back', async () => {
     const mail = createMailService(db.ds);

@@ -29,7 +29,7 @@ beforeAll(async () => {
   const services = createServices(db.ds, { publicUrl: testPublicUrl, now: () => new Date('2026-12-02T12:00:00Z') });
   jobs = createJobs(testConfig(), createLogger('silent'), { pollingIntervalSeconds: 0.5 });
   await jobs.start();
-  await registerRepublishWorker(jobs, { ds: db.ds, rulesets: services.rulesets, mail: services.mail, audit: services.audit, publicUrl: testPublicUrl });
+  await registerRepublishWorker(jobs, { ds: db.ds, evaluator: services.checks.bulk, mail: services.mail, audit: services.audit, publicUrl: testPublicUrl });
   app = makeTestApp(db.ds, { services, republishQueue: jobs });
   who = await everyone(app);
   await clearMailTables(db.ds);

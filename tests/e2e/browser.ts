@@ -29,11 +29,15 @@ export interface BrowserSession {
   close(): Promise<void>;
 }
 
-export async function openBrowser(viewport = { width: 1280, height: 800 }): Promise<BrowserSession> {
+/**
+ * A fresh Chromium profile at this viewport. `extraArgs` add switches for one journey, e.g.
+ * `--disable-3d-apis` to see what a browser without WebGL gets.
+ */
+export async function openBrowser(viewport = { width: 1280, height: 800 }, extraArgs: readonly string[] = []): Promise<BrowserSession> {
   const profileDir = mkdtempSync(join(tmpdir(), 'cagewright-e2e-'));
   const context = await chromium.launchPersistentContext(profileDir, {
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
-    args: chromiumArgs,
+    args: [...chromiumArgs, ...extraArgs],
     viewport,
   });
   const page = context.pages()[0] ?? (await context.newPage());

@@ -1,6 +1,7 @@
 // The rulebook journey: the demo builder has a saloon sheet that passes; the demo admin starts a new
 // draft, raises the Club Saloon minimum wall in the tube table (no JSON), meets a second save of the
-// same draft (and keeps their own), sees the impact (one sheet from pass to fail), puts the edition in
+// same draft (and keeps their own), sees the impact worked out in the background (its progress, then one
+// sheet from pass to fail), puts the edition in
 // force, watches the re-check finish, reads what changed, and the builder's mail reaches the mailbox.
 // Every screen is captured at 1280 and 390 px wide.
 import type { Page } from 'playwright-core';
@@ -128,8 +129,22 @@ test('the demo admin raises a minimum wall, sees the impact, puts it in force, a
   await page.getByText('All changes saved').waitFor();
 
   await page.getByRole('tab', { name: 'Impact' }).click();
+  // The impact is a background job. One sheet takes a moment, so to see the progress the panel shows
+  // on a big club, the first progress answers say the job is half-way through 2,540 sheets.
+  let held = 0;
+  await page.route('**/api/jobs/*', async (route) => {
+    const real = await route.fetch();
+    const body = (await real.json()) as { job: { queue: string; state: string; total: number | null; done: number } };
+    if (body.job.queue !== 'ruleset.impact' || held >= 3) return route.fulfill({ response: real, json: body });
+    held++;
+    return route.fulfill({ response: real, json: { job: { ...body.job, state: 'running', total: 2540, done: 1270, result: null } } });
+  });
   await page.getByRole('button', { name: "Try it on the club's sheets" }).click();
-  await page.locator('[data-test="pass-to-fail"]').getByText('1', { exact: true }).waitFor();
+  await page.getByRole('status').getByText('Checking build sheets: 1,270 of 2,540').waitFor();
+  await page.waitForTimeout(600); // the bar's own fill animation
+  await shots(page, 'impact-running');
+  await page.locator('[data-test="pass-to-fail"]').getByText('1', { exact: true }).waitFor({ timeout: 30_000 });
+  await page.unroute('**/api/jobs/*');
   expect(await page.getByRole('table').innerText()).toMatch(/Grey Saloon[\s\S]*Meets the rules[\s\S]*Does not meet the rules/);
   await shots(page, 'impact');
 
@@ -144,6 +159,7 @@ test('the demo admin raises a minimum wall, sees the impact, puts it in force, a
   await dialog.getByRole('button', { name: 'Put in force' }).click();
   await dialog.getByText('Re-check done').waitFor({ timeout: 30_000 });
   expect(await dialog.innerText()).toContain('1 of 1');
+  expect(await dialog.innerText()).toContain('1 verdict changed; 1 builder was sent an e-mail.');
   await page.waitForTimeout(1200); // the bar's own fill animation
   await shots(page, 'publish-done');
   await dialog.getByRole('button', { name: 'Done' }).click();

@@ -168,12 +168,15 @@ export interface CutListRowWire {
   material: string;
   /** Members of this size, in specification order. */
   memberIds: string[];
+  /** The same members by the builder's names (what a person reads). */
+  memberNames: string[];
   /** Summed lengths of the members that have one. */
   totalLengthMm: number;
   massKg: number;
   massPerMetreKg: number;
   /** Members of this size without a length (not in the totals). */
   membersWithoutLength: string[];
+  namesWithoutLength: string[];
 }
 
 export interface TubeDataWire {
@@ -182,6 +185,8 @@ export interface TubeDataWire {
   estimatedTubeMassKg: number;
   massComplete: boolean;
   membersWithoutLength: string[];
+  /** The same members by the builder's names. */
+  namesWithoutLength: string[];
 }
 
 export type SheetAccess = 'owner' | 'reviewer';

@@ -1,6 +1,7 @@
 // Wire contract of a background job's progress (docs/api.md, "Background jobs").
 import { z } from 'zod';
 import { uuidSchema } from './common';
+import type { ImpactWire } from './rulebook-admin';
 
 // `retrying`: an attempt failed (its reason in `error`) and another is coming; `failed` is final until an
 // admin runs the job again (POST /api/jobs/:id/retry).
@@ -8,6 +9,11 @@ export const jobStates = ['queued', 'running', 'retrying', 'completed', 'failed'
 export type JobState = (typeof jobStates)[number];
 
 export const jobParamsSchema = z.object({ id: uuidSchema });
+
+/** What a finished job produced, by kind of job; null until it completes. */
+export type JobResultWire =
+  | { kind: 'impact'; impact: ImpactWire }
+  | { kind: 'recheck'; checked: number; failed: number; changed: number; mailed: number };
 
 export interface JobProgressWire {
   id: string;
@@ -23,4 +29,6 @@ export interface JobProgressWire {
   createdAt: string;
   updatedAt: string;
   finishedAt: string | null;
+  /** The outcome, once the job has completed (the impact summary, a re-check's counts). */
+  result: JobResultWire | null;
 }

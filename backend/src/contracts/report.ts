@@ -87,6 +87,8 @@ export const memberTubeDataSchema = z.object({
   lengthMm: z.number().nullable(),
   massKg: z.number().nullable(),
   densityAssumed: z.boolean(),
+  /** The builder's name for the member; absent on runs stored before names were carried. */
+  name: z.string().optional(),
 });
 
 export const checkReportSchema = z.object({
@@ -100,8 +102,11 @@ export const checkReportSchema = z.object({
     advisoryFail: z.number().int(),
   }),
   findings: z.array(findingSchema),
-  /** What to measure next: missing facts of mandatory findings, with the members they concern. */
-  measureNext: z.array(missingFactSchema.extend({ memberIds: z.array(z.string()), requirementIds: z.array(z.string()) })),
+  /**
+   * What to measure next: missing facts of mandatory findings, with the members they concern (ids, and
+   * the builder's names in the same order; runs stored before names were carried have no names).
+   */
+  measureNext: z.array(missingFactSchema.extend({ memberIds: z.array(z.string()), memberNames: z.array(z.string()).optional(), requirementIds: z.array(z.string()) })),
   tubes: z.object({
     members: z.array(memberTubeDataSchema),
     /** Sum of the members with a length; complete only when every member has one. */

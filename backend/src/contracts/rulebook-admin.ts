@@ -95,9 +95,13 @@ export interface ImpactSheetWire {
 
 export interface ImpactWire {
   versionId: string;
+  /** The draft's lock version the impact was worked out for: a later save makes it out of date. */
+  lockVersion: number;
   /** Classes the changes touch; sheets of other classes are not re-checked. */
   classIds: string[];
   checked: number;
+  /** Sheets that could not be evaluated (counted, not listed). */
+  failed: number;
   counts: { passToFail: number; failToPass: number; unchanged: number; needsInformationChanged: number; otherChanged: number };
   /** Sheets whose verdict changes (unchanged ones are only counted). */
   changed: ImpactSheetWire[];

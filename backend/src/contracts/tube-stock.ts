@@ -101,6 +101,8 @@ export interface MemberTubeChoiceWire {
   memberId: string;
   memberKind: (typeof MEMBER_KINDS)[number];
   label: string | null;
+  /** The builder's name for the member (label, else the kind's words): what the page shows. */
+  name: string;
   lengthMm: number | null;
   current: CandidateWire;
   lightest: CandidateWire | null;

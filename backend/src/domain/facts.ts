@@ -207,10 +207,15 @@ export interface MemberTubeData {
   massKg: number | null;
   /** True when the density is assumed (material "other" or not stated). */
   densityAssumed: boolean;
+  /** The builder's name for the member (memberName): what a person reads, never the id. */
+  name?: string;
 }
 
-/** `modelLengthMm`: the developed length from the cage model, which is the member's when it has a path. */
-export function memberTubeData(m: SpecMember, index: number, modelLengthMm?: number): MemberTubeData {
+/**
+ * `modelLengthMm`: the developed length from the cage model, which is the member's when it has a path.
+ * `name`: the builder's name for the member, carried for every output that names it.
+ */
+export function memberTubeData(m: SpecMember, index: number, modelLengthMm?: number, name?: string): MemberTubeData {
   const material: Material = m.material ?? 'mild_steel';
   const p = tubeSectionProperties({ odMm: m.odMm, wallMm: m.wallMm }, material);
   const lengthMm = modelLengthMm ?? m.lengthMm;
@@ -220,6 +225,7 @@ export function memberTubeData(m: SpecMember, index: number, modelLengthMm?: num
     secondMomentMm4: p.secondMomentMm4, sectionModulusMm3: p.sectionModulusMm3, radiusOfGyrationMm: p.radiusOfGyrationMm,
     torsionalConstantMm4: p.torsionalConstantMm4, massPerMetreKg: p.massPerMetreKg, lengthMm: lengthMm ?? null, massKg,
     densityAssumed: m.material === undefined || m.material === 'other',
+    ...(name !== undefined ? { name } : {}),
   };
 }
 

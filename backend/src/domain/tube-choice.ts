@@ -134,6 +134,48 @@ export function listedSizesForBand(compiled: CompiledRuleset, query: BandQuery):
 }
 
 // ---------------------------------------------------------------------------------------------
+// Sizes for a starting shape
+
+/** Common practice sizes (not a rule): 45 × 2.5 mm for hoops and backstays, 38 × 2 mm for the rest. */
+export const COMMON_STARTING_SIZES = { primary: { odMm: 45, wallMm: 2.5 }, secondary: { odMm: 38, wallMm: 2 } } as const;
+const PRIMARY_KINDS: readonly MemberKind[] = ['main_hoop', 'front_hoop', 'halo_hoop', 'lateral_hoop', 'rear_brace'];
+
+export const STARTING_SIZE_FALLBACK_WORDS: Readonly<Record<Exclude<ListedSizes['status'], 'listed'> | 'empty', string>> = {
+  no_table: 'the rulebook lists no size for it',
+  needs_weight: 'the car’s weight is not typed yet',
+  outside_table: 'the car’s weight is outside the table',
+  empty: 'the table lists no size in mild steel',
+};
+
+export interface StartingSizes {
+  /** Per member kind: the lightest size the class's band lists in mild steel, else a common size. */
+  sizeFor: (kind: MemberKind) => { odMm: number; wallMm: number };
+  /** Kinds that got a common size because the table gave none, with why (filled as sizeFor is called). */
+  fallbacks: Map<MemberKind, string>;
+}
+
+/**
+ * Tube sizes for a starting shape: per member kind, the lightest size the class's tube table lists
+ * for the car's weight band (listedSizesForBand, the table the tube chooser and the fabrication pages
+ * read), on the class's own weight basis (with or without the driver). The seed's demo cage and the
+ * browser's "Start from a shape" both use it, so the two can never pick differently.
+ */
+export function startingSizes(compiled: CompiledRuleset, classId: string, vehicle: { weightWithDriverKg?: number; weightWithoutDriverKg?: number }): StartingSizes {
+  const cls = compiled.classes[classId];
+  if (!cls) throw new RangeError(`Unknown class "${classId}". This ruleset has: ${Object.keys(compiled.classes).join(', ')}.`);
+  const weightKg = cls.weightBasis === 'with_driver' ? vehicle.weightWithDriverKg : vehicle.weightWithoutDriverKg;
+  const fallbacks = new Map<MemberKind, string>();
+  const sizeFor = (kind: MemberKind) => {
+    const listed = listedSizesForBand(compiled, { classId, memberKind: kind, weightKg, material: 'mild_steel' });
+    const first = listed.status === 'listed' ? listed.sizes[0] : undefined;
+    if (first) return { odMm: first.odMm, wallMm: first.wallMm };
+    fallbacks.set(kind, STARTING_SIZE_FALLBACK_WORDS[listed.status === 'listed' ? 'empty' : listed.status]);
+    return { ...(PRIMARY_KINDS.includes(kind) ? COMMON_STARTING_SIZES.primary : COMMON_STARTING_SIZES.secondary) };
+  };
+  return { sizeFor, fallbacks };
+}
+
+// ---------------------------------------------------------------------------------------------
 // Candidates from a stock list
 
 /**

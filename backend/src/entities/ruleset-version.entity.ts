@@ -1,6 +1,6 @@
 // One numbered version of a rulebook: the ruleset document (docs/rulesets.md) plus its life cycle.
 // A draft may change; once published its content is frozen by a database trigger (migration
-// 1796083300000, moves widened in 1796300000000), which also allows only the status moves listed in
+// 1796083300000, moves widened in 1796300100000), which also allows only the status moves listed in
 // `allowedStatusMoves`. Checks and cage records cite a version, so what they cite can never change
 // underneath them.
 import { Check, Column, CreateDateColumn, Entity, Index, JoinColumn, ManyToOne, PrimaryGeneratedColumn, Unique, UpdateDateColumn } from 'typeorm';

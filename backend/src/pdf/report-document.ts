@@ -142,8 +142,9 @@ export function requiredText(r: RequiredValue, units: UnitSystem): string {
   return pdfSafe(`${r.label}: ${OPERATOR_WORDS[r.operator]} ${value}`);
 }
 
+/** The builder's name for a finding's member; runs stored before names were carried fall back to kind and id. */
 function subjectText(f: Finding): string {
-  if (f.member) return `${MEMBER_KIND_LABELS[f.member.kind]} "${f.member.id}"`;
+  if (f.member) return f.member.name ? pdfSafe(f.member.name) : `${MEMBER_KIND_LABELS[f.member.kind]} "${f.member.id}"`;
   if (f.plate) return `plate "${f.plate.id}" (${humanize(f.plate.location)})`;
   return 'whole car';
 }
@@ -227,7 +228,7 @@ function tubeTable(data: TubeDataWire, units: UnitSystem): Content {
   const body: TableCell[][] = [
     ['Member', 'Size (OD × wall)', 'Area A', 'I', 'Z', 'Mass per length', 'Length', 'Mass'].map((h, i) => headerCell(h, i < 2 ? 'left' : 'right')),
     ...data.members.map((m) => [
-      { text: `${m.memberId}\n${MEMBER_KIND_LABELS[m.kind]}`, fontSize: 8.5 },
+      { text: `${pdfSafe(m.name ?? m.memberId)}\n${MEMBER_KIND_LABELS[m.kind]}`, fontSize: 8.5 },
       { text: tubeSizeText(m.odMm, m.wallMm, units), fontSize: 8.5 },
       numberCell(q(m.areaMm2, 'area')),
       numberCell(q(m.secondMomentMm4, 'second_moment')),
@@ -248,7 +249,7 @@ function cutListTable(rows: readonly CutListRowWire[], units: UnitSystem): Conte
     ...rows.map((r) => [
       { text: tubeSizeText(r.odMm, r.wallMm, units), fontSize: 8.5 },
       { text: humanize(r.material), fontSize: 8.5 },
-      { text: r.memberIds.join(', ') + (r.membersWithoutLength.length ? `\nno length: ${r.membersWithoutLength.join(', ')}` : ''), fontSize: 8.5 },
+      { text: pdfSafe(r.memberNames.join(', ')) + (r.namesWithoutLength.length ? `\nno length: ${pdfSafe(r.namesWithoutLength.join(', '))}` : ''), fontSize: 8.5 },
       numberCell(q(r.totalLengthMm, 'length')),
       numberCell(q(r.massKg, 'mass')),
     ]),
@@ -509,7 +510,10 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
 
   if (report.measureNext.length) {
     content.push(heading('Measure next'), {
-      ul: report.measureNext.map((m) => pdfSafe(`${m.label}${m.memberIds.length ? ` (${m.memberIds.join(', ')})` : ''}`)),
+      ul: report.measureNext.map((m) => {
+        const who = m.memberNames ?? m.memberIds;
+        return pdfSafe(`${m.label}${who.length ? ` (${who.join(', ')})` : ''}`);
+      }),
       margin: [0, 0, 0, 8],
     });
   }
@@ -531,7 +535,7 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
     content.push({
       text: input.tubeData.massComplete
         ? `Estimated tube mass of the cage: ${mass}.`
-        : `Estimated tube mass of the cage: ${mass}, without ${input.tubeData.membersWithoutLength.join(', ')} (no length given).`,
+        : `Estimated tube mass of the cage: ${mass}, without ${pdfSafe(input.tubeData.namesWithoutLength.join(', '))} (no length given).`,
       margin: [0, 0, 0, 4],
     });
     if (input.tubeData.members.some((m) => m.densityAssumed)) {

@@ -71,12 +71,15 @@ export function createRulebookAdminRouter({ services, republishQueue }: { servic
       },
     }),
     route({
-      method: 'get',
+      // A background job (its progress and result: GET /api/jobs/:id), so 10,000 sheets never hold a request.
+      method: 'post',
       path: '/ruleset-drafts/:versionId/impact',
       access: 'version.admin',
       params: draftParamsSchema,
       handler: async ({ req, res, params }) => {
-        res.json({ impact: await admin.impact(params.versionId, signedInUserId(req)) });
+        const userId = signedInUserId(req);
+        const jobId = await admin.startImpact(params.versionId, userId, republishQueue);
+        res.status(202).json({ job: await services.jobProgress.forAdmin(userId, jobId) });
       },
     }),
     route({

@@ -1,18 +1,27 @@
 // Where check evaluations run. Two engines with one interface:
-//  - `workers` (the default): a small pool of worker threads (node:worker_threads), so the
-//    server's event loop stays free for other requests while checks compute. Each worker keeps
-//    its own compiled rulesets; the first job for a key to a worker carries the document. Jobs go
-//    to the least busy worker; the number of jobs in flight is bounded, beyond it a check is
-//    refused with 503 `checks_busy` rather than queued without limit.
+//  - `workers` (the default): a pool of worker threads (node:worker_threads), so the server's event
+//    loop stays free for other requests while checks compute. Each worker keeps its own compiled
+//    rulesets; the first job for a key to a worker carries the document (messages to a worker leave
+//    in order, so later jobs follow it). Jobs go to the least busy worker; the number of jobs in
+//    flight may be bounded, beyond it a check is refused with 503 `checks_busy` rather than queued
+//    without limit.
 //  - `in-process`: evaluation on the calling thread, with the compiled-ruleset cache (tests and
-//    tools that want no threads).
-// docs/decisions/0005-checks-in-worker-threads.md has the measurements behind the choice.
+//    tools that want no threads, and the one-thread baseline of the re-check).
+// Two jobs: `evaluate` (a builder's check: the specification parsed, the full report as JSON text)
+// and `verdict` (bulk re-checks: a stored specification's verdict only, no report built on the wire).
+// The check service keeps two pools: interactive checks in one (cores − 1 workers, bounded), bulk
+// re-checks in their own (one worker per core, started on demand and ended when idle), so a publish
+// or impact re-check never makes a builder's check wait for a place (`checks_busy`).
+// docs/decisions/0005-checks-in-worker-threads.md and 0013-bulk-re-checks-in-their-own-workers.md
+// have the measurements behind the choices.
 import { createRequire } from 'node:module';
 import { availableParallelism } from 'node:os';
+import { setImmediate as yieldToLoop } from 'node:timers/promises';
 import { pathToFileURL } from 'node:url';
 import { Worker } from 'node:worker_threads';
 import type { DocumentProblem, RulesetDocument } from '../contracts/ruleset';
 import type { Specification } from '../contracts/specification';
+import type { Verdict } from '../contracts/rulebook-admin';
 import { evaluateSpecification, UnknownClassError, type CompiledRuleset } from '../domain';
 import type { UnitSystem } from '../domain/units';
 import { AppError, ConflictError, InternalError, NotFoundError, ValidationError } from '../errors';
@@ -26,6 +35,14 @@ export interface CheckJob {
   /** Untrusted; parsed by the engine with the shared schema (check-input.ts). */
   specification: unknown;
   unitSystem?: UnitSystem;
+}
+
+/** A stored specification's verdict under a version (bulk re-checks). */
+export interface VerdictJob {
+  version: CacheKeyParts;
+  classId: string;
+  /** The specification as stored, as JSON text: parsed where it is evaluated, not on the event loop. */
+  specificationJson: string;
 }
 
 export interface EvaluatedCheck {
@@ -45,13 +62,18 @@ export interface CheckEngineStats {
 
 export interface CheckEngine {
   evaluate(job: CheckJob): Promise<EvaluatedCheck>;
+  /** Rejects when the specification cannot be evaluated (the caller counts it as failed). */
+  verdict(job: VerdictJob): Promise<Verdict>;
   stats(): CheckEngineStats;
   close(): Promise<void>;
 }
 
-export type CheckJobMessage = Omit<CheckJob, 'version'> & { id: number; key: string; document?: RulesetDocument };
+export type CheckJobMessage =
+  | (Omit<CheckJob, 'version'> & { type: 'report'; id: number; key: string; document?: RulesetDocument })
+  | (Omit<VerdictJob, 'version'> & { type: 'verdict'; id: number; key: string; document?: RulesetDocument });
 export type CheckReplyMessage =
   | { id: number; ok: true; reportJson: string; specification: Specification; compiled: boolean }
+  | { id: number; ok: true; verdict: Verdict; compiled: boolean }
   | {
       id: number;
       ok: false;
@@ -66,12 +88,37 @@ export class ChecksBusyError extends AppError {
   }
 }
 
+/**
+ * The engine was closed, or the worker thread holding the job died: nothing is known about the
+ * specification. A check answers 500 as before; a bulk re-check stops its attempt (to be retried)
+ * instead of counting the sheet as one that cannot be evaluated.
+ */
+export class CheckEngineUnavailableError extends InternalError {
+  override name = 'CheckEngineUnavailableError';
+}
+
 function invalidRuleset(problems: DocumentProblem[]): ConflictError {
   return new ConflictError('This ruleset version cannot be used for checks: its document has problems an admin must fix.', { problems });
 }
 
-/** Evaluation on the calling thread; `compile` is the rulesets service's cached loadCompiled. */
-export function createInProcessEngine(compile: (version: CacheKeyParts) => Promise<CompiledRuleset>, counter: () => number): CheckEngine {
+/**
+ * Evaluation on the calling thread; `compile` is the rulesets service's cached loadCompiled. Verdict
+ * jobs run one at a time and give the event loop back every few, so a re-check on this engine (the
+ * one-thread baseline) still lets requests through between evaluations.
+ */
+export function createInProcessEngine(compile: (version: CacheKeyParts) => Promise<CompiledRuleset>, counter: () => number, options: { yieldEvery?: number } = {}): CheckEngine {
+  const yieldEvery = options.yieldEvery ?? 20;
+  let queue: Promise<unknown> = Promise.resolve();
+  let sinceYield = 0;
+  let inFlight = 0;
+  async function verdictNow(job: VerdictJob): Promise<Verdict> {
+    if (++sinceYield >= yieldEvery) {
+      sinceYield = 0;
+      await yieldToLoop();
+    }
+    const compiled = await compile(job.version);
+    return (await evaluateSpecification(compiled, job.classId, JSON.parse(job.specificationJson) as Specification)).verdict;
+  }
   return {
     async evaluate(job) {
       const parsed = parseCheckSpecification(job.specification, job.classId);
@@ -85,7 +132,13 @@ export function createInProcessEngine(compile: (version: CacheKeyParts) => Promi
         throw err;
       }
     },
-    stats: () => ({ mode: 'in-process', compiles: counter(), workers: 0, inFlight: 0 }),
+    verdict(job) {
+      inFlight++;
+      const run = queue.then(() => verdictNow(job));
+      queue = run.catch(() => undefined);
+      return run.finally(() => inFlight--);
+    },
+    stats: () => ({ mode: 'in-process', compiles: counter(), workers: 0, inFlight }),
     close: async () => undefined,
   };
 }
@@ -93,25 +146,30 @@ export function createInProcessEngine(compile: (version: CacheKeyParts) => Promi
 export interface WorkerEngineOptions {
   /** Worker threads; default: one fewer than the machine's cores, at least one. */
   size?: number;
-  /** Jobs in flight across all workers before new checks are refused (503). */
+  /** Jobs in flight across all workers before new checks are refused (503); Infinity: never. */
   maxInFlight?: number;
+  /** End the workers after this long without a job (they start again on the next); default: never. */
+  idleMs?: number;
+  /**
+   * A nice value for the worker threads (Linux; elsewhere ignored): bulk re-checks run at a lower
+   * priority than the main thread and the interactive workers, so they take the cores those leave idle.
+   */
+  niceness?: number;
   /** The version's document (read from the database by the rulesets service). */
   documentFor: (version: CacheKeyParts) => Promise<RulesetDocument>;
 }
 
-interface Pending {
-  job: CheckJob;
-  key: string;
-  resolve: (result: EvaluatedCheck) => void;
-  reject: (err: unknown) => void;
-  retried: boolean;
-}
+type Pending =
+  | { type: 'report'; job: CheckJob; key: string; resolve: (result: EvaluatedCheck) => void; reject: (err: unknown) => void; retried: boolean }
+  | { type: 'verdict'; job: VerdictJob; key: string; resolve: (result: Verdict) => void; reject: (err: unknown) => void; retried: boolean };
 
 interface PoolWorker {
   worker: Worker;
   /** Keys whose document this worker has been sent (it compiles on receipt, in message order). */
   sent: Set<string>;
   pending: Map<number, Pending>;
+  /** Messages leave one after another: a job never overtakes the document it needs. */
+  chain: Promise<void>;
 }
 
 // The worker is TypeScript; tsx (a dependency) compiles it in the thread, whichever way the
@@ -128,51 +186,80 @@ export function createWorkerEngine(options: WorkerEngineOptions): CheckEngine {
   let compiles = 0;
   let inFlight = 0;
   let closed = false;
+  let idleTimer: NodeJS.Timeout | null = null;
 
   function spawn(): PoolWorker {
-    const worker = new Worker(bootstrap, { eval: true, execArgv: [] });
+    const worker = new Worker(bootstrap, { eval: true, execArgv: [], workerData: { niceness: options.niceness ?? 0 } });
     // Idle workers must not keep the process alive; close() ends them explicitly.
     worker.unref();
-    const pw: PoolWorker = { worker, sent: new Set(), pending: new Map() };
+    const pw: PoolWorker = { worker, sent: new Set(), pending: new Map(), chain: Promise.resolve() };
     worker.on('message', (reply: CheckReplyMessage) => onReply(pw, reply));
     const fail = (err: unknown) => {
       const i = workers.indexOf(pw);
       if (i >= 0) workers.splice(i, 1);
       for (const p of pw.pending.values()) {
         inFlight--;
-        p.reject(err instanceof AppError ? err : new InternalError());
+        p.reject(err instanceof AppError ? err : new CheckEngineUnavailableError());
       }
       pw.pending.clear();
     };
     worker.on('error', fail);
-    worker.on('exit', () => fail(new InternalError()));
+    worker.on('exit', () => fail(new CheckEngineUnavailableError()));
     return pw;
   }
 
   function pick(): PoolWorker {
+    if (idleTimer) {
+      clearTimeout(idleTimer);
+      idleTimer = null;
+    }
     while (workers.length < size) workers.push(spawn());
     return workers.reduce((a, b) => (b.pending.size < a.pending.size ? b : a));
   }
 
-  async function send(pw: PoolWorker, id: number, p: Pending): Promise<void> {
-    const needsDocument = !pw.sent.has(p.key);
-    // Mark before the await: later jobs for the key follow the document in message order.
-    if (needsDocument) pw.sent.add(p.key);
-    let document: RulesetDocument | undefined;
-    if (needsDocument) {
+  /** With `idleMs`, the workers end once nothing has been asked of them for that long. */
+  function settle(): void {
+    if (options.idleMs === undefined || inFlight > 0 || closed || idleTimer) return;
+    idleTimer = setTimeout(() => {
+      idleTimer = null;
+      if (inFlight === 0) void Promise.all(workers.splice(0).map((w) => w.worker.terminate()));
+    }, options.idleMs);
+    idleTimer.unref();
+  }
+
+  function send(pw: PoolWorker, id: number, p: Pending): void {
+    pw.chain = pw.chain.then(async () => {
+      let document: RulesetDocument | undefined;
+      if (!pw.sent.has(p.key)) {
+        try {
+          document = await options.documentFor(p.job.version);
+        } catch (err) {
+          pw.pending.delete(id);
+          inFlight--;
+          p.reject(err);
+          settle();
+          return;
+        }
+        pw.sent.add(p.key);
+      }
+      const extra = { id, key: p.key, ...(document ? { document } : {}) };
+      let msg: CheckJobMessage;
+      if (p.type === 'report') {
+        const { version: _version, ...rest } = p.job;
+        msg = { type: 'report', ...rest, ...extra };
+      } else {
+        const { version: _version, ...rest } = p.job;
+        msg = { type: 'verdict', ...rest, ...extra };
+      }
       try {
-        document = await options.documentFor(p.job.version);
+        pw.worker.postMessage(msg);
       } catch (err) {
-        pw.sent.delete(p.key);
         pw.pending.delete(id);
         inFlight--;
         p.reject(err);
-        return;
+        settle();
       }
-    }
-    const { version: _version, ...rest } = p.job;
-    const msg: CheckJobMessage = { ...rest, id, key: p.key, ...(document ? { document } : {}) };
-    pw.worker.postMessage(msg);
+    });
   }
 
   function onReply(pw: PoolWorker, reply: CheckReplyMessage): void {
@@ -182,14 +269,19 @@ export function createWorkerEngine(options: WorkerEngineOptions): CheckEngine {
       // The worker let this compilation go (its cache is bounded): send the document again.
       pw.sent.delete(p.key);
       p.retried = true;
-      void send(pw, reply.id, p);
+      send(pw, reply.id, p);
       return;
     }
     pw.pending.delete(reply.id);
     inFlight--;
+    settle();
     if (reply.ok) {
       if (reply.compiled) compiles++;
-      p.resolve({ specification: reply.specification, reportJson: reply.reportJson });
+      if ('verdict' in reply) {
+        if (p.type === 'verdict') p.resolve(reply.verdict);
+        else p.reject(new InternalError());
+      } else if (p.type === 'report') p.resolve({ specification: reply.specification, reportJson: reply.reportJson });
+      else p.reject(new InternalError());
       return;
     }
     if (reply.kind === 'invalid-ruleset') pw.sent.delete(p.key);
@@ -199,22 +291,30 @@ export function createWorkerEngine(options: WorkerEngineOptions): CheckEngine {
     else p.reject(new InternalError());
   }
 
+  function submit<T>(make: (resolve: (v: T) => void, reject: (err: unknown) => void) => Pending): Promise<T> {
+    if (closed) return Promise.reject(new CheckEngineUnavailableError());
+    if (inFlight >= maxInFlight) return Promise.reject(new ChecksBusyError());
+    return new Promise<T>((resolve, reject) => {
+      const pw = pick();
+      const id = nextId++;
+      const p = make(resolve, reject);
+      pw.pending.set(id, p);
+      inFlight++;
+      send(pw, id, p);
+    });
+  }
+
   return {
     evaluate(job) {
-      if (closed) return Promise.reject(new InternalError());
-      if (inFlight >= maxInFlight) return Promise.reject(new ChecksBusyError());
-      return new Promise<EvaluatedCheck>((resolve, reject) => {
-        const pw = pick();
-        const id = nextId++;
-        const p: Pending = { job, key: compiledCacheKey(job.version), resolve, reject, retried: false };
-        pw.pending.set(id, p);
-        inFlight++;
-        void send(pw, id, p);
-      });
+      return submit<EvaluatedCheck>((resolve, reject) => ({ type: 'report', job, key: compiledCacheKey(job.version), resolve, reject, retried: false }));
+    },
+    verdict(job) {
+      return submit<Verdict>((resolve, reject) => ({ type: 'verdict', job, key: compiledCacheKey(job.version), resolve, reject, retried: false }));
     },
     stats: () => ({ mode: 'workers', compiles, workers: workers.length, inFlight }),
     async close() {
       closed = true;
+      if (idleTimer) clearTimeout(idleTimer);
       await Promise.all(workers.splice(0).map((w) => w.worker.terminate()));
     },
   };

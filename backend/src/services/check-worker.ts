@@ -1,11 +1,27 @@
-// The worker side of the check engine pool (check-engine.ts): validates and compiles a ruleset
+// The worker side of the check engine pools (check-engine.ts): validates and compiles a ruleset
 // document the first time its key is seen, keeps the compilation (bounded), and evaluates
-// specifications. Runs in a worker thread, so a burst of checks never holds up the server's event
-// loop. Pure computation: no database, no I/O besides the message port.
-import { parentPort } from 'node:worker_threads';
+// specifications: a builder's check (parsed with the shared schema, the report serialised here) or a
+// stored sheet's verdict for a bulk re-check. Runs in a worker thread, so neither holds up the
+// server's event loop. Pure computation: no database, no I/O besides the message port (and, once, the
+// thread's own id from /proc to lower its priority when asked).
+import { readlinkSync } from 'node:fs';
+import { setPriority } from 'node:os';
+import { parentPort, workerData } from 'node:worker_threads';
+import type { Specification } from '../contracts/specification';
 import { compileRuleset, evaluateSpecification, UnknownClassError, validateRulesetDocument, type CompiledRuleset } from '../domain';
 import type { CheckJobMessage, CheckReplyMessage } from './check-engine';
 import { parseCheckSpecification } from './check-input';
+
+// Linux applies a priority to one thread when given the thread's id; other systems have no
+// /proc/thread-self, and the worker then simply runs at the process's priority.
+const niceness = (workerData as { niceness?: number } | null)?.niceness ?? 0;
+if (niceness !== 0) {
+  try {
+    setPriority(Number(readlinkSync('/proc/thread-self').split('/').pop()), niceness);
+  } catch {
+    // not Linux, or not allowed: the same work at the usual priority
+  }
+}
 
 const maxCompiled = 32;
 const compiled = new Map<string, CompiledRuleset>();
@@ -31,6 +47,11 @@ async function handle(msg: CheckJobMessage): Promise<CheckReplyMessage> {
     // The ruleset first: a document sent along is compiled even when the specification is bad.
     const got = compiledFor(msg);
     if ('id' in got) return got;
+    if (msg.type === 'verdict') {
+      // A stored specification was valid when it was saved; only its verdict crosses back.
+      const spec = JSON.parse(msg.specificationJson) as Specification;
+      return { id: msg.id, ok: true, verdict: (await evaluateSpecification(got.ruleset, msg.classId, spec)).verdict, compiled: got.compiledNow };
+    }
     const parsed = parseCheckSpecification(msg.specification, msg.classId);
     if (!parsed.ok) return { id: msg.id, ok: false, kind: 'invalid-specification', message: 'invalid specification', problems: parsed.problems };
     const report = await evaluateSpecification(got.ruleset, msg.classId, parsed.specification, msg.unitSystem ? { unitSystem: msg.unitSystem } : {});

@@ -12,7 +12,9 @@ import type { UnitSystem } from '../domain/units';
 import { implausibleValues } from '../domain/field-ranges';
 import { CheckRun, User } from '../entities';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
-import { createInProcessEngine, createWorkerEngine, type CheckEngine } from './check-engine';
+import { availableParallelism } from 'node:os';
+import { createInProcessEngine, createWorkerEngine, type CheckEngine, type CheckEngineStats, type VerdictJob } from './check-engine';
+import type { Verdict } from '../contracts/rulebook-admin';
 import { parseCheckSpecification } from './check-input';
 import { enforce } from './access';
 import { versionFacts, type RulesetService } from './rulesets.service';
@@ -85,13 +87,41 @@ export interface CheckServiceOptions {
   engine?: 'workers' | 'in-process';
   /** Worker threads for the `workers` engine (default: cores − 1, at least 1). */
   workers?: number;
+  /** Worker threads of the bulk pool (publish and impact re-checks); 0: on the calling thread. Default: one per core. */
+  recheckWorkers?: number;
+  /** Checks in flight in the interactive pool before a check is refused with checks_busy (default 200). */
+  maxInFlight?: number;
 }
 
+/** Bulk re-checks: a stored specification's verdict, in the bulk pool. */
+export interface VerdictEvaluator {
+  verdict(job: VerdictJob): Promise<Verdict>;
+  stats(): CheckEngineStats;
+}
+
+/**
+ * The bulk pool ends its threads after this long without work; the next re-check starts them again. A
+ * fresh thread compiles the engine's code anew (seconds of CPU on a busy machine), so a publish soon
+ * after an impact preview finds them warm.
+ */
+const bulkIdleMs = 5 * 60_000;
+/** Bulk threads yield the CPU to requests and builders' checks (nice 10: about a ninth of a normal share when both want it). */
+const bulkNiceness = 10;
+
 export function createCheckService(ds: DataSource, rulesets: RulesetService, options: CheckServiceOptions = {}) {
+  const inProcess = () => createInProcessEngine((version) => rulesets.loadCompiled(version.id, version), () => rulesets.cacheStats().compiles);
+  const documentFor = (version: VerdictJob['version']) => rulesets.loadDocument(version);
   const engine: CheckEngine =
     options.engine === 'in-process'
-      ? createInProcessEngine((version) => rulesets.loadCompiled(version.id, version), () => rulesets.cacheStats().compiles)
-      : createWorkerEngine({ ...(options.workers ? { size: options.workers } : {}), documentFor: (version) => rulesets.loadDocument(version) });
+      ? inProcess()
+      : createWorkerEngine({ ...(options.workers ? { size: options.workers } : {}), ...(options.maxInFlight ? { maxInFlight: options.maxInFlight } : {}), documentFor });
+  // Bulk work has a pool of its own with no in-flight bound of its own (a re-check sends a page at a
+  // time), so it can use every core without taking the interactive pool's places.
+  const recheckWorkers = options.recheckWorkers ?? availableParallelism();
+  const bulk: CheckEngine =
+    options.engine === 'in-process' || recheckWorkers === 0
+      ? inProcess()
+      : createWorkerEngine({ size: recheckWorkers, maxInFlight: Number.POSITIVE_INFINITY, idleMs: bulkIdleMs, niceness: bulkNiceness, documentFor });
 
   /** Parses, checks access and state, and runs the engine; shared by dry and saved runs. */
   // The specification is parsed where it is evaluated (a worker thread, usually), so the server's
@@ -128,8 +158,13 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService, opt
     /** Which engine runs the checks, how many compilations it made, how busy it is. */
     engineStats: () => engine.stats(),
 
+    /** The bulk pool, for the publish and impact re-checks. */
+    bulk: { verdict: (job: VerdictJob) => bulk.verdict(job), stats: () => bulk.stats() } satisfies VerdictEvaluator,
+
     /** Ends the worker threads (they never keep the process alive, but tests and shutdown tidy up). */
-    close: () => engine.close(),
+    close: async () => {
+      await Promise.all([engine.close(), bulk.close()]);
+    },
 
     /**
      * A check whose report is returned and nothing is stored. Its specification is typed input (the

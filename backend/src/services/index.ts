@@ -4,7 +4,7 @@ import { createAccessReader, type AccessReader } from './access';
 import { createAccountService, type AccountService } from './accounts.service';
 import { createMemberService, type MemberService } from './members.service';
 import { createPasswordResetService, type PasswordResetService } from './password-resets.service';
-import { createCheckService, type CheckService } from './checks.service';
+import { createCheckService, type CheckService, type CheckServiceOptions } from './checks.service';
 import { createRulesetService, type RulesetService } from './rulesets.service';
 import { createAuditService, type AuditService } from './audit.service';
 import { createMailboxService, createMailService, type MailboxService, type MailService } from './mail';
@@ -12,7 +12,8 @@ import { createJobProgressReader, createJobProgressStore, type JobProgressReader
 import { createBuildSheetService, type BuildSheetService } from './build-sheets.service';
 import { createGarageService, type GarageService } from './garage.service';
 import { createPhotoService, type PhotoService } from './photos.service';
-import { LocalDiskPhotoStorage, type PhotoStorage } from './photos/photo-storage';
+import { LocalDiskPhotoStorage, type PhotoStorage, type PhotoStorageSettings } from './photos/photo-storage';
+import { createPhotoStorage } from './photos/storage';
 import { createReportService, type ReportService } from './reports.service';
 import { createReviewService, type ReviewService } from './review.service';
 import { createReviewReader, type ReviewReader } from './review-detail';
@@ -58,19 +59,33 @@ export interface Services {
 
 export function createServices(
   ds: DataSource,
-  // Photos go to `photoStorage`, else to local disk under `uploadDir` (config's UPLOAD_DIR). `now` is
-  // the clock that decides the clubs' "today" (editions in force or scheduled); tests pass their own.
-  options: { publicUrl: string; uploadDir?: string; photoStorage?: PhotoStorage; now?: () => Date },
+  // Photos go to `photoStorage`, else to the store `storage` describes (config.photoStorage), else to
+  // local disk under `uploadDir` (config's UPLOAD_DIR).
+  // Bulk re-checks (publish, impact) use `recheckWorkers` threads (config's RECHECK_WORKERS; 0: the
+  // calling thread; default one per core) and pages of `recheckBatchSize` sheets.
+  // `checks` sets the check pools outright (tests and the bench).
+  // `now` is the clock that decides the clubs' "today" (editions in force or scheduled); tests pass their own.
+  options: {
+    publicUrl: string;
+    uploadDir?: string;
+    photoStorage?: PhotoStorage;
+    storage?: PhotoStorageSettings;
+    recheckWorkers?: number;
+    recheckBatchSize?: number;
+    checks?: CheckServiceOptions;
+    now?: () => Date;
+  },
 ): Services {
   const now = options.now ?? (() => new Date());
   const rulesets = createRulesetService(ds);
   const audit = createAuditService(ds);
   const mail = createMailService(ds);
   const members = createMemberService(ds, { publicUrl: options.publicUrl, audit, mail });
-  const checks = createCheckService(ds, rulesets);
+  const checks = createCheckService(ds, rulesets, { ...(options.recheckWorkers !== undefined ? { recheckWorkers: options.recheckWorkers } : {}), ...options.checks });
   const buildSheets = createBuildSheetService(ds);
   // Sheet photos and journal photos share one store (their keys differ: sheets/… and journal/…).
-  const photoStorage = options.photoStorage ?? new LocalDiskPhotoStorage(options.uploadDir ?? '.data/uploads');
+  const photoStorage =
+    options.photoStorage ?? (options.storage ? createPhotoStorage(options.storage) : new LocalDiskPhotoStorage(options.uploadDir ?? '.data/uploads'));
   const photos = createPhotoService(ds, photoStorage);
   const cageRecords = createCageRecordService(ds, { mail, audit, publicUrl: options.publicUrl });
   const fabricationSettings = createFabricationSettingsService(ds);
@@ -96,7 +111,7 @@ export function createServices(
     reviewReader: createReviewReader(ds, { records: cageRecords, reports, publicUrl: options.publicUrl }),
     cageRecords,
     verification: createVerificationService(ds),
-    rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit, clubSettings, now }),
+    rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit, clubSettings, now, evaluator: checks.bulk, ...(options.recheckBatchSize ? { batchSize: options.recheckBatchSize } : {}) }),
     tubeStock,
     tubeChoice: createTubeChoiceService(ds, { rulesets, stock: tubeStock }),
     journal: createJournalService(ds, { storage: photoStorage, audit }),

@@ -17,7 +17,7 @@ import type { Logger } from '../logger';
 import type { AuditService } from './audit.service';
 import { sheetFor } from './garage.service';
 import { processUploadedImage, UnsupportedImageError, type ProcessedImage } from './photos/image-pipeline';
-import type { PhotoStorage } from './photos/photo-storage';
+import { readStoredPhoto, type PhotoStorage } from './photos/photo-storage';
 import type { UploadedFile } from './photos.service';
 
 const stageOrder = new Map<string, number>(JOURNAL_STAGES.map((s, i) => [s, i]));
@@ -231,7 +231,7 @@ export function createJournalService(ds: DataSource, deps: { storage: PhotoStora
 
     async bytes(photoId: string, userId: string, which: 'image' | 'thumbnail'): Promise<{ photo: JournalPhoto; bytes: Buffer }> {
       const photo = await photoFor(photoId, userId, 'read');
-      return { photo, bytes: await storage.get(which === 'image' ? photo.storageKey : photo.thumbnailKey) };
+      return { photo, bytes: await readStoredPhoto(storage, which === 'image' ? photo.storageKey : photo.thumbnailKey) };
     },
 
     async updatePhoto(photoId: string, userId: string, body: UpdateJournalPhotoBody): Promise<JournalPhotoWire> {

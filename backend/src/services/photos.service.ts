@@ -12,7 +12,7 @@ import type { Logger } from '../logger';
 import { fieldIssues } from '../middleware/validate';
 import { sheetFor } from './garage.service';
 import { processUploadedImage, UnsupportedImageError, type ProcessedImage } from './photos/image-pipeline';
-import type { PhotoStorage } from './photos/photo-storage';
+import { readStoredPhoto, type PhotoStorage } from './photos/photo-storage';
 
 export interface UploadedFile {
   originalName: string;
@@ -171,7 +171,7 @@ export function createPhotoService(ds: DataSource, storage: PhotoStorage, logger
 
     async bytes(photoId: string, userId: string, which: 'image' | 'thumbnail'): Promise<{ photo: Photo; bytes: Buffer }> {
       const photo = await photoFor(photoId, userId, 'read');
-      return { photo, bytes: await storage.get(which === 'image' ? photo.storageKey : photo.thumbnailKey) };
+      return { photo, bytes: await readStoredPhoto(storage, which === 'image' ? photo.storageKey : photo.thumbnailKey) };
     },
 
     async update(photoId: string, userId: string, body: UpdatePhotoBody): Promise<PhotoWire> {

@@ -1,11 +1,12 @@
 // Rulebook administration for a club's admins: start a draft from the latest edition, autosave it
 // (lock versions: a stale save is refused with both versions kept), import and export documents,
-// compare two versions in words, run a draft against the club's build sheets (impact), publish
-// (then a background job re-checks and tells builders: services/publish/) and retire. An edition dated
-// after the club's today is scheduled and comes into force on its date (activateDueEditions, run by
-// the edition clock: services/publish/edition-clock.ts). The life-cycle rules are the pure domain's
-// (domain/rulebook/lifecycle.ts); the database trigger backs them up. Every change is written with its
-// activity-log entry in one transaction.
+// compare two versions in words, run a draft against the club's build sheets (impact: a background
+// job with progress, services/publish/impact-job.ts), publish (then a background job re-checks and
+// tells builders: services/publish/) and retire. Both re-checks run in the check service's bulk pool.
+// An edition dated after the club's today is scheduled and comes into force on its date
+// (activateDueEditions, run by the edition clock: services/publish/edition-clock.ts). The life-cycle
+// rules are the pure domain's (domain/rulebook/lifecycle.ts); the database trigger backs them up.
+// Every change is written with its activity-log entry in one transaction.
 import type { DataSource, EntityManager } from 'typeorm';
 import type { DocumentProblem, RulesetDocument } from '../contracts/ruleset';
 import type {
@@ -31,19 +32,38 @@ import { enforce, rolesIn } from './access';
 import type { AuditService } from './audit.service';
 import type { RulesetService } from './rulesets.service';
 import type { ClubSettingsService } from './club-settings.service';
-import { affectedClassIds, recheckSheets } from './publish/recheck';
+import { affectedClassIds, recheckSheets, type RecheckEvaluator } from './publish/recheck';
 
-/** Sends the re-check job after a publish; server.ts passes pg-boss, tests may pass their own. */
+/** Sends background jobs (the publish re-check, the impact); server.ts passes pg-boss, tests may pass their own. */
 export interface RepublishQueue {
-  send(queue: string, data: RepublishJobData, options: { clubId: string; requestedBy: string }): Promise<string>;
+  send(queue: string, data: RepublishJobData | ImpactJobData, options: { clubId: string; requestedBy: string }): Promise<string>;
 }
 
 export const republishQueueName = 'ruleset.republish';
+export const impactQueueName = 'ruleset.impact';
 
 export interface RepublishJobData {
   versionId: string;
   previousVersionId: string | null;
   classIds: string[];
+}
+
+/** The draft whose impact is wanted, at the lock version the admin looked at. */
+export interface ImpactJobData {
+  versionId: string;
+  lockVersion: number;
+}
+
+/** What the impact job reports as it goes (jobs.ts's ProgressReporter). */
+export interface ImpactProgress {
+  setTotal(total: number): Promise<void>;
+  advance(counts: { done?: number; failed?: number }): Promise<void>;
+  resumeFrom(counts: { done: number; failed?: number }): Promise<void>;
+}
+
+/** An impact asked about a draft that is gone or published: retrying cannot help. */
+export class ImpactCannotRunError extends Error {
+  override name = 'ImpactCannotRunError';
 }
 
 interface VersionRow {
@@ -111,7 +131,7 @@ export interface ActivatedEdition {
 
 export function createRulebookAdminService(
   ds: DataSource,
-  deps: { rulesets: RulesetService; audit: AuditService; clubSettings: ClubSettingsService; now: () => Date },
+  deps: { rulesets: RulesetService; audit: AuditService; clubSettings: ClubSettingsService; now: () => Date; evaluator: RecheckEvaluator; batchSize?: number },
 ) {
   const { rulesets, audit, clubSettings } = deps;
 
@@ -331,23 +351,48 @@ export function createRulebookAdminService(
       return { from: older.versionNumber, to: newer.versionNumber, changes: describeRulesetChanges(validDocument(older), validDocument(newer)) };
     },
 
-    /** The draft against every active build sheet of the classes its changes concern; nothing stored. */
-    async impact(versionId: string, userId: string): Promise<ImpactWire> {
+    /**
+     * Queues the draft's impact on the club's build sheets (a background job: GET /api/jobs/:id shows
+     * its progress and, once done, the result). Refusals (404, 403, a published version, a document
+     * with problems) come at once; the work does not.
+     */
+    async startImpact(versionId: string, userId: string, queue: RepublishQueue | null): Promise<string> {
       const v = await adminVersion(ds.manager, versionId, userId);
       draftOnly(v);
-      const doc = validDocument(v);
+      validDocument(v);
+      if (!queue) throw new ConflictError('Background jobs are not running on this server, so the impact cannot be worked out.');
+      return queue.send(impactQueueName, { versionId: v.id, lockVersion: v.lockVersion } satisfies ImpactJobData, { clubId: v.clubId, requestedBy: userId });
+    },
+
+    /**
+     * The impact job's work: the draft (as it is now; the result names its lock version) against every
+     * active build sheet of the classes its changes concern, in the bulk pool. Nothing is stored but the
+     * summary the job keeps. A retry starts again from the first sheet.
+     */
+    async computeImpact(data: ImpactJobData, progress: ImpactProgress, attempt = 1): Promise<ImpactWire> {
+      const rows: VersionRow[] = await ds.query(`SELECT ${versionColumns} FROM ruleset_versions v JOIN rulebooks r ON r.id = v.rulebook_id WHERE v.id = $1`, [data.versionId]);
+      const v = rows[0];
+      if (!v) throw new ImpactCannotRunError('The draft was deleted before its impact was worked out.');
+      if (v.status !== 'draft') throw new ImpactCannotRunError(`Version ${v.versionNumber} is ${v.status} now; its impact as a draft is no longer worked out.`);
+      const validation = validateRulesetDocument(v.document);
+      if (!validation.ok) throw new ImpactCannotRunError('The draft has problems to fix before it can be tried out.');
+      const doc = validation.document;
       const baseline = baselineOf(await siblingsOf(ds.manager, v.rulebookId), v.id);
       const classIds = baseline ? classesConcerned(describeRulesetChanges(validDocument(baseline), doc), doc) : doc.classes.map((c) => c.id);
-      const compiled = await rulesets.loadCompiled(v.id, { status: v.status, lockVersion: v.lockVersion });
+      if (attempt > 1) await progress.resumeFrom({ done: 0, failed: 0 });
       const counts = { passToFail: 0, failToPass: 0, unchanged: 0, needsInformationChanged: 0, otherChanged: 0 };
       const changed: ImpactSheetWire[] = [];
-      const { checked } = await recheckSheets({
+      const { checked, failed } = await recheckSheets({
         ds,
         rulebookId: v.rulebookId,
         classIds,
-        compiled,
-        beforeFor: (id) => rulesets.loadCompiled(id),
-        onPage: (sheets) => {
+        version: { id: v.id, status: v.status, lockVersion: v.lockVersion },
+        versionClassIds: doc.classes.map((c) => c.id),
+        evaluator: deps.evaluator,
+        withBefore: true,
+        ...(deps.batchSize ? { batchSize: deps.batchSize } : {}),
+        onTotal: (total) => progress.setTotal(total),
+        onPage: async (sheets, failedHere) => {
           for (const s of sheets) {
             const before = s.before;
             if (before === s.after) {
@@ -360,9 +405,10 @@ export function createRulebookAdminService(
             else counts.otherChanged++;
             changed.push({ buildSheetId: s.buildSheetId, sheetName: s.sheetName, carName: s.carName, builder: { id: s.ownerId, displayName: s.ownerName }, classId: s.classId, before, after: s.after });
           }
+          await progress.advance({ done: sheets.length, failed: failedHere });
         },
       });
-      return { versionId: v.id, classIds, checked, counts, changed };
+      return { versionId: v.id, lockVersion: v.lockVersion, classIds, checked, failed, counts, changed };
     },
 
     /**

@@ -7,6 +7,7 @@ import type { CandidateWire, MemberTubeChoiceWire, TubeChoiceWire } from '../con
 import { FABRICATION_CAUTION } from '../contracts/tube-stock';
 import { FACTS_BY_NAME } from '../domain/facts';
 import { TUBE_DEPENDENT_FACTS, chooseTubesForSheet } from '../domain/tube-choice';
+import { memberNames } from '../domain/geometry/names';
 import type { RankedCandidate, StockTube as DomainStockTube } from '../domain/tube-choice';
 import { BuildSheetRevision } from '../entities';
 import type { StockTube } from '../entities';
@@ -54,10 +55,11 @@ export function createTubeChoiceService(ds: DataSource, deps: { rulesets: Rulese
         const found = c.tube.id ? rowsById.get(c.tube.id) : undefined;
         return candidateView(c, found?.list ?? 'sheet', found?.row.label ?? c.tube.label ?? '');
       };
+      const names = memberNames(spec.members);
       const members: MemberTubeChoiceWire[] = chooseTubesForSheet(compiled, spec, stock, { anyMaterial: options.anyMaterial }).map((m, i) => {
         const member = spec.members[i];
         return {
-          memberId: m.memberId, memberKind: m.memberKind, label: member.label ?? null, lengthMm: member.lengthMm ?? null,
+          memberId: m.memberId, memberKind: m.memberKind, label: member.label ?? null, name: names[i]!, lengthMm: member.lengthMm ?? null,
           current: candidateView(m.current, 'sheet', 'On the sheet'),
           lightest: m.lightest ? view(m.lightest) : null,
           alternatives: m.legal.slice(1, 1 + SHOWN).map(view),

@@ -39,8 +39,9 @@ export async function deleteDraft(versionId: string): Promise<void> {
   await http.delete(`/ruleset-drafts/${enc(versionId)}`);
 }
 
-export async function draftImpact(versionId: string): Promise<ImpactWire> {
-  return (await http.get<{ impact: ImpactWire }>(`/ruleset-drafts/${enc(versionId)}/impact`)).impact;
+/** Starts working out the draft's impact (a background job); follow it with jobProgress. */
+export async function startImpact(versionId: string): Promise<JobProgressWire> {
+  return (await http.post<{ job: JobProgressWire }>(`/ruleset-drafts/${enc(versionId)}/impact`)).job;
 }
 
 export async function publishDraft(versionId: string, lockVersion: number, effectiveDate: string): Promise<PublishedWire> {

@@ -10,8 +10,18 @@ import type { MemberKind } from '@domain/vocabulary';
 export type MemberDraft = Omit<SpecMember, 'odMm' | 'wallMm'> & { odMm?: number; wallMm?: number };
 export type PlateDraft = SpecPlate;
 
+/** The helmet may be half typed (x given, radius not yet); checkDraft asks for all four or none. */
+export type VehicleDraft = Omit<Specification['vehicle'], 'helmet'> & { helmet?: Partial<NonNullable<Specification['vehicle']['helmet']>> };
+export const HELMET_KEYS = ['xMm', 'yMm', 'zMm', 'radiusMm'] as const;
+
+/** The helmet when all four values are typed, else undefined (what the drawing may use). */
+export function completeHelmet(v: VehicleDraft): Specification['vehicle']['helmet'] {
+  const h = v.helmet;
+  return h && HELMET_KEYS.every((k) => typeof h[k] === 'number') ? (h as Specification['vehicle']['helmet']) : undefined;
+}
+
 export interface SheetDraft {
-  vehicle: Specification['vehicle'];
+  vehicle: VehicleDraft;
   members: MemberDraft[];
   geometry: NonNullable<Specification['geometry']>;
   plates: PlateDraft[];
@@ -113,6 +123,11 @@ export function checkDraft(draft: SheetDraft, units: UnitSystem = 'metric'): Dra
     if (p.sidesMm && (p.sidesMm[0] === undefined || p.sidesMm[1] === undefined))
       problems.push({ path: `plates.${i}.sidesMm`, message: 'Enter both sides, or neither.' });
   });
+  const helmet = draft.vehicle.helmet;
+  if (helmet && HELMET_KEYS.some((k) => helmet[k] !== undefined)) {
+    for (const k of HELMET_KEYS)
+      if (helmet[k] === undefined) problems.push({ path: `vehicle.helmet.${k}`, message: 'Enter all four helmet values (centre x, y, z and radius), or clear them.' });
+  }
   if (draft.cage.certificate && !draft.cage.certificate.number)
     problems.push({ path: 'cage.certificate.number', message: 'Enter the certificate number, or clear the issuer.' });
   const candidate = prune({

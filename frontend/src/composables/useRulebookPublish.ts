@@ -1,13 +1,10 @@
-// The draft's impact on the club's build sheets, publishing it, and following the re-check job's
-// progress until it is done (polled once a second; polling stops when the page goes).
+// Publishing a draft, and following the re-check job's progress until it is done (polled once a
+// second; polling stops when the page goes). The impact preview is useRulebookImpact's.
 import { onBeforeUnmount, ref, type Ref } from 'vue';
-import { draftImpact, jobProgress, publishDraft, retryJob, type ImpactWire, type JobProgressWire, type PublishedWire } from '@/api/rulebook-admin';
+import { jobProgress, publishDraft, retryJob, type JobProgressWire, type PublishedWire } from '@/api/rulebook-admin';
 import { errorMessage } from '@/api/errors';
 
 export function useRulebookPublish(versionId: Ref<string>, lockVersion: Ref<number>, options: { pollMs?: number } = {}) {
-  const impact = ref<ImpactWire | null>(null);
-  const impactLoading = ref(false);
-  const impactError = ref<string | null>(null);
   const publishing = ref(false);
   const publishError = ref<string | null>(null);
   const job = ref<JobProgressWire | null>(null);
@@ -15,19 +12,6 @@ export function useRulebookPublish(versionId: Ref<string>, lockVersion: Ref<numb
   /** In force now or scheduled, and from which date: what the server made of the publish. */
   const result = ref<PublishedWire | null>(null);
   let timer: ReturnType<typeof setTimeout> | null = null;
-
-  async function loadImpact(): Promise<void> {
-    impactLoading.value = true;
-    impactError.value = null;
-    try {
-      impact.value = await draftImpact(versionId.value);
-    } catch (err) {
-      impact.value = null;
-      impactError.value = errorMessage(err);
-    } finally {
-      impactLoading.value = false;
-    }
-  }
 
   async function poll(jobId: string): Promise<void> {
     try {
@@ -77,5 +61,5 @@ export function useRulebookPublish(versionId: Ref<string>, lockVersion: Ref<numb
     if (timer) clearTimeout(timer);
   });
 
-  return { impact, impactLoading, impactError, loadImpact, publishing, publishError, publish, job, published, result, rerun, rerunning };
+  return { publishing, publishError, publish, job, published, result, rerun, rerunning };
 }

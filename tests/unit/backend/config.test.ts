@@ -1,6 +1,6 @@
 // Configuration: defaults, one clear message for every bad variable, and the session secret rules.
 import { mkdtempSync, readFileSync } from 'node:fs';
-import { tmpdir } from 'node:os';
+import { availableParallelism, tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { ConfigError, loadConfig, projectRoot } from '../../../backend/src/config';
@@ -80,5 +80,50 @@ describe('mail settings', () => {
     );
     expect(() => loadConfig({ NODE_ENV: 'test', SMTP_URL: 'smtp://relay.example:25' })).toThrow(/with FAKE_SMTP on it must be smtp:\/\/127.0.0.1:<port>/);
     expect(loadConfig({ NODE_ENV: 'test', SMTP_URL: 'smtp://relay.example:25', FAKE_SMTP: 'false' }).smtpUrl).toBe('smtp://relay.example:25');
+  });
+});
+
+describe('more than one server: photo storage, processes and re-check threads', () => {
+  const cores = availableParallelism();
+
+  it('default to photos on disk, one server process and one re-check thread per core', () => {
+    const c = loadConfig({ NODE_ENV: 'test' });
+    expect(c.photoStorage).toEqual({ kind: 'disk', dir: join(projectRoot, '.data/uploads') });
+    expect([c.serverProcesses, c.recheckWorkers]).toEqual([1, cores]);
+  });
+
+  it('take S3 settings, with path-style addressing for an endpoint of one’s own', () => {
+    const c = loadConfig({ NODE_ENV: 'test', PHOTO_STORAGE: 's3', S3_BUCKET: 'club-photos', S3_ENDPOINT: 'http://127.0.0.1:4569', S3_ACCESS_KEY_ID: 'id', S3_SECRET_ACCESS_KEY: 'secret', S3_PREFIX: 'series/' });
+    expect(c.photoStorage).toEqual({ kind: 's3', bucket: 'club-photos', region: 'us-east-1', endpoint: 'http://127.0.0.1:4569', forcePathStyle: true, credentials: { accessKeyId: 'id', secretAccessKey: 'secret' }, prefix: 'series/' });
+    // AWS itself: no endpoint, credentials from the SDK's own chain.
+    expect(loadConfig({ NODE_ENV: 'test', PHOTO_STORAGE: 's3', S3_BUCKET: 'club-photos', S3_REGION: 'eu-west-2' }).photoStorage).toEqual({
+      kind: 's3', bucket: 'club-photos', region: 'eu-west-2', endpoint: null, forcePathStyle: false, credentials: null, prefix: '',
+    });
+  });
+
+  it('refuses S3 without a bucket, half a key pair, and bad names, in one message', () => {
+    expect(() => loadConfig({ NODE_ENV: 'test', PHOTO_STORAGE: 's3', S3_ACCESS_KEY_ID: 'id' })).toThrow(
+      new ConfigError(
+        'Invalid configuration:\n' +
+          '  S3_BUCKET: required when PHOTO_STORAGE=s3\n' +
+          '  S3_ACCESS_KEY_ID / S3_SECRET_ACCESS_KEY: give both or neither (neither: the AWS SDK finds credentials itself)',
+      ),
+    );
+    expect(() => loadConfig({ NODE_ENV: 'test', PHOTO_STORAGE: 'ftp', S3_BUCKET: 'No_Such', S3_PREFIX: '/abs', SERVER_PROCESSES: '0', RECHECK_WORKERS: '-1' })).toThrow(
+      new ConfigError(
+        'Invalid configuration:\n' +
+          '  RECHECK_WORKERS: Too small: expected number to be >=0\n' +
+          '  SERVER_PROCESSES: must be auto or a number of processes from 1 to 99\n' +
+          '  PHOTO_STORAGE: must be disk or s3\n' +
+          '  S3_BUCKET: must be an S3 bucket name (3–63 lower-case letters, digits, dots, hyphens)\n' +
+          '  S3_PREFIX: must be empty or folder names ending in /, e.g. cagewright/',
+      ),
+    );
+  });
+
+  it('read SERVER_PROCESSES=auto as one per core, and RECHECK_WORKERS=0 as the main thread', () => {
+    const c = loadConfig({ NODE_ENV: 'test', SERVER_PROCESSES: 'auto', RECHECK_WORKERS: '0' });
+    expect([c.serverProcesses, c.recheckWorkers]).toEqual([cores, 0]);
+    expect(loadConfig({ NODE_ENV: 'test', SERVER_PROCESSES: '4' }).serverProcesses).toBe(4);
   });
 });

@@ -7,7 +7,11 @@ import type { Finding, MeasuredValue, RequiredValue } from '@backend/contracts/r
 import {
   buildReportDocument, findingsByArea, findingsByRequirement, measuredText, pdfSafe, requiredText, REPORT_TITLE, SAFETY_CAUTION, tubeSizeText,
 } from '@backend/pdf/report-document';
-import { sampleReportInput } from '../../bench/pdf';
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { compileRuleset, evaluateSpecification, validateRulesetDocument } from '@backend/domain';
+import { tubeDataFor } from '@backend/services/garage/tube-data';
+import { sampleReportInput, sampleSpecification } from '../../bench/pdf';
 
 /** Every text a definition puts on the page, in document order (not colours, styles or widths). */
 function textsOf(node: unknown, out: string[] = [], isText = false): string[] {
@@ -109,7 +113,7 @@ describe('buildReportDocument', () => {
 
   it('says so when there are no members, no photos and no car', async () => {
     const input = await sampleReportInput('imperial', 0);
-    const doc = buildReportDocument({ ...input, car: null, tubeData: { members: [], cutList: [], estimatedTubeMassKg: 0, massComplete: true, membersWithoutLength: [] } });
+    const doc = buildReportDocument({ ...input, car: null, tubeData: { members: [], cutList: [], estimatedTubeMassKg: 0, massComplete: true, membersWithoutLength: [], namesWithoutLength: [] } });
     const text = textsOf(doc.content).join('\n');
     expect(text).toContain('The specification lists no members.');
     expect(text).toContain('No photos were added to this build sheet.');
@@ -160,5 +164,26 @@ describe('an approved submission’s report', () => {
     const input = await sampleReportInput('imperial', 0);
     expect(textsOf(buildReportDocument({ ...input, review: review([]) }).content).join('\n')).toContain('APPROVED');
     expect(textsOf(buildReportDocument({ ...input, review: review([], 'revoked') }).content).join('\n')).toContain('APPROVED · RECORD REVOKED WHEN PRINTED');
+  });
+});
+
+describe('members by the builder’s names', () => {
+  it('findings, "measure next", tube data and the cut list name a member as the builder does, never by its id', async () => {
+    const spec = sampleSpecification();
+    const labels: Record<string, string> = { 'db-r1': 'door bar right upper', dash: 'dash bar', 'rb-l': 'backstay left' };
+    for (const m of spec.members) if (labels[m.id]) m.label = labels[m.id];
+    const validation = validateRulesetDocument(JSON.parse(readFileSync(fileURLToPath(new URL('../../../rulesets/tarnwick-vale-mc-cage-regulations-2027.json', import.meta.url)), 'utf8')));
+    if (!validation.ok) throw new Error('demo ruleset invalid');
+    const report = await evaluateSpecification(compileRuleset(validation.document), spec.vehicle.classId, spec, { unitSystem: 'imperial' });
+    // The thin door bar fails (§ C4.3.1) and the dash bar has no length: both named as labelled.
+    expect(report.findings.some((f) => f.verdict === 'fail' && f.member?.name === 'door bar right upper')).toBe(true);
+    const input = await sampleReportInput('imperial', 0);
+    const doc = buildReportDocument({ ...input, report, tubeData: tubeDataFor(spec) });
+    const text = textsOf(doc.content).join('\n');
+    expect(text).toContain('door bar right upper');
+    expect(text).toContain('backstay left\nrear brace (backstay)');
+    expect(text).toContain('without dash bar (no length given)');
+    for (const id of Object.keys(labels)) expect(text).not.toContain(`"${id}"`);
+    expect(text).not.toMatch(/\b(db-r1|rb-l)\b/);
   });
 });

@@ -42,7 +42,7 @@ export function sheetDetail(revision: number, wallIn = 0.065): BuildSheetDetail 
         members: [{ id: 'mh', kind: 'main_hoop', odMm: 1.625 * IN, wallMm: wallIn * IN, material: 'mild_steel', process: 'dom' }],
       },
     },
-    tubeData: { members: [], cutList: [], estimatedTubeMassKg: 0, massComplete: false, membersWithoutLength: ['mh'] },
+    tubeData: { members: [], cutList: [], estimatedTubeMassKg: 0, massComplete: false, membersWithoutLength: ['mh'], namesWithoutLength: ['Main hoop'] },
     access: 'owner',
   };
 }

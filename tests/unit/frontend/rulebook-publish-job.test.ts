@@ -5,7 +5,6 @@ import { effectScope, ref } from 'vue';
 import type { JobProgressWire } from '@/api/rulebook-admin';
 
 const api = vi.hoisted(() => ({
-  draftImpact: vi.fn(),
   publishDraft: vi.fn(),
   jobProgress: vi.fn(),
   retryJob: vi.fn(),
@@ -15,7 +14,7 @@ vi.mock('@/api/rulebook-admin', () => api);
 const { useRulebookPublish } = await import('@/composables/useRulebookPublish');
 
 function job(state: JobProgressWire['state'], done: number, error: string | null = null): JobProgressWire {
-  return { id: 'j0000000-0000-4000-8000-000000000001', queue: 'ruleset.republish', state, total: 10, done, failed: 0, error, attempts: 1, createdAt: '', updatedAt: '', finishedAt: null };
+  return { id: 'j0000000-0000-4000-8000-000000000001', queue: 'ruleset.republish', state, total: 10, done, failed: 0, error, attempts: 1, createdAt: '', updatedAt: '', finishedAt: null, result: null };
 }
 
 beforeEach(() => vi.useFakeTimers());

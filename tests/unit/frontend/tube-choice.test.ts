@@ -21,7 +21,7 @@ function candidate(over: Partial<TubeCandidate>): TubeCandidate {
 
 function member(over: Partial<MemberTubeChoice>): MemberTubeChoice {
   return {
-    memberId: 'mh', memberKind: 'main_hoop', label: 'Main hoop', lengthMm: 3350,
+    memberId: 'mh', memberKind: 'main_hoop', label: 'Main hoop', name: 'Main hoop', lengthMm: 3350,
     current: candidate({ stockId: null, list: 'sheet', wallMm: 0.12 * IN, massPerMetreKg: 3.113, matched: ['1.500 × 0.120 in'] }),
     lightest: candidate({}), alternatives: [candidate({ stockId: 's2', odMm: 1.5 * IN, wallMm: 0.12 * IN, massPerMetreKg: 2.633 })], undecided: [],
     legalCount: 2, savingPerMetreKg: 0.611, savingKg: 2.047, ...over,

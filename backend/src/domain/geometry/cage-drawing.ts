@@ -4,9 +4,9 @@
 import { formatQuantity, type UnitSystem } from '../units.js';
 import type { MemberKind } from '../vocabulary.js';
 import { memberCentreline } from './centreline.js';
-import { memberShapes, type GeometryInput, type MemberShape } from './derive.js';
+import { memberShapes, memberSide, type GeometryInput, type MemberShape } from './derive.js';
 import { deriveGeometryFacts, type GeometryFactValues } from './derived-facts.js';
-import type { CageNode, PathEntry } from './model.js';
+import type { CageNode, MemberSide, PathEntry } from './model.js';
 import { memberNames } from './names.js';
 import { cageGeometryMarks } from './cage-marks.js';
 import { projectView, VIEW_NAMES, type DrawnMember, type ViewName } from './projection.js';
@@ -88,6 +88,11 @@ export interface CageDrawing {
   drawn: DrawnMember[];
   /** The model's derived geometry facts the drawing labels (the same values the rules read). */
   facts: GeometryFactValues;
+  /**
+   * What the model gives per member with a valid path, so the sheet need not ask for it: the
+   * developed centreline length (the member's length) and the side of the car read from y.
+   */
+  modelled: Map<string, { developedLengthMm: number; side: MemberSide }>;
 }
 
 /** The model's facts (the same values the rules read), from the members that have a size. */
@@ -134,5 +139,6 @@ export function drawCage(input: CageDrawingInput): CageDrawing {
   for (const view of VIEW_NAMES) {
     svgs[view] = cageViewSvg(projectView(drawn, view), { members, marks: geometry, units: input.units, highlightId: input.highlightId ?? null, labels: input.labels ?? false });
   }
-  return { svgs, members, drawn, facts };
+  const modelled = new Map(shapes.map((s) => [s.memberId, { developedLengthMm: s.geometry.developedLengthMm, side: memberSide(s.geometry.points) }]));
+  return { svgs, members, drawn, facts, modelled };
 }

@@ -14,6 +14,7 @@ import { formatIsoDate } from '../dates.js';
 import { deriveCageGeometry } from '../geometry/derive.js';
 import type { CageGeometry } from '../geometry/derive.js';
 import { memberNames } from '../geometry/names.js';
+import { modelAsks, type ModelAsk } from '../geometry/model-asks.js';
 import { memberReadings, modelLengths, vehicleReadings } from '../model-facts.js';
 import type { Disagreement } from '../model-facts.js';
 import { formatQuantity } from '../units.js';
@@ -202,6 +203,8 @@ interface Ctx {
   certificate?: { issuer?: string; number: string };
   /** The weight is the class's listed weight, not a measured one. */
   listedWeight: boolean;
+  /** With a cage model: what to ask instead of a geometry fact it would give (model-asks.ts). */
+  asks?: (fact: string) => ModelAsk[] | null;
 }
 
 export async function evaluateSpecification(
@@ -216,7 +219,8 @@ export async function evaluateSpecification(
   const plan = planFor(compiled, classId);
   const geo = spec.model ? deriveCageGeometry(spec) : null;
   const lengths = modelLengths(spec, geo);
-  const tubes = spec.members.map((m, i) => memberTubeData(m, i, lengths.get(m.id)));
+  const names = memberNames(spec.members);
+  const tubes = spec.members.map((m, i) => memberTubeData(m, i, lengths.get(m.id), names[i]));
   const listedWeightKg = compiled.listedWeightsKg[classId];
   const vfacts = vehicleFacts(spec, { weightBasis: cls.weightBasis, ...(listedWeightKg !== undefined ? { listedWeightKg } : {}) }, tubes);
   Object.assign(vfacts, peerFacts(spec, peerNamesOf(compiled)));
@@ -224,7 +228,8 @@ export async function evaluateSpecification(
   const certificate = spec.cage?.certificate;
   const ctx: Ctx = {
     compiled, system: options.unitSystem ?? doc.unitSystem, weightKg: vfacts['vehicle.weightKg'] as number | undefined,
-    ...(certificate ? { certificate } : {}), listedWeight: listedWeightKg !== undefined, names: memberNames(spec.members),
+    ...(certificate ? { certificate } : {}), listedWeight: listedWeightKg !== undefined, names,
+    ...(spec.model ? { asks: (fact: string) => modelAsks(spec, fact) } : {}),
   };
   const findings: Ordered[] = [];
   const disagreements: Disagreement[] = [...vr.disagreements];
@@ -413,12 +418,24 @@ function certifiedFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject):
   return f;
 }
 
-function missingList(names: Iterable<string>): MissingFact[] {
-  return [...new Set(names)].sort().map((fact) => {
+/**
+ * The missing facts in words. With a cage model, a geometry fact the model would derive becomes what
+ * the model still needs (a path, the shoulder height, the helmet): the builder is never asked to
+ * measure what the model gives.
+ */
+function missingList(names: Iterable<string>, ctx?: Pick<Ctx, 'asks'>): MissingFact[] {
+  const out = new Map<string, MissingFact>();
+  for (const fact of [...new Set(names)].sort()) {
+    const instead = ctx?.asks?.(fact);
+    if (instead) {
+      for (const a of instead) out.set(a.fact, { fact: a.fact, label: a.label, dimension: a.dimension });
+      continue;
+    }
     const def = FACTS_BY_NAME.get(fact);
     const other = def ? undefined : referenceLabel(fact);
-    return { fact, label: def?.label ?? other ?? fact, dimension: def?.dimension ?? (other ? 'length' : null) };
-  });
+    out.set(fact, { fact, label: def?.label ?? other ?? fact, dimension: def?.dimension ?? (other ? 'length' : null) });
+  }
+  return [...out.values()];
 }
 
 // Other members' sizes a compiled ruleset compares with, found once per compiled ruleset.
@@ -605,8 +622,8 @@ function buildFinding(
     const w = triState(when, facts, whenMissing);
     if (w === false) return baseFinding(ctx, req, subject, 'not_applicable', 'Does not apply to this vehicle or member (its condition is not met).');
     if (w === 'unknown') {
-      const f = baseFinding(ctx, req, subject, 'needs_information', `Whether this applies depends on: ${missingList(whenMissing).map((m) => m.label).join(', ')}.`);
-      f.missing = missingList(whenMissing);
+      const f = baseFinding(ctx, req, subject, 'needs_information', `Whether this applies depends on: ${missingList(whenMissing, ctx).map((m) => m.label).join(', ')}.`);
+      f.missing = missingList(whenMissing, ctx);
       return f;
     }
   }
@@ -629,7 +646,7 @@ function buildFinding(
       passed.forEach((l, i) => parts.push(...(i > 0 ? ['; '] : []), ...leafParts(req, l, facts, true)));
       parts.push('.');
     }
-  } else if (v === 'needs_information') parts.push(`Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')}.`);
+  } else if (v === 'needs_information') parts.push(`Cannot decide without: ${missingList(missing, ctx).map((m) => m.label).join(', ')}.`);
   else {
     const failing = leaves.filter((l) => l.result === false && req.leaves[String(l.name)] && factPresentFor(facts, l));
     if (failing.length > 0) {
@@ -637,7 +654,7 @@ function buildFinding(
       failing.forEach((l, i) => parts.push(...(i > 0 ? ['; '] : []), ...leafParts(req, l, facts, false)));
       parts.push('.');
     } else parts.push('Does not meet the requirement.');
-    if (missing.size > 0) parts.push(` Also not given: ${missingList(missing).map((m) => m.label).join(', ')}.`);
+    if (missing.size > 0) parts.push(` Also not given: ${missingList(missing, ctx).map((m) => m.label).join(', ')}.`);
     toPass.push(...toPassParts(req, failing, facts));
   }
   // Which values came from the cage model, then (for a fail) what to change, last.
@@ -645,7 +662,7 @@ function buildFinding(
   const f = withReason(ctx, baseFinding(ctx, req, subject, v, ''), parts);
   f.measured = measured;
   f.required = required;
-  if (v === 'needs_information') f.missing = missingList(missing);
+  if (v === 'needs_information') f.missing = missingList(missing, ctx);
   return f;
 }
 
@@ -724,7 +741,7 @@ function tubeTableFinding(
     if (pickMeta.requiredReadingMm !== undefined && reading !== undefined && pickMeta.readingFact)
       parts.push(', with ', `${readingLabel(pickMeta)} `, { q: reading, d: 'length' }, ' (at least ', { q: pickMeta.requiredReadingMm, d: 'length' }, ' needed)');
     parts.push('.');
-  } else if (v === 'needs_information') parts.push(`Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')}`, ...(bandParts.length ? [' (band ', bandParts[1]!, ')'] : []), '.');
+  } else if (v === 'needs_information') parts.push(`Cannot decide without: ${missingList(missing, ctx).map((m) => m.label).join(', ')}`, ...(bandParts.length ? [' (band ', bandParts[1]!, ')'] : []), '.');
   else if (pickMeta) {
     const gaps: ReasonSegment[][] = [];
     const wallReq = required.find((r) => r.fact === 'member.wallMm');
@@ -747,7 +764,7 @@ function tubeTableFinding(
   const f = withReason(ctx, baseFinding(ctx, req, subject, v, ''), parts);
   f.measured = measured;
   f.required = required;
-  if (v === 'needs_information') f.missing = missingList(missing);
+  if (v === 'needs_information') f.missing = missingList(missing, ctx);
   return f;
 }
 
@@ -813,7 +830,11 @@ function assembleReport(
     findings,
     measureNext: [...next.values()]
       .sort((a, b) => (a.m.fact < b.m.fact ? -1 : a.m.fact > b.m.fact ? 1 : 0))
-      .map((e) => ({ ...e.m, memberIds: [...e.members].sort(), requirementIds: [...e.reqs].sort() })),
+      .map((e) => {
+        const memberIds = [...e.members].sort();
+        const nameOf = new Map(tubes.map((t) => [t.memberId, t.name ?? t.memberId]));
+        return { ...e.m, memberIds, memberNames: memberIds.map((id) => nameOf.get(id) ?? id), requirementIds: [...e.reqs].sort() };
+      }),
     tubes: {
       members: tubes.map((t) => ({ ...t })),
       estimatedTubeMassKg: withLength.reduce((s, t) => s + (t.massKg ?? 0), 0),

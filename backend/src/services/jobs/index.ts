@@ -10,6 +10,7 @@ export {
   type QueueOptions,
   defaultQueueOptions,
   JobSupersededError,
+  FinalJobError,
 } from './jobs';
 export {
   createJobProgressReader,

@@ -13,6 +13,7 @@
 import { randomUUID } from 'node:crypto';
 import PgBoss from 'pg-boss';
 import type { Config } from '../../config';
+import type { JobResultWire } from '../../contracts/jobs';
 import { createGuardedPool } from '../../db/pg-pool';
 import { errorFields, type Logger } from '../../logger';
 import { createJobProgressStore, type JobControl, type JobProgress } from './progress';
@@ -24,6 +25,8 @@ export interface ProgressReporter {
   advance(counts: { done?: number; failed?: number }): Promise<void>;
   /** Sets the counts outright: a resumed attempt starts from what earlier attempts stored. */
   resumeFrom(counts: { done: number; failed?: number }): Promise<void>;
+  /** Keeps what the job produced with its progress (shown once it completes). */
+  setResult(result: JobResultWire): Promise<void>;
 }
 
 export interface JobContext<T> {
@@ -79,6 +82,14 @@ export interface Jobs extends JobControl {
   queueInfo(name: string): Promise<{ retryLimit: number; retryDelay: number; expireInSeconds: number } | null>;
 }
 
+/**
+ * Thrown by a handler that can never succeed however often it is tried (the draft it was asked about
+ * is gone, say): the job fails at once with this message, without retries.
+ */
+export class FinalJobError extends Error {
+  override name = 'FinalJobError';
+}
+
 /** Thrown by a reporter of an attempt whose job another attempt now owns: stop quietly. */
 export class JobSupersededError extends Error {
   override name = 'JobSupersededError';
@@ -109,6 +120,8 @@ export function createJobs(config: Pick<Config, 'databaseUrl'>, logger: Logger, 
   const progress = createJobProgressStore(sql);
   const queues = new Map<string, Promise<void>>();
   const worked = new Set<string>();
+  // pg-boss's worker id per queue this process works, to wake it when this process sends to it.
+  const workerIds = new Map<string, string>();
   const staleMs = (options.staleAfterSeconds ?? 30) * 1000;
   const heartbeatMs = (options.heartbeatSeconds ?? staleMs / 6000) * 1000;
   let started = false;
@@ -222,6 +235,9 @@ export function createJobs(config: Pick<Config, 'databaseUrl'>, logger: Logger, 
         await progress.remove(jobId);
         throw err;
       }
+      // Sent here and worked here: start now rather than at the next poll (an admin waits for it).
+      const local = workerIds.get(queue);
+      if (local) boss.notifyWorker(local);
       return jobId;
     },
 
@@ -229,7 +245,7 @@ export function createJobs(config: Pick<Config, 'databaseUrl'>, logger: Logger, 
       assertStarted();
       await ensureQueue(queue);
       worked.add(queue);
-      return boss.work<Parameters<typeof handler>[0]['data']>(
+      const workerId = await boss.work<Parameters<typeof handler>[0]['data']>(
         queue,
         { pollingIntervalSeconds: options.pollingIntervalSeconds ?? 2, batchSize: 1, includeMetadata: true },
         async (batch) => {
@@ -250,6 +266,7 @@ export function createJobs(config: Pick<Config, 'databaseUrl'>, logger: Logger, 
                 await progress.advance(job.id, done, failed);
               },
               resumeFrom: ({ done, failed = 0 }) => progress.setCounts(job.id, done, failed),
+              setResult: (result) => progress.setResult(job.id, attempt, result),
             };
             try {
               await handler({ id: job.id, data: job.data, progress: reporter, attempt });
@@ -258,6 +275,12 @@ export function createJobs(config: Pick<Config, 'databaseUrl'>, logger: Logger, 
               if (lost || err instanceof JobSupersededError) {
                 // Another attempt owns the job now; whatever this one stored stays, the rest is theirs.
                 logger.warn('job attempt superseded', { queue, jobId: job.id, attempt });
+                return;
+              }
+              if (err instanceof FinalJobError) {
+                // Trying again cannot help: failed for good now (pg-boss counts the job as done).
+                logger.warn('job cannot run', { queue, jobId: job.id, attempt, reason: err.message });
+                await progress.finish(job.id, 'failed', err.message.slice(0, 2000), attempt).catch(() => undefined);
                 return;
               }
               const message = (err instanceof Error ? err.message : String(err)).slice(0, 2000);
@@ -273,6 +296,8 @@ export function createJobs(config: Pick<Config, 'databaseUrl'>, logger: Logger, 
           }
         },
       );
+      workerIds.set(queue, workerId);
+      return workerId;
     },
 
     async retry(jobId) {

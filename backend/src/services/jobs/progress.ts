@@ -3,7 +3,7 @@
 // (`attempts`); the running attempt writes `heartbeat_at` every few seconds, and writes of an attempt
 // that has been superseded (a stale heartbeat handed the job to another worker) change nothing. The club is kept with the row so that only that club's
 // admins see it. Works over any `query` function, so the pg-boss pool and the app's DataSource share it.
-import type { JobProgressWire, JobState } from '../../contracts/jobs';
+import type { JobProgressWire, JobResultWire, JobState } from '../../contracts/jobs';
 import type { DataSource } from 'typeorm';
 import { ConflictError, NotFoundError } from '../../errors';
 import { enforce, rolesIn } from '../access';
@@ -30,6 +30,7 @@ interface Row {
   created_at: Date;
   updated_at: Date;
   finished_at: Date | null;
+  result: JobResultWire | null;
 }
 
 function fromRow(r: Row): JobProgress {
@@ -47,6 +48,8 @@ function fromRow(r: Row): JobProgress {
     createdAt: new Date(r.created_at).toISOString(),
     updatedAt: new Date(r.updated_at).toISOString(),
     finishedAt: r.finished_at ? new Date(r.finished_at).toISOString() : null,
+    // Shown once the job has completed (a retried attempt may have left an older one behind).
+    result: r.state === 'completed' ? r.result : null,
   };
 }
 
@@ -110,6 +113,10 @@ export function createJobProgressStore(query: SqlQuery) {
     /** An admin runs a finally failed job again. */
     async requeue(jobId: string): Promise<void> {
       await query(`UPDATE job_progress SET state = 'queued', error = NULL, finished_at = NULL, updated_at = now() WHERE job_id = $1`, [jobId]);
+    },
+    /** The attempt's outcome; only while it is still the job's current attempt. */
+    async setResult(jobId: string, attempt: number, result: JobResultWire): Promise<void> {
+      await query(`UPDATE job_progress SET result = $3::jsonb, updated_at = now() WHERE job_id = $1 AND attempts = $2`, [jobId, attempt, JSON.stringify(result)]);
     },
     async setTotal(jobId: string, total: number): Promise<void> {
       await query(`UPDATE job_progress SET total = $2, updated_at = now() WHERE job_id = $1`, [jobId, total]);

@@ -1,13 +1,15 @@
-// Re-checking stored build sheets against a ruleset version: the heart of both the impact panel
-// (a draft, nothing stored) and the publish job (the new edition, results stored and builders told).
-// Sheets are read in pages of `batchSize` by id (keyset paging, so 10,000 sheets never sit in memory
-// at once), each page evaluated with the version compiled once (the compiled-ruleset cache), and the
-// event loop is given back between pages and every few evaluations so the web server keeps answering.
-import { setImmediate as yieldToLoop } from 'node:timers/promises';
+// Re-checking stored build sheets against a ruleset version: the heart of both the impact job (a
+// draft, nothing stored but the summary) and the publish job (the new edition, results stored and
+// builders told). Sheets are read in pages of `batchSize` by id (keyset paging, so 10,000 sheets never
+// sit in memory at once). Each page goes to the evaluator at once: normally the check service's bulk
+// pool of worker threads, one per core, so the server's main thread only reads pages, routes
+// messages and stores results while the cores compute (the specification travels as the JSON text
+// PostgreSQL returns and is parsed in the worker). The next page is read while this one is evaluated,
+// and a page is stored while the next is evaluated, so the workers seldom wait.
 import type { DataSource } from 'typeorm';
-import type { Specification } from '../../contracts/specification';
 import type { Verdict } from '../../contracts/rulebook-admin';
-import { evaluateSpecification, type CompiledRuleset } from '../../domain';
+import type { CacheKeyParts } from '../compiled-ruleset-cache';
+import { CheckEngineUnavailableError, type VerdictJob } from '../check-engine';
 
 export interface SheetToRecheck {
   buildSheetId: string;
@@ -22,25 +24,31 @@ export interface SheetToRecheck {
   storedVerdict: Verdict | null;
   /** The ruleset version the revision names. */
   revisionVersionId: string;
-  specification: Specification;
 }
 
 export interface RecheckedSheet extends SheetToRecheck {
-  /** The verdict before: the stored one, else the revision checked against the version it names. */
+  /** The verdict before: the stored one, else (with `withBefore`) the revision checked against the version it names. */
   before: Verdict | null;
   after: Verdict;
+}
+
+/** What evaluates a stored specification: the check service's bulk pool, or one thread. */
+export interface RecheckEvaluator {
+  verdict(job: VerdictJob): Promise<Verdict>;
 }
 
 export interface RecheckOptions {
   ds: DataSource;
   rulebookId: string;
   classIds: readonly string[];
-  compiled: CompiledRuleset;
-  /** When given, a sheet with no up-to-date stored verdict is also checked against its own version. */
-  beforeFor?: (versionId: string) => Promise<CompiledRuleset>;
+  /** The version every sheet is checked against. */
+  version: CacheKeyParts;
+  /** The classes that version defines; sheets of other classes are not checked. */
+  versionClassIds: readonly string[];
+  evaluator: RecheckEvaluator;
+  /** A sheet with no up-to-date stored verdict is also checked against its revision's own version. */
+  withBefore?: boolean;
   batchSize?: number;
-  /** Evaluations between two yields to the event loop inside a page. */
-  yieldEvery?: number;
   /** Called once with the number of sheets, before the first page. */
   onTotal?: (total: number) => Promise<void> | void;
   /** Called with each page's results (store them, count them, mail about them). */
@@ -60,7 +68,7 @@ interface SheetRow {
   revision_number: number;
   stored_verdict: Verdict | null;
   revision_version_id: string;
-  specification: Specification;
+  specification_json: string;
 }
 
 const sheetFilter = `s.archived_at IS NULL AND s.rulebook_id = $1 AND s.class_id = ANY($2::text[])`;
@@ -74,11 +82,12 @@ export async function countSheets(ds: DataSource, rulebookId: string, classIds: 
 }
 
 async function page(ds: DataSource, rulebookId: string, classIds: readonly string[], afterId: string | null, limit: number, skipStoredForJob: string | null): Promise<SheetRow[]> {
+  // The specification as text: the worker parses it, the main thread only passes it on.
   return ds.query(
     `SELECT s.id, s.name AS sheet_name, c.name AS car_name, u.id AS owner_id, u.display_name AS owner_name, u.email AS owner_email,
             r.class_id, r.number AS revision_number, r.ruleset_version_id AS revision_version_id,
             CASE WHEN s.latest_checked_revision = s.current_revision THEN s.latest_verdict END AS stored_verdict,
-            r.specification
+            r.specification::text AS specification_json
      FROM build_sheets s
      JOIN build_sheet_revisions r ON r.build_sheet_id = s.id AND r.number = s.current_revision
      JOIN cars c ON c.id = s.car_id
@@ -91,54 +100,79 @@ async function page(ds: DataSource, rulebookId: string, classIds: readonly strin
 
 /** Evaluates every matching sheet; a sheet that cannot be evaluated counts as failed, the rest go on. */
 export async function recheckSheets(options: RecheckOptions): Promise<{ checked: number; failed: number }> {
-  const { ds, rulebookId, classIds, compiled } = options;
+  const { ds, rulebookId, classIds, evaluator, version } = options;
   const batchSize = options.batchSize ?? 200;
-  const yieldEvery = options.yieldEvery ?? 20;
-  const known = classIds.filter((id) => compiled.classes[id] !== undefined);
+  const inVersion = new Set(options.versionClassIds);
+  const known = classIds.filter((id) => inVersion.has(id));
   const skip = options.skipStoredForJob ?? null;
   await options.onTotal?.(known.length === 0 ? 0 : await countSheets(ds, rulebookId, known, skip));
   let checked = 0;
   let failedTotal = 0;
-  let afterId: string | null = null;
   if (known.length === 0) return { checked, failed: failedTotal };
-  for (;;) {
-    const rows = await page(ds, rulebookId, known, afterId, batchSize, skip);
-    if (rows.length === 0) break;
-    const results: RecheckedSheet[] = [];
-    let failed = 0;
-    for (let i = 0; i < rows.length; i++) {
-      const row = rows[i]!;
-      try {
-        const report = await evaluateSpecification(compiled, row.class_id, row.specification);
-        let before: Verdict | null = row.stored_verdict;
-        if (before === null && options.beforeFor) {
-          before = (await evaluateSpecification(await options.beforeFor(row.revision_version_id), row.class_id, row.specification)).verdict;
-        }
-        results.push({
-          buildSheetId: row.id,
-          sheetName: row.sheet_name,
-          carName: row.car_name,
-          ownerId: row.owner_id,
-          ownerName: row.owner_name,
-          ownerEmail: row.owner_email,
-          classId: row.class_id,
-          revisionNumber: row.revision_number,
-          storedVerdict: row.stored_verdict,
-          revisionVersionId: row.revision_version_id,
-          specification: row.specification,
-          before,
-          after: report.verdict,
-        });
-      } catch {
-        failed++;
-      }
-      if ((i + 1) % yieldEvery === 0) await yieldToLoop();
+
+  // The version each revision names, as a cache key (for the verdict before, with `withBefore`).
+  const keys = new Map<string, Promise<CacheKeyParts | null>>();
+  const keyOf = (id: string): Promise<CacheKeyParts | null> => {
+    let k = keys.get(id);
+    if (!k) {
+      k = ds
+        .query(`SELECT id, status, lock_version AS "lockVersion" FROM ruleset_versions WHERE id = $1`, [id])
+        .then((rows: CacheKeyParts[]) => rows[0] ?? null);
+      keys.set(id, k);
     }
-    checked += results.length;
-    failedTotal += failed;
-    await options.onPage(results, failed);
-    afterId = rows[rows.length - 1]!.id;
-    await yieldToLoop();
+    return k;
+  };
+
+  async function evaluate(row: SheetRow): Promise<RecheckedSheet | null> {
+    try {
+      const job = { classId: row.class_id, specificationJson: row.specification_json };
+      let before: Promise<Verdict | null> = Promise.resolve(row.stored_verdict);
+      if (row.stored_verdict === null && options.withBefore) {
+        before = keyOf(row.revision_version_id).then((k) => (k ? evaluator.verdict({ ...job, version: k }) : null));
+      }
+      const [after, was] = await Promise.all([evaluator.verdict({ ...job, version }), before]);
+      return {
+        buildSheetId: row.id,
+        sheetName: row.sheet_name,
+        carName: row.car_name,
+        ownerId: row.owner_id,
+        ownerName: row.owner_name,
+        ownerEmail: row.owner_email,
+        classId: row.class_id,
+        revisionNumber: row.revision_number,
+        storedVerdict: row.stored_verdict,
+        revisionVersionId: row.revision_version_id,
+        before: was,
+        after,
+      };
+    } catch (err) {
+      // The pool went away (shutdown, a dead thread): this attempt stops and is retried; nothing is
+      // known about the sheet, so it must not be counted as one that cannot be evaluated.
+      if (err instanceof CheckEngineUnavailableError) throw err;
+      return null;
+    }
+  }
+
+  async function evaluatePage(rows: SheetRow[]): Promise<{ results: RecheckedSheet[]; failed: number }> {
+    const all = await Promise.all(rows.map(evaluate));
+    const results = all.filter((r): r is RecheckedSheet => r !== null);
+    return { results, failed: all.length - results.length };
+  }
+
+  let rows = await page(ds, rulebookId, known, null, batchSize, skip);
+  let evaluating = rows.length > 0 ? evaluatePage(rows) : null;
+  while (evaluating) {
+    const next = page(ds, rulebookId, known, rows[rows.length - 1]!.id, batchSize, skip);
+    // A failure below leaves `next` unawaited; it must not become an unhandled rejection.
+    next.catch(() => undefined);
+    const done = await evaluating;
+    rows = await next;
+    evaluating = rows.length > 0 ? evaluatePage(rows) : null;
+    evaluating?.catch(() => undefined);
+    checked += done.results.length;
+    failedTotal += done.failed;
+    // Stored while the workers evaluate the next page.
+    await options.onPage(done.results, done.failed);
   }
   return { checked, failed: failedTotal };
 }

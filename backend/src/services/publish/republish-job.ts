@@ -14,40 +14,48 @@ import { describeRulesetChanges, type RulesetChange } from '../../domain/ruleboo
 import type { Jobs, ProgressReporter } from '../jobs';
 import { renderMail, type MailService } from '../mail';
 import type { AuditService } from '../audit.service';
-import type { RulesetService } from '../rulesets.service';
 import { republishQueueName, type RepublishJobData } from '../rulebook-admin.service';
-import { recheckSheets, type RecheckedSheet } from './recheck';
+import { recheckSheets, type RecheckEvaluator, type RecheckedSheet } from './recheck';
 
 export interface RepublishDeps {
   ds: DataSource;
-  rulesets: RulesetService;
+  /** Where the sheets are evaluated: the check service's bulk pool (`services.checks.bulk`). */
+  evaluator: RecheckEvaluator;
   mail: MailService;
   audit: AuditService;
   publicUrl: string;
   batchSize?: number;
 }
 
-interface PublishedDocument {
+interface VersionDocument {
   document: RulesetDocument;
   clubId: string;
   versionNumber: number;
   rulebookId: string;
   status: string;
-  /** Every edition name of the rulebook by version id: the mail names the edition each sheet is on. */
-  editions: Map<string, string>;
+  lockVersion: number;
 }
 
-async function documentOf(ds: DataSource, id: string): Promise<PublishedDocument | null> {
-  const rows: { document: unknown; clubId: string; versionNumber: number; rulebookId: string; status: string }[] = await ds.query(
-    `SELECT v.document, r.club_id AS "clubId", v.version_number AS "versionNumber", v.rulebook_id AS "rulebookId", v.status FROM ruleset_versions v JOIN rulebooks r ON r.id = v.rulebook_id WHERE v.id = $1`,
+/** The published version, with every edition name of its rulebook: the mail names the edition each sheet is on. */
+type PublishedDocument = VersionDocument & { editions: Map<string, string> };
+
+export async function documentOf(ds: DataSource, id: string): Promise<VersionDocument | null> {
+  const rows: (Omit<VersionDocument, 'document'> & { document: unknown })[] = await ds.query(
+    `SELECT v.document, r.club_id AS "clubId", v.version_number AS "versionNumber", v.rulebook_id AS "rulebookId", v.status, v.lock_version AS "lockVersion"
+     FROM ruleset_versions v JOIN rulebooks r ON r.id = v.rulebook_id WHERE v.id = $1`,
     [id],
   );
   const row = rows[0];
   if (!row) return null;
   const v = validateRulesetDocument(row.document);
-  if (!v.ok) return null;
-  const siblings: { id: string; edition: string }[] = await ds.query(`SELECT id, edition FROM ruleset_versions WHERE rulebook_id = $1`, [row.rulebookId]);
-  return { ...row, document: v.document, editions: new Map(siblings.map((x) => [x.id, x.edition])) };
+  return v.ok ? { ...row, document: v.document } : null;
+}
+
+async function publishedDocumentOf(ds: DataSource, id: string): Promise<PublishedDocument | null> {
+  const version = await documentOf(ds, id);
+  if (!version) return null;
+  const siblings: { id: string; edition: string }[] = await ds.query(`SELECT id, edition FROM ruleset_versions WHERE rulebook_id = $1`, [version.rulebookId]);
+  return { ...version, editions: new Map(siblings.map((x) => [x.id, x.edition])) };
 }
 
 /** The changes a builder of `classId` needs to read: those for that class and those for every class. */
@@ -91,8 +99,9 @@ export function verdictMailKey(versionId: string, buildSheetId: string): string 
 
 /**
  * Stores one page in the caller's transaction: the results first (ON CONFLICT DO NOTHING, so a page a
- * dead attempt or a concurrent one already stored is skipped), then a mail for each result that is new
- * here and whose verdict changed, under an idempotency key. Returns how many results were new.
+ * dead attempt or a concurrent one already stored is skipped), then, in one statement, a mail for each
+ * result that is new here and whose verdict changed, under an idempotency key. Returns how many
+ * results were new.
  */
 async function storePage(tx: EntityManager, deps: RepublishDeps, jobId: string, versionId: string, page: RecheckedSheet[], published: PublishedDocument, changes: RulesetChange[]): Promise<number> {
   if (page.length === 0) return 0;
@@ -109,18 +118,18 @@ async function storePage(tx: EntityManager, deps: RepublishDeps, jobId: string, 
     values,
   );
   const isNew = new Set(inserted.map((r) => r.build_sheet_id));
-  const sheets: string[] = [];
-  const mails: string[] = [];
-  for (const s of page) {
-    // A sheet never checked before has nothing to change from; only a verdict the builder saw can change.
-    if (!isNew.has(s.buildSheetId) || s.storedVerdict === null || s.storedVerdict === s.after) continue;
-    const { id } = await deps.mail.enqueue(
-      { to: s.ownerEmail, kind: 'verdict.changed', related: { buildSheetId: s.buildSheetId, rulesetVersionId: versionId }, ...verdictMail(s, published, changes, deps.publicUrl) },
-      { manager: tx, idempotencyKey: verdictMailKey(versionId, s.buildSheetId) },
-    );
-    sheets.push(s.buildSheetId);
-    mails.push(id);
-  }
+  // A sheet never checked before has nothing to change from; only a verdict the builder saw can change.
+  const toMail = page.filter((s) => isNew.has(s.buildSheetId) && s.storedVerdict !== null && s.storedVerdict !== s.after);
+  // One INSERT for the page's mails (each under its key, so a retry or a concurrent attempt stores none twice).
+  const ids = await deps.mail.enqueueMany(
+    toMail.map((s) => ({
+      mail: { to: s.ownerEmail, kind: 'verdict.changed', related: { buildSheetId: s.buildSheetId, rulesetVersionId: versionId }, ...verdictMail(s, published, changes, deps.publicUrl) },
+      idempotencyKey: verdictMailKey(versionId, s.buildSheetId),
+    })),
+    { manager: tx },
+  );
+  const sheets = toMail.map((s) => s.buildSheetId);
+  const mails = toMail.map((s) => ids.get(verdictMailKey(versionId, s.buildSheetId))!);
   if (sheets.length > 0) {
     await tx.query(
       `UPDATE ruleset_recheck_results r SET mail_id = m.mail_id FROM unnest($2::uuid[], $3::uuid[]) AS m(build_sheet_id, mail_id)
@@ -155,18 +164,19 @@ export interface RepublishJob {
  * the activity log is written once. Exported for tests and the bench, which call it without pg-boss.
  */
 export async function runRepublish(deps: RepublishDeps, job: RepublishJob): Promise<{ checked: number; failed: number; changed: number; mailed: number }> {
-  const current = await documentOf(deps.ds, job.data.versionId);
+  const current = await publishedDocumentOf(deps.ds, job.data.versionId);
   if (!current) throw new Error('The published version could not be read or is invalid.');
   const previous = job.data.previousVersionId ? await documentOf(deps.ds, job.data.previousVersionId) : null;
   const changes = previous ? describeRulesetChanges(previous.document, current.document) : [];
-  const compiled = await deps.rulesets.loadCompiled(job.data.versionId);
   const before = await storedTotals(deps.ds, job.id);
   if (before.checked > 0) await job.progress.resumeFrom?.({ done: before.checked });
   const result = await recheckSheets({
     ds: deps.ds,
     rulebookId: current.rulebookId,
     classIds: job.data.classIds,
-    compiled,
+    version: { id: job.data.versionId, status: current.status, lockVersion: current.lockVersion },
+    versionClassIds: current.document.classes.map((c) => c.id),
+    evaluator: deps.evaluator,
     skipStoredForJob: job.id,
     ...(deps.batchSize ? { batchSize: deps.batchSize } : {}),
     onTotal: (remaining) => job.progress.setTotal(before.checked + remaining),
@@ -202,6 +212,7 @@ export async function runRepublish(deps: RepublishDeps, job: RepublishJob): Prom
 /** Registers the publish job's worker on pg-boss (server.ts calls this after jobs.start()). */
 export async function registerRepublishWorker(jobs: Jobs, deps: RepublishDeps): Promise<void> {
   await jobs.work<RepublishJobData>(republishQueueName, async (job) => {
-    await runRepublish(deps, job);
+    const outcome = await runRepublish(deps, job);
+    await job.progress.setResult({ kind: 'recheck', ...outcome });
   });
 }

@@ -66,22 +66,18 @@ export function showRequired(r: RequiredValue, units: UnitSystem): string {
   return [OPERATOR_WORDS[r.operator], showValue(r.value, r.dimension, units)].filter(Boolean).join(' ');
 }
 
-/** "Main hoop (main-hoop-1)", "Plate plate-1", or null for the vehicle as a whole. */
+/**
+ * The member by the builder's name ("Backstay left"), "Plate plate-1", or null for the vehicle as a
+ * whole. Runs stored before names were carried fall back to the kind and the id.
+ */
 export function subjectOf(f: Finding): string | null {
-  if (f.member) return `${capitalise(MEMBER_KIND_LABELS[f.member.kind as MemberKind])} (${f.member.id})`;
+  if (f.member) return f.member.name ? capitalise(f.member.name) : `${capitalise(MEMBER_KIND_LABELS[f.member.kind as MemberKind])} (${f.member.id})`;
   if (f.plate) return `Plate ${f.plate.id} at ${f.plate.location.replace(/_/g, ' ')}`;
   return null;
 }
 
 export function capitalise(text: string): string {
   return text.charAt(0).toUpperCase() + text.slice(1);
-}
-
-/** Findings grouped by area in the order builders think about a cage; empty areas left out. */
-export function groupByArea(findings: readonly Finding[]): { area: RequirementArea; label: string; findings: Finding[] }[] {
-  return AREA_ORDER.map((area) => ({ area, label: AREA_LABELS[area], findings: findings.filter((f) => f.area === area) })).filter(
-    (g) => g.findings.length > 0,
-  );
 }
 
 export type VerdictFilter = 'all' | 'not_met' | 'needs_information' | 'met' | 'not_applicable';

@@ -43,8 +43,8 @@ BEGIN
 END
 $$`;
 
-export class EditionSchedule1796300000000 implements MigrationInterface {
-  name = 'EditionSchedule1796300000000';
+export class EditionSchedule1796300100000 implements MigrationInterface {
+  name = 'EditionSchedule1796300100000';
 
   public async up(queryRunner: QueryRunner): Promise<void> {
     await queryRunner.query(`ALTER TABLE "clubs" ADD "time_zone" character varying(64) NOT NULL DEFAULT 'UTC'`);
