@@ -181,6 +181,9 @@ const FIXTURES: Record<string, Fixture> = {
       return { body: { baseRevision: sheet.buildSheet.currentRevision, rulesetVersionId: fx.versionId, classId: 'club-saloon', specification: saloonSpec() } };
     },
   },
+  'GET /api/build-sheets/:sheetId/editions': {},
+  // The owner is let through and finds no newer edition to move to (409); the readers get 403.
+  'POST /api/build-sheets/:sheetId/move-edition': { ok: { owner: 409 }, req: () => ({ body: { baseRevision: 1, rulesetVersionId: fx.versionId } }) },
   'GET /api/build-sheets/:sheetId/revisions': {},
   'GET /api/build-sheets/:sheetId/revisions/:number': { req: () => ({ params: { number: '1' } }) },
   'GET /api/build-sheets/:sheetId/revisions/:from/diff/:to': { req: () => ({ params: { from: '1', to: '2' } }) },
@@ -260,6 +263,8 @@ const FIXTURES: Record<string, Fixture> = {
   'GET /api/cage-records/:recordId': {},
   // Revoked by the steward; the admin is let through and finds it revoked already.
   'POST /api/cage-records/:recordId/revoke': { ok: { steward: 200, admin: 409 }, req: () => ({ params: { recordId: ids.revocableRecord! }, body: { reason: 'The main hoop was cut and rewelded since.' } }) },
+  'GET /api/clubs/:clubId/settings': {},
+  'PATCH /api/clubs/:clubId/settings': { req: () => ({ body: { timeZone: 'Europe/London' } }) },
   'GET /api/clubs/:clubId/record-settings': {},
   'PATCH /api/clubs/:clubId/record-settings': { req: () => ({ body: { validityMonths: 12 } }) },
   'GET /api/clubs/:clubId/tube-stock': {},

@@ -164,12 +164,15 @@ test('the demo admin raises a minimum wall, sees the impact, puts it in force, a
   await shots(page, 'impact-running');
   await page.locator('[data-test="pass-to-fail"]').getByText('1', { exact: true }).waitFor({ timeout: 30_000 });
   await page.unroute('**/api/jobs/*');
-  expect(await page.getByRole('table').innerText()).toMatch(/Grey Saloon[\s\S]*Meets the rules[\s\S]*Does not meet them/);
+  expect(await page.getByRole('table').innerText()).toMatch(/Grey Saloon[\s\S]*Meets the rules[\s\S]*Does not meet the rules/);
   await shots(page, 'impact');
 
-  await page.getByRole('button', { name: 'Put in force…' }).click();
-  const dialog = page.getByRole('dialog', { name: 'Put this edition in force' });
-  await dialog.getByLabel('Takes effect on').fill('2028-01-01');
+  await page.getByRole('button', { name: 'Publish…' }).click();
+  const dialog = page.getByRole('dialog', { name: 'Publish this edition' });
+  // The date offered is today in the club's time zone, and the server accepts it: in force at once.
+  const today = new Intl.DateTimeFormat('en-CA', { timeZone: 'Europe/London', year: 'numeric', month: '2-digit', day: '2-digit' }).format(new Date());
+  expect(await dialog.getByLabel('Takes effect on').inputValue()).toBe(today);
+  expect(await dialog.innerText()).toContain('becomes the rulebook in force today');
   await dialog.getByText('I have looked at the impact').click();
   await shots(page, 'publish-confirm');
   await dialog.getByRole('button', { name: 'Put in force' }).click();

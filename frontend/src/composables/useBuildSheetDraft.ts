@@ -41,9 +41,18 @@ export function emptyDraft(classId: string): SheetDraft {
   return { vehicle: { classId }, members: [], geometry: {}, plates: [], inspectionHoles: [], padding: {}, welding: {}, cage: {} };
 }
 
+/**
+ * A deep copy of plain JSON data. The draft lives in Vue's reactive proxies, which structuredClone
+ * refuses ("could not be cloned"); a JSON round trip reads through them, and the sheet is JSON by
+ * contract (no dates, no undefined worth keeping).
+ */
+export function plainCopy<T>(value: T): T {
+  return JSON.parse(JSON.stringify(value)) as T;
+}
+
 /** A saved specification as an editable draft (deep copy: the draft never aliases a saved revision). */
 export function draftFromSpecification(spec: Specification, classId = spec.vehicle.classId): SheetDraft {
-  const copy = structuredClone(spec);
+  const copy = plainCopy(spec);
   return {
     vehicle: { ...copy.vehicle, classId },
     members: copy.members,
@@ -72,7 +81,7 @@ export function newMember(kind: MemberKind, draft: SheetDraft): MemberDraft {
 
 /** A copy of a row under a new id, placed by the caller right after the original. */
 export function copyMember(member: MemberDraft, draft: SheetDraft): MemberDraft {
-  const copy = structuredClone(member);
+  const copy = plainCopy(member);
   copy.id = nextId(member.kind.replace(/_/g, '-'), draft.members.map((m) => m.id));
   return copy;
 }

@@ -132,6 +132,41 @@ describe('the cage’s approval and certificate on the report', () => {
   });
 });
 
+describe('an approved submission’s report', () => {
+  const review = (waivers: { findingKey: string; reason: string; stewardName: string }[], recordStatus = 'valid') => ({
+    recordNumber: 'TVMC-2026-0007', recordStatus, stewardName: 'Imogen Feld', decidedAt: new Date('2026-12-02T10:00:00Z'),
+    expiresAt: new Date('2027-12-02T10:00:00Z'), note: null, waivers, verificationUrl: 'https://cagewright.example/verify/X', qrSvg: '<svg xmlns="http://www.w3.org/2000/svg" width="10" height="10"/>',
+  });
+
+  it('reads "approved with 1 waiver" in the banner and the summary, and the finding as waived with its reason', async () => {
+    const input = await sampleReportInput('imperial', 0);
+    // The sample's run with one mandatory finding failing and everything else met.
+    const failing = input.report.findings.find((f) => f.severity === 'mandatory' && f.member)!;
+    const findings = input.report.findings.map((f): Finding => (f === failing ? { ...f, verdict: 'fail' } : f.verdict === 'not_applicable' ? f : { ...f, verdict: 'pass' }));
+    const count = (v: Finding['verdict']) => findings.filter((f) => f.verdict === v).length;
+    const summary = { pass: count('pass'), fail: 1, needsInformation: 0, notApplicable: count('not_applicable'), advisoryFail: 0 };
+    const report = { ...input.report, verdict: 'fail' as const, findings, summary, measureNext: [] };
+    const key = `${failing.requirementId}@member:${failing.member!.id}`;
+    const text = textsOf(buildReportDocument({ ...input, report, review: review([{ findingKey: key, reason: 'Sonic reading 0.095 in on the car.', stewardName: 'Imogen Feld' }]) }).content).join('\n');
+    expect(text).toContain('APPROVED WITH 1 WAIVER');
+    expect(text).not.toContain('DOES NOT PASS THE PRE-CHECK');
+    expect(text).toContain(`${summary.pass} pass · 1 waived · 0 fail · 0 need information · ${summary.notApplicable} not applicable`);
+    expect(text).toContain('Approved with 1 waiver, by Imogen Feld on 2 Dec 2026');
+    // Nothing is left "not met": the waived finding is under Waivers with its reason, and reads waived below.
+    expect(text).not.toContain('Not met yet');
+    expect(text).toContain('Waived by Imogen Feld: ');
+    expect(text).toContain('Sonic reading 0.095 in on the car.');
+    // Without the review the same run reads as it is: not passed.
+    expect(textsOf(buildReportDocument({ ...input, report }).content).join('\n')).toContain('DOES NOT PASS THE PRE-CHECK');
+  });
+
+  it('says "approved" without waivers, and names a record that is no longer valid', async () => {
+    const input = await sampleReportInput('imperial', 0);
+    expect(textsOf(buildReportDocument({ ...input, review: review([]) }).content).join('\n')).toContain('APPROVED');
+    expect(textsOf(buildReportDocument({ ...input, review: review([], 'revoked') }).content).join('\n')).toContain('APPROVED · RECORD REVOKED WHEN PRINTED');
+  });
+});
+
 describe('members by the builder’s names', () => {
   it('findings, "measure next", tube data and the cut list name a member as the builder does, never by its id', async () => {
     const spec = sampleSpecification();

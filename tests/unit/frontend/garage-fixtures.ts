@@ -1,5 +1,5 @@
 // Invented garage data for front-end tests, shaped like the garage contract's wire types.
-import type { BuildSheetDetail, Car } from '@/api/garage';
+import type { BuildSheetDetail, Car, SheetEditions } from '@/api/garage';
 import document from '../../../rulesets/tarnwick-vale-mc-cage-regulations-2027.json';
 import { tarnwick } from './fixtures';
 
@@ -46,3 +46,13 @@ export function sheetDetail(revision: number, wallIn = 0.065): BuildSheetDetail 
     access: 'owner',
   };
 }
+
+/** The sheet's rulebook has no edition newer than the sheet's own. */
+export const noNewerEdition: { editions: SheetEditions } = {
+  editions: {
+    pinned: { versionId, versionNumber: 1, edition: '2027', status: 'published', effectiveDate: '2026-11-01' },
+    inForce: null,
+    newer: null,
+    rulebookTitle: 'Tarnwick Vale MC Cage Regulations',
+  },
+};

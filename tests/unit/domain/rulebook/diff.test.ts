@@ -73,7 +73,7 @@ describe('rulebook identity and policy', () => {
       (d) => {
         d.rulebook.effectiveDate = '2027-02-01';
       },
-      'Effective date 2027-01-01 → 2027-02-01',
+      'Effective date 2026-11-01 → 2027-02-01',
     ],
     [
       'link added',
