@@ -29,6 +29,7 @@ import { createGeometryRouter } from './routes/geometry.routes';
 import { createHealthProbe, createHealthRouter, type HealthProbe } from './routes/health.routes';
 import { createInvitationsRouter } from './routes/invitations.routes';
 import { createMembersRouter } from './routes/members.routes';
+import { createClubSettingsRouter } from './routes/club-settings.routes';
 import { createAuditRouter } from './routes/audit.routes';
 import { createJobsRouter } from './routes/jobs.routes';
 import { createMailboxRouter } from './routes/mailbox.routes';
@@ -176,6 +177,7 @@ export function createApp(options: CreateAppOptions): Express {
   use(createAccountRouter({ services }));
   use(createInvitationsRouter({ services }));
   use(createMembersRouter({ services }));
+  use(createClubSettingsRouter({ services }));
   use(createRulebooksRouter({ services }));
   use(createRulebookAdminRouter({ services, republishQueue: options.republishQueue ?? null }));
   use(createChecksRouter({ services }));

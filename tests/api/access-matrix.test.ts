@@ -181,9 +181,18 @@ const FIXTURES: Record<string, Fixture> = {
       return { body: { baseRevision: sheet.buildSheet.currentRevision, rulesetVersionId: fx.versionId, classId: 'club-saloon', specification: saloonSpec() } };
     },
   },
+  'GET /api/build-sheets/:sheetId/editions': {},
+  // The owner is let through and finds no newer edition to move to (409); the readers get 403.
+  'POST /api/build-sheets/:sheetId/move-edition': { ok: { owner: 409 }, req: () => ({ body: { baseRevision: 1, rulesetVersionId: fx.versionId } }) },
   'GET /api/build-sheets/:sheetId/revisions': {},
   'GET /api/build-sheets/:sheetId/revisions/:number': { req: () => ({ params: { number: '1' } }) },
   'GET /api/build-sheets/:sheetId/revisions/:from/diff/:to': { req: () => ({ params: { from: '1', to: '2' } }) },
+  'POST /api/build-sheets/:sheetId/revisions/:number/restore': {
+    req: async () => {
+      const sheet = (await who.owner.agent.get(`/api/build-sheets/${ids.sheetId}`).expect(200)).body;
+      return { params: { number: '2' }, body: { baseRevision: sheet.buildSheet.currentRevision } };
+    },
+  },
   'POST /api/build-sheets/:sheetId/check-runs': { ok: 201 },
   'GET /api/build-sheets/:sheetId/check-runs': {},
   'GET /api/check-runs/:checkRunId/report.pdf': { req: () => ({ params: { checkRunId: ids.run! } }) },
@@ -211,6 +220,16 @@ const FIXTURES: Record<string, Fixture> = {
   'GET /api/build-sheets/:sheetId/fabrication': {},
   'GET /api/build-sheets/:sheetId/buying-list.csv': {},
   'GET /api/build-sheets/:sheetId/tube-choice': {},
+  // The lightest legal size of the first member that has one, on the sheet as it is now.
+  'POST /api/build-sheets/:sheetId/tube-choice/apply': {
+    req: async () => {
+      const choice = (await who.owner.agent.get(`/api/build-sheets/${ids.sheetId}/tube-choice`).expect(200)).body as { revision: number; members: { memberId: string; lightest: { stockId: string } | null }[] };
+      const m = choice.members.find((x) => x.lightest)!;
+      return { body: { baseRevision: choice.revision, memberId: m.memberId, stockId: m.lightest!.stockId } };
+    },
+  },
+  'PUT /api/build-sheets/:sheetId/fabrication/legs/:memberId': { req: () => ({ params: { memberId: 'mh' }, body: { legs: [{ uncutMm: 1250, padHeightMm: 0 }, { uncutMm: 1250, padHeightMm: 12 }], leanDeg: 10 } }) },
+  'DELETE /api/build-sheets/:sheetId/fabrication/legs/:memberId': { ok: 204, req: () => ({ params: { memberId: 'mh' } }) },
   'POST /api/geometry/derive': { req: () => ({ body: { specification: saloonSpec() } }) },
   'GET /api/meta': {},
   'GET /api/openapi.json': {},
@@ -244,6 +263,8 @@ const FIXTURES: Record<string, Fixture> = {
   'GET /api/cage-records/:recordId': {},
   // Revoked by the steward; the admin is let through and finds it revoked already.
   'POST /api/cage-records/:recordId/revoke': { ok: { steward: 200, admin: 409 }, req: () => ({ params: { recordId: ids.revocableRecord! }, body: { reason: 'The main hoop was cut and rewelded since.' } }) },
+  'GET /api/clubs/:clubId/settings': {},
+  'PATCH /api/clubs/:clubId/settings': { req: () => ({ body: { timeZone: 'Europe/London' } }) },
   'GET /api/clubs/:clubId/record-settings': {},
   'PATCH /api/clubs/:clubId/record-settings': { req: () => ({ body: { validityMonths: 12 } }) },
   'GET /api/clubs/:clubId/tube-stock': {},

@@ -6,6 +6,7 @@ import { beforeAll, describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { hasErrorBody, makeTestApp, useTestDatabase } from './helpers';
 import { carWithSheet, everyone, garageFixture, saloonSpec, type GarageFixture } from './garage-fixtures';
+import { cageSpec } from '../fixtures/cage-model';
 
 const db = useTestDatabase();
 const notFound = { error: { code: 'not_found', message: 'Build sheet not found.' } };
@@ -48,6 +49,10 @@ describe('a new build sheet', () => {
       [44.45, ['mh', 'fh', 'rb-l', 'rb-r'], 3350 + 3900 + 1150 + 1150, []],
       [38.1, ['hb', 'db-l', 'db-r', 'dg'], 1180 + 1020 + 1020, ['dg']],
     ]);
+    // What a person reads: the builder's names (no labels here, so the kind's words, numbered when repeated), never ids.
+    expect(tubeData.cutList[1].memberNames).toEqual(['harness bar', 'door bar 1', 'door bar 2', 'diagonal']);
+    expect(tubeData.namesWithoutLength).toEqual(['diagonal']);
+    expect(tubeData.members.find((m: { memberId: string }) => m.memberId === 'rb-r').name).toBe('rear brace (backstay) 2');
     expect(tubeData.massComplete).toBe(false);
   });
 
@@ -55,7 +60,7 @@ describe('a new build sheet', () => {
     const res = await who.builder.agent.post(`/api/cars/${carId}/build-sheets`).set('X-CSRF-Token', who.builder.token)
       .send({ name: 'Roll bar only', clubId: fx.clubId, rulesetVersionId: fx.versionId, classId: 'open-sprint' }).expect(201);
     expect(res.body.revision.specification).toEqual({ vehicle: { classId: 'open-sprint', chassis: 'unibody' }, members: [] });
-    expect(res.body.tubeData).toEqual({ members: [], cutList: [], estimatedTubeMassKg: 0, massComplete: true, membersWithoutLength: [] });
+    expect(res.body.tubeData).toEqual({ members: [], cutList: [], estimatedTubeMassKg: 0, massComplete: true, membersWithoutLength: [], namesWithoutLength: [] });
   });
 
   it('refuses an unknown class, another club’s version, a club the builder is not in, and a bad specification', async () => {
@@ -111,6 +116,38 @@ describe('saving revisions', () => {
     const bad = await save({ baseRevision: 'three', classId: '' }).expect(400);
     expect(bad.body.error.details.map((d: { path: string }) => d.path).sort()).toEqual(['baseRevision', 'classId', 'rulesetVersionId', 'specification']);
     expect((await who.builder.agent.get(`/api/build-sheets/${sheetId}`)).body.buildSheet.currentRevision).toBe(3);
+  });
+});
+
+describe('a cage model on the sheet (issue 10, "Bad input")', () => {
+  const modelled = () => {
+    const c = cageSpec();
+    return { vehicle: { ...c.vehicle, classId: 'club-saloon', weightWithDriverKg: 1100 }, model: c.model, members: c.members.map((m) => ({ ...m, material: 'mild_steel' })) };
+  };
+  it('keeps the model and the paths it saved, and refuses each bad model input at its path without losing them', async () => {
+    const { sheetId: own } = await carWithSheet(who.builder, fx);
+    const ok = await save({ baseRevision: 1, rulesetVersionId: fx.versionId, classId: 'club-saloon', specification: modelled() }, own).expect(200);
+    expect(ok.body.revision.specification.model).toEqual(modelled().model);
+    expect(ok.body.revision.specification.members.map((m: { path: unknown }) => m.path)).toEqual(modelled().members.map((m) => m.path));
+
+    const bad = modelled();
+    bad.members[1]!.path = [{ nodeId: 'jl' }, { nodeId: 'nowhere' }]; // a node that does not exist
+    bad.members[2]!.path = [{ nodeId: 'jr' }]; // fewer than two nodes
+    bad.model.nodes.push({ id: 'hl-again', role: 'junction', xMm: 0, yMm: 600, zMm: 800 });
+    bad.members[3]!.path = [{ nodeId: 'hl' }, { nodeId: 'hl-again' }]; // a zero-length segment
+    bad.members[0]!.path[3] = { nodeId: 'tl', clrMm: 4000 }; // tangents overlap
+    bad.model.nodes[8]!.xMm = -9000; // more than 5 m from the origin
+    bad.model.nodes.push({ id: 'fl', role: 'foot', xMm: 10, yMm: 10, zMm: 0 }); // an id used twice
+    const res = await save({ baseRevision: 2, rulesetVersionId: fx.versionId, classId: 'club-saloon', specification: bad }, own).expect(400);
+    expect(res.body.error.details.map((d: { path: string }) => d.path)).toEqual(expect.arrayContaining([
+      'specification.members.1.path.1.nodeId', 'specification.members.2.path', 'specification.members.3.path.1.nodeId',
+      'specification.members.0.path.3.clrMm', 'specification.model.nodes.8.xMm', `specification.model.nodes.${bad.model.nodes.length - 1}.id`,
+    ]));
+    const now = await who.builder.agent.get(`/api/build-sheets/${own}`).expect(200);
+    expect(now.body.revision.number).toBe(2);
+    expect(now.body.revision.specification.model).toEqual(modelled().model);
+    // A member with a path names the model's developed length as its length.
+    expect(now.body.tubeData.members.find((m: { memberId: string }) => m.memberId === 'bsl').lengthMm).toBeGreaterThan(0);
   });
 });
 

@@ -131,9 +131,10 @@ describe('the approved submission’s PDF', () => {
     await writeFile(join(dir, 'r.pdf'), pdf.body as Buffer);
     const text = execFileSync('pdftotext', [join(dir, 'r.pdf'), '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');
     expect(text).toContain(`Cage record ${record.number}`);
-    expect(text).toContain('Approved by Imogen Feld');
+    expect(text).toMatch(/APPROVED WITH \d+ WAIVERS?/);
+    expect(text).toMatch(/Approved with \d+ waivers?, by Imogen Feld/);
     expect(text).toContain('Measured 0.095 in wall with a sonic gauge. (Imogen Feld)');
-    expect(text).toContain('Fail, waived');
+    expect(text).toContain('Waived by Imogen Feld: Measured 0.095 in wall with a sonic gauge.');
     // pdftotext joins a code wrapped at one of its dashes, so compare without them.
     expect(text.replace(/-/g, '')).toContain(`${testPublicUrl}/verify/${record.verificationCode}`.replace(/-/g, ''));
     await fx.who.otherBuilder.agent.get(`/api/submissions/${submissionId}/report.pdf`).expect(404);

@@ -136,6 +136,52 @@ describe('a build sheet’s fabrication', () => {
     expect(res.text.split('\r\n')[0]).toBe('tube,material,stick,member,piece length (mm),offcut of stick (mm),mass per metre (kg/m)');
     expect(res.text).toContain('harness bar');
   });
+  describe('a hoop’s measured legs', () => {
+    const legs = (as: { agent: Agent; token: string }, method: 'put' | 'delete', memberId = 'mh') => as.agent[method](`/api/build-sheets/${sheetId}/fabrication/legs/${memberId}`).set('X-CSRF-Token', as.token);
+    const mhOf = async () => (await who.builder.agent.get(`/api/build-sheets/${sheetId}/fabrication`).expect(200)).body.fabrication.members.find((m: { memberId: string }) => m.memberId === 'mh');
+    // The model's hoop leans back atan(150 / 1150) = 7.43° (computed); the right pad measured 12 mm higher.
+    const leanDeg = (Math.atan(150 / 1150) * 180) / Math.PI;
+    const body = { legs: [{ uncutMm: 1260, padHeightMm: 0 }, { uncutMm: 1260, padHeightMm: 12 }], leanDeg };
+
+    it('keeps them with the sheet and cuts each leg to its own pad', async () => {
+      const res = await legs(who.builder, 'put').send(body).expect(200);
+      const cos = Math.cos((leanDeg * Math.PI) / 180);
+      // The lower left pad sets the top; the right leg loses 12 / cos(lean) = 12.10 mm (computed).
+      expect(res.body.measuredLegs.result.legs[0].trimMm).toBeCloseTo(0, 9);
+      expect(res.body.measuredLegs.result.legs[1].trimMm).toBeCloseTo(12 / cos, 9);
+      expect(res.body.measuredLegs.input).toMatchObject({ leanDeg, savedBy: expect.any(String) });
+      const mh = await mhOf();
+      expect(mh.measuredLegs.result.legs[1].cutHeightMm).toBeCloseTo(1260 - 12 / cos, 9);
+      expect(mh.legCut).not.toBeNull();
+      // The steward reads them with the sheet.
+      const steward = (await who.steward.agent.get(`/api/build-sheets/${sheetId}/fabrication`).expect(200)).body.fabrication.members.find((m: { memberId: string }) => m.memberId === 'mh');
+      expect(steward.measuredLegs.input.legs).toEqual(body.legs);
+    });
+    it('refuses pads the legs cannot reach at the pad, and keeps what was saved', async () => {
+      const res = await legs(who.builder, 'put').send({ ...body, topHeightMm: 1400 }).expect(400);
+      expect(res.body.error.details).toEqual([
+        { path: 'legs.0.padHeightMm', message: expect.stringMatching(/^The left leg cannot reach this pad: it is [\d.]+ mm short\.$/) },
+        { path: 'legs.1.padHeightMm', message: expect.stringMatching(/^The right leg cannot reach this pad/) },
+      ]);
+      const bad = await legs(who.builder, 'put').send({ legs: [{ uncutMm: -5, padHeightMm: 0 }, { uncutMm: 1260, padHeightMm: 0 }], leanDeg: 95, extra: true }).expect(400);
+      expect(bad.body.error.details.map((d: { path: string }) => d.path)).toEqual(['']);
+      expect((await mhOf()).measuredLegs.input.legs).toEqual(body.legs);
+    });
+    it('is the builder’s alone, and only for a hoop of the latest revision', async () => {
+      await legs(who.steward, 'put').send(body).expect(403);
+      await legs(who.otherBuilder, 'put').send(body).expect(404);
+      await legs(who.steward, 'delete').expect(403);
+      const notHoop = await legs(who.builder, 'put', 'hb').send(body).expect(404);
+      expect(notHoop.body.error.message).toMatch(/has no hoop "hb"/);
+    });
+    it('forgets them on request: the leg cuts come from the model again', async () => {
+      await legs(who.builder, 'delete').expect(204);
+      const mh = await mhOf();
+      expect(mh.measuredLegs).toBeNull();
+      expect(mh.legCut.legs).toHaveLength(2);
+    });
+  });
+
   it('puts the buying list on a page of the PDF report', async () => {
     const run = await who.builder.agent.post(`/api/build-sheets/${sheetId}/check-runs`).set('X-CSRF-Token', who.builder.token).expect(201);
     const pdf = await who.builder.agent.get(`/api/check-runs/${run.body.checkRun.id}/report.pdf?units=metric`).buffer(true).parse((r, done) => {

@@ -104,8 +104,13 @@ describe('the PDF report', () => {
       'Tarnwick Vale MC Cage Regulations', 'Tarnwick Vale Motor Club', 'Club Saloon (full cage)',
       'DOES NOT PASS THE PRE-CHECK', 'Section C4.3.1', 'Section C4.2.2', 'Robin Ashcombe',
       // The builder's units are imperial: 38.1 × 1.65 mm is 1.500 × 0.065 in (F-UNIT-1).
-      '1.500 × 0.065 in', 'Cut list', 'Estimated tube mass', 'Left main hoop foot plate', 'main hoop "mh"',
+      '1.500 × 0.065 in', 'Cut list', 'Estimated tube mass', 'Left main hoop foot plate',
+      // Members by the builder's names (these have no labels: the kind's words, numbered when repeated).
+      'door bar 1', 'rear brace (backstay) 2',
     ]) expect(text).toContain(expected);
+    // Never an internal id: not in findings, tube data, the cut list or the photo captions.
+    expect(text).not.toMatch(/"(mh|fh|rb-l|rb-r|hb|db-l|db-r|dg)"/);
+    expect(text).not.toMatch(/\b(rb-l|rb-r|db-l|db-r)\b/);
     const code = (await who.builder.agent.get(`/api/check-runs/${runId}`).expect(200)).body.checkRun.verificationCode;
     expect(text).toContain(code);
     // Issue 9 §5: the code leads somewhere, and the PDF says what the page will say about it.

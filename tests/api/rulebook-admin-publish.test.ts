@@ -25,7 +25,8 @@ let smtp: FakeSmtp | null = null;
 
 beforeAll(async () => {
   fx = await garageFixture(db.ds);
-  const services = createServices(db.ds, { publicUrl: testPublicUrl });
+  // The club's clock stands in December 2026: an edition dated 1 January 2028 is scheduled.
+  const services = createServices(db.ds, { publicUrl: testPublicUrl, now: () => new Date('2026-12-02T12:00:00Z') });
   jobs = createJobs(testConfig(), createLogger('silent'), { pollingIntervalSeconds: 0.5 });
   await jobs.start();
   await registerRepublishWorker(jobs, { ds: db.ds, evaluator: services.checks.bulk, mail: services.mail, audit: services.audit, publicUrl: testPublicUrl });
@@ -100,7 +101,10 @@ describe('publishing re-checks the sheets and tells the builders', () => {
     expect(others).toEqual([]);
     expect(mail!.to_address).toBe('builder@tarnwick.example');
     expect(mail!.subject).toMatch(/2028: new pre-check verdict for Grey Saloon/);
-    expect(mail!.text_body).toContain('Before: meets the rules. Now: does not meet the rules.');
+    // The same sentences as the build sheet's banner the mail links to (contracts/edition-words.ts).
+    expect(mail!.text_body).toContain('Tarnwick Vale MC Cage Regulations, edition 2028, applies from 1 Jan 2028. It is not in force yet.');
+    expect(mail!.text_body).toContain('This build sheet is checked against edition 2027 and stays on it until you move it.');
+    expect(mail!.text_body).toContain('Under edition 2027 it meets the rules; from 1 Jan 2028, under edition 2028, it does not meet the rules.');
     expect(mail!.text_body).toMatch(/0\.095 → 0\.120 in/);
     expect(mail!.text_body).toContain(`Open the build sheet: ${testPublicUrl}/build-sheets/${sheetId}`);
     expect(mail!.text_body).toContain(safetyCaution);

@@ -3,7 +3,8 @@
 // stranger 404); a published version refuses changes at the API and in the database itself.
 import type { Express } from 'express';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { makeTestApp, useTestDatabase } from './helpers';
+import { createServices } from '../../backend/src/services';
+import { makeTestApp, testPublicUrl, useTestDatabase } from './helpers';
 import { carWithSheet, everyone, garageFixture, type GarageFixture, type SignedIn } from './garage-fixtures';
 import { passingSaloonSpec, withSaloonWall, type DocLike } from './rulebook-admin-fixtures';
 
@@ -17,7 +18,8 @@ let startedAt: Date;
 beforeAll(async () => {
   startedAt = new Date();
   fx = await garageFixture(db.ds);
-  app = makeTestApp(db.ds);
+  // The club's clock stands in February 2028, so an edition dated 1 January 2028 is in force when published.
+  app = makeTestApp(db.ds, { services: createServices(db.ds, { publicUrl: testPublicUrl, now: () => new Date('2028-02-01T12:00:00Z') }) });
   who = await everyone(app);
 }, 60_000);
 
@@ -156,7 +158,7 @@ describe('rulebook administration', () => {
     const noDate = await post(who.admin, `/api/ruleset-drafts/${draft.id}/publish`).send({ lockVersion: saved.body.draft.lockVersion }).expect(400);
     expect(noDate.body.error.details[0].path).toBe('effectiveDate');
     const pub = await post(who.admin, `/api/ruleset-drafts/${draft.id}/publish`).send({ lockVersion: saved.body.draft.lockVersion, effectiveDate: '2028-01-01' }).expect(202);
-    expect(pub.body.published).toMatchObject({ versionId: draft.id, jobId: null, classIds: ['club-saloon'] });
+    expect(pub.body.published).toMatchObject({ versionId: draft.id, jobId: null, classIds: ['club-saloon'], status: 'published', effectiveDate: '2028-01-01' });
     const v = await who.builder.agent.get(`/api/ruleset-versions/${draft.id}`).expect(200);
     expect(v.body.version).toMatchObject({ status: 'published', effectiveDate: '2028-01-01' });
     const old = await who.builder.agent.get(`/api/ruleset-versions/${fx.versionId}`).expect(200);

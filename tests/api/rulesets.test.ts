@@ -68,8 +68,8 @@ describe('the demo rulebook seed', () => {
       [clubId],
     );
     expect(rows).toEqual([
-      { slug: cageFile, title: 'Tarnwick Vale MC Cage Regulations', publisher: 'Tarnwick Vale Motor Club', version_number: 1, status: 'published', edition: '2027', effective_date: '2027-01-01', lock_version: 1, published: true, published_by: demo.admin },
-      { slug: hillFile, title: 'Tarnwick Vale MC Hillclimb Cage Schedule', publisher: 'Tarnwick Vale Motor Club', version_number: 1, status: 'published', edition: '2027', effective_date: '2027-03-01', lock_version: 1, published: true, published_by: demo.admin },
+      { slug: cageFile, title: 'Tarnwick Vale MC Cage Regulations', publisher: 'Tarnwick Vale Motor Club', version_number: 1, status: 'published', edition: '2027', effective_date: '2026-11-01', lock_version: 1, published: true, published_by: demo.admin },
+      { slug: hillFile, title: 'Tarnwick Vale MC Hillclimb Cage Schedule', publisher: 'Tarnwick Vale Motor Club', version_number: 1, status: 'published', edition: '2027', effective_date: '2026-11-15', lock_version: 1, published: true, published_by: demo.admin },
     ]);
     const stored: { document: unknown }[] = await db.ds.query('SELECT document FROM ruleset_versions WHERE id = $1', [await versionIdOf(cageFile)]);
     expect(stored[0]!.document).toEqual(await fileDocument(cageFile));
@@ -144,11 +144,11 @@ describe('GET /api/clubs/:clubId/rulebooks', () => {
       rulebooks: [
         {
           ...book(cageFile, 'Tarnwick Vale MC Cage Regulations'),
-          versions: [{ id: await versionIdOf(cageFile), rulebookId: res.body.rulebooks[0].id, versionNumber: 1, status: 'published', edition: '2027', effectiveDate: '2027-01-01', publishedAt: isoTime, ...summary(cage) }],
+          versions: [{ id: await versionIdOf(cageFile), rulebookId: res.body.rulebooks[0].id, versionNumber: 1, status: 'published', edition: '2027', effectiveDate: '2026-11-01', publishedAt: isoTime, ...summary(cage) }],
         },
         {
           ...book(hillFile, 'Tarnwick Vale MC Hillclimb Cage Schedule'),
-          versions: [{ id: await versionIdOf(hillFile), rulebookId: res.body.rulebooks[1].id, versionNumber: 1, status: 'published', edition: '2027', effectiveDate: '2027-03-01', publishedAt: isoTime, ...summary(hill) }],
+          versions: [{ id: await versionIdOf(hillFile), rulebookId: res.body.rulebooks[1].id, versionNumber: 1, status: 'published', edition: '2027', effectiveDate: '2026-11-15', publishedAt: isoTime, ...summary(hill) }],
         },
       ],
     });
@@ -172,7 +172,7 @@ describe('GET /api/ruleset-versions/:versionId', () => {
     const res = await agent.get(`/api/ruleset-versions/${id}`).expect(200);
     const document = await fileDocument(hillFile);
     expect(res.body.version).toMatchObject({
-      id, versionNumber: 1, status: 'published', edition: '2027', effectiveDate: '2027-03-01', lockVersion: 1,
+      id, versionNumber: 1, status: 'published', edition: '2027', effectiveDate: '2026-11-15', lockVersion: 1,
       rulebook: { clubId, slug: hillFile, title: 'Tarnwick Vale MC Hillclimb Cage Schedule', publisher: 'Tarnwick Vale Motor Club' },
       classes: [{ id: 'hill-saloon', name: document.classes[0]!.name, weightBasis: document.classes[0]!.weightBasis }],
       requirementCount: document.requirements.length,

@@ -178,4 +178,64 @@ describe('the tube chooser for a sheet', () => {
     expect(mh.lightest.material).toBe('mild_steel');
     await who.builder.agent.get('/api/build-sheets/00000000-0000-4000-8000-000000000000/tube-choice').expect(404);
   });
+
+  describe('putting a chosen size on the sheet', () => {
+    const apply = (as: SignedIn, sheetId: string, body: Record<string, unknown>) => send(as, 'post', `/api/build-sheets/${sheetId}/tube-choice/apply`).send(body);
+    const sheetOf = async (sheetId: string) => (await who.builder.agent.get(`/api/build-sheets/${sheetId}`).expect(200)).body;
+
+    it('saves the lightest legal size as the next revision, and undo restores the tubes as a newer one', async () => {
+      const { sheetId } = await carWithSheet(who.builder, fx, heavyHoopSpec());
+      const choice = (await who.builder.agent.get(`/api/build-sheets/${sheetId}/tube-choice`).expect(200)).body;
+      expect(choice.canApply).toBe(true);
+      const mh = choice.members.find((m: { memberId: string }) => m.memberId === 'mh');
+      const res = await apply(who.builder, sheetId, { baseRevision: 1, memberId: 'mh', stockId: mh.lightest.stockId }).expect(200);
+      expect(res.body).toMatchObject({ revision: 2, previousRevision: 1, changes: [{ memberId: 'mh', memberName: 'main hoop', to: { label: '1.75 × 0.095 in DOM 1020', material: 'mild_steel', process: 'dom' } }] });
+      expect(res.body.changes[0].from.wallMm).toBeCloseTo(0.12 * IN, 9);
+      const after = await sheetOf(sheetId);
+      expect(after.revision.number).toBe(2);
+      const hoop = after.revision.specification.members.find((m: { id: string }) => m.id === 'mh');
+      expect(hoop.wallMm).toBeCloseTo(0.095 * IN, 9);
+      // Only the tube changed: its bends and length are kept.
+      expect(hoop.bends).toEqual([{ clrMm: 6 * IN, minOdMm: 43.9, maxOdMm: 44.6 }]);
+      // The chooser now reads revision 2, where the hoop is already the lightest.
+      const again = (await who.builder.agent.get(`/api/build-sheets/${sheetId}/tube-choice`).expect(200)).body;
+      expect(again.revision).toBe(2);
+      expect(again.members.find((m: { memberId: string }) => m.memberId === 'mh').savingPerMetreKg).toBeCloseTo(0, 9);
+      // Undo: revision 1 restored as revision 3.
+      const undo = await send(who.builder, 'post', `/api/build-sheets/${sheetId}/revisions/1/restore`).send({ baseRevision: 2 }).expect(200);
+      expect(undo.body.revision.number).toBe(3);
+      expect(undo.body.revision.specification.members.find((m: { id: string }) => m.id === 'mh').wallMm).toBeCloseTo(0.12 * IN, 9);
+      expect((await who.builder.agent.get(`/api/build-sheets/${sheetId}/revisions`).expect(200)).body.revisions.map((r: { number: number }) => r.number)).toEqual([3, 2, 1]);
+    });
+
+    it('refuses a stale revision, a size that is not legal, an unknown member and bad input, and changes nothing', async () => {
+      const { sheetId } = await carWithSheet(who.builder, fx, heavyHoopSpec());
+      const club = (await who.builder.agent.get(base())).body.tubes as { id: string; label: string; odMm: number; wallMm: number; material: string }[];
+      const legal = (await who.builder.agent.get(`/api/build-sheets/${sheetId}/tube-choice`)).body.members.find((m: { memberId: string }) => m.memberId === 'mh').lightest.stockId;
+      const stale = await apply(who.builder, sheetId, { baseRevision: 7, memberId: 'mh', stockId: legal }).expect(409);
+      expect(stale.body.error).toMatchObject({ code: 'conflict', details: { currentRevision: 1 } });
+      // A 4130 size: not in the hoop's material, and 4130 is not allowed in this class either.
+      const alloy = club.find((t) => t.material === 'chromoly_4130')!;
+      const illegal = await apply(who.builder, sheetId, { baseRevision: 1, memberId: 'mh', stockId: alloy.id }).expect(400);
+      expect(illegal.body.error.details).toEqual([{ path: 'stockId', message: expect.stringMatching(/^That size is not legal for main hoop under .* in its material\.$/) }]);
+      const nobody = await apply(who.builder, sheetId, { baseRevision: 1, memberId: 'zz', stockId: legal }).expect(400);
+      expect(nobody.body.error.details[0].path).toBe('memberId');
+      const bad = await apply(who.builder, sheetId, { baseRevision: 0, memberId: 'mh', stockId: 'nope', extra: 1 }).expect(400);
+      expect(bad.body.error.details.map((d: { path: string }) => d.path).sort()).toEqual(['', 'baseRevision', 'stockId']);
+      expect((await sheetOf(sheetId)).revision.number).toBe(1);
+    });
+
+    it('is the builder’s alone: a steward may read the choice but not apply it; others do not find the sheet', async () => {
+      const { sheetId } = await carWithSheet(who.builder, fx, heavyHoopSpec());
+      const read = (await who.steward.agent.get(`/api/build-sheets/${sheetId}/tube-choice`).expect(200)).body;
+      expect(read.canApply).toBe(false);
+      const stockId = read.members.find((m: { memberId: string }) => m.memberId === 'mh').lightest.stockId;
+      await apply(who.steward, sheetId, { baseRevision: 1, memberId: 'mh', stockId }).expect(403);
+      await apply(who.otherBuilder, sheetId, { baseRevision: 1, memberId: 'mh', stockId }).expect(404);
+      await send(who.steward, 'post', `/api/build-sheets/${sheetId}/revisions/1/restore`).send({ baseRevision: 1 }).expect(403);
+      await send(who.builder, 'post', `/api/build-sheets/${sheetId}/revisions/9/restore`).send({ baseRevision: 1 }).expect(404);
+      await send(who.builder, 'post', `/api/build-sheets/${sheetId}/revisions/1/restore`).send({ baseRevision: 5 }).expect(409);
+      expect((await sheetOf(sheetId)).revision.number).toBe(1);
+    });
+  });
 });

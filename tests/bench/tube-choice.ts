@@ -2,11 +2,14 @@
 // bench ruleset, for one member (the main hoop, which has the most tube-dependent requirements) and
 // for the whole 15-member bench sheet. Baseline from the same run: one full engine check of the sheet
 // (evaluateSpecification), and what an engine run per stock size would cost for the one member.
+// Also the whole sheet when a rule compares members (rear braces equal to the hoop), which tries the
+// hoop's sizes on the sheet with the braces changed to match.
 // Target: one member's choice ≤ 5 ms (issue 11). Run: npx tsx --tsconfig tsconfig.json tests/bench/tube-choice.ts
 import { compileRuleset } from '../../backend/src/domain/rules/compile.js';
 import { evaluateSpecification } from '../../backend/src/domain/rules/evaluate.js';
 import { COMMON_STOCK } from '../../backend/src/domain/common-stock.js';
-import { chooseTubesForSheet, memberWithTube, rankStockForMember } from '../../backend/src/domain/tube-choice.js';
+import { memberWithTube, rankStockForMember } from '../../backend/src/domain/tube-choice.js';
+import { chooseTubesForSheet } from '../../backend/src/domain/tube-choice-sheet.js';
 import type { StockTube } from '../../backend/src/domain/tube-choice.js';
 import { buildBenchRuleset, buildBenchSpecification } from './fixtures.js';
 
@@ -38,6 +41,8 @@ export interface TubeChoiceBenchResult {
   requirements: number;
   memberMs: number;
   sheetMs: number;
+  /** The whole sheet when a rule compares members (rear braces equal to the hoop), so the hoop's sizes are tried on the sheet. */
+  sheetMatchedMs: number;
   members: number;
   engineCheckMs: number;
   enginePerSizeMs: number;
@@ -63,15 +68,20 @@ export async function runTubeChoiceBench(options: { log?: boolean } = {}): Promi
   const memberMs = await medianMs(one, 60);
   for (let i = 0; i < 20; i++) chooseTubesForSheet(compiled, spec, stock); // warm-up
   const sheetMs = await medianMs(() => chooseTubesForSheet(compiled, spec, stock), 30);
+  // The same ruleset and a rule comparing members: the rear braces the same OD and wall as the main hoop (F-NHRA-G1).
+  const matchedDoc = { ...document, requirements: [...document.requirements, { id: 'brace-match', title: 'Braces as the hoop', section: 'B41', severity: 'mandatory', area: 'tubes', scope: { kind: 'member', memberKinds: ['rear_brace'] }, requires: { template: 'member_match', of: ['main_hoop'], checks: [{ measure: 'od', operator: 'equals' }, { measure: 'wall', operator: 'equals' }] }, explanation: 'bench' }] } as typeof document;
+  const matched = compileRuleset(matchedDoc);
+  for (let i = 0; i < 5; i++) chooseTubesForSheet(matched, spec, stock); // warm-up
+  const sheetMatchedMs = await medianMs(() => chooseTubesForSheet(matched, spec, stock), 15);
   const engineCheckMs = await medianMs(() => evaluateSpecification(compiled, 'bench', spec), 40);
   // The approach the plain reading replaces: one engine check per stock size (20 sizes timed, per size).
   const sizes = stock.slice(0, 20);
   const enginePerSizeMs = (await medianMs(async () => {
     for (const t of sizes) await evaluateSpecification(compiled, 'bench', { ...spec, members: spec.members.map((m, i) => (i === hoop ? memberWithTube(m, t) : m)) });
   }, 5)) / sizes.length;
-  const result = { stockSizes: stock.length, requirements: document.requirements.length, memberMs, sheetMs, members: spec.members.length, engineCheckMs, enginePerSizeMs };
+  const result = { stockSizes: stock.length, requirements: document.requirements.length, memberMs, sheetMs, sheetMatchedMs, members: spec.members.length, engineCheckMs, enginePerSizeMs };
   if (options.log)
-    console.log(`tube chooser: ${stock.length} sizes, ${document.requirements.length} requirements; one member ${memberMs.toFixed(2)} ms, whole sheet (${spec.members.length} members) ${sheetMs.toFixed(1)} ms; one full engine check ${engineCheckMs.toFixed(2)} ms; engine per size ${enginePerSizeMs.toFixed(2)} ms (× 200 = ${(enginePerSizeMs * 200).toFixed(0)} ms)`);
+    console.log(`tube chooser: ${stock.length} sizes, ${document.requirements.length} requirements; one member ${memberMs.toFixed(2)} ms, whole sheet (${spec.members.length} members) ${sheetMs.toFixed(1)} ms (${(sheetMs / engineCheckMs).toFixed(2)}× one engine check), with braces matched to the hoop ${sheetMatchedMs.toFixed(1)} ms; one full engine check ${engineCheckMs.toFixed(2)} ms; engine per size ${enginePerSizeMs.toFixed(2)} ms (× 200 = ${(enginePerSizeMs * 200).toFixed(0)} ms)`);
   return result;
 }
 

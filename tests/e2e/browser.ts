@@ -29,11 +29,15 @@ export interface BrowserSession {
   close(): Promise<void>;
 }
 
-export async function openBrowser(viewport = { width: 1280, height: 800 }): Promise<BrowserSession> {
+/**
+ * A fresh Chromium profile at this viewport. `extraArgs` add switches for one journey, e.g.
+ * `--disable-3d-apis` to see what a browser without WebGL gets.
+ */
+export async function openBrowser(viewport = { width: 1280, height: 800 }, extraArgs: readonly string[] = []): Promise<BrowserSession> {
   const profileDir = mkdtempSync(join(tmpdir(), 'cagewright-e2e-'));
   const context = await chromium.launchPersistentContext(profileDir, {
     executablePath: process.env.CHROMIUM_PATH ?? '/usr/bin/chromium',
-    args: chromiumArgs,
+    args: [...chromiumArgs, ...extraArgs],
     viewport,
   });
   const page = context.pages()[0] ?? (await context.newPage());
@@ -53,7 +57,8 @@ export async function openBrowser(viewport = { width: 1280, height: 800 }): Prom
 /**
  * Saves a full-page PNG as .artifacts/screens/<name>.png and returns its path. Waits (up to 2 s) for
  * finite animations to end first, so a message that slides in is pictured whole; spinners run forever
- * and are not waited for.
+ * and are not waited for. Parts the browser skips drawing until they are scrolled to
+ * (content-visibility: auto on long lists) are drawn for the shot, as a person scrolling down sees them.
  */
 export async function screenshot(page: Page, name: string): Promise<string> {
   await page
@@ -61,7 +66,12 @@ export async function screenshot(page: Page, name: string): Promise<string> {
     .catch(() => undefined);
   mkdirSync(screensDir, { recursive: true });
   const path = join(screensDir, `${name}.png`);
-  await page.screenshot({ path, fullPage: true });
+  const all = await page.addStyleTag({ content: '* { content-visibility: visible !important; }' });
+  try {
+    await page.screenshot({ path, fullPage: true });
+  } finally {
+    await all.evaluate((el) => (el as Element).remove());
+  }
   return path;
 }
 

@@ -39,7 +39,8 @@ export const dryRunBodySchema = z
   });
 export type DryRunBody = z.infer<typeof dryRunBodySchema>;
 
-export const rulesetStatusSchema = z.enum(['draft', 'published', 'superseded', 'retired']);
+/** 'published' is the edition in force; 'scheduled' was published ahead of its effective date. */
+export const rulesetStatusSchema = z.enum(['draft', 'scheduled', 'published', 'superseded', 'retired']);
 export type RulesetStatusWire = z.infer<typeof rulesetStatusSchema>;
 
 export interface RulesetClassWire {

@@ -1,5 +1,6 @@
-// Wire contracts for a club's members (docs/api.md, "Clubs and members").
+// Wire contracts for a club's members and settings (docs/api.md, "Clubs and members").
 import { z } from 'zod';
+import { isTimeZone } from '../domain/dates';
 import { emailSchema, rolesSchema, uuidSchema, type ClubRoleWire } from './common';
 
 export const clubParamsSchema = z.object({ clubId: uuidSchema });
@@ -28,4 +29,23 @@ export interface AddMemberWire {
   invitationUrl?: string;
   /** True when the invitation was also queued as an e-mail to the person (the outbox sends it). */
   invitationMailed?: boolean;
+}
+
+// ---------------------------------------------------------------- club settings
+
+/** The zone the club's dates are read in: an IANA name Intl knows ("Europe/London", "UTC"). */
+export const clubSettingsBodySchema = z
+  .object({
+    timeZone: z
+      .string('Must be a time zone name')
+      .trim()
+      .refine(isTimeZone, 'Not a time zone name this server knows; choose one from the list (for example Europe/London or UTC)'),
+  })
+  .strict();
+export type ClubSettingsBody = z.infer<typeof clubSettingsBodySchema>;
+
+export interface ClubSettingsWire {
+  timeZone: string;
+  /** The club's calendar date now, YYYY-MM-DD, in its time zone. */
+  today: string;
 }

@@ -3,6 +3,7 @@
 // the standalone bend schedule, the hoop leg trim and the buying list. Canonical units (mm, deg, kg).
 // The domain's own checks run inside the schemas, so every refusal is a 400 at its field.
 import { z } from 'zod';
+import { uuidSchema } from './common.js';
 import { copeProblems } from '../domain/fabrication/cope.js';
 import { springbackProblems } from '../domain/fabrication/bends.js';
 import { legTrimProblems } from '../domain/fabrication/leg-trim.js';
@@ -88,3 +89,17 @@ export const legTrimBodySchema = z
     for (const p of legTrimProblems(v)) ctx.addIssue({ code: 'custom', path: p.path.split('.').map((s) => (/^\d+$/.test(s) ? Number(s) : s)), message: p.message });
   });
 export type LegTrimBody = z.infer<typeof legTrimBodySchema>;
+
+/**
+ * A hoop's legs as measured, kept with the sheet (PUT /build-sheets/:sheetId/fabrication/legs/:memberId):
+ * the uncut legs (left first), the pad heights above one datum, the lean and optionally the top's
+ * height. Checked against the member's OD with the leg trim's own rules by the service.
+ */
+export const hoopLegsBodySchema = z
+  .object({ legs: z.tuple([legSchema, legSchema]), leanDeg: finite(), topHeightMm: finite().optional() })
+  .strict();
+export type HoopLegsBody = z.infer<typeof hoopLegsBodySchema>;
+export const hoopLegsParamsSchema = z.object({
+  sheetId: uuidSchema,
+  memberId: z.string().trim().min(1, 'Required').max(60, 'At most 60 characters'),
+});

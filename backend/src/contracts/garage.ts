@@ -55,6 +55,32 @@ export type ListQuery = z.infer<typeof listQuerySchema>;
 
 export type SheetVerdict = 'pass' | 'fail' | 'needs_information';
 
+/**
+ * Where a sheet stands with the club's stewards: its latest submission (sent, being reviewed, changes
+ * asked, approved, rejected, withdrawn) and the newest cage record issued for it, with its status now.
+ */
+export interface SheetReviewWire {
+  submissionId: string;
+  state: 'pending' | 'in_review' | 'approved' | 'changes_requested' | 'rejected' | 'withdrawn';
+  /** The revision that was submitted. */
+  revisionNumber: number | null;
+  /** The verdict with the steward's waivers counted, and how many findings were waived. */
+  verdict: 'pass' | 'pass_with_waivers' | 'fail' | 'needs_information';
+  waivedCount: number;
+  sentAt: string;
+  decidedAt: string | null;
+  record: {
+    id: string;
+    number: string;
+    status: 'valid' | 'expired' | 'superseded' | 'revoked';
+    expiresAt: string;
+    submissionId: string;
+    waivedCount: number;
+    /** The revision the approved check ran on. */
+    revisionNumber: number | null;
+  } | null;
+}
+
 export interface SheetSummaryWire {
   id: string;
   name: string;
@@ -67,6 +93,8 @@ export interface SheetSummaryWire {
   /** The revision the latest check ran on; when below currentRevision the verdict is out of date. */
   latestCheckedRevision: number | null;
   updatedAt: string;
+  /** Null until the sheet is first submitted for review. */
+  review: SheetReviewWire | null;
 }
 
 export interface CarWire {
@@ -115,6 +143,9 @@ export type SaveRevisionBody = z.infer<typeof saveRevisionBodySchema>;
 export { specificationSchema };
 
 export const revisionParamsSchema = z.object({ sheetId: uuidSchema, number: z.coerce.number('Must be a revision number').int('Must be a revision number').min(1, 'Must be a revision number') });
+/** Restore an earlier revision as the next one; `baseRevision` is the latest the caller has seen. */
+export const restoreRevisionBodySchema = z.object({ baseRevision: z.number('Must be a revision number').int('Must be a revision number').min(1, 'Must be a revision number') }).strict();
+
 export const diffParamsSchema = z.object({
   sheetId: uuidSchema,
   from: z.coerce.number('Must be a revision number').int('Must be a revision number').min(1, 'Must be a revision number'),
@@ -140,12 +171,15 @@ export interface CutListRowWire {
   material: string;
   /** Members of this size, in specification order. */
   memberIds: string[];
+  /** The same members by the builder's names (what a person reads). */
+  memberNames: string[];
   /** Summed lengths of the members that have one. */
   totalLengthMm: number;
   massKg: number;
   massPerMetreKg: number;
   /** Members of this size without a length (not in the totals). */
   membersWithoutLength: string[];
+  namesWithoutLength: string[];
 }
 
 export interface TubeDataWire {
@@ -154,6 +188,8 @@ export interface TubeDataWire {
   estimatedTubeMassKg: number;
   massComplete: boolean;
   membersWithoutLength: string[];
+  /** The same members by the builder's names. */
+  namesWithoutLength: string[];
 }
 
 export type SheetAccess = 'owner' | 'reviewer';
@@ -183,6 +219,58 @@ export interface BuildSheetDetailWire {
   tubeData: TubeDataWire;
   /** What the caller may do: the owner edits; a club steward or admin reads. */
   access: SheetAccess;
+}
+
+// ---------------------------------------------------------------- editions of a sheet's rulebook
+
+/** Moves a sheet to a newer edition as a new revision; `baseRevision` is the revision on screen. */
+export const moveEditionBodySchema = z
+  .object({
+    baseRevision: z.number('Must be a revision number').int().min(1),
+    rulesetVersionId: uuidSchema,
+  })
+  .strict();
+export type MoveEditionBody = z.infer<typeof moveEditionBodySchema>;
+
+export interface SheetEditionRefWire {
+  versionId: string;
+  versionNumber: number;
+  edition: string;
+  status: 'draft' | 'scheduled' | 'published' | 'superseded' | 'retired';
+  /** YYYY-MM-DD, the club's calendar date. */
+  effectiveDate: string;
+}
+
+/** A finding the newer edition gives that the sheet's own edition does not. */
+export interface EditionFindingWire {
+  requirementId: string;
+  title: string;
+  section: string;
+  /** "main hoop mh", "plate p1", "whole car" */
+  subject: string;
+  verdict: 'fail' | 'needs_information';
+}
+
+/** `GET /api/build-sheets/:sheetId/editions`: the sheet's edition and the newest one of its rulebook. */
+export interface SheetEditionsWire {
+  pinned: SheetEditionRefWire;
+  /** The edition in force now, when it is neither the pinned one nor the newest. */
+  inForce: SheetEditionRefWire | null;
+  /** The newest published or scheduled edition, when it is newer than the pinned one. */
+  newer:
+    | (SheetEditionRefWire & {
+        /** The sheet's latest revision under its own edition and under the newer one (null: no such class there). */
+        verdictNow: SheetVerdict;
+        verdictUnder: SheetVerdict | null;
+        classExists: boolean;
+        className: string;
+        /** What changed for the sheet's class, in the reader's units. */
+        changes: string[];
+        /** Findings that fail or lack a measurement only under the newer edition. */
+        newFindings: EditionFindingWire[];
+      })
+    | null;
+  rulebookTitle: string;
 }
 
 // ---------------------------------------------------------------- revision diff

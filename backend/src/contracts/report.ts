@@ -4,7 +4,7 @@
 import { z } from 'zod';
 import { DIMENSIONS } from '../domain/units.js';
 import { MEMBER_KINDS, PLATE_LOCATIONS } from '../domain/vocabulary.js';
-import { AREAS } from './ruleset.js';
+import { AREAS, STRENGTH_MEASURES } from './ruleset.js';
 import type { ReasonSegment } from '../domain/rules/reason-text.js';
 import { cageGeometrySchema } from './geometry.js';
 
@@ -47,6 +47,21 @@ export const reasonSegmentSchema = z.union([
 
 export const missingFactSchema = z.object({ fact: z.string(), label: z.string(), dimension });
 
+/**
+ * A tube table's judgement of the member's tube against a listed size by strength (docs/rulesets.md,
+ * "Equivalence by strength"): canonical inputs, so a reader sees every step in their own units
+ * (domain/strength-equivalence.ts). `accepted`: the rulebook accepts equivalents, so it counted;
+ * otherwise it is advice only.
+ */
+export const strengthEquivalenceSchema = z.object({
+  measure: z.enum(STRENGTH_MEASURES),
+  accepted: z.boolean(),
+  listed: z.object({ label: z.string(), odMm: z.number(), wallMm: z.number(), yieldMpa: z.number().optional() }),
+  candidate: z.object({ odMm: z.number(), wallMm: z.number(), yieldMpa: z.number().optional() }),
+  minWallMm: z.number().optional(),
+  equivalent: z.union([z.boolean(), z.literal('unknown')]),
+});
+
 export const findingSchema = z.object({
   requirementId: z.string(),
   title: z.string(),
@@ -70,6 +85,8 @@ export const findingSchema = z.object({
   explanation: z.string(),
   /** Set when the rulebook accepts the sheet's maker's certificate in place of this rule (not checked). */
   acceptedOnCertificate: z.object({ number: z.string(), issuer: z.string().optional() }).optional(),
+  /** A tube table's equivalence by strength: how the tube passed, or advice where the rulebook does not accept it. */
+  strengthEquivalence: strengthEquivalenceSchema.optional(),
 });
 
 export const memberTubeDataSchema = z.object({
@@ -87,6 +104,8 @@ export const memberTubeDataSchema = z.object({
   lengthMm: z.number().nullable(),
   massKg: z.number().nullable(),
   densityAssumed: z.boolean(),
+  /** The builder's name for the member; absent on runs stored before names were carried. */
+  name: z.string().optional(),
 });
 
 export const checkReportSchema = z.object({
@@ -100,8 +119,11 @@ export const checkReportSchema = z.object({
     advisoryFail: z.number().int(),
   }),
   findings: z.array(findingSchema),
-  /** What to measure next: missing facts of mandatory findings, with the members they concern. */
-  measureNext: z.array(missingFactSchema.extend({ memberIds: z.array(z.string()), requirementIds: z.array(z.string()) })),
+  /**
+   * What to measure next: missing facts of mandatory findings, with the members they concern (ids, and
+   * the builder's names in the same order; runs stored before names were carried have no names).
+   */
+  measureNext: z.array(missingFactSchema.extend({ memberIds: z.array(z.string()), memberNames: z.array(z.string()).optional(), requirementIds: z.array(z.string()) })),
   tubes: z.object({
     members: z.array(memberTubeDataSchema),
     /** Sum of the members with a length; complete only when every member has one. */
@@ -111,6 +133,8 @@ export const checkReportSchema = z.object({
   }),
   policy: z.object({
     acceptPrintedEquivalents: z.boolean(),
+    /** Equivalence by strength: accepted, or advice only; by which measure. Absent on runs stored before it existed. */
+    strengthEquivalents: z.object({ accept: z.boolean(), measure: z.enum(STRENGTH_MEASURES) }).optional(),
     /** Canonical units per dimension. */
     measurementTolerance: z.record(z.string(), z.number()),
   }),
@@ -123,6 +147,7 @@ export type MeasuredValue = z.infer<typeof measuredValueSchema>;
 export type RequiredValue = z.infer<typeof requiredValueSchema>;
 export type MissingFact = z.infer<typeof missingFactSchema>;
 export type Finding = z.infer<typeof findingSchema>;
+export type FindingStrengthEquivalence = z.infer<typeof strengthEquivalenceSchema>;
 export type CheckReport = z.infer<typeof checkReportSchema>;
 
 export const PRE_CHECK_DISCLAIMER =

@@ -93,15 +93,22 @@ export interface QueueItemWire {
   builder: PersonWire;
   classId: string;
   className: string;
+  /** The check run's own verdict, before any waiver. */
   verdict: CheckReport['verdict'];
+  /** The verdict with the steward's waivers counted, and how many findings are waived. */
+  reviewVerdict: 'pass' | 'pass_with_waivers' | 'fail' | 'needs_information';
+  waivedCount: number;
   assignedSteward: PersonWire | null;
   isResubmission: boolean;
+  /** Set when the builder answered a request for changes with a resubmission (then it is not open). */
+  resubmittedAsId: string | null;
   createdAt: string;
   updatedAt: string;
 }
 
 export interface QueueWire {
   items: QueueItemWire[];
+  /** Per state; `changes_requested` leaves out the requests answered by a resubmission. */
   counts: Record<SubmissionStateWire, number>;
   classes: { id: string; name: string }[];
 }
@@ -147,6 +154,9 @@ export interface CageRecordWire {
 export interface HistoryItemWire {
   id: string;
   state: SubmissionStateWire;
+  /** Findings the steward waived (an approval reads "Approved with N waivers"). */
+  waivedCount: number;
+  resubmittedAsId: string | null;
   createdAt: string;
   decidedAt: string | null;
   decisionNote: string | null;
@@ -207,6 +217,8 @@ export interface MySubmissionWire {
   id: string;
   state: SubmissionStateWire;
   version: number;
+  /** Findings the steward waived (an approval reads "Approved with N waivers"). */
+  waivedCount: number;
   checkRunId: string;
   createdAt: string;
   decisionNote: string | null;

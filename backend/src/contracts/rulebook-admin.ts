@@ -111,4 +111,7 @@ export interface PublishedWire {
   versionId: string;
   jobId: string | null;
   classIds: string[];
+  /** In force at once ('published'), or 'scheduled' until its effective date in the club's time zone. */
+  status: 'published' | 'scheduled';
+  effectiveDate: string;
 }

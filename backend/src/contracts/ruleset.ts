@@ -58,6 +58,27 @@ export const printedEquivalentSchema = z.object({
   note: longText.optional(),
 });
 
+export const STRENGTH_MEASURES = ['section_modulus', 'bending_strength'] as const;
+export type StrengthMeasure = (typeof STRENGTH_MEASURES)[number];
+
+/**
+ * Equivalence by strength (docs/rulesets.md, "Tolerance and equivalence policy"): whether a tube that
+ * is not a listed size passes a tube table when it is at least as strong as a listed size of its row,
+ * and by which measure. Distinct from `acceptPrintedEquivalents`, which is about the rulebook's own
+ * printed unit conversions. Omitted: not accepted, and a check only says so as advice.
+ */
+export const strengthEquivalentsSchema = z.object({
+  /** true: an equivalent tube passes; false: the check says it would be equivalent, as advice only. */
+  accept: z.boolean(),
+  /** section_modulus: Z ≥ the listed size's Z; bending_strength: yield × Z ≥ listedYield × listed Z. */
+  measure: z.enum(STRENGTH_MEASURES),
+  /** The yield the listed sizes are taken at (e.g. the rulebook's minimum); needed by bending_strength. */
+  listedYield: z.object({ value: positive, unit: unitName.optional() }).strict().optional(),
+  /** The thinnest wall an equivalent may have, in the document's length unit or `unit`. */
+  minWall: z.object({ value: positive, unit: unitName.optional() }).strict().optional(),
+}).strict();
+export type StrengthEquivalents = z.infer<typeof strengthEquivalentsSchema>;
+
 export const tubeAlternativeSchema = tubeSizeSchema.extend({ label: shortText.optional() });
 
 export const tubeRowSchema = z.object({
@@ -250,6 +271,7 @@ export const rulesetDocumentSchema = z.object({
   measurementTolerance: measurementToleranceSchema.default({}),
   acceptPrintedEquivalents: z.boolean().default(false),
   printedEquivalents: z.array(printedEquivalentSchema).max(L.equivalents).default([]),
+  strengthEquivalents: strengthEquivalentsSchema.optional(),
   classes: z.array(classSchema).min(1, 'Define at least one class').max(L.classes),
   requirements: z.array(requirementSchema).min(1, 'Define at least one requirement').max(L.requirements, `At most ${L.requirements} requirements`),
 });

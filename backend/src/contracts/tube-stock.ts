@@ -73,6 +73,28 @@ export const tubeChoiceQuerySchema = z.object({
   anyMaterial: z.enum(['true', 'false'], 'Must be true or false').optional().transform((v) => v === 'true'),
 });
 
+export interface RequirementRefWire {
+  requirementId: string;
+  title: string;
+  section: string;
+}
+
+/** Another member changed with the choice so the sheet stays legal (a rule compares them). */
+export interface CompanionWire {
+  memberId: string;
+  memberName: string;
+  /** The rule it would fail with its own tube beside the new one. */
+  because: RequirementRefWire;
+  candidate: CandidateWire;
+}
+
+/** A member the choice would leave failing, with no stock size to put it right. */
+export interface LeftFailingWire {
+  memberId: string;
+  memberName: string;
+  requirement: RequirementRefWire;
+}
+
 export interface CandidateWire {
   /** The stock row; null for the sheet's current tube. */
   stockId: string | null;
@@ -95,12 +117,18 @@ export interface CandidateWire {
   missing: { fact: string; label: string; requirementIds: string[] }[];
   /** Wall readings on the sheet are taken to read this tube's catalogue wall. */
   assumesCatalogueWall: boolean;
+  /** Members to change with it so the sheet stays legal (empty for most). */
+  together: CompanionWire[];
+  /** Members it would leave failing: such a size is never the lightest, and cannot be put on the sheet. */
+  leavesFailing: LeftFailingWire[];
 }
 
 export interface MemberTubeChoiceWire {
   memberId: string;
   memberKind: (typeof MEMBER_KINDS)[number];
   label: string | null;
+  /** The builder's name for the member (label, else the kind's words): what the page shows. */
+  name: string;
   lengthMm: number | null;
   current: CandidateWire;
   lightest: CandidateWire | null;
@@ -111,6 +139,8 @@ export interface MemberTubeChoiceWire {
   legalCount: number;
   savingPerMetreKg: number | null;
   savingKg: number | null;
+  /** With the companions of the lightest changed too, when every length involved is known. */
+  savingTogetherKg: number | null;
 }
 
 export interface TubeChoiceWire {
@@ -125,7 +155,35 @@ export interface TubeChoiceWire {
   members: MemberTubeChoiceWire[];
   /** Requirements the choice was judged against (tube-dependent ones for the sheet's class). */
   requirementsJudged: number;
+  /** The caller may put a chosen size on the sheet (its builder, on a sheet that is not archived). */
+  canApply: boolean;
   caution: string;
+}
+
+/** Put a stock size on a member (with the companions the choice needs) as the sheet's next revision. */
+export const tubeChoiceApplySchema = z.object({
+  /** The revision the chooser was read from; a sheet saved since is refused (409). */
+  baseRevision: z.number('Must be a revision number').int('Must be a revision number').min(1, 'Must be a revision number'),
+  memberId: z.string('Must be text').trim().min(1, 'Required').max(60, 'At most 60 characters'),
+  stockId: uuidSchema,
+  /** As the chooser was read: stock of any material may stand in for the companions. */
+  anyMaterial: z.boolean('Must be true or false').default(false),
+}).strict();
+export type TubeChoiceApplyBody = z.infer<typeof tubeChoiceApplySchema>;
+export type TubeChoiceApplyInput = z.input<typeof tubeChoiceApplySchema>;
+
+export interface TubeChangeWire {
+  memberId: string;
+  memberName: string;
+  from: { odMm: number; wallMm: number; material: (typeof MATERIALS)[number] | null; process: (typeof PROCESSES)[number] | null };
+  to: { odMm: number; wallMm: number; material: (typeof MATERIALS)[number]; process: (typeof PROCESSES)[number]; label: string };
+}
+
+export interface TubeChoiceAppliedWire {
+  /** The revision saved with the new tubes, and the one it was made from (to undo to). */
+  revision: number;
+  previousRevision: number;
+  changes: TubeChangeWire[];
 }
 
 export const FABRICATION_CAUTION =

@@ -3,7 +3,8 @@ import type { ClubRole } from '../entities';
 
 export const demoPassword = 'cagewright-demo';
 
-export const demoClub = { slug: 'tarnwick-vale', name: 'Tarnwick Vale Motor Club' } as const;
+// The club's dates (editions taking effect) are read at midnight in its time zone.
+export const demoClub = { slug: 'tarnwick-vale', name: 'Tarnwick Vale Motor Club', timeZone: 'Europe/London' } as const;
 
 export const demoPeople: { email: string; displayName: string; roles: ClubRole[] }[] = [
   { email: 'builder@tarnwick.example', displayName: 'Robin Ashcombe', roles: ['builder'] },

@@ -7,8 +7,7 @@ import type { Specification } from '../contracts/specification';
 import { compileRuleset, validateRulesetDocument } from '../domain';
 import { startingShape } from '../domain/geometry/starting-shapes';
 import type { SizeFor, StartingChoices, StartingDimensions } from '../domain/geometry/starting-shapes';
-import { listedSizesForBand } from '../domain/tube-choice';
-import type { CompiledRuleset } from '../domain/rules/types';
+import { startingSizes } from '../domain/tube-choice';
 import { Car, Rulebook, RulesetVersion } from '../entities';
 import { createBuildSheetService } from '../services/build-sheets.service';
 import { createGarageService } from '../services/garage.service';
@@ -26,15 +25,6 @@ export const DEMO_DIMENSIONS: StartingDimensions = {
   hoopWidthAtFeetMm: 1240, hoopWidthAtTopMm: 1060, hoopHeightMm: 1140, hoopLeanDeg: 6,
   frontHoopForwardMm: 1350, backstayLandingBehindMm: 950, backstayLandingHeightMm: 320, doorBarHeightMm: 460, harnessBarHeightMm: 640,
 };
-
-/** The lightest size the class's band lists for a kind, in mild steel; 45 × 2.5 mm when none is listed. */
-export function lightestListedSize(compiled: CompiledRuleset, classId: string, weightKg: number): SizeFor {
-  return (kind) => {
-    const listed = listedSizesForBand(compiled, { classId, memberKind: kind, weightKg, material: 'mild_steel' });
-    const first = listed.status === 'listed' ? listed.sizes[0] : undefined;
-    return first ? { odMm: first.odMm, wallMm: first.wallMm } : { odMm: 45, wallMm: 2.5 };
-  };
-}
 
 export function demoSpecification(sizeFor: SizeFor): Specification {
   const r = startingShape(DEMO_CHOICES, DEMO_DIMENSIONS, sizeFor);
@@ -63,7 +53,8 @@ export const demoGarageStep: SeedStep = {
     if (!version) return;
     const v = validateRulesetDocument(version.document);
     if (!v.ok) throw new Error(`${RULEBOOK_SLUG} is not valid: ${JSON.stringify(v.problems)}`);
-    const spec = demoSpecification(lightestListedSize(compileRuleset(v.document), CLASS_ID, WEIGHT_WITHOUT_DRIVER_KG));
+    // The same sizes "Start from a shape" gives in the browser: the class's lightest listed sizes.
+    const spec = demoSpecification(startingSizes(compileRuleset(v.document), CLASS_ID, { weightWithoutDriverKg: WEIGHT_WITHOUT_DRIVER_KG }).sizeFor);
     const car = await createGarageService(ds).create(builder.id, { name: DEMO_CAR_NAME, chassisType: 'unibody', raceNumber: '27' });
     await createBuildSheetService(ds).create(car.id, builder.id, { name: DEMO_SHEET_NAME, clubId: ctx.club.id, rulesetVersionId: version.id, classId: CLASS_ID, specification: spec });
   },

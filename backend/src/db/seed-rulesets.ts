@@ -8,6 +8,8 @@ import type { DataSource, InsertResult, QueryDeepPartialEntity } from 'typeorm';
 import type { RulesetDocument } from '../contracts/ruleset';
 import { projectRoot } from '../config';
 import { validateRulesetDocument } from '../domain';
+import { calendarDateIn } from '../domain/dates';
+import { inForceOn } from '../domain/rulebook/lifecycle';
 import { Rulebook, RulesetVersion } from '../entities';
 import type { SeedContext, SeedStep } from './seed';
 import { demoPeople } from './seed-data';
@@ -62,7 +64,7 @@ export interface RulesetSeedSummary {
   versions: number;
 }
 
-/** Adds the demo rulebooks that are missing to the demo club (published version 1 each). */
+/** Adds the demo rulebooks that are missing to the demo club (version 1 each, in force or scheduled by its date). */
 export async function seedDemoRulesets(ds: DataSource, ctx: SeedContext, folder = demoRulesetsFolder): Promise<RulesetSeedSummary> {
   // Validate everything before writing anything, so a bad file leaves the database as it was.
   const rulesets = await loadDemoRulesets(folder);
@@ -83,13 +85,15 @@ export async function seedDemoRulesets(ds: DataSource, ctx: SeedContext, folder 
       const versions = tx.getRepository(RulesetVersion);
       if (await versions.existsBy({ rulebookId: book.id })) continue;
       const now = new Date();
+      // An edition dated after the club's today is scheduled, as publishing it would make it.
+      const status = inForceOn(document.rulebook.effectiveDate, calendarDateIn(now, ctx.club.timeZone)) ? 'published' : 'scheduled';
       const inserted = await versions
         .createQueryBuilder()
         .insert()
         .values({
           rulebookId: book.id,
           versionNumber: 1,
-          status: 'published',
+          status,
           edition: document.rulebook.edition,
           effectiveDate: document.rulebook.effectiveDate,
           document,

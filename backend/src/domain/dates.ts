@@ -33,3 +33,24 @@ export function formatIsoDate(date: string): string {
   const [y, m, d] = date.split('-').map(Number);
   return `${d} ${MONTHS[m - 1]} ${y}`;
 }
+
+/**
+ * The calendar date of an instant in an IANA time zone ("Europe/London"), YYYY-MM-DD: the club's
+ * "today". Intl does the zone arithmetic (summer time included); an unknown zone throws RangeError.
+ */
+export function calendarDateIn(instant: Date, timeZone: string): string {
+  const parts = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(instant);
+  const part = (type: string) => parts.find((p) => p.type === type)?.value ?? '';
+  return `${part('year')}-${part('month')}-${part('day')}`;
+}
+
+/** True for a time zone name Intl knows ("UTC", "Europe/London", "America/Chicago"). */
+export function isTimeZone(name: unknown): name is string {
+  if (typeof name !== 'string' || name.length === 0 || name.length > 64) return false;
+  try {
+    new Intl.DateTimeFormat('en-CA', { timeZone: name });
+    return true;
+  } catch {
+    return false;
+  }
+}

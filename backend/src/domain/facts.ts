@@ -111,6 +111,7 @@ const DEFS: Def[] = [
   num('member.areaMm2', 'member', 'area', 'cross-section area', 'A = π(D² − d²)/4.', true),
   num('member.secondMomentMm4', 'member', 'second_moment', 'second moment of area', 'I = π(D⁴ − d⁴)/64.', true),
   num('member.sectionModulusMm3', 'member', 'section_modulus', 'section modulus', 'Z = I/(D/2).', true),
+  num('member.bendingStrengthNmm', 'member', 'moment', 'bending strength (yield × Z)', 'Yield × section modulus: the moment at which the tube starts to yield in bending. The yield is `member.yieldMpa`, else the minimum of `member.grade`; unknown without either.', true),
   num('member.radiusOfGyrationMm', 'member', 'length', 'radius of gyration', 'r = √(I/A).', true),
   num('member.torsionalConstantMm4', 'member', 'second_moment', 'torsional constant', 'J = π(D⁴ − d⁴)/32.', true),
   num('member.massPerMetreKg', 'member', 'mass_per_length', 'mass per length', 'Mass per metre from area and density.', true),
@@ -207,10 +208,15 @@ export interface MemberTubeData {
   massKg: number | null;
   /** True when the density is assumed (material "other" or not stated). */
   densityAssumed: boolean;
+  /** The builder's name for the member (memberName): what a person reads, never the id. */
+  name?: string;
 }
 
-/** `modelLengthMm`: the developed length from the cage model, which is the member's when it has a path. */
-export function memberTubeData(m: SpecMember, index: number, modelLengthMm?: number): MemberTubeData {
+/**
+ * `modelLengthMm`: the developed length from the cage model, which is the member's when it has a path.
+ * `name`: the builder's name for the member, carried for every output that names it.
+ */
+export function memberTubeData(m: SpecMember, index: number, modelLengthMm?: number, name?: string): MemberTubeData {
   const material: Material = m.material ?? 'mild_steel';
   const p = tubeSectionProperties({ odMm: m.odMm, wallMm: m.wallMm }, material);
   const lengthMm = modelLengthMm ?? m.lengthMm;
@@ -220,6 +226,7 @@ export function memberTubeData(m: SpecMember, index: number, modelLengthMm?: num
     secondMomentMm4: p.secondMomentMm4, sectionModulusMm3: p.sectionModulusMm3, radiusOfGyrationMm: p.radiusOfGyrationMm,
     torsionalConstantMm4: p.torsionalConstantMm4, massPerMetreKg: p.massPerMetreKg, lengthMm: lengthMm ?? null, massKg,
     densityAssumed: m.material === undefined || m.material === 'other',
+    ...(name !== undefined ? { name } : {}),
   };
 }
 
@@ -288,6 +295,11 @@ export function memberSides(spec: Specification): (MemberSide | undefined)[] {
   return sides;
 }
 
+/** Yield × section modulus (MPa × mm³ = N·mm); unknown without a yield. */
+export function bendingStrengthNmm(yieldMpa: number | undefined, sectionModulusMm3: number): number | undefined {
+  return yieldMpa === undefined ? undefined : yieldMpa * sectionModulusMm3;
+}
+
 /** Member-scope facts of one member (vehicle facts are merged in by the evaluator). */
 export function memberFacts(spec: Specification, m: SpecMember, tube: MemberTubeData, side: MemberSide | undefined = m.side): FactSet {
   const readings = (m.wallReadings ?? []).map((r) => r.wallMm);
@@ -321,6 +333,7 @@ export function memberFacts(spec: Specification, m: SpecMember, tube: MemberTube
     'member.areaMm2': tube.areaMm2,
     'member.secondMomentMm4': tube.secondMomentMm4,
     'member.sectionModulusMm3': tube.sectionModulusMm3,
+    'member.bendingStrengthNmm': bendingStrengthNmm(m.yieldMpa ?? grade?.minYieldMpa, tube.sectionModulusMm3),
     'member.radiusOfGyrationMm': tube.radiusOfGyrationMm,
     'member.torsionalConstantMm4': tube.torsionalConstantMm4,
     'member.massPerMetreKg': tube.massPerMetreKg,
@@ -373,6 +386,8 @@ export function plateFacts(spec: Specification, p: SpecPlate): FactSet {
 export function absentFacts(facts: FactSet, name: string, params?: unknown): string[] {
   if (name === 'vehicle.memberCountOfKinds') return [];
   if (name === 'member.odMarginOverTableMinimumMm') return facts['member.odMm'] !== undefined ? [] : [name];
+  // What to measure is the yield, not the product.
+  if (name === 'member.bendingStrengthNmm') return facts[name] !== undefined ? [] : ['member.yieldMpa'];
   if (name === 'vehicle.memberCountOnSide') {
     const p = (params ?? {}) as { kinds?: unknown; side?: unknown };
     const kinds = Array.isArray(p.kinds) ? (p.kinds as string[]) : [];

@@ -75,10 +75,21 @@ const LOOKUP: ReadonlyMap<string, Grade> = (() => {
   return map;
 })();
 
+// Texts already looked up (the tube chooser asks for the same few grades hundreds of times a choice).
+const FOUND = new Map<string, Grade | null>();
+const FOUND_LIMIT = 5000;
+
 /** The grade a text names in a family, or undefined when it is not in the vocabulary. */
 export function findGrade(family: GradeFamily, text: string | undefined): Grade | undefined {
   if (typeof text !== 'string' || text.trim() === '') return undefined;
-  return LOOKUP.get(`${family}|${normaliseGradeName(text)}`);
+  const key = `${family}|${text}`;
+  let found = FOUND.get(key);
+  if (found === undefined) {
+    if (FOUND.size >= FOUND_LIMIT) FOUND.clear();
+    found = LOOKUP.get(`${family}|${normaliseGradeName(text)}`) ?? null;
+    FOUND.set(key, found);
+  }
+  return found ?? undefined;
 }
 
 /** Whether grade `g` meets "at least `floor`": both minimums at least the floor's. */

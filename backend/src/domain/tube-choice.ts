@@ -6,7 +6,10 @@
 // choice); it exists because an engine run per stock size would be far too slow for hundreds of sizes.
 // Pure: canonical units in and out (mm, kg/m).
 import type { Specification, SpecMember } from '../contracts/specification.js';
-import { WALL_METHOD_FACTS, memberFacts, memberTubeData, plateFacts, vehicleFacts } from './facts.js';
+import { WALL_METHOD_FACTS, bendingStrengthNmm, memberFacts, memberSides, memberTubeData, plateFacts, vehicleFacts } from './facts.js';
+import { deriveCageGeometry } from './geometry/derive.js';
+import type { CageGeometry } from './geometry/derive.js';
+import { memberReadings, modelLengths, vehicleReadings } from './model-facts.js';
 import type { FactSet } from './facts.js';
 import { chooseVariant, peerNamesOf } from './rules/evaluate.js';
 import { peerFacts } from './rules/references.js';
@@ -112,7 +115,8 @@ export function listedSizesForBand(compiled: CompiledRuleset, query: BandQuery):
   for (const { req, variant } of chosen) {
     for (const alt of partsOf(variant).requires.any ?? []) {
       const meta = alt.name ? req.alternatives[alt.name] : undefined;
-      if (!meta) continue;
+      // An equivalent by strength stands for a listed size; it is not a size of its own.
+      if (!meta || meta.source === 'strength_equivalent') continue;
       if (!restrictionFits(meta.materials, query.material) || !restrictionFits(meta.processes, query.process)) continue;
       // A legacy row is a size only for a cage known to be approved before its date.
       if (meta.approvedBefore && !(query.approvedOn !== undefined && query.approvedOn < meta.approvedBefore)) continue;
@@ -134,6 +138,48 @@ export function listedSizesForBand(compiled: CompiledRuleset, query: BandQuery):
 }
 
 // ---------------------------------------------------------------------------------------------
+// Sizes for a starting shape
+
+/** Common practice sizes (not a rule): 45 × 2.5 mm for hoops and backstays, 38 × 2 mm for the rest. */
+export const COMMON_STARTING_SIZES = { primary: { odMm: 45, wallMm: 2.5 }, secondary: { odMm: 38, wallMm: 2 } } as const;
+const PRIMARY_KINDS: readonly MemberKind[] = ['main_hoop', 'front_hoop', 'halo_hoop', 'lateral_hoop', 'rear_brace'];
+
+export const STARTING_SIZE_FALLBACK_WORDS: Readonly<Record<Exclude<ListedSizes['status'], 'listed'> | 'empty', string>> = {
+  no_table: 'the rulebook lists no size for it',
+  needs_weight: 'the car’s weight is not typed yet',
+  outside_table: 'the car’s weight is outside the table',
+  empty: 'the table lists no size in mild steel',
+};
+
+export interface StartingSizes {
+  /** Per member kind: the lightest size the class's band lists in mild steel, else a common size. */
+  sizeFor: (kind: MemberKind) => { odMm: number; wallMm: number };
+  /** Kinds that got a common size because the table gave none, with why (filled as sizeFor is called). */
+  fallbacks: Map<MemberKind, string>;
+}
+
+/**
+ * Tube sizes for a starting shape: per member kind, the lightest size the class's tube table lists
+ * for the car's weight band (listedSizesForBand, the table the tube chooser and the fabrication pages
+ * read), on the class's own weight basis (with or without the driver). The seed's demo cage and the
+ * browser's "Start from a shape" both use it, so the two can never pick differently.
+ */
+export function startingSizes(compiled: CompiledRuleset, classId: string, vehicle: { weightWithDriverKg?: number; weightWithoutDriverKg?: number }): StartingSizes {
+  const cls = compiled.classes[classId];
+  if (!cls) throw new RangeError(`Unknown class "${classId}". This ruleset has: ${Object.keys(compiled.classes).join(', ')}.`);
+  const weightKg = cls.weightBasis === 'with_driver' ? vehicle.weightWithDriverKg : vehicle.weightWithoutDriverKg;
+  const fallbacks = new Map<MemberKind, string>();
+  const sizeFor = (kind: MemberKind) => {
+    const listed = listedSizesForBand(compiled, { classId, memberKind: kind, weightKg, material: 'mild_steel' });
+    const first = listed.status === 'listed' ? listed.sizes[0] : undefined;
+    if (first) return { odMm: first.odMm, wallMm: first.wallMm };
+    fallbacks.set(kind, STARTING_SIZE_FALLBACK_WORDS[listed.status === 'listed' ? 'empty' : listed.status]);
+    return { ...(PRIMARY_KINDS.includes(kind) ? COMMON_STARTING_SIZES.primary : COMMON_STARTING_SIZES.secondary) };
+  };
+  return { sizeFor, fallbacks };
+}
+
+// ---------------------------------------------------------------------------------------------
 // Candidates from a stock list
 
 /**
@@ -143,7 +189,7 @@ export function listedSizesForBand(compiled: CompiledRuleset, query: BandQuery):
  */
 export const TUBE_DEPENDENT_FACTS: ReadonlySet<string> = new Set([
   'member.odMm', 'member.wallMm', 'member.minMeasuredWallMm', 'member.material', 'member.grade', 'member.process', 'member.yieldMpa',
-  'member.massKg', 'member.areaMm2', 'member.secondMomentMm4', 'member.sectionModulusMm3', 'member.radiusOfGyrationMm',
+  'member.massKg', 'member.areaMm2', 'member.secondMomentMm4', 'member.sectionModulusMm3', 'member.bendingStrengthNmm', 'member.radiusOfGyrationMm',
   'member.torsionalConstantMm4', 'member.massPerMetreKg', 'member.odMarginOverTableMinimumMm', 'member.minBendRadiusOverOd',
   'vehicle.anyChromoly', 'vehicle.estimatedTubeMassKg', 'plate.attachedWallMm', 'plate.attachedOdMm',
   'member.minUltrasonicWallMm', 'member.minInspectionHoleWallMm', 'member.minCalliperWallMm',
@@ -177,14 +223,25 @@ export interface RankedCandidate {
   assumesCatalogueWall: boolean;
 }
 
-interface Prepared {
-  spec: Specification;
-  member: SpecMember;
-  index: number;
+/**
+ * One reading of the sheet's facts. With a cage model the engine checks the model's values and, where
+ * the sheet types different ones, the sheet's too, the less favourable deciding (model-facts.ts); the
+ * chooser judges each reading the same way.
+ */
+interface Reading {
   vfacts: FactSet;
   /** The member's own facts over the vehicle's; a candidate overrides only what a tube changes. */
   base: FactSet;
   minClrMm: number | undefined;
+}
+
+interface Prepared {
+  spec: Specification;
+  member: SpecMember;
+  index: number;
+  readings: Reading[];
+  /** The member's length: the model's developed length where it has a path, else as typed. */
+  lengthMm: number | undefined;
   memberReqs: ReadyRequirement[];
   vehicleReqs: ReadyRequirement[];
   plateReqs: { plateId: string; facts: FactSet; reqs: ReadyRequirement[] }[];
@@ -194,14 +251,44 @@ interface Prepared {
 
 const dependsOnTube = (r: CompiledRequirement) => r.factsUsed.some((f) => TUBE_DEPENDENT_FACTS.has(f));
 
+// The model's derived values, once per sheet object (a choice prepares every member of one sheet).
+const geometries = new WeakMap<Specification, CageGeometry | null>();
+function geometryOf(spec: Specification): CageGeometry | null {
+  let geo = geometries.get(spec);
+  if (geo === undefined) {
+    geo = spec.model ? deriveCageGeometry(spec) : null;
+    geometries.set(spec, geo);
+  }
+  return geo;
+}
+
+/** Each member's length as the check reads it: the model's developed length where it has a path, else as typed. */
+export function memberLengthsMm(spec: Specification): (number | undefined)[] {
+  const lengths = modelLengths(spec, geometryOf(spec));
+  return spec.members.map((m) => lengths.get(m.id) ?? m.lengthMm);
+}
+
 function prepare(compiled: CompiledRuleset, classId: string, spec: Specification, index: number): Prepared {
   const cls = compiled.classes[classId];
   if (!cls) throw new RangeError(`Unknown class "${classId}". This ruleset has: ${Object.keys(compiled.classes).join(', ')}.`);
   const member = spec.members[index];
-  const tubes = spec.members.map((m, i) => memberTubeData(m, i));
-  const vfacts = vehicleFacts(spec, cls, tubes);
+  // The same facts the engine reads (evaluate.ts): the model's lengths and bends, the class's listed weight, sides.
+  const geo = geometryOf(spec);
+  const lengths = modelLengths(spec, geo);
+  const tubes = spec.members.map((m, i) => memberTubeData(m, i, lengths.get(m.id)));
+  const listedWeightKg = compiled.listedWeightsKg[classId];
+  const vfacts = vehicleFacts(spec, { weightBasis: cls.weightBasis, ...(listedWeightKg !== undefined ? { listedWeightKg } : {}) }, tubes);
   // Other members' sizes (member against member); a member is never compared with its own kind.
   Object.assign(vfacts, peerFacts(spec, peerNamesOf(compiled)));
+  const vr = vehicleReadings(vfacts, geo);
+  const derived = geo?.members.find((d) => d.memberId === member.id);
+  const mr = memberReadings(memberFacts(spec, member, tubes[index], memberSides(spec)[index]), member, derived);
+  const reading = (v: FactSet, m: FactSet): Reading => {
+    const base = Object.setPrototypeOf({ ...m }, v) as FactSet;
+    return { vfacts: v, base, minClrMm: base['member.minBendClrMm'] as number | undefined };
+  };
+  const readings = [reading(vr.model.facts, mr.model.facts)];
+  if (vr.sheet || mr.sheet) readings.push(reading((vr.sheet ?? vr.model).facts, (mr.sheet ?? mr.model).facts));
   const reqs = compiled.requirements.filter((r) => applies(r, classId) && dependsOnTube(r));
   const memberReqs = reqs.filter((r) => r.scope.kind === 'member' && r.scope.memberKinds.includes(member.kind));
   const vehicleReqs = reqs.filter((r) => r.scope.kind === 'vehicle');
@@ -214,9 +301,8 @@ function prepare(compiled: CompiledRuleset, classId: string, spec: Specification
   const weightKg = vfacts['vehicle.weightKg'] as number | undefined;
   // Tube tables first: most candidates fail there, and judging stops at the first failure.
   memberReqs.sort((a, b) => Number(b.template === 'tube_table') - Number(a.template === 'tube_table'));
-  const base = Object.setPrototypeOf(memberFacts(spec, member, tubes[index]), vfacts) as FactSet;
   return {
-    spec, member, index, vfacts, base, minClrMm: base['member.minBendClrMm'] as number | undefined,
+    spec, member, index, readings, lengthMm: tubes[index]!.lengthMm ?? undefined,
     memberReqs: memberReqs.map((r) => ready(r, weightKg)), vehicleReqs: vehicleReqs.map((r) => ready(r, weightKg)),
     plateReqs: plateReqs.map((pl) => ({ ...pl, reqs: pl.reqs.map((r) => ready(r, weightKg)) })),
     otherMaterials: spec.members.filter((_, i) => i !== index).map((m) => m.material), otherMassKg,
@@ -295,22 +381,39 @@ function statusOf(outcomes: readonly RequirementOutcome[]): CandidateStatus {
  */
 function judge(p: Prepared, tube: CandidateTube): RankedCandidate {
   const props = tubeSectionProperties(tube, tube.material ?? 'mild_steel');
-  const massKg = p.member.lengthMm === undefined ? undefined : (props.massPerMetreKg * p.member.lengthMm) / 1000;
+  const outcomes = judgeReading(p, p.readings[0]!, tube, props);
+  // A second reading (the sheet's typed values beside the model's): the less favourable decides.
+  if (p.readings.length > 1 && statusOf(outcomes) !== 'fails') {
+    const other = judgeReading(p, p.readings[1]!, tube, props);
+    const byId = new Map(other.map((o) => [`${o.requirementId}|${o.plateId ?? ''}`, o]));
+    for (let i = 0; i < outcomes.length; i++) {
+      const o = byId.get(`${outcomes[i]!.requirementId}|${outcomes[i]!.plateId ?? ''}`);
+      if (o && VERDICT_RANK[o.verdict] > VERDICT_RANK[outcomes[i]!.verdict]) outcomes[i] = o;
+    }
+    for (const o of other) if (!outcomes.some((x) => x.requirementId === o.requirementId && x.plateId === o.plateId)) outcomes.push(o);
+  }
+  return { tube, massPerMetreKg: props.massPerMetreKg, status: statusOf(outcomes), outcomes, assumesCatalogueWall: (p.member.wallReadings?.length ?? 0) > 0 };
+}
+
+const VERDICT_RANK: Readonly<Record<RequirementOutcome['verdict'], number>> = { not_applicable: 0, pass: 1, needs_information: 2, fail: 3 };
+
+function judgeReading(p: Prepared, r: Reading, tube: CandidateTube, props: ReturnType<typeof tubeSectionProperties>): RequirementOutcome[] {
+  const massKg = p.lengthMm === undefined ? undefined : (props.massPerMetreKg * p.lengthMm) / 1000;
   // Only the facts a tube changes are set on the candidate; the rest come through the prototype
   // (spreading these dotted-key objects per candidate is slow, see evaluate.ts). Must match
   // memberFacts/vehicleFacts for the same member (the property test compares with the engine).
-  const v = Object.create(p.vfacts) as FactSet;
+  const v = Object.create(r.vfacts) as FactSet;
   const mats = [...p.otherMaterials, tube.material];
   v['vehicle.anyChromoly'] = mats.includes('chromoly_4130') ? true : mats.includes(undefined) ? undefined : false;
   v['vehicle.estimatedTubeMassKg'] = p.otherMassKg !== undefined && massKg !== undefined ? p.otherMassKg + massKg : undefined;
-  const mf = Object.create(p.base) as FactSet;
+  const mf = Object.create(r.base) as FactSet;
   mf['vehicle.anyChromoly'] = v['vehicle.anyChromoly'];
   mf['vehicle.estimatedTubeMassKg'] = v['vehicle.estimatedTubeMassKg'];
   mf['member.odMm'] = tube.odMm;
   mf['member.wallMm'] = tube.wallMm;
   mf['member.minMeasuredWallMm'] = (p.member.wallReadings?.length ?? 0) > 0 ? tube.wallMm : undefined;
   for (const [method, fact] of Object.entries(WALL_METHOD_FACTS))
-    mf[fact] = p.member.wallReadings?.some((r) => r.method === method) ? tube.wallMm : undefined;
+    mf[fact] = p.member.wallReadings?.some((w) => w.method === method) ? tube.wallMm : undefined;
   const grade = findGrade('material', tube.grade);
   mf['member.gradeMinYieldMpa'] = grade?.minYieldMpa;
   mf['member.gradeMinTensileMpa'] = grade?.minTensileMpa;
@@ -322,13 +425,14 @@ function judge(p: Prepared, tube: CandidateTube): RankedCandidate {
   mf['member.areaMm2'] = props.areaMm2;
   mf['member.secondMomentMm4'] = props.secondMomentMm4;
   mf['member.sectionModulusMm3'] = props.sectionModulusMm3;
+  mf['member.bendingStrengthNmm'] = bendingStrengthNmm(tube.yieldMpa ?? grade?.minYieldMpa, props.sectionModulusMm3);
   mf['member.radiusOfGyrationMm'] = props.radiusOfGyrationMm;
   mf['member.torsionalConstantMm4'] = props.torsionalConstantMm4;
   mf['member.massPerMetreKg'] = props.massPerMetreKg;
-  mf['member.minBendRadiusOverOd'] = p.minClrMm === undefined ? undefined : p.minClrMm / tube.odMm;
+  mf['member.minBendRadiusOverOd'] = r.minClrMm === undefined ? undefined : r.minClrMm / tube.odMm;
   const outcomes: RequirementOutcome[] = [];
   judgeAll(p, tube, v, mf, outcomes);
-  return { tube, massPerMetreKg: props.massPerMetreKg, status: statusOf(outcomes), outcomes, assumesCatalogueWall: (p.member.wallReadings?.length ?? 0) > 0 };
+  return outcomes;
 }
 
 /** Fills `outcomes`, stopping at the first failure. */
@@ -376,7 +480,7 @@ export function rankStockForMember(compiled: CompiledRuleset, spec: Specificatio
 }
 
 /** The member's own tube as a candidate, with only what the sheet states (as the check reads it). */
-function currentTube(m: SpecMember): CandidateTube {
+export function currentTube(m: SpecMember): CandidateTube {
   return {
     odMm: m.odMm, wallMm: m.wallMm, ...(m.material ? { material: m.material } : {}), ...(m.process ? { process: m.process } : {}),
     ...(m.grade ? { grade: m.grade } : {}), ...(m.yieldMpa !== undefined ? { yieldMpa: m.yieldMpa } : {}),
@@ -386,6 +490,45 @@ function currentTube(m: SpecMember): CandidateTube {
 /** The current tube of a member judged the same way (so the saving compares like with like). */
 export function judgeCurrentTube(compiled: CompiledRuleset, spec: Specification, memberIndex: number): RankedCandidate {
   return judge(prepare(compiled, spec.vehicle.classId, spec, memberIndex), currentTube(spec.members[memberIndex]));
+}
+
+/** One tube judged for one member of a sheet (the sheet as it is, other members included). */
+export function judgeTubeForMember(compiled: CompiledRuleset, spec: Specification, memberIndex: number, tube: CandidateTube): RankedCandidate {
+  return judge(prepare(compiled, spec.vehicle.classId, spec, memberIndex), tube);
+}
+
+// Usable stock lightest first, per stock list (the same order rankPrepared sorts its result in).
+const byMass = new WeakMap<readonly StockTube[], StockTube[]>();
+function lightestFirst(stock: readonly StockTube[]): StockTube[] {
+  let sorted = byMass.get(stock);
+  if (!sorted) {
+    const mass = (t: StockTube) => tubeSectionProperties(t, t.material).massPerMetreKg;
+    sorted = stock.filter(usable).map((t) => ({ t, m: mass(t) })).sort((a, b) => a.m - b.m || a.t.odMm - b.t.odMm || a.t.wallMm - b.t.wallMm).map((x) => x.t);
+    byMass.set(stock, sorted);
+  }
+  return sorted;
+}
+
+/** Judges once per member of a sheet: the same work `rankStockForMember` does, kept for many tubes. */
+export function memberJudge(compiled: CompiledRuleset, spec: Specification, memberIndex: number): {
+  judge: (tube: CandidateTube) => RankedCandidate;
+  rank: (stock: readonly StockTube[], materials?: readonly Material[]) => RankedCandidate[];
+  /** The lightest legal stock size, judging lightest first and stopping there. */
+  firstLegal: (stock: readonly StockTube[], materials?: readonly Material[]) => RankedCandidate | undefined;
+} {
+  const p = prepare(compiled, spec.vehicle.classId, spec, memberIndex);
+  return {
+    judge: (tube) => judge(p, tube),
+    rank: (stock, materials) => rankPrepared(p, stock, materials),
+    firstLegal: (stock, materials) => {
+      for (const t of lightestFirst(stock)) {
+        if (materials && !materials.includes(t.material)) continue;
+        const c = judge(p, t);
+        if (c.status === 'legal') return c;
+      }
+      return undefined;
+    },
+  };
 }
 
 export interface TubeQuery extends BandQuery {
@@ -417,50 +560,4 @@ export function sheetForQuery(compiled: CompiledRuleset, q: TubeQuery): Specific
 export function lightestLegalTube(stock: readonly StockTube[], compiled: CompiledRuleset, query: TubeQuery): RankedCandidate | null {
   const ranked = rankStockForMember(compiled, sheetForQuery(compiled, query), 0, stock, query.material ? { materials: [query.material] } : {});
   return ranked.find((c) => c.status === 'legal') ?? null;
-}
-
-export interface MemberTubeChoice {
-  memberId: string;
-  memberKind: MemberKind;
-  label?: string;
-  current: RankedCandidate;
-  /** The lightest legal stock size; null when none is. */
-  lightest: RankedCandidate | null;
-  /** Lighter sizes that could be legal once the missing facts are known (lightest first). */
-  undecided: RankedCandidate[];
-  /** Legal stock sizes, lightest first. */
-  legal: RankedCandidate[];
-  /** Current mass per metre less the lightest legal one's (positive: lighter); null without one. */
-  savingPerMetreKg: number | null;
-  /** Saving over the member's length, when the length is known. */
-  savingKg: number | null;
-}
-
-/** The chooser for a whole sheet: per member, legal stock sizes in the member's material. */
-export function chooseTubesForSheet(compiled: CompiledRuleset, spec: Specification, stock: readonly StockTube[], options: { anyMaterial?: boolean } = {}): MemberTubeChoice[] {
-  // Left/right pairs and repeated bars have the same facts: judge them once. A member's holes and
-  // plates are part of what it is judged on, so they are part of the key.
-  const seen = new Map<string, { ranked: RankedCandidate[]; current: RankedCandidate }>();
-  return spec.members.map((m, i) => {
-    const key = JSON.stringify([
-      { ...m, id: '', label: '' }, (spec.inspectionHoles ?? []).filter((h) => h.memberId === m.id), (spec.plates ?? []).filter((p) => p.memberId === m.id).map((p) => ({ ...p, id: '' })),
-    ]);
-    let judged = seen.get(key);
-    if (!judged) {
-      const p = prepare(compiled, spec.vehicle.classId, spec, i);
-      const materials = !options.anyMaterial && m.material ? [m.material] : undefined;
-      const ranked = rankPrepared(p, stock, materials);
-      judged = { ranked, current: judge(p, currentTube(m)) };
-      seen.set(key, judged);
-    }
-    const { ranked, current } = judged;
-    const legal = ranked.filter((c) => c.status === 'legal');
-    const lightest = legal[0] ?? null;
-    const saving = lightest ? current.massPerMetreKg - lightest.massPerMetreKg : null;
-    return {
-      memberId: m.id, memberKind: m.kind, ...(m.label ? { label: m.label } : {}), current, lightest,
-      undecided: ranked.filter((c) => c.status === 'undecided' && (!lightest || c.massPerMetreKg < lightest.massPerMetreKg)),
-      legal, savingPerMetreKg: saving, savingKg: saving !== null && m.lengthMm !== undefined ? (saving * m.lengthMm) / 1000 : null,
-    };
-  });
 }

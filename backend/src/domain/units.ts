@@ -15,10 +15,12 @@ export type Dimension =
   | 'count'
   | 'mass_per_length'
   | 'section_modulus'
-  | 'second_moment';
+  | 'second_moment'
+  /** A bending moment (yield × section modulus: MPa × mm³ = N·mm). */
+  | 'moment';
 
 export const DIMENSIONS: readonly Dimension[] = [
-  'length', 'mass', 'angle', 'area', 'stress', 'ratio', 'count', 'mass_per_length', 'section_modulus', 'second_moment',
+  'length', 'mass', 'angle', 'area', 'stress', 'ratio', 'count', 'mass_per_length', 'section_modulus', 'second_moment', 'moment',
 ];
 
 /** Exact by definition (international inch and pound, 1959). F-UNIT-1. */
@@ -26,6 +28,8 @@ export const MM_PER_IN = 25.4;
 export const KG_PER_LB = 0.45359237;
 /** 1 lbf/in² in MPa: 4.4482216152605 N / 645.16 mm². */
 export const MPA_PER_PSI = (KG_PER_LB * 9.80665) / (MM_PER_IN * MM_PER_IN);
+/** 1 lbf in newtons (standard gravity, exact by definition). */
+const LBF_N = KG_PER_LB * 9.80665;
 
 interface UnitDef {
   dimension: Dimension;
@@ -59,6 +63,10 @@ export const UNITS: Readonly<Record<string, UnitDef>> = {
   in3: { dimension: 'section_modulus', factor: MM_PER_IN ** 3, label: 'in³' },
   mm4: { dimension: 'second_moment', factor: 1, label: 'mm⁴' },
   in4: { dimension: 'second_moment', factor: MM_PER_IN ** 4, label: 'in⁴' },
+  'N*mm': { dimension: 'moment', factor: 1, label: 'N·mm' },
+  'N*m': { dimension: 'moment', factor: 1000, label: 'N·m' },
+  'lbf*in': { dimension: 'moment', factor: LBF_N * MM_PER_IN, label: 'lbf·in' },
+  'lbf*ft': { dimension: 'moment', factor: LBF_N * MM_PER_IN * 12, label: 'lbf·ft' },
 };
 
 export type UnitName = keyof typeof UNITS;
@@ -67,11 +75,11 @@ export type UnitName = keyof typeof UNITS;
 export const DEFAULT_UNIT: Readonly<Record<UnitSystem, Record<Dimension, string>>> = {
   imperial: {
     length: 'in', mass: 'lb', angle: 'deg', area: 'in2', stress: 'psi', ratio: 'ratio', count: 'count',
-    mass_per_length: 'lb/ft', section_modulus: 'in3', second_moment: 'in4',
+    mass_per_length: 'lb/ft', section_modulus: 'in3', second_moment: 'in4', moment: 'lbf*in',
   },
   metric: {
     length: 'mm', mass: 'kg', angle: 'deg', area: 'mm2', stress: 'MPa', ratio: 'ratio', count: 'count',
-    mass_per_length: 'kg/m', section_modulus: 'mm3', second_moment: 'mm4',
+    mass_per_length: 'kg/m', section_modulus: 'mm3', second_moment: 'mm4', moment: 'N*m',
   },
 };
 
@@ -165,6 +173,9 @@ function defaultDecimals(unit: string, raw: number): number {
     case 'kg/m': case 'lb/ft': return 3;
     case 'in3': case 'in4': return 4;
     case 'mm3': case 'mm4': return 0;
+    case 'N*m': return abs >= 100 ? 0 : 1;
+    case 'N*mm': case 'lbf*in': return 0;
+    case 'lbf*ft': return abs >= 100 ? 0 : 1;
     default: return 2;
   }
 }

@@ -14,6 +14,10 @@ export class Club {
   @Column({ type: 'varchar', length: 200 })
   name!: string;
 
+  /** IANA zone the club's dates are read in: an edition takes effect at midnight there. */
+  @Column({ name: 'time_zone', type: 'varchar', length: 64, default: 'UTC' })
+  timeZone!: string;
+
   @CreateDateColumn({ name: 'created_at', type: 'timestamptz' })
   createdAt!: Date;
 

@@ -18,6 +18,7 @@ import { FindingAnnotation } from './finding-annotation.entity';
 import { CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn } from './cage-record.entity';
 import { ClubStockSeed, StockTube } from './stock-tube.entity';
 import { JournalEntry, JournalPhoto } from './journal.entity';
+import { HoopLegMeasurement } from './hoop-leg-measurement.entity';
 import { PasswordReset } from './password-reset.entity';
 
 export { Club, Invitation, Membership, User, PasswordReset };
@@ -31,9 +32,10 @@ export type { ChassisType } from './car.entity';
 export { OutboxMessage, AuditEntry };
 export { outboxStatuses, type OutboxStatus } from './outbox-message.entity';
 export { Submission, SubmissionEvent, FindingAnnotation, CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn };
-export { StockTube, ClubStockSeed, JournalEntry, JournalPhoto };
+export { StockTube, ClubStockSeed, JournalEntry, JournalPhoto, HoopLegMeasurement };
+export type { MeasuredLeg } from './hoop-leg-measurement.entity';
 export { stockMaterials, stockProcesses } from './stock-tube.entity';
 
 export const entities = [User, Club, Membership, Invitation, Rulebook, RulesetVersion, CheckRun, Car, BuildSheet, BuildSheetRevision, Photo, OutboxMessage, AuditEntry,
   Submission, SubmissionEvent, FindingAnnotation, CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn,
-  StockTube, ClubStockSeed, JournalEntry, JournalPhoto, PasswordReset];
+  StockTube, ClubStockSeed, JournalEntry, JournalPhoto, PasswordReset, HoopLegMeasurement];

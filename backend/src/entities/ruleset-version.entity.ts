@@ -1,19 +1,22 @@
 // One numbered version of a rulebook: the ruleset document (docs/rulesets.md) plus its life cycle.
 // A draft may change; once published its content is frozen by a database trigger (migration
-// 1796083300000), which also allows only the status moves listed in `allowedStatusMoves`. Checks
-// and cage records cite a version, so what they cite can never change underneath them.
+// 1796083300000, moves widened in 1796300100000), which also allows only the status moves listed in
+// `allowedStatusMoves`. Checks and cage records cite a version, so what they cite can never change
+// underneath them.
 import { Check, Column, CreateDateColumn, Entity, Index, JoinColumn, ManyToOne, PrimaryGeneratedColumn, Unique, UpdateDateColumn } from 'typeorm';
 import type { Relation } from 'typeorm';
 import type { RulesetDocument } from '../contracts/ruleset';
 import { Rulebook } from './rulebook.entity';
 import { User } from './user.entity';
 
-export const rulesetStatuses = ['draft', 'published', 'superseded', 'retired'] as const;
+/** 'published' is the version in force; 'scheduled' was published ahead of its effective date. */
+export const rulesetStatuses = ['draft', 'scheduled', 'published', 'superseded', 'retired'] as const;
 export type RulesetStatus = (typeof rulesetStatuses)[number];
 
 /** The status moves the database allows (besides staying put). Mirrors the trigger's rule. */
 export const allowedStatusMoves: Readonly<Record<RulesetStatus, readonly RulesetStatus[]>> = {
-  draft: ['published'],
+  draft: ['published', 'scheduled'],
+  scheduled: ['published', 'superseded', 'retired'],
   published: ['superseded', 'retired'],
   superseded: ['retired'],
   retired: [],
@@ -24,7 +27,7 @@ export const immutableRowSqlState = 'CW001';
 
 @Entity({ name: 'ruleset_versions' })
 @Unique('UQ_ruleset_versions_rulebook_number', ['rulebookId', 'versionNumber'])
-@Check('CHK_ruleset_versions_status', `"status" IN ('draft', 'published', 'superseded', 'retired')`)
+@Check('CHK_ruleset_versions_status', `"status" IN ('draft', 'scheduled', 'published', 'superseded', 'retired')`)
 @Check('CHK_ruleset_versions_published_at', `"status" = 'draft' OR "published_at" IS NOT NULL`)
 @Check('CHK_ruleset_versions_number', `"version_number" > 0`)
 // At most one current version per rulebook; publishing a new one supersedes the old in the same transaction.

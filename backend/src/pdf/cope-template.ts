@@ -139,13 +139,13 @@ function rulers(x: number, y: number): ContentCanvas['canvas'] {
 }
 
 function rulerLabels(x: number, y: number): Content[] {
-  const label = (text: string, atPt: number, fontSize = 6): Content => ({ text, fontSize, color: INK, absolutePosition: { x: atPt - 3, y: pt(y + 3.6) } });
+  const label = (text: string, atPt: number, fontSize = 6): Content => ({ text, fontSize, color: INK, noWrap: true, absolutePosition: { x: atPt - 3, y: pt(y + 3.6) } });
   const out: Content[] = [];
   // Every text costs layout time on each page, so the rulers carry few numbers: 0, 5 and 10 cm; each inch.
   for (let i = 0; i <= 100; i += 50) out.push(label(String(i / 10), pt(x + i)));
   for (let i = 0; i <= 4; i++) out.push(label(String(i), pt(x + 112) + i * 72));
-  out.push({ text: '100 mm (numbers in cm): must measure 100 mm', fontSize: 7, color: MUTED, absolutePosition: { x: pt(x), y: pt(y + 7.5) } });
-  out.push({ text: '4 in: must measure 4 in', fontSize: 7, color: MUTED, absolutePosition: { x: pt(x + 112), y: pt(y + 7.5) } });
+  out.push({ text: '100 mm (numbers in cm): must measure 100 mm', fontSize: 7, color: MUTED, noWrap: true, absolutePosition: { x: pt(x), y: pt(y + 7.5) } });
+  out.push({ text: '4 in: must measure 4 in', fontSize: 7, color: MUTED, noWrap: true, absolutePosition: { x: pt(x + 112), y: pt(y + 7.5) } });
   return out;
 }
 
@@ -180,7 +180,7 @@ function tileDrawing(cope: Cope, tile: Tile, layout: TemplateLayout, origin: { x
     seg([x, ABOVE_TIP_MM], [x, templateMm.h], deg % 90 === 0 ? 0.45 : 0.2, MUTED, deg % 90 === 0 ? undefined : { length: 2, space: 2 });
     if (deg % labelStep === 0 && x >= rect.x0 && x <= rect.x1 && ABOVE_TIP_MM + cope.depthMm + 4 >= rect.y0 && ABOVE_TIP_MM + cope.depthMm + 4 <= rect.y1) {
       const [px, py] = toPage([x, ABOVE_TIP_MM + cope.depthMm + 4]);
-      texts.push({ text: `${deg}°`, fontSize: 6.5, color: MUTED, absolutePosition: { x: px + 1, y: py } });
+      texts.push({ text: `${deg}°`, fontSize: 6.5, color: MUTED, noWrap: true, absolutePosition: { x: px + 1, y: py } });
     }
   }
   // The cut line itself: one polyline per stretch that stays on this tile.
@@ -208,7 +208,7 @@ function tileDrawing(cope: Cope, tile: Tile, layout: TemplateLayout, origin: { x
   const label = (at: [number, number], text: string, fontSize = 7, color = INK) => {
     if (at[0] < rect.x0 || at[0] > rect.x1 - 20 || at[1] < rect.y0 || at[1] > rect.y1 - 3) return;
     const [px, py] = toPage(at);
-    texts.push({ text, fontSize, color, absolutePosition: { x: px, y: py } });
+    texts.push({ text, fontSize, color, noWrap: true, absolutePosition: { x: px, y: py } });
   };
   label([2, 1.5], 'Tube end (tip line): line this edge up with the square-cut end of the tube', 7);
   label([2, ABOVE_TIP_MM + cope.depthMm + 10], 'Wrap round the tube with 0° on the line marked along it; cut away the shaded part', 7, MUTED);
@@ -246,12 +246,12 @@ function markingTable(cope: Cope, units: UnitSystem, x: number, y: number): { te
     columns: [{ text, bold, fontSize: 7, lineHeight: 1, alignment: 'right', width: pt(width) }], absolutePosition: { x: pt(at), y: pt(top) },
   });
   const texts: Content[] = [
-    { text: 'Marking by hand', bold: true, fontSize: 8.5, absolutePosition: { x: pt(x), y: pt(y) } },
+    { text: 'Marking by hand', bold: true, fontSize: 8.5, noWrap: true, absolutePosition: { x: pt(x), y: pt(y) } },
     { columns: [{ text: 'Round the tube from the 0° line, and how far back from the tube end the cut lies there.', fontSize: 6.5, color: MUTED, width: pt(TABLE_MM) }], absolutePosition: { x: pt(x), y: pt(y + 4) } },
     col(['Angle', ...rows.map((r) => `${r.angleDeg}°`)].join('\n'), x, 12, false),
     col(['Round', ...rows.map((r) => len(r.arcMm))].join('\n'), x + 14, 21),
     col(['Cut back', ...rows.map((r) => len(r.axialMm))].join('\n'), x + 37, 22, true),
-    { text: `Depth ${len(cope.depthMm)}; template ${len(cope.unrolledLengthMm)} round.`, fontSize: 7, absolutePosition: { x: pt(x), y: pt(top + (rows.length + 1) * lineMm + 2) } },
+    { text: `Depth ${len(cope.depthMm)}; template ${len(cope.unrolledLengthMm)} round.`, fontSize: 7, noWrap: true, absolutePosition: { x: pt(x), y: pt(top + (rows.length + 1) * lineMm + 2) } },
   ];
   const rules: ContentCanvas['canvas'] = [];
   for (let i = 1; i <= rows.length + 1; i++) {
@@ -278,12 +278,14 @@ export function buildCopeTemplateDocument(input: CopeTemplateInput): TDocumentDe
       const rulerY = MARGIN_MM + HEADER_MM + tileMm.h + 4;
       const table = markingTable(cope, units, pageMm.w - MARGIN_MM - TABLE_MM, MARGIN_MM + HEADER_MM);
       const pageItems: Content[] = [
-        { text: pdfSafe(`${TEMPLATE_TITLE}: ${input.memberName}`), bold: true, fontSize: 12, absolutePosition: { x: pt(MARGIN_MM), y: pt(MARGIN_MM) } },
-        { text: pdfSafe(input.tubeText), fontSize: 8.5, absolutePosition: { x: pt(MARGIN_MM), y: pt(MARGIN_MM + 5.5) } },
-        { text: PRINT_CAUTION, bold: true, fontSize: 10, color: '#a3261d', absolutePosition: { x: pt(MARGIN_MM), y: pt(MARGIN_MM + 10) } },
+        // Every text is one line placed where it belongs: noWrap spares pdfmake breaking it into words,
+        // which was most of a tiled template's cost.
+        { text: pdfSafe(`${TEMPLATE_TITLE}: ${input.memberName}`), bold: true, fontSize: 12, noWrap: true, absolutePosition: { x: pt(MARGIN_MM), y: pt(MARGIN_MM) } },
+        { text: pdfSafe(input.tubeText), fontSize: 8.5, noWrap: true, absolutePosition: { x: pt(MARGIN_MM), y: pt(MARGIN_MM + 5.5) } },
+        { text: PRINT_CAUTION, bold: true, fontSize: 10, color: '#a3261d', noWrap: true, absolutePosition: { x: pt(MARGIN_MM), y: pt(MARGIN_MM + 10) } },
         {
           text: pages > 1 ? `Sheet ${n} of ${pages}: column ${col + 1} of ${cols}, row ${row + 1} of ${rows}. Overlap the pages by ${OVERLAP_MM} mm on the crosses of the same name.` : 'One sheet.',
-          fontSize: 7.5, color: MUTED, absolutePosition: { x: pt(pageMm.w / 2), y: pt(MARGIN_MM + 11) },
+          fontSize: 7.5, color: MUTED, noWrap: true, absolutePosition: { x: pt(pageMm.w / 2), y: pt(MARGIN_MM + 11) },
         },
         { canvas: [...drawing.canvas, ...rulers(MARGIN_MM, rulerY), ...table.rules], absolutePosition: { x: 0, y: 0 } },
         ...drawing.texts,
@@ -299,10 +301,14 @@ export function buildCopeTemplateDocument(input: CopeTemplateInput): TDocumentDe
     pageSize: { width: pt(pageMm.w), height: pt(pageMm.h) },
     pageOrientation: 'landscape',
     pageMargins: [pt(MARGIN_MM), pt(MARGIN_MM), pt(MARGIN_MM), pt(FOOTER_MM)],
-    // One plain text, not columns: a two-column footer cost more than the whole drawing of a page.
+    // Two set lines, not one text to wrap: breaking the caution into words on every page cost more than
+    // the whole drawing of a page (a two-column footer more still).
     footer: (page: number, count: number) => ({
-      text: `${SAFETY_CAUTION} ${NUMBERS_CAUTION}   Page ${page} of ${count}.`,
-      fontSize: 7, color: MUTED, margin: [pt(MARGIN_MM), 4, pt(MARGIN_MM), 0],
+      stack: [
+        { text: SAFETY_CAUTION, noWrap: true },
+        { text: `${NUMBERS_CAUTION}   Page ${page} of ${count}.`, noWrap: true },
+      ],
+      fontSize: 7, color: MUTED, margin: [pt(MARGIN_MM), 3, pt(MARGIN_MM), 0],
     }),
     content,
     defaultStyle: { color: INK, lineHeight: 1.1 },

@@ -8,7 +8,8 @@ import type { CutListRowWire, TubeDataWire } from '../contracts/garage';
 import type { CheckReport, Finding, MeasuredValue, RequiredValue } from '../contracts/report';
 import { AREAS } from '../contracts/ruleset';
 import { referenceWords } from '../domain/rules/reference-words';
-import { findingKey } from '../domain/review/waivers';
+import { findingKey, overallWithWaivers } from '../domain/review/waivers';
+import { approvedText, CHECK_VERDICT_WORDS, FINDING_VERDICT_WORDS } from '../contracts/verdict-words';
 import { formatQuantity, type Dimension, type UnitSystem } from '../domain/units';
 import { formatIsoDate } from '../domain/dates';
 import { MEMBER_KIND_LABELS } from '../domain/vocabulary';
@@ -81,14 +82,13 @@ export interface ReportReview {
 
 const COLOURS = { ink: '#1d2327', muted: '#5b6670', rule: '#c9d0d6', band: '#eef1f3', pass: '#1f6f43', fail: '#a3261d', info: '#8a5a00', na: '#5b6670' };
 
-const VERDICT_WORDS: Readonly<Record<Finding['verdict'], string>> = {
-  pass: 'Pass', fail: 'Fail', needs_information: 'Needs information', not_applicable: 'Not applicable',
-};
+// The words every screen uses (contracts/verdict-words.ts), so the PDF and the screens agree.
+const VERDICT_WORDS: Readonly<Record<Finding['verdict'], string>> = FINDING_VERDICT_WORDS;
 const VERDICT_COLOURS: Readonly<Record<Finding['verdict'], string>> = {
   pass: COLOURS.pass, fail: COLOURS.fail, needs_information: COLOURS.info, not_applicable: COLOURS.na,
 };
 const OVERALL_WORDS: Readonly<Record<CheckReport['verdict'], string>> = {
-  pass: 'PASSES THE PRE-CHECK', fail: 'DOES NOT PASS THE PRE-CHECK', needs_information: 'NEEDS MORE INFORMATION',
+  pass: CHECK_VERDICT_WORDS.pass.banner, fail: CHECK_VERDICT_WORDS.fail.banner, needs_information: CHECK_VERDICT_WORDS.needs_information.banner,
 };
 const AREA_TITLES: Readonly<Record<(typeof AREAS)[number], string>> = {
   tubes: 'Tubes', members: 'Members', geometry: 'Geometry', mounting: 'Mounting', padding: 'Padding', welding: 'Welding', material: 'Material',
@@ -142,8 +142,9 @@ export function requiredText(r: RequiredValue, units: UnitSystem): string {
   return pdfSafe(`${r.label}: ${OPERATOR_WORDS[r.operator]} ${value}`);
 }
 
+/** The builder's name for a finding's member; runs stored before names were carried fall back to kind and id. */
 function subjectText(f: Finding): string {
-  if (f.member) return `${MEMBER_KIND_LABELS[f.member.kind]} "${f.member.id}"`;
+  if (f.member) return f.member.name ? pdfSafe(f.member.name) : `${MEMBER_KIND_LABELS[f.member.kind]} "${f.member.id}"`;
   if (f.plate) return `plate "${f.plate.id}" (${humanize(f.plate.location)})`;
   return 'whole car';
 }
@@ -178,10 +179,13 @@ export function findingsByRequirement(findings: readonly Finding[]): Finding[][]
   return [...groups.values()];
 }
 
-function requirementBlock(findings: readonly Finding[], units: UnitSystem, waived: ReadonlySet<string> = new Set()): Content {
+type WaiverText = { reason: string; stewardName: string };
+
+function requirementBlock(findings: readonly Finding[], units: UnitSystem, waived: ReadonlyMap<string, WaiverText> = new Map()): Content {
   const first = findings[0]!;
   const rows: TableCell[][] = findings.map((f) => {
-    const isWaived = waived.has(findingKey(f));
+    const waiver = waived.get(findingKey(f));
+    const isWaived = waiver !== undefined;
     const details: Content[] = [];
     if (f.measured.length) details.push({ text: [{ text: 'Measured ', color: COLOURS.muted }, f.measured.map((m) => measuredText(m, units)).join('; ')] });
     if (f.required.length) details.push({ text: [{ text: 'Required ', color: COLOURS.muted }, f.required.map((r) => requiredText(r, units)).join('; ')] });
@@ -189,8 +193,9 @@ function requirementBlock(findings: readonly Finding[], units: UnitSystem, waive
     // Written from the stored parts in this PDF's units; a run stored before parts keeps its text.
     const reason = findingReason(f, units);
     if (reason) details.push({ text: pdfSafe(reason) });
+    if (waiver) details.push({ text: [{ text: `Waived by ${pdfSafe(waiver.stewardName)}: `, bold: true }, pdfSafe(waiver.reason)] });
     return [
-      { text: isWaived ? `${VERDICT_WORDS[f.verdict]}, waived` : VERDICT_WORDS[f.verdict], bold: true, color: isWaived ? COLOURS.info : VERDICT_COLOURS[f.verdict] },
+      { text: isWaived ? FINDING_VERDICT_WORDS.waived : VERDICT_WORDS[f.verdict], bold: true, color: isWaived ? COLOURS.info : VERDICT_COLOURS[f.verdict] },
       { text: subjectText(f) },
       { stack: details },
     ];
@@ -205,7 +210,7 @@ function requirementBlock(findings: readonly Finding[], units: UnitSystem, waive
     },
     ...(first.explanation ? [{ text: pdfSafe(first.explanation), color: COLOURS.muted, fontSize: 8, margin: [0, 0, 0, 2] } as Content] : []),
     {
-      table: { widths: [62, 92, '*'], body: rows, dontBreakRows: true },
+      table: { widths: [74, 92, '*'], body: rows, dontBreakRows: true },
       layout: { hLineWidth: (i: number) => (i === 0 ? 0 : 0.4), vLineWidth: () => 0, hLineColor: () => COLOURS.rule, paddingLeft: (i: number) => (i === 0 ? 0 : 4), paddingTop: () => 2, paddingBottom: () => 2 },
       fontSize: 8.5,
       margin: [0, 0, 0, 4],
@@ -223,7 +228,7 @@ function tubeTable(data: TubeDataWire, units: UnitSystem): Content {
   const body: TableCell[][] = [
     ['Member', 'Size (OD × wall)', 'Area A', 'I', 'Z', 'Mass per length', 'Length', 'Mass'].map((h, i) => headerCell(h, i < 2 ? 'left' : 'right')),
     ...data.members.map((m) => [
-      { text: `${m.memberId}\n${MEMBER_KIND_LABELS[m.kind]}`, fontSize: 8.5 },
+      { text: `${pdfSafe(m.name ?? m.memberId)}\n${MEMBER_KIND_LABELS[m.kind]}`, fontSize: 8.5 },
       { text: tubeSizeText(m.odMm, m.wallMm, units), fontSize: 8.5 },
       numberCell(q(m.areaMm2, 'area')),
       numberCell(q(m.secondMomentMm4, 'second_moment')),
@@ -244,7 +249,7 @@ function cutListTable(rows: readonly CutListRowWire[], units: UnitSystem): Conte
     ...rows.map((r) => [
       { text: tubeSizeText(r.odMm, r.wallMm, units), fontSize: 8.5 },
       { text: humanize(r.material), fontSize: 8.5 },
-      { text: r.memberIds.join(', ') + (r.membersWithoutLength.length ? `\nno length: ${r.membersWithoutLength.join(', ')}` : ''), fontSize: 8.5 },
+      { text: pdfSafe(r.memberNames.join(', ')) + (r.namesWithoutLength.length ? `\nno length: ${pdfSafe(r.namesWithoutLength.join(', '))}` : ''), fontSize: 8.5 },
       numberCell(q(r.totalLengthMm, 'length')),
       numberCell(q(r.massKg, 'mass')),
     ]),
@@ -339,7 +344,8 @@ function cageBlock(cage: NonNullable<ReportDocumentInput['cage']>): Content[] {
 /** The steward's decision: the record number, who approved it and when, waivers, and the QR to check it. */
 function reviewBlock(review: ReportReview, findings: readonly Finding[]): Content[] {
   const byKey = new Map(findings.map((f) => [findingKey(f), f]));
-  const day = (d: Date) => d.toISOString().slice(0, 10);
+  const day = (d: Date) => formatIsoDate(d.toISOString().slice(0, 10));
+  const waivedCount = overallWithWaivers(findings, review.waivers.map((w) => ({ findingKey: w.findingKey, reason: w.reason, stewardId: w.stewardName }))).waivedCount;
   const out: Content[] = [
     heading('Steward review'),
     {
@@ -349,7 +355,7 @@ function reviewBlock(review: ReportReview, findings: readonly Finding[]): Conten
           stack: [
             labelValueTable([
               ['Cage record', review.recordNumber],
-              ['Decision', `Approved by ${review.stewardName} on ${day(review.decidedAt)}`],
+              ['Decision', `${approvedText(waivedCount)}, by ${review.stewardName} on ${day(review.decidedAt)}`],
               ['Valid until', day(review.expiresAt)],
               ['Status when printed', review.recordStatus],
               ...(review.note ? ([['Steward note', review.note]] as [string, string][]) : []),
@@ -382,11 +388,39 @@ function reviewBlock(review: ReportReview, findings: readonly Finding[]): Conten
   return out;
 }
 
+/**
+ * The first page's banner: the pre-check's verdict, or for an approved submission the steward's
+ * decision with its waivers counted ("APPROVED WITH 1 WAIVER"), so a waived finding never makes the
+ * page read as failing. The counts line counts waived findings apart from the ones not met.
+ */
+export function reportBanner(report: CheckReport, review?: ReportReview): { title: string; counts: string; note: string | null; colour: string } {
+  const s = report.summary;
+  const advisory = s.advisoryFail ? ` · ${s.advisoryFail} advisory not met` : '';
+  if (!review) {
+    return {
+      title: OVERALL_WORDS[report.verdict],
+      counts: `${s.pass} pass · ${s.fail} fail · ${s.needsInformation} need information · ${s.notApplicable} not applicable${advisory}`,
+      note: null,
+      colour: report.verdict === 'pass' ? COLOURS.pass : report.verdict === 'fail' ? COLOURS.fail : COLOURS.info,
+    };
+  }
+  const overall = overallWithWaivers(report.findings, review.waivers.map((w) => ({ findingKey: w.findingKey, reason: w.reason, stewardId: w.stewardName })));
+  const count = (v: string) => overall.findings.filter((f) => f.shown === v).length;
+  const status = review.recordStatus === 'valid' ? '' : ` · record ${review.recordStatus} when printed`;
+  return {
+    title: `${approvedText(overall.waivedCount).toUpperCase()}${status.toUpperCase()}`,
+    counts: `${s.pass} pass · ${overall.waivedCount} waived · ${count('fail')} fail · ${count('needs_information')} need information · ${s.notApplicable} not applicable${advisory}`,
+    note: overall.waivedCount > 0
+      ? `The pre-check found ${overall.waivedCount === 1 ? 'one finding' : `${overall.waivedCount} findings`} not met; the steward accepted ${overall.waivedCount === 1 ? 'it' : 'them'} in writing (see Waivers).`
+      : null,
+    colour: review.recordStatus === 'valid' ? COLOURS.pass : COLOURS.na,
+  };
+}
+
 export function buildReportDocument(input: ReportDocumentInput): TDocumentDefinitions {
   const { report, units, car } = input;
   const q = (v: number, d: Dimension) => formatQuantity(v, d, units).text;
-  const overallColour = report.verdict === 'pass' ? COLOURS.pass : report.verdict === 'fail' ? COLOURS.fail : COLOURS.info;
-  const s = report.summary;
+  const banner = reportBanner(report, input.review);
   const dateText = input.checkedAt.toISOString().slice(0, 10);
   const makeModel = [car?.make, car?.model].filter(Boolean).join(' ');
 
@@ -431,10 +465,11 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
         widths: ['*'],
         body: [[{
           stack: [
-            { text: OVERALL_WORDS[report.verdict], fontSize: 24, bold: true, color: '#ffffff' },
-            { text: `${s.pass} pass · ${s.fail} fail · ${s.needsInformation} need information · ${s.notApplicable} not applicable${s.advisoryFail ? ` · ${s.advisoryFail} advisory not met` : ''}`, color: '#ffffff', margin: [0, 2, 0, 0] },
+            { text: banner.title, fontSize: 24, bold: true, color: '#ffffff' },
+            { text: banner.counts, color: '#ffffff', margin: [0, 2, 0, 0] },
+            ...(banner.note ? [{ text: banner.note, color: '#ffffff', margin: [0, 2, 0, 0] } as Content] : []),
           ],
-          fillColor: overallColour,
+          fillColor: banner.colour,
           margin: [10, 8, 10, 8],
         }]],
       },
@@ -453,17 +488,16 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
     { text: SAFETY_CAUTION, bold: true, margin: [0, 2, 0, 2] },
     { text: pdfSafe(report.disclaimer), color: COLOURS.muted, fontSize: 8.5, margin: [0, 0, 0, 10] },
   ];
-  const waived = new Set(input.review?.waivers.map((w) => w.findingKey) ?? []);
+  const waived = new Map((input.review?.waivers ?? []).map((w) => [w.findingKey, { reason: w.reason, stewardName: w.stewardName }]));
 
-  const notMet = report.findings.filter((f) => f.verdict === 'fail' || (f.verdict === 'needs_information' && f.severity === 'mandatory'));
+  // Waived findings are listed with their reasons under Waivers; here only what still is not met.
+  const notMet = report.findings.filter((f) => (f.verdict === 'fail' || (f.verdict === 'needs_information' && f.severity === 'mandatory')) && !waived.has(findingKey(f)));
   if (notMet.length) {
     content.push(heading('Not met yet'), {
       table: {
         widths: [100, '*', 'auto'],
         body: notMet.map((f) => [
-          waived.has(findingKey(f))
-            ? { text: `${VERDICT_WORDS[f.verdict]}, waived`, bold: true, color: COLOURS.info }
-            : { text: VERDICT_WORDS[f.verdict], bold: true, color: VERDICT_COLOURS[f.verdict] },
+          { text: VERDICT_WORDS[f.verdict], bold: true, color: VERDICT_COLOURS[f.verdict] },
           { text: `${pdfSafe(f.title)}, ${subjectText(f)}` },
           { text: `Section ${pdfSafe(f.citation.section)}`, alignment: 'right' as const },
         ]),
@@ -476,7 +510,10 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
 
   if (report.measureNext.length) {
     content.push(heading('Measure next'), {
-      ul: report.measureNext.map((m) => pdfSafe(`${m.label}${m.memberIds.length ? ` (${m.memberIds.join(', ')})` : ''}`)),
+      ul: report.measureNext.map((m) => {
+        const who = m.memberNames ?? m.memberIds;
+        return pdfSafe(`${m.label}${who.length ? ` (${who.join(', ')})` : ''}`);
+      }),
       margin: [0, 0, 0, 8],
     });
   }
@@ -498,7 +535,7 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
     content.push({
       text: input.tubeData.massComplete
         ? `Estimated tube mass of the cage: ${mass}.`
-        : `Estimated tube mass of the cage: ${mass}, without ${input.tubeData.membersWithoutLength.join(', ')} (no length given).`,
+        : `Estimated tube mass of the cage: ${mass}, without ${pdfSafe(input.tubeData.namesWithoutLength.join(', '))} (no length given).`,
       margin: [0, 0, 0, 4],
     });
     if (input.tubeData.members.some((m) => m.densityAssumed)) {

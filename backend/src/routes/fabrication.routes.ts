@@ -1,7 +1,8 @@
 // Fabrication sheets (docs/api.md, "Fabrication"): the cope and its 1:1 template PDF, the hoop leg
-// trim. Signed in; no build sheet needed.
+// trim, the bend schedule and settings (signed in; no build sheet needed), and a sheet's fabrication,
+// buying list and hoops' measured legs (as the sheet allows).
 import { Router } from 'express';
-import { bendScheduleBodySchema, copeBodySchema, copePdfBodySchema, fabricationSettingsSchema, legTrimBodySchema, unitsSchema } from '../contracts/fabrication';
+import { bendScheduleBodySchema, copeBodySchema, copePdfBodySchema, fabricationSettingsSchema, hoopLegsBodySchema, hoopLegsParamsSchema, legTrimBodySchema, unitsSchema } from '../contracts/fabrication';
 import { sheetParamsSchema } from '../contracts/garage';
 import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
@@ -57,6 +58,19 @@ export function createFabricationRouter({ services }: { services: Services }): R
       method: 'get', path: '/build-sheets/:sheetId/fabrication', access: 'sheet.read', params: sheetParamsSchema,
       handler: async ({ req, res, params }) => {
         res.json({ fabrication: await fabrication.forSheet(params.sheetId, signedInUserId(req)) });
+      },
+    }),
+    route({
+      method: 'put', path: '/build-sheets/:sheetId/fabrication/legs/:memberId', access: 'sheet.edit', params: hoopLegsParamsSchema, body: hoopLegsBodySchema,
+      handler: async ({ req, res, params, body }) => {
+        res.json({ measuredLegs: await fabrication.saveMeasuredLegs(params.sheetId, params.memberId, signedInUserId(req), body) });
+      },
+    }),
+    route({
+      method: 'delete', path: '/build-sheets/:sheetId/fabrication/legs/:memberId', access: 'sheet.edit', params: hoopLegsParamsSchema,
+      handler: async ({ req, res, params }) => {
+        await fabrication.clearMeasuredLegs(params.sheetId, params.memberId, signedInUserId(req));
+        res.status(204).end();
       },
     }),
     route({

@@ -4,7 +4,7 @@
 import { Router } from 'express';
 import { clubParamsSchema } from '../contracts/clubs';
 import { sheetParamsSchema } from '../contracts/garage';
-import { ownStockTubeParamsSchema, stockTubeBodySchema, stockTubeParamsSchema, stockTubePatchSchema, tubeChoiceQuerySchema } from '../contracts/tube-stock';
+import { ownStockTubeParamsSchema, stockTubeBodySchema, stockTubeParamsSchema, stockTubePatchSchema, tubeChoiceApplySchema, tubeChoiceQuerySchema } from '../contracts/tube-stock';
 import { signedInUserId } from '../middleware/guards';
 import type { ClubRole } from '../entities';
 import type { Services } from '../services';
@@ -74,6 +74,12 @@ export function createTubeStockRouter({ services }: { services: Services }): Rou
       method: 'get', path: '/build-sheets/:sheetId/tube-choice', access: 'sheet.read', params: sheetParamsSchema, query: tubeChoiceQuerySchema,
       handler: async ({ req, res, params, query }) => {
         res.json(await tubeChoice.choose(params.sheetId, signedInUserId(req), { anyMaterial: query.anyMaterial }));
+      },
+    }),
+    route({
+      method: 'post', path: '/build-sheets/:sheetId/tube-choice/apply', access: 'sheet.edit', params: sheetParamsSchema, body: tubeChoiceApplySchema,
+      handler: async ({ req, res, params, body }) => {
+        res.json(await tubeChoice.apply(params.sheetId, signedInUserId(req), body));
       },
     }),
   ]);

@@ -207,6 +207,17 @@ export function createBuildSheetService(ds: DataSource) {
       }
     },
 
+    /**
+     * Saves an earlier revision's specification, ruleset version and class again as the next revision
+     * (undo, and going back to a version): history keeps every revision in between. Same rules as a
+     * save: the builder only, not on an archived sheet, 409 when `baseRevision` is not the latest.
+     */
+    async restoreRevision(sheetId: string, userId: string, number: number, baseRevision: number): Promise<BuildSheetDetailWire> {
+      await sheetFor(ds.manager, sheetId, userId, 'edit');
+      const r = await revisionByNumber(ds.manager, sheetId, number);
+      return this.saveRevision(sheetId, userId, { baseRevision, rulesetVersionId: r.rulesetVersionId, classId: r.classId, specification: r.specification });
+    },
+
     async revisions(sheetId: string, userId: string): Promise<RevisionSummaryWire[]> {
       await sheetFor(ds.manager, sheetId, userId, 'read');
       const list = await ds.getRepository(BuildSheetRevision).find({ where: { buildSheetId: sheetId }, relations: { createdBy: true }, order: { number: 'DESC' } });

@@ -1,12 +1,13 @@
-// The builder's cars, and loading a build sheet for someone: the access policy's `sheet.read` and
-// `sheet.edit` (domain/access-policy.ts) decide — its car's owner edits; the stewards and admins of the
-// sheet's club read. Everyone else gets the same 404 as for a sheet that does not exist, so nobody
-// learns which ids are in use.
+// The builder's cars (each sheet with its latest verdict and where it stands in review), and loading a
+// build sheet for someone: the access policy's `sheet.read` and `sheet.edit` (domain/access-policy.ts)
+// decide — its car's owner edits; the stewards and admins of the sheet's club read. Everyone else gets
+// the same 404 as for a sheet that does not exist, so nobody learns which ids are in use.
 import type { DataSource, EntityManager } from 'typeorm';
-import type { CarWire, CreateCarBody, ListQuery, SheetAccess, SheetSummaryWire, UpdateCarBody } from '../contracts/garage';
+import type { CarWire, CreateCarBody, ListQuery, SheetAccess, SheetReviewWire, SheetSummaryWire, UpdateCarBody } from '../contracts/garage';
 import { BuildSheet, Car } from '../entities';
 import { ConflictError, NotFoundError } from '../errors';
 import { enforce, rolesIn } from './access';
+import { sheetReviews } from './garage/sheet-reviews';
 
 const sheetRules = { read: 'sheet.read', edit: 'sheet.edit', submit: 'submission.create' } as const;
 const sheetWords = {
@@ -24,7 +25,7 @@ export interface SheetAccessResult {
 
 const iso = (d: Date | null) => (d ? d.toISOString() : null);
 
-export function sheetSummaryView(s: BuildSheet): SheetSummaryWire {
+export function sheetSummaryView(s: BuildSheet, review: SheetReviewWire | null = null): SheetSummaryWire {
   if (!s.club) throw new Error('sheetSummaryView needs the club relation loaded');
   return {
     id: s.id,
@@ -37,10 +38,11 @@ export function sheetSummaryView(s: BuildSheet): SheetSummaryWire {
     latestVerdict: s.latestVerdict,
     latestCheckedRevision: s.latestCheckedRevision,
     updatedAt: s.updatedAt.toISOString(),
+    review,
   };
 }
 
-export function carView(c: Car, sheets: BuildSheet[]): CarWire {
+export function carView(c: Car, sheets: BuildSheet[], reviews: ReadonlyMap<string, SheetReviewWire> = new Map()): CarWire {
   return {
     id: c.id,
     name: c.name,
@@ -52,7 +54,7 @@ export function carView(c: Car, sheets: BuildSheet[]): CarWire {
     archivedAt: iso(c.archivedAt),
     createdAt: c.createdAt.toISOString(),
     updatedAt: c.updatedAt.toISOString(),
-    buildSheets: sheets.map(sheetSummaryView),
+    buildSheets: sheets.map((s) => sheetSummaryView(s, reviews.get(s.id) ?? null)),
   };
 }
 
@@ -76,7 +78,8 @@ export async function sheetFor(
 
 export type GarageService = ReturnType<typeof createGarageService>;
 
-export function createGarageService(ds: DataSource) {
+export function createGarageService(ds: DataSource, options: { now?: () => Date } = {}) {
+  const now = options.now ?? (() => new Date());
   async function ownCar(em: EntityManager, carId: string, userId: string, lock = false): Promise<Car> {
     const car = await em.getRepository(Car).findOne({ where: { id: carId }, ...(lock ? { lock: { mode: 'pessimistic_write' as const } } : {}) });
     // Another builder's car is not found, never forbidden.
@@ -96,7 +99,8 @@ export function createGarageService(ds: DataSource) {
   }
 
   async function view(em: EntityManager, car: Car): Promise<CarWire> {
-    return carView(car, (await sheetsOf(em, [car.id])).get(car.id) ?? []);
+    const sheets = (await sheetsOf(em, [car.id])).get(car.id) ?? [];
+    return carView(car, sheets, await sheetReviews(em, sheets.map((s) => s.id), now()));
   }
 
   return {
@@ -109,7 +113,8 @@ export function createGarageService(ds: DataSource) {
       if (query.show === 'archived') qb.andWhere('c.archived_at IS NOT NULL');
       const cars = await qb.orderBy('lower(c.name)', 'ASC').addOrderBy('c.created_at', 'ASC').getMany();
       const sheets = await sheetsOf(ds.manager, cars.map((c) => c.id), query.show === 'active' ? 'active' : 'all');
-      return cars.map((c) => carView(c, sheets.get(c.id) ?? []));
+      const reviews = await sheetReviews(ds.manager, [...sheets.values()].flat().map((s) => s.id), now());
+      return cars.map((c) => carView(c, sheets.get(c.id) ?? [], reviews));
     },
 
     async get(carId: string, userId: string): Promise<CarWire> {

@@ -25,6 +25,8 @@ import { createTubeChoiceService, type TubeChoiceService } from './tube-choice.s
 import { createJournalService, type JournalService } from './journal.service';
 import { createFabricationService, type FabricationService } from './fabrication.service';
 import { createFabricationSettingsService } from './fabrication-settings.service';
+import { createClubSettingsService, type ClubSettingsService } from './club-settings.service';
+import { createSheetEditionService, type SheetEditionService } from './sheet-editions.service';
 
 export interface Services {
   /** The access policy's look-ups for the route guards (roles in a club, roles anywhere). */
@@ -51,6 +53,8 @@ export interface Services {
   tubeChoice: TubeChoiceService;
   journal: JournalService;
   fabrication: FabricationService;
+  clubSettings: ClubSettingsService;
+  sheetEditions: SheetEditionService;
 }
 
 export function createServices(
@@ -60,6 +64,7 @@ export function createServices(
   // Bulk re-checks (publish, impact) use `recheckWorkers` threads (config's RECHECK_WORKERS; 0: the
   // calling thread; default one per core) and pages of `recheckBatchSize` sheets.
   // `checks` sets the check pools outright (tests and the bench).
+  // `now` is the clock that decides the clubs' "today" (editions in force or scheduled); tests pass their own.
   options: {
     publicUrl: string;
     uploadDir?: string;
@@ -68,8 +73,10 @@ export function createServices(
     recheckWorkers?: number;
     recheckBatchSize?: number;
     checks?: CheckServiceOptions;
+    now?: () => Date;
   },
 ): Services {
+  const now = options.now ?? (() => new Date());
   const rulesets = createRulesetService(ds);
   const audit = createAuditService(ds);
   const mail = createMailService(ds);
@@ -84,6 +91,7 @@ export function createServices(
   const fabricationSettings = createFabricationSettingsService(ds);
   const reports = createReportService(ds, { checks, sheets: buildSheets, photos, fabricationSettings, publicUrl: options.publicUrl });
   const tubeStock = createTubeStockService(ds, { audit });
+  const clubSettings = createClubSettingsService(ds, { audit, now });
   return {
     access: createAccessReader(ds),
     accounts: createAccountService(ds),
@@ -95,7 +103,7 @@ export function createServices(
     mail,
     mailbox: createMailboxService(ds),
     jobProgress: createJobProgressReader(createJobProgressStore((text, values) => ds.query(text, values)), ds),
-    garage: createGarageService(ds),
+    garage: createGarageService(ds, { now }),
     buildSheets,
     photos,
     reports,
@@ -103,10 +111,12 @@ export function createServices(
     reviewReader: createReviewReader(ds, { records: cageRecords, reports, publicUrl: options.publicUrl }),
     cageRecords,
     verification: createVerificationService(ds),
-    rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit, evaluator: checks.bulk, ...(options.recheckBatchSize ? { batchSize: options.recheckBatchSize } : {}) }),
+    rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit, clubSettings, now, evaluator: checks.bulk, ...(options.recheckBatchSize ? { batchSize: options.recheckBatchSize } : {}) }),
     tubeStock,
-    tubeChoice: createTubeChoiceService(ds, { rulesets, stock: tubeStock }),
+    tubeChoice: createTubeChoiceService(ds, { rulesets, stock: tubeStock, buildSheets }),
     journal: createJournalService(ds, { storage: photoStorage, audit }),
-    fabrication: createFabricationService({ buildSheets, settings: fabricationSettings }),
+    fabrication: createFabricationService(ds, { buildSheets, settings: fabricationSettings }),
+    clubSettings,
+    sheetEditions: createSheetEditionService(ds, { rulesets, buildSheets }),
   };
 }

@@ -5,7 +5,7 @@
 import type { DataSource } from 'typeorm';
 import type { CheckRunSummaryWire, SheetCheckRunWire } from '../contracts/garage';
 import type { UnitSystem } from '../domain/units';
-import { MEMBER_KIND_LABELS } from '../domain/vocabulary';
+import { memberNames } from '../domain/geometry/names';
 import { BuildSheet, BuildSheetRevision, CheckRun, User } from '../entities';
 import { ConflictError, NotFoundError } from '../errors';
 import { renderPdf } from '../pdf/pdf-engine';
@@ -91,12 +91,14 @@ export function createReportService(
         }
         const builder = await ds.getRepository(User).findOneBy({ id: found.car.ownerId });
         const thumbs = await deps.photos.thumbnailsOf(found.sheet.id);
-        const kinds = new Map(run.specification.members.map((m) => [m.id, m.kind]));
+        // Photos name their member as the builder does (label, else the kind's words), never by id.
+        const names = memberNames(run.specification.members);
+        const nameOf = new Map(run.specification.members.map((m, i) => [m.id, names[i]!]));
         context = {
           car: found.car, builderName: builder?.displayName ?? null, sheetName: found.sheet.name, builderId: found.car.ownerId,
           photos: thumbs.map(({ photo, thumbnail }) => {
-            const kind = photo.memberId ? kinds.get(photo.memberId) : undefined;
-            const label = photo.memberId ? `${kind ? MEMBER_KIND_LABELS[kind] : 'member'} "${photo.memberId}"` : `${photo.area[0]!.toUpperCase()}${photo.area.slice(1)}`;
+            const name = photo.memberId ? (nameOf.get(photo.memberId) ?? 'a member not in the checked revision') : undefined;
+            const label = name ?? `${photo.area[0]!.toUpperCase()}${photo.area.slice(1)}`;
             return { thumbnail, caption: photo.caption, label };
           }),
         };

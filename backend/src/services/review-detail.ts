@@ -24,8 +24,13 @@ const iso = (d: Date | string | null) => (d ? new Date(d).toISOString() : null);
 interface QueueRow {
   id: string; state: SubmissionStateWire; version: number; car_id: string; car_name: string; race_number: string | null;
   builder_id: string; builder_name: string; class_id: string; class_name: string; verdict: QueueItemWire['verdict'];
-  steward_id: string | null; steward_name: string | null; previous_submission_id: string | null; created_at: Date; updated_at: Date;
+  steward_id: string | null; steward_name: string | null; previous_submission_id: string | null; resubmitted_as_id: string | null;
+  waivers: Submission['waivers']; findings: CheckRun['report']['findings']; created_at: Date; updated_at: Date;
 }
+
+/** A request for changes the builder answered with a resubmission is not open any more. */
+const stateFilter = (state: string, param: string) =>
+  state === 'changes_requested' ? `(s.state = ${param} AND s.resubmitted_as_id IS NULL)` : `s.state = ${param}`;
 
 export type ReviewReader = ReturnType<typeof createReviewReader>;
 
@@ -67,7 +72,7 @@ export function createReviewReader(ds: DataSource, deps: { records: CageRecordSe
       const where = ['s.club_id = $1'];
       const params: unknown[] = [clubId];
       if (q.state === 'open') where.push(`s.state IN ('pending', 'in_review')`);
-      else if (q.state !== 'all') where.push(`s.state = $${params.push(q.state)}`);
+      else if (q.state !== 'all') where.push(stateFilter(q.state, `$${params.push(q.state)}`));
       if (q.classId) where.push(`s.class_id = $${params.push(q.classId)}`);
       if (AGE_DAYS[q.age] > 0) where.push(`s.created_at <= now() - make_interval(days => $${params.push(AGE_DAYS[q.age])})`);
       if (q.assigned === 'me') where.push(`s.assigned_steward_id = $${params.push(userId)}`);
@@ -75,13 +80,17 @@ export function createReviewReader(ds: DataSource, deps: { records: CageRecordSe
       const rows: QueueRow[] = await ds.query(
         `SELECT s.id, s.state, s.version, c.id AS car_id, c.name AS car_name, c.race_number, b.id AS builder_id, b.display_name AS builder_name,
                 s.class_id, cr.report->>'className' AS class_name, cr.report->>'verdict' AS verdict, st.id AS steward_id,
-                st.display_name AS steward_name, s.previous_submission_id, s.created_at, s.updated_at
+                st.display_name AS steward_name, s.previous_submission_id, s.resubmitted_as_id, s.waivers, cr.report->'findings' AS findings,
+                s.created_at, s.updated_at
          FROM submissions s JOIN cars c ON c.id = s.car_id JOIN users b ON b.id = s.builder_id JOIN check_runs cr ON cr.id = s.check_run_id
          LEFT JOIN users st ON st.id = s.assigned_steward_id
          WHERE ${where.join(' AND ')} ORDER BY ${order}, s.id LIMIT 500`,
         params,
       );
-      const countRows: { state: SubmissionStateWire; n: string }[] = await ds.query(`SELECT state, count(*) AS n FROM submissions WHERE club_id = $1 GROUP BY state`, [clubId]);
+      const countRows: { state: SubmissionStateWire; n: string }[] = await ds.query(
+        `SELECT state, count(*) AS n FROM submissions WHERE club_id = $1 AND NOT (state = 'changes_requested' AND resubmitted_as_id IS NOT NULL) GROUP BY state`,
+        [clubId],
+      );
       const counts = Object.fromEntries(SUBMISSION_STATES.map((st) => [st, 0])) as Record<SubmissionStateWire, number>;
       for (const r of countRows) counts[r.state] = Number(r.n);
       const classes: { id: string; name: string }[] = await ds.query(
@@ -89,12 +98,16 @@ export function createReviewReader(ds: DataSource, deps: { records: CageRecordSe
         [clubId],
       );
       return {
-        items: rows.map((r) => ({
-          id: r.id, state: r.state, version: r.version, car: { id: r.car_id, name: r.car_name, raceNumber: r.race_number },
-          builder: { id: r.builder_id, displayName: r.builder_name }, classId: r.class_id, className: r.class_name, verdict: r.verdict,
-          assignedSteward: r.steward_id ? { id: r.steward_id, displayName: r.steward_name ?? '' } : null, isResubmission: r.previous_submission_id !== null,
-          createdAt: iso(r.created_at)!, updatedAt: iso(r.updated_at)!,
-        })),
+        items: rows.map((r) => {
+          const overall = overallWithWaivers(r.findings ?? [], r.waivers ?? []);
+          return {
+            id: r.id, state: r.state, version: r.version, car: { id: r.car_id, name: r.car_name, raceNumber: r.race_number },
+            builder: { id: r.builder_id, displayName: r.builder_name }, classId: r.class_id, className: r.class_name, verdict: r.verdict,
+            reviewVerdict: overall.verdict, waivedCount: overall.waivedCount,
+            assignedSteward: r.steward_id ? { id: r.steward_id, displayName: r.steward_name ?? '' } : null, isResubmission: r.previous_submission_id !== null,
+            resubmittedAsId: r.resubmitted_as_id, createdAt: iso(r.created_at)!, updatedAt: iso(r.updated_at)!,
+          };
+        }),
         counts,
         classes,
       };
@@ -126,7 +139,7 @@ export function createReviewReader(ds: DataSource, deps: { records: CageRecordSe
         if (o.clubId !== s.clubId && !isBuilder) continue;
         const oRun = await ds.getRepository(CheckRun).findOneByOrFail({ id: o.checkRunId });
         const rec = await ds.getRepository(CageRecord).findOneBy({ submissionId: o.id });
-        history.push({ id: o.id, state: o.state, createdAt: o.createdAt.toISOString(), decidedAt: iso(o.decidedAt), decisionNote: o.decisionNote, revisionNumber: await revisionNumberOf(oRun), recordNumber: rec?.number ?? null });
+        history.push({ id: o.id, state: o.state, waivedCount: overallWithWaivers(oRun.report.findings, o.waivers).waivedCount, resubmittedAsId: o.resubmittedAsId, createdAt: o.createdAt.toISOString(), decidedAt: iso(o.decidedAt), decisionNote: o.decisionNote, revisionNumber: await revisionNumberOf(oRun), recordNumber: rec?.number ?? null });
       }
       const recordRow = await ds.getRepository(CageRecord).findOneBy({ submissionId: s.id });
       const isSteward = roles.includes('steward') && !isBuilder;

@@ -2,6 +2,7 @@
 // the builder hears of every decision (and of a revoked record), opted-in stewards of every new
 // submission in their club's queue.
 import type { EntityManager } from 'typeorm';
+import { approvedText, decisionSubjectText, waiverCountText } from '../contracts/verdict-words';
 import type { MailService } from './mail';
 import { renderMail } from './mail';
 
@@ -15,23 +16,40 @@ interface Person {
   displayName: string;
 }
 
-const DECISION_WORDS = {
-  approve: { subject: 'approved', line: 'approved your submission' },
-  request_changes: { subject: 'changes requested', line: 'asked for changes before approving your submission' },
-  reject: { subject: 'rejected', line: 'rejected your submission' },
+const DECISION_LINES = {
+  approve: 'approved your submission',
+  request_changes: 'asked for changes before approving your submission',
+  reject: 'rejected your submission',
 } as const;
 
-export type DecisionKind = keyof typeof DECISION_WORDS;
+export type DecisionKind = keyof typeof DECISION_LINES;
+
+/** A finding the steward waived, as the mail names it. */
+export interface WaivedFindingText {
+  /** "Door bars 1.500 × 0.095 in, door bar db1 (section C4.2.2)" */
+  finding: string;
+  reason: string;
+}
 
 export async function mailDecision(
   deps: ReviewMailDeps, em: EntityManager,
-  input: { builder: Person; steward: string; clubId: string; clubName: string; carName: string; submissionId: string; decision: DecisionKind; note: string | null; recordNumber?: string },
+  input: {
+    builder: Person; steward: string; clubId: string; clubName: string; carName: string; submissionId: string; decision: DecisionKind; note: string | null;
+    recordNumber?: string; expiresOn?: string; waived?: WaivedFindingText[];
+  },
 ): Promise<void> {
-  const w = DECISION_WORDS[input.decision];
+  const waived = input.waived ?? [];
+  // The same words as the submission page the mail links to (contracts/verdict-words.ts).
+  const outcome = input.decision === 'approve' ? `${approvedText(waived.length)}.` : '';
   const paragraphs = [
-    `${input.steward} ${w.line} for ${input.carName} in ${input.clubName}.`,
+    `${input.steward} ${DECISION_LINES[input.decision]} for ${input.carName} in ${input.clubName}. ${outcome}`.trim(),
     input.note ? (input.decision === 'approve' ? `Steward's note: ${input.note}` : input.decision === 'reject' ? `Reason: ${input.note}` : `What to change: ${input.note}`) : '',
-    input.recordNumber ? `Cage record ${input.recordNumber} is issued. Its PDF report carries a QR code anyone at the track can scan to check it.` : '',
+    waived.length
+      ? `The steward accepted ${waiverCountText(waived.length)} in writing. A waived finding does not meet the rule as written; it stays on the record as waived:\n${waived.map((w) => `• ${w.finding}: ${w.reason}`).join('\n')}`
+      : '',
+    input.recordNumber
+      ? `Cage record ${input.recordNumber} is issued${input.expiresOn ? `, valid until ${input.expiresOn}` : ''}. Its PDF report carries a QR code anyone at the track can scan to check it.`
+      : '',
     input.decision === 'request_changes' ? 'Make the changes on the build sheet, run a new check and resubmit it from the check run page.' : '',
   ];
   await deps.mail.enqueue(
@@ -40,7 +58,7 @@ export async function mailDecision(
       kind: 'review.decided',
       related: { clubId: input.clubId, submissionId: input.submissionId },
       ...renderMail({
-        subject: `Steward decision on ${input.carName}: ${w.subject}`,
+        subject: `Steward decision on ${input.carName}: ${decisionSubjectText(input.decision, waived.length)}`,
         greeting: `Hello ${input.builder.displayName},`,
         paragraphs,
         action: { label: 'Open the submission', url: `${deps.publicUrl}/submissions/${input.submissionId}` },

@@ -6,7 +6,9 @@ import { randomUUID } from 'node:crypto';
 import { IsNull, type DataSource, type EntityManager } from 'typeorm';
 import type { ActionBody, AnnotationBody, MySubmissionWire, ResubmitBody, SubmitBody } from '../contracts/review';
 import { resubmit, submitForReview, applyReviewAction, FINAL_STATES, type AuditEvent, type ReviewAction } from '../domain/review/workflow';
-import { findingKey } from '../domain/review/waivers';
+import { findingKey, overallWithWaivers } from '../domain/review/waivers';
+import { formatIsoDate } from '../domain/dates';
+import { MEMBER_KIND_LABELS } from '../domain/vocabulary';
 import { BuildSheet, BuildSheetRevision, Car, CheckRun, Club, FindingAnnotation, Photo, StewardMailOptIn, Submission, SubmissionEvent, User } from '../entities';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import type { AuditService } from './audit.service';
@@ -161,9 +163,18 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
           const club = await tx.getRepository(Club).findOneByOrFail({ id: row.clubId });
           const steward = await tx.getRepository(User).findOneByOrFail({ id: userId });
           const builder = await tx.getRepository(User).findOneByOrFail({ id: row.builderId });
+          const byKey = new Map(run.report.findings.map((f) => [findingKey(f), f]));
+          const waived = body.type === 'approve'
+            ? overallWithWaivers(run.report.findings, next.waivers).findings.filter((f) => f.waiver).map((f) => {
+                const finding = byKey.get(f.key)!;
+                const subject = finding.member ? `${MEMBER_KIND_LABELS[finding.member.kind]} ${finding.member.id}` : finding.plate ? `plate ${finding.plate.id}` : 'whole car';
+                return { finding: `${finding.title}, ${subject} (section ${finding.citation.section})`, reason: f.waiver!.reason };
+              })
+            : [];
           await mailDecision(deps, tx, {
             builder, steward: steward.displayName, clubId: club.id, clubName: club.name, carName: car.name, submissionId: row.id,
-            decision: body.type as DecisionKind, note: next.decisionNote, ...(record ? { recordNumber: record.number } : {}),
+            decision: body.type as DecisionKind, note: next.decisionNote, waived,
+            ...(record ? { recordNumber: record.number, expiresOn: formatIsoDate(record.expiresAt.toISOString().slice(0, 10)) } : {}),
           });
         }
       });
@@ -202,7 +213,9 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
         sheetId = rev.buildSheetId;
       }
       const rows = await ds.getRepository(Submission).find({ where: { builderId: userId, ...(sheetId ? { buildSheetId: sheetId } : {}) }, order: { createdAt: 'DESC' }, take: 100 });
-      return rows.map((s) => ({ id: s.id, state: s.state, version: s.version, checkRunId: s.checkRunId, createdAt: s.createdAt.toISOString(), decisionNote: s.decisionNote, resubmittedAsId: s.resubmittedAsId }));
+      const runs = rows.length ? await ds.getRepository(CheckRun).createQueryBuilder('r').where('r.id IN (:...ids)', { ids: rows.map((s) => s.checkRunId) }).getMany() : [];
+      const findingsOf = new Map(runs.map((r) => [r.id, r.report.findings]));
+      return rows.map((s) => ({ id: s.id, state: s.state, version: s.version, waivedCount: overallWithWaivers(findingsOf.get(s.checkRunId) ?? [], s.waivers).waivedCount, checkRunId: s.checkRunId, createdAt: s.createdAt.toISOString(), decisionNote: s.decisionNote, resubmittedAsId: s.resubmittedAsId }));
     },
 
     async mailOptIn(clubId: string, userId: string): Promise<boolean> {

@@ -2,7 +2,9 @@
 // (lock versions: a stale save is refused with both versions kept), import and export documents,
 // compare two versions in words, run a draft against the club's build sheets (impact: a background
 // job with progress, services/publish/impact-job.ts), publish (then a background job re-checks and
-// tells builders: services/publish/) and retire. Both re-checks run in the check service's bulk pool. The life-cycle
+// tells builders: services/publish/) and retire. Both re-checks run in the check service's bulk pool.
+// An edition dated after the club's today is scheduled and comes into force on its date
+// (activateDueEditions, run by the edition clock: services/publish/edition-clock.ts). The life-cycle
 // rules are the pure domain's (domain/rulebook/lifecycle.ts); the database trigger backs them up.
 // Every change is written with its activity-log entry in one transaction.
 import type { DataSource, EntityManager } from 'typeorm';
@@ -22,12 +24,14 @@ import type { RulesetVersionWire } from '../contracts/checks';
 import { validateRulesetDocument } from '../domain/rules/validate';
 import { TEMPLATE_KINDS } from '../domain/rules/template-kinds';
 import { describeRulesetChanges, type RulesetChange } from '../domain/rulebook/diff';
-import { startDraftFrom, transitionVersion, type RulebookVersion } from '../domain/rulebook/lifecycle';
+import { activateDueVersions, startDraftFrom, transitionVersion, type RulebookVersion, type StateChange } from '../domain/rulebook/lifecycle';
+import { calendarDateIn } from '../domain/dates';
 import type { RulesetStatus } from '../entities';
 import { AppError, ConflictError, NotFoundError, ValidationError } from '../errors';
 import { enforce, rolesIn } from './access';
 import type { AuditService } from './audit.service';
 import type { RulesetService } from './rulesets.service';
+import type { ClubSettingsService } from './club-settings.service';
 import { affectedClassIds, recheckSheets, type RecheckEvaluator } from './publish/recheck';
 
 /** Sends background jobs (the publish re-check, the impact); server.ts passes pg-boss, tests may pass their own. */
@@ -118,8 +122,18 @@ const adminsOnly = 'Only the club’s admins keep its rulebooks.';
 
 export type RulebookAdminService = ReturnType<typeof createRulebookAdminService>;
 
-export function createRulebookAdminService(ds: DataSource, deps: { rulesets: RulesetService; audit: AuditService; evaluator: RecheckEvaluator; batchSize?: number }) {
-  const { rulesets, audit } = deps;
+export interface ActivatedEdition {
+  versionId: string;
+  rulebookId: string;
+  versionNumber: number;
+  supersededIds: string[];
+}
+
+export function createRulebookAdminService(
+  ds: DataSource,
+  deps: { rulesets: RulesetService; audit: AuditService; clubSettings: ClubSettingsService; now: () => Date; evaluator: RecheckEvaluator; batchSize?: number },
+) {
+  const { rulesets, audit, clubSettings } = deps;
 
   /** The version (locked for update inside a transaction when asked); 404 for strangers, 403 for non-admins. */
   async function adminVersion(em: EntityManager, versionId: string, userId: string, lock = false): Promise<VersionRow> {
@@ -171,10 +185,25 @@ export function createRulebookAdminService(ds: DataSource, deps: { rulesets: Rul
     return validation.document;
   }
 
-  /** The version a draft is measured against: the current published one, else the newest non-draft. */
+  /**
+   * Writes status moves in an order the database accepts: supersede and retire first (at most one
+   * version in force per rulebook), then the move into force or the schedule.
+   */
+  async function applyStatusChanges(tx: EntityManager, changes: readonly StateChange[]): Promise<void> {
+    const rank = (c: StateChange) => (c.to === 'published' ? 1 : 0);
+    for (const c of [...changes].sort((a, b) => rank(a) - rank(b))) {
+      if (c.to === 'deleted') continue;
+      await tx.query(`UPDATE ruleset_versions SET status = $2 WHERE id = $1 AND status = $3`, [c.versionId, c.to, c.from]);
+    }
+  }
+
+  /**
+   * The version a draft is measured against: the newest edition in force or scheduled (the one it
+   * follows), else the newest non-draft.
+   */
   function baselineOf(siblings: VersionRow[], except: string): VersionRow | undefined {
-    const others = siblings.filter((s) => s.id !== except && s.status !== 'draft');
-    return others.find((s) => s.status === 'published') ?? others.sort((a, b) => b.versionNumber - a.versionNumber)[0];
+    const others = siblings.filter((s) => s.id !== except && s.status !== 'draft').sort((a, b) => b.versionNumber - a.versionNumber);
+    return others.find((s) => s.status === 'published' || s.status === 'scheduled') ?? others[0];
   }
 
   function classesConcerned(changes: RulesetChange[], doc: RulesetDocument): string[] {
@@ -382,35 +411,80 @@ export function createRulebookAdminService(ds: DataSource, deps: { rulesets: Rul
       return { versionId: v.id, lockVersion: v.lockVersion, classIds, checked, failed, counts, changed };
     },
 
-    /** Publishes the draft (the previous edition is superseded) and queues the re-check of the sheets. */
+    /**
+     * Publishes the draft and queues the re-check of the sheets. Dated today or earlier in the club's
+     * time zone it is in force at once (the edition before it is superseded); dated later it is
+     * scheduled, and the edition in force stays so until the date comes.
+     */
     async publish(versionId: string, userId: string, body: PublishBody, queue: RepublishQueue | null): Promise<PublishedWire> {
       const outcome = await ds.transaction(async (tx) => {
         const v = await adminVersion(tx, versionId, userId, true);
         draftOnly(v);
         if (v.lockVersion !== body.lockVersion) throw conflict(v);
+        // The rulebook row serialises publishing with the edition clock.
+        await tx.query(`SELECT id FROM rulebooks WHERE id = $1 FOR UPDATE`, [v.rulebookId]);
         const siblings = await siblingsOf(tx, v.rulebookId);
-        const done = transitionVersion(asLifecycle(v), { type: 'publish', effectiveDate: body.effectiveDate }, { siblings: siblings.map(asLifecycle), now: new Date().toISOString() });
+        const { today } = await clubSettings.calendar(v.clubId, tx);
+        const done = transitionVersion(asLifecycle(v), { type: 'publish', effectiveDate: body.effectiveDate }, { siblings: siblings.map(asLifecycle), now: new Date().toISOString(), today });
         if (!done.ok) throw refusal(done.code, done.message, done.problems);
         const published = done.version!;
-        const previous = siblings.find((s) => s.status === 'published') ?? baselineOf(siblings, v.id);
+        const previous = baselineOf(siblings, v.id);
         // Supersede first: at most one published version per rulebook (a unique index).
-        for (const change of done.changes.slice(1)) {
-          await tx.query(`UPDATE ruleset_versions SET status = $2 WHERE id = $1`, [change.versionId, change.to]);
-        }
+        await applyStatusChanges(tx, done.changes.slice(1));
         await tx.query(
-          `UPDATE ruleset_versions SET status = 'published', document = $2::jsonb, edition = $3, effective_date = $4, published_at = now(), published_by = $5 WHERE id = $1`,
-          [v.id, JSON.stringify(published.document), published.edition, published.effectiveDate, userId],
+          `UPDATE ruleset_versions SET status = $6, document = $2::jsonb, edition = $3, effective_date = $4, published_at = now(), published_by = $5 WHERE id = $1`,
+          [v.id, JSON.stringify(published.document), published.edition, published.effectiveDate, userId, published.state],
         );
         const doc = published.document as RulesetDocument;
         const classIds = previous ? classesConcerned(describeRulesetChanges(validDocument(previous), doc), doc) : doc.classes.map((c) => c.id);
-        await audit.record({ clubId: v.clubId, actorId: userId, action: 'ruleset.published', entity: { type: 'ruleset_version', id: v.id }, details: { versionNumber: v.versionNumber, edition: published.edition, effectiveDate: published.effectiveDate, supersededVersion: previous?.status === 'published' ? previous.versionNumber : null, classIds } }, { manager: tx });
-        return { v, classIds, previousId: previous?.id ?? null };
+        const wasInForce = done.changes.slice(1).find((c) => c.from === 'published');
+        const supersededVersion = wasInForce ? (siblings.find((s) => s.id === wasInForce.versionId)?.versionNumber ?? null) : null;
+        await audit.record({ clubId: v.clubId, actorId: userId, action: published.state === 'scheduled' ? 'ruleset.scheduled' : 'ruleset.published', entity: { type: 'ruleset_version', id: v.id }, details: { versionNumber: v.versionNumber, edition: published.edition, effectiveDate: published.effectiveDate, supersededVersion, classIds } }, { manager: tx });
+        return { v, classIds, previousId: previous?.id ?? null, state: published.state as 'published' | 'scheduled', effectiveDate: published.effectiveDate! };
       });
       // pg-boss has its own connections, so the job is sent once the publish is committed.
       const jobId = queue
         ? await queue.send(republishQueueName, { versionId, previousVersionId: outcome.previousId, classIds: outcome.classIds }, { clubId: outcome.v.clubId, requestedBy: userId })
         : null;
-      return { versionId, jobId, classIds: outcome.classIds };
+      return { versionId, jobId, classIds: outcome.classIds, status: outcome.state, effectiveDate: outcome.effectiveDate };
+    },
+
+    /**
+     * Brings every scheduled edition whose date has come (midnight in its club's time zone) into
+     * force, superseding the one before. Idempotent and safe to run from several servers at once: each
+     * rulebook is locked and looked at again inside its own transaction.
+     */
+    async activateDueEditions(at: Date = deps.now()): Promise<ActivatedEdition[]> {
+      const candidates: { rulebookId: string }[] = await ds.query(
+        `SELECT DISTINCT v.rulebook_id AS "rulebookId" FROM ruleset_versions v JOIN rulebooks r ON r.id = v.rulebook_id JOIN clubs c ON c.id = r.club_id
+         WHERE v.status = 'scheduled' AND v.effective_date <= ($1::timestamptz AT TIME ZONE c.time_zone)::date`,
+        [at.toISOString()],
+      );
+      const activated: ActivatedEdition[] = [];
+      for (const { rulebookId } of candidates) {
+        const done = await ds.transaction(async (tx) => {
+          const books: { clubId: string; timeZone: string }[] = await tx.query(
+            `SELECT r.club_id AS "clubId", c.time_zone AS "timeZone" FROM rulebooks r JOIN clubs c ON c.id = r.club_id WHERE r.id = $1 FOR UPDATE OF r`,
+            [rulebookId],
+          );
+          const book = books[0];
+          if (!book) return null;
+          const siblings = await siblingsOf(tx, rulebookId);
+          const changes = activateDueVersions(siblings.map(asLifecycle), calendarDateIn(at, book.timeZone));
+          const into = changes.find((c) => c.to === 'published');
+          if (!into) return null;
+          await applyStatusChanges(tx, changes);
+          const v = siblings.find((s) => s.id === into.versionId)!;
+          const supersededIds = changes.filter((c) => c.to === 'superseded').map((c) => c.versionId);
+          await audit.record(
+            { clubId: book.clubId, actorId: null, action: 'ruleset.in_force', entity: { type: 'ruleset_version', id: v.id }, details: { versionNumber: v.versionNumber, edition: v.edition, effectiveDate: v.effectiveDate, supersededVersions: siblings.filter((s) => supersededIds.includes(s.id)).map((s) => s.versionNumber) } },
+            { manager: tx },
+          );
+          return { versionId: v.id, rulebookId, versionNumber: v.versionNumber, supersededIds };
+        });
+        if (done) activated.push(done);
+      }
+      return activated;
     },
 
     async retire(versionId: string, userId: string): Promise<RulesetVersionWire> {

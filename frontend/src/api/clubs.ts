@@ -1,6 +1,8 @@
-// Club membership administration (club admins) and invitations (the invited person, signed out).
+// Club membership administration (club admins), the club's settings (its time zone) and invitations
+// (the invited person, signed out).
 import { http } from './http';
 import type { AddMemberResult, ClubMember, InvitationSummary, Role, SessionPayload } from './types';
+import type { ClubSettingsWire } from '@contracts/clubs';
 
 const membersPath = (clubId: string) => `/clubs/${encodeURIComponent(clubId)}/members`;
 
@@ -42,4 +44,17 @@ export async function acceptInvitation(
   });
   http.resetCsrfToken();
   return session;
+}
+
+export type { ClubSettingsWire as ClubSettings } from '@contracts/clubs';
+
+const settingsPath = (clubId: string) => `/clubs/${encodeURIComponent(clubId)}/settings`;
+
+/** The club's time zone and its calendar date today (every member may read them). */
+export async function getClubSettings(clubId: string): Promise<ClubSettingsWire> {
+  return (await http.get<{ settings: ClubSettingsWire }>(settingsPath(clubId))).settings;
+}
+
+export async function updateClubSettings(clubId: string, timeZone: string): Promise<ClubSettingsWire> {
+  return (await http.patch<{ settings: ClubSettingsWire }>(settingsPath(clubId), { timeZone })).settings;
 }

@@ -1,8 +1,8 @@
 // Fabrication sheets (docs/api.md, "Fabrication"): the cope and its template PDF, the builder's
 // settings, a sheet's schedule and buying list. Canonical units throughout.
 import { http } from './http';
-import type { CopePdfBody, FabricationSettings, FabricationSettingsWire } from '@contracts/fabrication';
-import type { SheetFabrication } from '@domain/fabrication/sheet-fabrication';
+import type { CopePdfBody, FabricationSettings, FabricationSettingsWire, HoopLegsBody } from '@contracts/fabrication';
+import type { MeasuredLegTrim, SheetFabrication } from '@domain/fabrication/sheet-fabrication';
 
 export type { FabricationSettings, FabricationSettingsWire };
 export type SheetFabricationWire = SheetFabrication & { sheetName: string; revisionNumber: number };
@@ -23,6 +23,15 @@ export async function saveFabricationSettings(settings: FabricationSettings): Pr
 
 export async function getSheetFabrication(sheetId: string): Promise<SheetFabricationWire> {
   return (await http.get<{ fabrication: SheetFabricationWire }>(`/build-sheets/${id(sheetId)}/fabrication`)).fabrication;
+}
+
+/** Keeps a hoop's measured legs with the sheet; refused at `legs.N.padHeightMm` etc. when they cannot stand it. */
+export async function saveMeasuredLegs(sheetId: string, memberId: string, body: HoopLegsBody): Promise<MeasuredLegTrim> {
+  return (await http.put<{ measuredLegs: MeasuredLegTrim }>(`/build-sheets/${id(sheetId)}/fabrication/legs/${id(memberId)}`, body)).measuredLegs;
+}
+
+export function clearMeasuredLegs(sheetId: string, memberId: string): Promise<void> {
+  return http.delete(`/build-sheets/${id(sheetId)}/fabrication/legs/${id(memberId)}`);
 }
 
 export const buyingListCsvUrl = (sheetId: string, units: string) => `/api/build-sheets/${id(sheetId)}/buying-list.csv?units=${units}`;

@@ -2,7 +2,7 @@
 // (docs/api.md, "Garage"). Wire types come from the server's contract; canonical units throughout.
 import { http } from './http';
 import type {
-  BuildSheetDetailWire, CarWire, CheckRunSummaryWire, SheetCheckRunWire as CheckRunWire, CreateCarBody, ListQuery, RevisionDiffWire,
+  BuildSheetDetailWire, CarWire, CheckRunSummaryWire, SheetEditionsWire, SheetCheckRunWire as CheckRunWire, CreateCarBody, ListQuery, RevisionDiffWire,
   RevisionSummaryWire, RevisionWire, UpdateCarBody,
 } from '@contracts/garage';
 import type { Specification } from '@contracts/specification';
@@ -13,7 +13,8 @@ export type { SavedCheckRun };
 export type {
   BuildSheetDetailWire as BuildSheetDetail, BuildSheetWire as BuildSheet, CarWire as Car, SheetCheckRunWire as CheckRun,
   CutListRowWire as CutListRow, DiffChangeWire as DiffChange, RevisionDiffWire as RevisionDiff,
-  RevisionSummaryWire as RevisionSummary, SheetSummaryWire as SheetSummary, SheetVerdict,
+  RevisionSummaryWire as RevisionSummary, SheetSummaryWire as SheetSummary, SheetVerdict, SheetEditionsWire as SheetEditions,
+  SheetReviewWire as SheetReview,
 } from '@contracts/garage';
 
 const id = encodeURIComponent;
@@ -73,6 +74,16 @@ export interface SaveRevision {
 /** Saves a new revision on top of `baseRevision`; a stale base gives `409 conflict` `{ currentRevision }`. */
 export function saveRevision(sheetId: string, body: SaveRevision): Promise<BuildSheetDetailWire> {
   return http.put<BuildSheetDetailWire>(`${sheetPath(sheetId)}/specification`, body);
+}
+
+/** The sheet's edition and the newest one of its rulebook, with what the sheet gets under each. */
+export async function getSheetEditions(sheetId: string): Promise<SheetEditionsWire> {
+  return (await http.get<{ editions: SheetEditionsWire }>(`${sheetPath(sheetId)}/editions`)).editions;
+}
+
+/** Saves the latest revision again under a newer edition; a stale base gives `409` `{ currentRevision }`. */
+export function moveSheetToEdition(sheetId: string, baseRevision: number, rulesetVersionId: string): Promise<BuildSheetDetailWire> {
+  return http.post<BuildSheetDetailWire>(`${sheetPath(sheetId)}/move-edition`, { baseRevision, rulesetVersionId });
 }
 
 export async function listRevisions(sheetId: string): Promise<RevisionSummaryWire[]> {

@@ -1,11 +1,15 @@
 // Tube stock lists and the tube chooser (docs/api.md, "Tube stock and the tube chooser"). Wire types
 // come from the server's contract; canonical units throughout (mm, MPa, kg/m).
 import { http } from './http';
-import type { StockListWire, StockTubeInput as StockTubeBody, StockTubePatchInput as StockTubePatch, StockTubeWire, TubeChoiceWire } from '@contracts/tube-stock';
+import type {
+  StockListWire, StockTubeInput as StockTubeBody, StockTubePatchInput as StockTubePatch, StockTubeWire, TubeChoiceAppliedWire, TubeChoiceApplyInput, TubeChoiceWire,
+} from '@contracts/tube-stock';
+import type { BuildSheetDetailWire } from '@contracts/garage';
 
 export type {
   CandidateWire as TubeCandidate, MemberTubeChoiceWire as MemberTubeChoice, StockListWire as StockList, StockTubeInput as StockTubeBody,
-  StockTubePatchInput as StockTubePatch, StockTubeWire as StockTube, TubeChoiceWire as TubeChoice,
+  StockTubePatchInput as StockTubePatch, StockTubeWire as StockTube, TubeChoiceWire as TubeChoice, TubeChoiceAppliedWire as TubeChoiceApplied,
+  TubeChangeWire as TubeChange,
 } from '@contracts/tube-stock';
 
 const id = encodeURIComponent;
@@ -49,4 +53,14 @@ export function deleteMyStock(tubeId: string): Promise<void> {
 
 export function getTubeChoice(sheetId: string, anyMaterial: boolean): Promise<TubeChoiceWire> {
   return http.get<TubeChoiceWire>(`/build-sheets/${id(sheetId)}/tube-choice${anyMaterial ? '?anyMaterial=true' : ''}`);
+}
+
+/** Puts a stock size (and the companions it needs) on the sheet as its next revision. */
+export function applyTubeChoice(sheetId: string, body: TubeChoiceApplyInput): Promise<TubeChoiceAppliedWire> {
+  return http.post<TubeChoiceAppliedWire>(`/build-sheets/${id(sheetId)}/tube-choice/apply`, body);
+}
+
+/** Undo: saves revision `number` again as the next revision, on top of `baseRevision`. */
+export function restoreRevision(sheetId: string, number: number, baseRevision: number): Promise<BuildSheetDetailWire> {
+  return http.post<BuildSheetDetailWire>(`/build-sheets/${id(sheetId)}/revisions/${number}/restore`, { baseRevision });
 }

@@ -3,4 +3,4 @@
 export { compileRuleset } from '@domain/rules/compile';
 export { evaluateSpecification } from '@domain/rules/evaluate';
 export { rulesetDocumentSchema } from '@contracts/ruleset';
-export { listedSizesForBand } from '@domain/tube-choice';
+export { listedSizesForBand, startingSizes } from '@domain/tube-choice';

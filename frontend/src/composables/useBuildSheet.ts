@@ -1,7 +1,7 @@
 // The build sheet page's data: the sheet and its current revision, the draft being edited, and saving
 // a new revision on top of the one the draft started from. A stale base (someone saved meanwhile,
 // say from the phone) answers 409; the draft stays exactly as typed and the page offers what to do.
-import { computed, ref, shallowRef, type Ref } from 'vue';
+import { computed, ref, shallowRef, toRaw, watch, type Ref } from 'vue';
 import * as garageApi from '@/api/garage';
 import { ApiError, errorMessage } from '@/api/errors';
 import type { BuildSheetDetail } from '@/api/garage';
@@ -32,7 +32,16 @@ export function useBuildSheet(sheetId: Ref<string>, units: Ref<UnitSystem>) {
   const conflict = ref<SaveConflict | null>(null);
   const savedSnapshot = ref('');
 
-  const dirty = computed(() => JSON.stringify({ d: draft.value, c: classId.value }) !== savedSnapshot.value);
+  // One deep walk of the draft per change counts the edits; what must see every change (dirty, the
+  // drawing) then reads the plain object underneath, not each value through Vue's proxies again.
+  const edits = ref(0);
+  watch(draft, () => (edits.value += 1), { deep: true });
+  /**
+   * The draft as a plain object, a new one after each edit so readers recompute (a shallow copy of
+   * the raw object under the proxy; read-only: edit through `draft`).
+   */
+  const plainDraft = computed<SheetDraft>(() => (edits.value, { ...toRaw(draft.value) }));
+  const dirty = computed(() => JSON.stringify({ d: plainDraft.value, c: classId.value }) !== savedSnapshot.value);
   const canEdit = computed(() => detail.value?.access === 'owner' && !detail.value.buildSheet.archivedAt);
 
   function adopt(next: BuildSheetDetail): void {
@@ -107,7 +116,7 @@ export function useBuildSheet(sheetId: Ref<string>, units: Ref<UnitSystem>) {
   }
 
   return {
-    detail, draft, classId, baseRevision, loading, loadError, saving, saveError, serverErrors, conflict, dirty, canEdit,
+    detail, draft, plainDraft, classId, baseRevision, loading, loadError, saving, saveError, serverErrors, conflict, dirty, canEdit,
     load, save, keepMine, adopt,
   };
 }

@@ -10,8 +10,18 @@ import type { MemberKind } from '@domain/vocabulary';
 export type MemberDraft = Omit<SpecMember, 'odMm' | 'wallMm'> & { odMm?: number; wallMm?: number };
 export type PlateDraft = SpecPlate;
 
+/** The helmet may be half typed (x given, radius not yet); checkDraft asks for all four or none. */
+export type VehicleDraft = Omit<Specification['vehicle'], 'helmet'> & { helmet?: Partial<NonNullable<Specification['vehicle']['helmet']>> };
+export const HELMET_KEYS = ['xMm', 'yMm', 'zMm', 'radiusMm'] as const;
+
+/** The helmet when all four values are typed, else undefined (what the drawing may use). */
+export function completeHelmet(v: VehicleDraft): Specification['vehicle']['helmet'] {
+  const h = v.helmet;
+  return h && HELMET_KEYS.every((k) => typeof h[k] === 'number') ? (h as Specification['vehicle']['helmet']) : undefined;
+}
+
 export interface SheetDraft {
-  vehicle: Specification['vehicle'];
+  vehicle: VehicleDraft;
   members: MemberDraft[];
   geometry: NonNullable<Specification['geometry']>;
   plates: PlateDraft[];
@@ -31,9 +41,18 @@ export function emptyDraft(classId: string): SheetDraft {
   return { vehicle: { classId }, members: [], geometry: {}, plates: [], inspectionHoles: [], padding: {}, welding: {}, cage: {} };
 }
 
+/**
+ * A deep copy of plain JSON data. The draft lives in Vue's reactive proxies, which structuredClone
+ * refuses ("could not be cloned"); a JSON round trip reads through them, and the sheet is JSON by
+ * contract (no dates, no undefined worth keeping).
+ */
+export function plainCopy<T>(value: T): T {
+  return JSON.parse(JSON.stringify(value)) as T;
+}
+
 /** A saved specification as an editable draft (deep copy: the draft never aliases a saved revision). */
 export function draftFromSpecification(spec: Specification, classId = spec.vehicle.classId): SheetDraft {
-  const copy = structuredClone(spec);
+  const copy = plainCopy(spec);
   return {
     vehicle: { ...copy.vehicle, classId },
     members: copy.members,
@@ -62,7 +81,7 @@ export function newMember(kind: MemberKind, draft: SheetDraft): MemberDraft {
 
 /** A copy of a row under a new id, placed by the caller right after the original. */
 export function copyMember(member: MemberDraft, draft: SheetDraft): MemberDraft {
-  const copy = structuredClone(member);
+  const copy = plainCopy(member);
   copy.id = nextId(member.kind.replace(/_/g, '-'), draft.members.map((m) => m.id));
   return copy;
 }
@@ -104,6 +123,11 @@ export function checkDraft(draft: SheetDraft, units: UnitSystem = 'metric'): Dra
     if (p.sidesMm && (p.sidesMm[0] === undefined || p.sidesMm[1] === undefined))
       problems.push({ path: `plates.${i}.sidesMm`, message: 'Enter both sides, or neither.' });
   });
+  const helmet = draft.vehicle.helmet;
+  if (helmet && HELMET_KEYS.some((k) => helmet[k] !== undefined)) {
+    for (const k of HELMET_KEYS)
+      if (helmet[k] === undefined) problems.push({ path: `vehicle.helmet.${k}`, message: 'Enter all four helmet values (centre x, y, z and radius), or clear them.' });
+  }
   if (draft.cage.certificate && !draft.cage.certificate.number)
     problems.push({ path: 'cage.certificate.number', message: 'Enter the certificate number, or clear the issuer.' });
   const candidate = prune({

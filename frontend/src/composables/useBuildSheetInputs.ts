@@ -3,6 +3,7 @@
 // of text that is not a number yet, which block a save because the draft cannot see that text.
 import { computed, inject, provide, reactive, ref, type ComputedRef, type InjectionKey, type Ref } from 'vue';
 import type { UnitSystem } from '@domain/index';
+import type { CageDrawing } from '@domain/geometry/cage-drawing';
 import type { InputMark } from '@/components/findings/findingMarks';
 import { emptyDraft, type SheetDraft } from './useBuildSheetDraft';
 
@@ -15,6 +16,10 @@ export interface SheetInputs {
   marks: ComputedRef<Record<string, InputMark>>;
   parseErrors: Record<string, string>;
   setParseError(path: string, message: string | null): void;
+  /** What the cage model gives per member id (length, side), so those inputs are not asked for. */
+  modelled: ComputedRef<CageDrawing['modelled']>;
+  /** The geometry facts the model derives (the values the rules read), likewise not asked for. */
+  modelFacts: ComputedRef<CageDrawing['facts']>;
 }
 
 const KEY: InjectionKey<SheetInputs> = Symbol('sheet-inputs');
@@ -24,6 +29,8 @@ export function provideSheetInputs(
   units: ComputedRef<UnitSystem>,
   errors: ComputedRef<Record<string, string>>,
   marks: ComputedRef<Record<string, InputMark>>,
+  modelled: ComputedRef<CageDrawing['modelled']> = computed(() => new Map()),
+  modelFacts: ComputedRef<CageDrawing['facts']> = computed(() => ({})),
 ): SheetInputs {
   const parseErrors = reactive<Record<string, string>>({});
   const inputs: SheetInputs = {
@@ -31,6 +38,8 @@ export function provideSheetInputs(
     units,
     errors,
     marks,
+    modelled,
+    modelFacts,
     parseErrors,
     setParseError(path, message) {
       if (message === null) delete parseErrors[path];
@@ -49,6 +58,8 @@ export function useSheetInputs(): SheetInputs {
       units: computed(() => 'metric' as const),
       errors: computed(() => ({})),
       marks: computed(() => ({})),
+      modelled: computed(() => new Map()),
+      modelFacts: computed(() => ({})),
       parseErrors: {},
       setParseError: () => undefined,
     }

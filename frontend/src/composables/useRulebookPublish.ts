@@ -1,7 +1,7 @@
 // Publishing a draft, and following the re-check job's progress until it is done (polled once a
 // second; polling stops when the page goes). The impact preview is useRulebookImpact's.
 import { onBeforeUnmount, ref, type Ref } from 'vue';
-import { jobProgress, publishDraft, retryJob, type JobProgressWire } from '@/api/rulebook-admin';
+import { jobProgress, publishDraft, retryJob, type JobProgressWire, type PublishedWire } from '@/api/rulebook-admin';
 import { errorMessage } from '@/api/errors';
 
 export function useRulebookPublish(versionId: Ref<string>, lockVersion: Ref<number>, options: { pollMs?: number } = {}) {
@@ -9,6 +9,8 @@ export function useRulebookPublish(versionId: Ref<string>, lockVersion: Ref<numb
   const publishError = ref<string | null>(null);
   const job = ref<JobProgressWire | null>(null);
   const published = ref(false);
+  /** In force now or scheduled, and from which date: what the server made of the publish. */
+  const result = ref<PublishedWire | null>(null);
   let timer: ReturnType<typeof setTimeout> | null = null;
 
   async function poll(jobId: string): Promise<void> {
@@ -43,6 +45,7 @@ export function useRulebookPublish(versionId: Ref<string>, lockVersion: Ref<numb
     publishError.value = null;
     try {
       const answer = await publishDraft(versionId.value, lockVersion.value, effectiveDate);
+      result.value = answer;
       published.value = true;
       if (answer.jobId) await poll(answer.jobId);
       return true;
@@ -58,5 +61,5 @@ export function useRulebookPublish(versionId: Ref<string>, lockVersion: Ref<numb
     if (timer) clearTimeout(timer);
   });
 
-  return { publishing, publishError, publish, job, published, rerun, rerunning };
+  return { publishing, publishError, publish, job, published, result, rerun, rerunning };
 }

@@ -7,7 +7,11 @@ import type { Finding, MeasuredValue, RequiredValue } from '@backend/contracts/r
 import {
   buildReportDocument, findingsByArea, findingsByRequirement, measuredText, pdfSafe, requiredText, REPORT_TITLE, SAFETY_CAUTION, tubeSizeText,
 } from '@backend/pdf/report-document';
-import { sampleReportInput } from '../../bench/pdf';
+import { readFileSync } from 'node:fs';
+import { fileURLToPath } from 'node:url';
+import { compileRuleset, evaluateSpecification, validateRulesetDocument } from '@backend/domain';
+import { tubeDataFor } from '@backend/services/garage/tube-data';
+import { sampleReportInput, sampleSpecification } from '../../bench/pdf';
 
 /** Every text a definition puts on the page, in document order (not colours, styles or widths). */
 function textsOf(node: unknown, out: string[] = [], isText = false): string[] {
@@ -109,7 +113,7 @@ describe('buildReportDocument', () => {
 
   it('says so when there are no members, no photos and no car', async () => {
     const input = await sampleReportInput('imperial', 0);
-    const doc = buildReportDocument({ ...input, car: null, tubeData: { members: [], cutList: [], estimatedTubeMassKg: 0, massComplete: true, membersWithoutLength: [] } });
+    const doc = buildReportDocument({ ...input, car: null, tubeData: { members: [], cutList: [], estimatedTubeMassKg: 0, massComplete: true, membersWithoutLength: [], namesWithoutLength: [] } });
     const text = textsOf(doc.content).join('\n');
     expect(text).toContain('The specification lists no members.');
     expect(text).toContain('No photos were added to this build sheet.');
@@ -125,5 +129,61 @@ describe('the cage’s approval and certificate on the report', () => {
     const without = textsOf(buildReportDocument(input).content).join('\n');
     expect(without).not.toContain("Maker's certificate");
     expect(without).not.toContain('Cage approved on');
+  });
+});
+
+describe('an approved submission’s report', () => {
+  const review = (waivers: { findingKey: string; reason: string; stewardName: string }[], recordStatus = 'valid') => ({
+    recordNumber: 'TVMC-2026-0007', recordStatus, stewardName: 'Imogen Feld', decidedAt: new Date('2026-12-02T10:00:00Z'),
+    expiresAt: new Date('2027-12-02T10:00:00Z'), note: null, waivers, verificationUrl: 'https://cagewright.example/verify/X', qrSvg: '<svg xmlns="http://www.w3.org/2000/svg" width="10" height="10"/>',
+  });
+
+  it('reads "approved with 1 waiver" in the banner and the summary, and the finding as waived with its reason', async () => {
+    const input = await sampleReportInput('imperial', 0);
+    // The sample's run with one mandatory finding failing and everything else met.
+    const failing = input.report.findings.find((f) => f.severity === 'mandatory' && f.member)!;
+    const findings = input.report.findings.map((f): Finding => (f === failing ? { ...f, verdict: 'fail' } : f.verdict === 'not_applicable' ? f : { ...f, verdict: 'pass' }));
+    const count = (v: Finding['verdict']) => findings.filter((f) => f.verdict === v).length;
+    const summary = { pass: count('pass'), fail: 1, needsInformation: 0, notApplicable: count('not_applicable'), advisoryFail: 0 };
+    const report = { ...input.report, verdict: 'fail' as const, findings, summary, measureNext: [] };
+    const key = `${failing.requirementId}@member:${failing.member!.id}`;
+    const text = textsOf(buildReportDocument({ ...input, report, review: review([{ findingKey: key, reason: 'Sonic reading 0.095 in on the car.', stewardName: 'Imogen Feld' }]) }).content).join('\n');
+    expect(text).toContain('APPROVED WITH 1 WAIVER');
+    expect(text).not.toContain('DOES NOT PASS THE PRE-CHECK');
+    expect(text).toContain(`${summary.pass} pass · 1 waived · 0 fail · 0 need information · ${summary.notApplicable} not applicable`);
+    expect(text).toContain('Approved with 1 waiver, by Imogen Feld on 2 Dec 2026');
+    // Nothing is left "not met": the waived finding is under Waivers with its reason, and reads waived below.
+    expect(text).not.toContain('Not met yet');
+    expect(text).toContain('Waived by Imogen Feld: ');
+    expect(text).toContain('Sonic reading 0.095 in on the car.');
+    // Without the review the same run reads as it is: not passed.
+    expect(textsOf(buildReportDocument({ ...input, report }).content).join('\n')).toContain('DOES NOT PASS THE PRE-CHECK');
+  });
+
+  it('says "approved" without waivers, and names a record that is no longer valid', async () => {
+    const input = await sampleReportInput('imperial', 0);
+    expect(textsOf(buildReportDocument({ ...input, review: review([]) }).content).join('\n')).toContain('APPROVED');
+    expect(textsOf(buildReportDocument({ ...input, review: review([], 'revoked') }).content).join('\n')).toContain('APPROVED · RECORD REVOKED WHEN PRINTED');
+  });
+});
+
+describe('members by the builder’s names', () => {
+  it('findings, "measure next", tube data and the cut list name a member as the builder does, never by its id', async () => {
+    const spec = sampleSpecification();
+    const labels: Record<string, string> = { 'db-r1': 'door bar right upper', dash: 'dash bar', 'rb-l': 'backstay left' };
+    for (const m of spec.members) if (labels[m.id]) m.label = labels[m.id];
+    const validation = validateRulesetDocument(JSON.parse(readFileSync(fileURLToPath(new URL('../../../rulesets/tarnwick-vale-mc-cage-regulations-2027.json', import.meta.url)), 'utf8')));
+    if (!validation.ok) throw new Error('demo ruleset invalid');
+    const report = await evaluateSpecification(compileRuleset(validation.document), spec.vehicle.classId, spec, { unitSystem: 'imperial' });
+    // The thin door bar fails (§ C4.3.1) and the dash bar has no length: both named as labelled.
+    expect(report.findings.some((f) => f.verdict === 'fail' && f.member?.name === 'door bar right upper')).toBe(true);
+    const input = await sampleReportInput('imperial', 0);
+    const doc = buildReportDocument({ ...input, report, tubeData: tubeDataFor(spec) });
+    const text = textsOf(doc.content).join('\n');
+    expect(text).toContain('door bar right upper');
+    expect(text).toContain('backstay left\nrear brace (backstay)');
+    expect(text).toContain('without dash bar (no length given)');
+    for (const id of Object.keys(labels)) expect(text).not.toContain(`"${id}"`);
+    expect(text).not.toMatch(/\b(db-r1|rb-l)\b/);
   });
 });

@@ -142,7 +142,7 @@ describe('the demo ruleset on a complete Club Saloon', () => {
   test('metric document: 1.75 × 0.095 in hoop passes via its printed equivalence; the policy is in the report', async () => {
     const r = await check(metric, { vehicle: { classId: 'hill-saloon' }, members: [{ id: 'mh', kind: 'main_hoop', odMm: 1.75 * IN, wallMm: 0.095 * IN, material: 'mild_steel', wallReadings: [{ wallMm: 2.3, method: 'ultrasonic' }] }] });
     expect(finding(r, 'hc-main-tubes', 'mh').verdict).toBe('pass');
-    expect(r.policy).toEqual({ acceptPrintedEquivalents: true, measurementTolerance: { length: 0.05 } });
+    expect(r.policy).toEqual({ acceptPrintedEquivalents: true, strengthEquivalents: { accept: false, measure: 'section_modulus' }, measurementTolerance: { length: 0.05 } });
   });
 
   test('measurement tolerance: a 37.96 mm door bar counts as 38 with a 0.05 mm tolerance, 37.9 does not', async () => {

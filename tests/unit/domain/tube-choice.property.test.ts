@@ -14,12 +14,17 @@ import type { CheckReport } from '@backend/contracts/report';
 import { MEMBER_KINDS } from '@backend/domain/vocabulary';
 import { COMMON_STOCK } from '@backend/domain/common-stock';
 import { memberWithTube, rankStockForMember } from '@backend/domain/tube-choice';
+import { chooseTubesForSheet } from '@backend/domain/tube-choice-sheet';
 import type { CandidateTube, RankedCandidate, StockTube } from '@backend/domain/tube-choice';
 import { compileFile } from './helpers';
+import { modelSpec } from '../../fixtures/fabrication-model';
 
 const RULESETS: { compiled: CompiledRuleset; classes: string[] }[] = [
   { compiled: compileFile('tests/fixtures/rulesets/scca-gcr-quoted.json'), classes: ['gcr_2008', 'gcr_pre1994'] },
   { compiled: compileFile('tests/fixtures/rulesets/msuk-ncr-2026.json'), classes: ['new_cage'] },
+  // Equivalence by strength (docs/rulesets.md): accepted by section modulus, and by yield × Z at 350 N/mm² (F-MSUK-1).
+  { compiled: compileFile('tests/fixtures/rulesets/msuk-ncr-2026.json', { strengthEquivalents: { accept: true, measure: 'section_modulus' } }), classes: ['new_cage'] },
+  { compiled: compileFile('tests/fixtures/rulesets/msuk-ncr-2026.json', { strengthEquivalents: { accept: true, measure: 'bending_strength', listedYield: { value: 350 }, minWall: { value: 1.8 } } }), classes: ['new_cage'] },
   { compiled: compileFile('tests/fixtures/rulesets/nhra-quoted.json'), classes: ['roll_cage', 'roll_bar'] },
   { compiled: compileFile('rulesets/tarnwick-vale-mc-cage-regulations-2027.json'), classes: ['open-sprint', 'club-saloon', 'heavy-special'] },
   { compiled: compileFile('rulesets/tarnwick-vale-mc-hillclimb-2027-metric.json'), classes: ['hill-saloon'] },
@@ -61,7 +66,7 @@ const FACTS_A_TUBE_CHANGES = new Set([
   'member.odMm', 'member.wallMm', 'member.minMeasuredWallMm', 'member.material', 'member.grade', 'member.process', 'member.yieldMpa',
   'member.massKg', 'member.areaMm2', 'member.secondMomentMm4', 'member.sectionModulusMm3', 'member.radiusOfGyrationMm',
   'member.torsionalConstantMm4', 'member.massPerMetreKg', 'member.odMarginOverTableMinimumMm', 'member.minBendRadiusOverOd',
-  'vehicle.anyChromoly', 'vehicle.estimatedTubeMassKg', 'plate.attachedWallMm', 'plate.attachedOdMm',
+  'vehicle.anyChromoly', 'vehicle.estimatedTubeMassKg', 'plate.attachedWallMm', 'plate.attachedOdMm', 'member.bendingStrengthNmm',
 ]);
 
 type Scenario = typeof scenario extends fc.Arbitrary<infer T> ? T : never;
@@ -144,5 +149,86 @@ describe('tube chooser against the full engine check', () => {
     // …and the engine turned candidates away under each kind of rule, not only tube tables.
     for (const id of ['scca-bends', 'msuk-bend-radius', 'msuk-process', 'msuk-yield', 'msuk-material', 'tv-bends', 'tv-process', 'tv-no-chromoly', 'tv-plates-bolted', 'nhra-4130-tig', 'nhra-cage-tubing', 'scca-t1-tubes'])
       expect(rejectedBy.get(id) ?? 0, `candidates turned away by ${id}`).toBeGreaterThan(0);
+  }, 120_000);
+
+  test('choosing a member others are compared with (rear braces equal to the hoop, F-NHRA-G1) never leaves them failing', async () => {
+    const nhra = RULESETS.find((r) => r.classes.includes('roll_bar'))!.compiled;
+    const sheet = fc.record({
+      hoop: randomTube, brace: randomTube, braces: fc.integer({ min: 1, max: 3 }), welding: fc.constantFrom('tig' as const, 'mig' as const),
+      stockPicks: fc.uniqueArray(fc.nat({ max: COMMON_STOCK.length - 1 }), { minLength: 1, maxLength: 40 }), extra: fc.array(randomTube, { maxLength: 6 }),
+    });
+    let together = 0;
+    await fc.assert(
+      fc.asyncProperty(sheet, async (s) => {
+        const raw = {
+          vehicle: { classId: 'roll_bar' }, welding: { process: s.welding },
+          members: [
+            { id: 'mh', kind: 'main_hoop', ...s.hoop, lengthMm: 3000 },
+            ...Array.from({ length: s.braces }, (_, i) => ({ id: `rb${i}`, kind: 'rear_brace', ...(i === 0 ? s.brace : s.hoop), lengthMm: 900 })),
+          ],
+        };
+        const parsed = parseSpecification(raw);
+        if (!parsed.ok) throw new Error(JSON.stringify(parsed.problems));
+        const spec = parsed.value;
+        const stock = [...s.stockPicks.map((i) => COMMON_STOCK[i]), ...s.extra];
+        const before = await evaluateSpecification(nhra, 'roll_bar', spec);
+        const failedBefore = new Set(before.findings.filter((f) => f.verdict === 'fail').map((f) => `${f.requirementId}|${f.member?.id ?? '-'}`));
+        const [hoop] = chooseTubesForSheet(nhra, spec, stock);
+        if (!hoop.lightest) return;
+        if (hoop.lightest.together.length > 0) together += 1;
+        const fitted = { ...spec, members: spec.members.map((m, i) => {
+          if (i === 0) return memberWithTube(m, hoop.lightest!.tube);
+          const c = hoop.lightest!.together.find((x) => x.memberIndex === i);
+          return c ? memberWithTube(m, c.tube.tube) : m;
+        }) };
+        const after = await evaluateSpecification(nhra, 'roll_bar', fitted);
+        for (const f of after.findings) {
+          const key = `${f.requirementId}|${f.member?.id ?? '-'}`;
+          const changed = f.member?.id === 'mh' || hoop.lightest.together.some((c) => c.memberId === f.member?.id);
+          // A changed member passes its tube rules; an unchanged one fails nothing it did not fail before.
+          if (f.verdict === 'fail') expect([key, changed, failedBefore.has(key)]).toEqual([key, false, true]);
+        }
+      }),
+      { numRuns: 120, seed: 20261203 },
+    );
+    // Not vacuous: some choices needed the braces changed too.
+    expect(together).toBeGreaterThan(5);
+  }, 120_000);
+
+  test('on a sheet with a cage model, each candidate’s status is the full check’s (model bends and lengths, typed values beside them)', async () => {
+    const demo = RULESETS.find((r) => r.classes.includes('club-saloon'))!.compiled;
+    const tubeDependent = new Set(demo.requirements.filter((r) => r.factsUsed.some((f) => FACTS_A_TUBE_CHANGES.has(f))).map((r) => r.id));
+    const seen = new Set<string>();
+    const scenario = fc.record({
+      memberIndex: fc.constantFrom(0, 1, 3),
+      typedBends: fc.boolean(), typedClrMm: fc.double({ min: 100, max: 200, noNaN: true }),
+      typedLengthMm: fc.option(fc.integer({ min: 500, max: 4000 }), { nil: undefined }),
+      picks: fc.uniqueArray(fc.nat({ max: COMMON_STOCK.length - 1 }), { minLength: 1, maxLength: 12 }),
+    });
+    await fc.assert(
+      fc.asyncProperty(scenario, async (s) => {
+        const members = modelSpec.members.map((m, i) => ({
+          ...m, process: 'dom' as const,
+          ...(i === s.memberIndex && s.typedBends ? { bends: [{ clrMm: s.typedClrMm, minOdMm: m.odMm * 0.98, maxOdMm: m.odMm }] } : {}),
+          ...(i === s.memberIndex && s.typedLengthMm ? { lengthMm: s.typedLengthMm } : {}),
+        }));
+        const spec = { ...modelSpec, members } as Specification;
+        const id = spec.members[s.memberIndex]!.id;
+        const ranked = rankStockForMember(demo, spec, s.memberIndex, s.picks.map((i) => COMMON_STOCK[i]!));
+        for (const c of ranked) {
+          const fitted = { ...spec, members: spec.members.map((m, i) => (i === s.memberIndex ? memberWithTube(m, c.tube) : m)) };
+          const report = await evaluateSpecification(demo, 'club-saloon', fitted);
+          // A typed value the model disagrees with is an advisory note under the rule, not the rule's verdict.
+          const disagreement = (f: { title: string; severity: string }) => f.severity === 'advisory' && f.title.endsWith(': the model and the sheet disagree');
+          const verdicts = report.findings.filter((f) => tubeDependent.has(f.requirementId) && !disagreement(f) && (f.member === null ? f.plate === null : f.member.id === id)).map((f) => f.verdict);
+          const status = verdicts.includes('fail') ? 'fails' : verdicts.includes('needs_information') ? 'undecided' : 'legal';
+          expect([c.tube.label, c.status]).toEqual([c.tube.label, status]);
+          seen.add(c.status);
+        }
+      }),
+      { numRuns: 25, seed: 20261204 },
+    );
+    // Not vacuous: legal, failing and undecided candidates all met the engine.
+    expect([...seen].sort()).toEqual(['fails', 'legal', 'undecided']);
   }, 120_000);
 });

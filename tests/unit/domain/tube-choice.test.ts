@@ -1,10 +1,12 @@
 // Lightest legal tube and listed sizes, checked against published tube tables (FACTS.md ids named
 // beside each check) on the fixture rulesets that encode them.
 import { describe, expect, test } from 'vitest';
-import { chooseTubesForSheet, lightestLegalTube, listedSizesForBand, rankStockForMember } from '@backend/domain/tube-choice';
+import { TUBE_DEPENDENT_FACTS, lightestLegalTube, listedSizesForBand, memberWithTube, rankStockForMember } from '@backend/domain/tube-choice';
+import { modelSpec } from '../../fixtures/fabrication-model';
+import { chooseTubesForSheet } from '@backend/domain/tube-choice-sheet';
 import type { StockTube } from '@backend/domain/tube-choice';
 import { COMMON_STOCK } from '@backend/domain/common-stock';
-import { IN, LB, compileFile } from './helpers';
+import { IN, LB, check, compileFile, finding } from './helpers';
 
 const scca = compileFile('tests/fixtures/rulesets/scca-gcr-quoted.json');
 const msuk = compileFile('tests/fixtures/rulesets/msuk-ncr-2026.json');
@@ -140,6 +142,21 @@ describe('lightestLegalTube', () => {
     expect(wide && [wide.tube.odMm, wide.tube.wallMm]).toEqual([50, 2]);
   });
 
+  test('equivalence by strength: accepted, a lighter 55 × 1.8 mm of more Z than 45 × 2.5 is chosen and the engine passes it; off, it is not', async () => {
+    // Z(55 × 1.8) = π(55⁴ − 51.4⁴)/(32 × 55) ≈ 3875 mm³ ≥ Z(45 × 2.5) = 3361 mm³ (F-ENG-1, F-ENG-5); 2.361 kg/m
+    // against 2.368 kg/m for 50 × 2.0 (F-ENG-5; kg/m = 0.02466·(OD − t)·t, F-ENG-2 metric analogue).
+    const accepted = compileFile('tests/fixtures/rulesets/msuk-ncr-2026.json', { strengthEquivalents: { accept: true, measure: 'section_modulus' } });
+    const stock = [cds(50, 2.0), cds(45, 2.5), cds(55, 1.8)];
+    const query = { classId: 'new_cage', memberKind: 'main_hoop' as const, member: { bends: [], continuousPiece: true, joints: [] } };
+    const on = lightestLegalTube(stock, accepted, query);
+    expect(on && [on.tube.odMm, on.tube.wallMm]).toEqual([55, 1.8]);
+    expect(on!.outcomes.find((o) => o.requirementId === 'msuk-mandatory-size')!.matched).toBe('equivalent by section modulus to 45 × 2.5 mm');
+    const off = lightestLegalTube(stock, msuk, query);
+    expect(off && [off.tube.odMm, off.tube.wallMm]).toEqual([50, 2]);
+    const report = await check(accepted, { vehicle: { classId: 'new_cage' }, cage: { approvedOn: '2026-02-01' }, members: [{ id: 'mh', kind: 'main_hoop', odMm: 55, wallMm: 1.8, material: 'mild_steel', process: 'cds', yieldMpa: 355, bends: [], continuousPiece: true, joints: [] }] });
+    expect(finding(report, 'msuk-mandatory-size', 'mh').verdict).toBe('pass');
+  });
+
   test('chooses in the query material from the common stock list, and refuses impossible stock sizes', () => {
     const best = lightestLegalTube([...COMMON_STOCK, { odMm: 40, wallMm: 20, material: 'mild_steel', process: 'dom' }], scca, { classId: 'gcr_2008', memberKind: 'main_hoop', weightKg: 2400 * LB, material: 'mild_steel', member: { bends: [{ clrMm: 6 * IN }] } });
     expect(best && inch(best.tube)).toEqual([1.625, 0.083]);
@@ -179,5 +196,71 @@ describe('chooseTubesForSheet', () => {
     expect(l.lightest && [l.lightest.tube.odMm, l.lightest.tube.wallMm]).toEqual([40, 2]);
     // The right-hand twin has the same facts and gets the same answer.
     expect(r.lightest).toEqual(l.lightest);
+  });
+
+  describe('members compared with each other (NHRA roll bar: rear braces the same OD and wall as the hoop, F-NHRA-G1; hoop at least 1.750 in, F-NHRA-2)', () => {
+    // 4130 is TIG-welded only (F-NHRA-W1): the sheet says so, so the welding rule does not leave sizes undecided.
+    const bar = (braceMaterial: 'mild_steel' | 'chromoly_4130' = 'mild_steel') => ({
+      vehicle: { classId: 'roll_bar' }, welding: { process: 'tig' as const },
+      members: [
+        { id: 'mh', kind: 'main_hoop' as const, odMm: 1.75 * IN, wallMm: 0.134 * IN, material: 'mild_steel' as const, process: 'dom' as const, lengthMm: 3000 },
+        { id: 'rb-l', kind: 'rear_brace' as const, odMm: 1.75 * IN, wallMm: 0.134 * IN, material: braceMaterial, process: 'dom' as const, lengthMm: 900 },
+        { id: 'rb-r', kind: 'rear_brace' as const, odMm: 1.75 * IN, wallMm: 0.134 * IN, material: braceMaterial, process: 'dom' as const, lengthMm: 900 },
+      ],
+    });
+    const stock = [dom(1.75, 0.095), dom(1.75, 0.12), dom(1.75, 0.134), dom(1.75, 0.134, { material: 'chromoly_4130' })];
+
+    test('a lighter hoop comes with the braces changed to match, and the full check passes all three', async () => {
+      const spec = bar();
+      const [mh, l] = chooseTubesForSheet(nhra, spec, stock);
+      expect(mh.lightest && inch(mh.lightest.tube)).toEqual([1.75, 0.095]);
+      expect(mh.lightest!.leavesFailing).toEqual([]);
+      expect(mh.lightest!.together.map((c) => [c.memberId, inch(c.tube.tube), c.because.requirementId])).toEqual([
+        ['rb-l', [1.75, 0.095], 'nhra-bar-braces'],
+        ['rb-r', [1.75, 0.095], 'nhra-bar-braces'],
+      ]);
+      // 2.089 → … lb/ft per F-ENG-2 for each of the three tubes: the saving together is the hoop's plus both braces'.
+      const braces = mh.lightest!.together.reduce((sum, c) => sum + ((l.current.massPerMetreKg - c.tube.massPerMetreKg) * 900) / 1000, 0);
+      expect(mh.savingTogetherKg).toBeCloseTo(mh.savingKg! + braces, 9);
+      // The brace alone may only equal the hoop as it is now.
+      expect(l.lightest && inch(l.lightest.tube)).toEqual([1.75, 0.134]);
+      const fitted = { ...spec, members: spec.members.map((m) => ({ ...m, wallMm: 0.095 * IN })) };
+      const report = await check(nhra, fitted);
+      expect(report.findings.filter((f) => f.verdict === 'fail').map((f) => f.requirementId)).toEqual([]);
+      expect(finding(report, 'nhra-bar-braces', 'rb-l').verdict).toBe('pass');
+    });
+
+    test('braces that no stock size in their material can match: the lighter hoop is not offered, and says which rule it would break', () => {
+      const [mh] = chooseTubesForSheet(nhra, bar('chromoly_4130'), stock);
+      // Only 1.750 × 0.134 is stocked in 4130: a 0.095 or 0.120 in hoop would leave both braces failing.
+      expect(mh.lightest && inch(mh.lightest.tube)).toEqual([1.75, 0.134]);
+      expect(mh.savingKg).toBeCloseTo(0, 9);
+      const lighter = mh.legal.filter((c) => c.massPerMetreKg < mh.lightest!.massPerMetreKg);
+      expect(lighter.map((c) => inch(c.tube))).toEqual([[1.75, 0.095], [1.75, 0.12]]);
+      for (const c of lighter) expect(c.leavesFailing.map((f) => [f.memberId, f.requirement.requirementId])).toEqual([['rb-l', 'nhra-bar-braces'], ['rb-r', 'nhra-bar-braces']]);
+      // With any material allowed, mild steel braces put it right.
+      const [anyMh] = chooseTubesForSheet(nhra, bar('chromoly_4130'), stock, { anyMaterial: true });
+      expect(anyMh.lightest && inch(anyMh.lightest.tube)).toEqual([1.75, 0.095]);
+      expect(anyMh.lightest!.together.map((c) => c.tube.tube.material)).toEqual(['mild_steel', 'mild_steel']);
+    });
+  });
+
+  test('a sheet with a cage model is judged on the model’s bends and lengths, as the check reads it (demo saloon rules)', async () => {
+    const demo = compileFile('rulesets/tarnwick-vale-mc-cage-regulations-2027.json');
+    // The fabrication model's hoop bent at 150 mm CLR (model), with a heavier wall than the class needs;
+    // the sheet gives only the diameters measured at its two bends (ovality), not the bends themselves.
+    const ovality = { clrMm: 150, minOdMm: 43.9, maxOdMm: 44.6 };
+    const spec = { ...modelSpec, members: modelSpec.members.map((m) => ({ ...m, process: 'dom' as const, ...(m.id === 'mh' ? { wallMm: 0.12 * IN, bends: [ovality, ovality] } : {}) })) };
+    const mh = chooseTubesForSheet(demo, spec, COMMON_STOCK).find((m) => m.memberId === 'mh')!;
+    // The bend radius over OD comes from the model's 150 mm CLR (3.37 × 44.45 mm ≥ 3, F-SCCA-G3-like demo rule).
+    expect(mh.current.status).toBe('legal');
+    expect(mh.lightest && inch(mh.lightest.tube)).toEqual([1.75, 0.095]);
+    expect(mh.savingKg).not.toBeNull();
+    const fitted = { ...spec, members: spec.members.map((m) => (m.id === 'mh' ? memberWithTube(m, mh.lightest!.tube) : m)) };
+    const report = await check(demo, fitted);
+    const tubeDependent = new Set(demo.requirements.filter((r) => r.factsUsed.some((f) => TUBE_DEPENDENT_FACTS.has(f))).map((r) => r.id));
+    const hoop = report.findings.filter((f) => f.member?.id === 'mh' && tubeDependent.has(f.requirementId));
+    expect(hoop.length).toBeGreaterThan(2);
+    expect(hoop.filter((f) => f.verdict === 'fail' || f.verdict === 'needs_information').map((f) => f.requirementId)).toEqual([]);
   });
 });

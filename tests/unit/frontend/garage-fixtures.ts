@@ -1,5 +1,5 @@
 // Invented garage data for front-end tests, shaped like the garage contract's wire types.
-import type { BuildSheetDetail, Car } from '@/api/garage';
+import type { BuildSheetDetail, Car, SheetEditions } from '@/api/garage';
 import document from '../../../rulesets/tarnwick-vale-mc-cage-regulations-2027.json';
 import { tarnwick } from './fixtures';
 
@@ -42,7 +42,17 @@ export function sheetDetail(revision: number, wallIn = 0.065): BuildSheetDetail 
         members: [{ id: 'mh', kind: 'main_hoop', odMm: 1.625 * IN, wallMm: wallIn * IN, material: 'mild_steel', process: 'dom' }],
       },
     },
-    tubeData: { members: [], cutList: [], estimatedTubeMassKg: 0, massComplete: false, membersWithoutLength: ['mh'] },
+    tubeData: { members: [], cutList: [], estimatedTubeMassKg: 0, massComplete: false, membersWithoutLength: ['mh'], namesWithoutLength: ['Main hoop'] },
     access: 'owner',
   };
 }
+
+/** The sheet's rulebook has no edition newer than the sheet's own. */
+export const noNewerEdition: { editions: SheetEditions } = {
+  editions: {
+    pinned: { versionId, versionNumber: 1, edition: '2027', status: 'published', effectiveDate: '2026-11-01' },
+    inForce: null,
+    newer: null,
+    rulebookTitle: 'Tarnwick Vale MC Cage Regulations',
+  },
+};

@@ -15,8 +15,8 @@ const queuePath = `/api/clubs/${tarnwick.id}/submissions`;
 const counts = { pending: 2, in_review: 1, approved: 4, changes_requested: 1, rejected: 0, withdrawn: 3 };
 const item = (n: number, extra: Partial<Queue['items'][number]> = {}): Queue['items'][number] => ({
   id: `d0000000-0000-4000-8000-00000000000${n}`, state: 'pending', version: 1, car: { id: `c${n}`, name: `Blue Coupé ${n}`, raceNumber: `1${n}` },
-  builder: { id: 'b', displayName: 'Robin Ashcombe' }, classId: 'club-saloon', className: 'Club Saloon', verdict: 'pass', assignedSteward: null,
-  isResubmission: false, createdAt: new Date(Date.now() - 3 * 86_400_000).toISOString(), updatedAt: new Date().toISOString(), ...extra,
+  builder: { id: 'b', displayName: 'Robin Ashcombe' }, classId: 'club-saloon', className: 'Club Saloon', verdict: 'pass', reviewVerdict: 'pass', waivedCount: 0,
+  assignedSteward: null, isResubmission: false, resubmittedAsId: null, createdAt: new Date(Date.now() - 3 * 86_400_000).toISOString(), updatedAt: new Date().toISOString(), ...extra,
 });
 const queue = (items: Queue['items']): Queue => ({ items, counts, classes: [{ id: 'club-saloon', name: 'Club Saloon' }, { id: 'open-sprint', name: 'Open Sprint' }] });
 

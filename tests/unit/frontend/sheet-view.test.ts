@@ -9,7 +9,7 @@ import { useSessionStore } from '@/stores/session';
 import { apiError, createFetchMock, csrfToken, json } from './fetch-mock';
 import { session, tarnwick } from './fixtures';
 import { mountAt, settle } from './mount-app';
-import { IN, sheetDetail, sheetId, versionBody, versionId } from './garage-fixtures';
+import { IN, noNewerEdition, sheetDetail, sheetId, versionBody, versionId } from './garage-fixtures';
 
 const me = session([{ club: tarnwick, roles: ['builder'] }], { preferredUnits: 'imperial' });
 const sheetPath = `/api/build-sheets/${sheetId}`;
@@ -25,6 +25,7 @@ beforeEach(() => {
   mock.on('GET', `/api/ruleset-versions/${versionId}`, json(200, versionBody));
   mock.on('GET', `${sheetPath}/revisions`, json(200, { revisions: [] }));
   mock.on('GET', `${sheetPath}/photos`, json(200, { photos: [] }));
+  mock.on('GET', `${sheetPath}/editions`, json(200, noNewerEdition));
 });
 afterEach(() => {
   document.body.innerHTML = '';

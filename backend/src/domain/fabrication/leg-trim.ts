@@ -54,7 +54,8 @@ const LEG_NAMES = ['left', 'right'] as const;
 const rad = (deg: number) => (deg * Math.PI) / 180;
 const mm = (v: number) => `${Math.round(v * 10) / 10} mm`;
 
-export function legTrimProblems(input: LegTrimInput): LegTrimProblem[] {
+/** `len` writes a length in the reader's units (the messages say how far short a leg is); mm by default. */
+export function legTrimProblems(input: LegTrimInput, len: (mm: number) => string = mm): LegTrimProblem[] {
   const problems: LegTrimProblem[] = [];
   if (!Number.isFinite(input.leanDeg) || Math.abs(input.leanDeg) > LEG_TRIM_LIMITS.maxLeanDeg)
     problems.push({ path: 'leanDeg', message: `The lean must be within ±${LEG_TRIM_LIMITS.maxLeanDeg}° of vertical.` });
@@ -77,13 +78,13 @@ export function legTrimProblems(input: LegTrimInput): LegTrimProblem[] {
     const h = (top - leg.padHeightMm) / cos;
     const name = LEG_NAMES[i];
     if (h > leg.uncutMm + 1e-9)
-      problems.push({ path: `legs.${i}.padHeightMm`, message: `The ${name} leg cannot reach this pad: it is ${mm(h - leg.uncutMm)} short.` });
+      problems.push({ path: `legs.${i}.padHeightMm`, message: `The ${name} leg cannot reach this pad: it is ${len(h - leg.uncutMm)} short.` });
     else if (h <= (leg.bendEndMm ?? 0))
       problems.push({
         path: `legs.${i}.padHeightMm`,
         message: leg.bendEndMm === undefined
           ? `The ${name} pad is above where the hoop's top can be; the other leg is too short to stand the hoop over it.`
-          : `The ${name} pad is too high: the cut would go into the leg's bend, ${mm(leg.bendEndMm - h)} above where the bend ends.`,
+          : `The ${name} pad is too high: the cut would go into the leg's bend, ${len(leg.bendEndMm - h)} above where the bend ends.`,
       });
   });
   return problems;
@@ -128,17 +129,21 @@ export function legTrimSideViewSvg(trim: LegTrim, odMm: number, units: (mm: numb
   const xs = [0, ...feet.map((f) => f.x)];
   const zs = [top + odMm, ...feet.map((f) => f.z), 0];
   const pad = Math.max(120, (Math.max(...zs) - Math.min(...zs)) * 0.12);
-  const minX = Math.min(...xs) - pad * 2.6;
-  const maxX = Math.max(...xs) + pad * 2.6;
   const minZ = Math.min(...zs) - pad;
   const maxZ = Math.max(...zs) + pad;
-  const w = maxX - minX;
   const h = maxZ - minZ;
+  const font = h / 22;
+  // Wide enough for every label (about 0.6 em a character in Noto Sans), so none is cut at the edge.
+  const textW = (text: string) => text.length * font * 0.6;
+  const padLabel = (i: number) => `${i === 0 ? 'left' : 'right'} pad ${units(trim.legs[i]!.padHeightMm)}`;
+  const labelX = (i: number) => feet[i]!.x + (i === 0 ? -pad * 2.4 : pad * 0.7);
+  const minX = Math.min(Math.min(...xs) - pad * 2.6, labelX(0) - font / 2);
+  const maxX = Math.max(Math.max(...xs) + pad * 2.6, labelX(1) + textW(padLabel(1)) + font / 2, labelX(0) + textW(padLabel(0)) + font / 2, pad * 0.4 + textW(`top ${units(top)}`) + font / 2);
+  const w = maxX - minX;
   // SVG's y grows downwards: flip z.
   const Y = (z: number) => fmt(maxZ - z + minZ);
   const X = (x: number) => fmt(x);
   const stroke = Math.max(odMm, h / 200);
-  const font = h / 22;
   const parts: string[] = [
     `<svg xmlns="http://www.w3.org/2000/svg" viewBox="${fmt(minX)} ${fmt(minZ)} ${fmt(w)} ${fmt(h)}" width="${fmt(Math.min(360, (360 * w) / h))}" height="${fmt(Math.min(360, (360 * h) / w))}" role="img">`,
     `<title>Hoop leg trim, side view: lean ${fmt(trim.leanDeg)}°, top ${units(top)} above the datum</title>`,
@@ -152,7 +157,7 @@ export function legTrimSideViewSvg(trim: LegTrim, odMm: number, units: (mm: numb
     parts.push(
       `<line x1="${X(foot.x - pad * 0.6)}" y1="${Y(foot.z)}" x2="${X(foot.x + pad * 0.6)}" y2="${Y(foot.z)}" stroke="${colour}" stroke-width="${fmt(stroke * 1.4)}"${dash}/>`,
       `<line x1="${X(0)}" y1="${Y(top)}" x2="${X(foot.x)}" y2="${Y(foot.z)}" stroke="${colour}" stroke-width="${fmt(stroke)}"${dash}/>`,
-      `<text x="${X(foot.x + (i === 0 ? -pad * 2.4 : pad * 0.7))}" y="${Y(foot.z - font * (i === 0 ? 1.2 : -0.4))}" font-family="NotoSans, Noto Sans, sans-serif" font-size="${fmt(font)}" fill="${colour}">${i === 0 ? 'left' : 'right'} pad ${units(leg.padHeightMm)}</text>`,
+      `<text x="${X(labelX(i))}" y="${Y(foot.z - font * (i === 0 ? 1.2 : -0.4))}" font-family="NotoSans, Noto Sans, sans-serif" font-size="${fmt(font)}" fill="${colour}">${padLabel(i)}</text>`,
     );
   });
   parts.push(

@@ -14,6 +14,7 @@ import type { MemberKind } from '../vocabulary';
 import { computeCope, COPE_LIMITS, type CopeInput } from './cope';
 import { planMember, type BenderDie, type MemberPlan } from './cut-schedule';
 import { buyingList, type BuyingList, type CutPiece, type TubeGroupInput } from './nesting';
+import { computeLegTrim, legTrimProblems, type HoopLeg, type LegTrim, type LegTrimProblem } from './leg-trim';
 
 export interface FabricationSettingsInput {
   dies: BenderDie[];
@@ -39,6 +40,22 @@ export interface LegCutFromModel {
   legs: { nodeId: string; padHeightMm: number; cutHeightMm: number }[];
 }
 
+/** A hoop's legs as the builder measured them (uncut legs, pads, lean), kept with the sheet. */
+export interface MeasuredLegsInput {
+  legs: [HoopLeg, HoopLeg];
+  leanDeg: number;
+  topHeightMm?: number;
+  savedAt?: string;
+  savedBy?: string | null;
+}
+
+/** The leg trim from measured values: each leg's cut, or why it cannot be made (the tube changed since). */
+export interface MeasuredLegTrim {
+  input: MeasuredLegsInput;
+  result: LegTrim | null;
+  problems: LegTrimProblem[];
+}
+
 export interface MemberFabrication {
   memberId: string;
   name: string;
@@ -55,6 +72,8 @@ export interface MemberFabrication {
   /** What the end copes' rotationDeg is measured from: the other end's cope (straight) or the nearest bend plane. */
   rotationReference: 'start_cope' | 'bend_plane' | null;
   legCut: LegCutFromModel | null;
+  /** From the builder's measurements, when saved: these decide the leg cuts (not the model's pads). */
+  measuredLegs: MeasuredLegTrim | null;
   notes: string[];
 }
 
@@ -64,7 +83,6 @@ export interface SheetFabrication {
   settings: FabricationSettingsInput;
 }
 
-const HOOP_KINDS: ReadonlySet<MemberKind> = new Set(['main_hoop', 'front_hoop', 'halo_hoop', 'lateral_hoop']);
 
 /** Signed angle from a to b about the axis (all perpendicular-ish; right-hand rule), degrees. */
 function signedAngleDeg(a: Vec3, b: Vec3, axis: Vec3): number {
@@ -84,7 +102,21 @@ function axisAt(g: PathGeometry, position: number): Vec3 {
   return normalize(sub(pts[position + 1]!, pts[position - 1]!));
 }
 
-export function sheetFabrication(spec: Specification, settings: FabricationSettingsInput): SheetFabrication {
+/** Hoops: bent from one tube, standing on two pads, so their legs are trimmed to the pads. */
+export const HOOP_KINDS: ReadonlySet<MemberKind> = new Set(['main_hoop', 'front_hoop', 'halo_hoop', 'lateral_hoop']);
+
+/** The leg trim a hoop of this OD gets from the legs as measured (or the problems that stop it). */
+export function measuredLegTrim(input: MeasuredLegsInput, odMm: number): MeasuredLegTrim {
+  const trimInput = { legs: input.legs, leanDeg: input.leanDeg, odMm, ...(input.topHeightMm !== undefined ? { topHeightMm: input.topHeightMm } : {}) };
+  const problems = legTrimProblems(trimInput);
+  return { input, result: problems.length === 0 ? computeLegTrim(trimInput) : null, problems };
+}
+
+/**
+ * `measured`: hoops' legs as the builder measured them, by member id (only hoops use them). They
+ * give the leg cuts instead of the model's pads, with or without a model.
+ */
+export function sheetFabrication(spec: Specification, settings: FabricationSettingsInput, measured: Readonly<Record<string, MeasuredLegsInput>> = {}): SheetFabrication {
   const nodes: readonly CageNode[] = spec.model?.nodes ?? [];
   const byId = nodeIndex(nodes);
   const names = memberNames(spec.members);
@@ -143,7 +175,8 @@ export function sheetFabrication(spec: Specification, settings: FabricationSetti
   };
 
   const members: MemberFabrication[] = spec.members.map((m, i) => {
-    const base = { memberId: m.id, name: names[i]!, kind: m.kind, odMm: m.odMm, wallMm: m.wallMm, material: (m.material ?? 'unspecified') as Material | 'unspecified' };
+    const legs = HOOP_KINDS.has(m.kind) && Object.prototype.hasOwnProperty.call(measured, m.id) ? measuredLegTrim(measured[m.id]!, m.odMm) : null;
+    const base = { memberId: m.id, name: names[i]!, kind: m.kind, odMm: m.odMm, wallMm: m.wallMm, material: (m.material ?? 'unspecified') as Material | 'unspecified', measuredLegs: legs };
     const trim = settings.trimAllowanceMm;
     const g = geoms[i];
     if (!g) {

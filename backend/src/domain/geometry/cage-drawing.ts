@@ -4,15 +4,15 @@
 import { formatQuantity, type UnitSystem } from '../units.js';
 import type { MemberKind } from '../vocabulary.js';
 import { memberCentreline } from './centreline.js';
-import { memberShapes, type GeometryInput, type MemberShape } from './derive.js';
+import { memberShapes, memberSide, type GeometryInput, type MemberShape } from './derive.js';
 import { deriveGeometryFacts, type GeometryFactValues } from './derived-facts.js';
-import type { CageNode, PathEntry } from './model.js';
+import type { CageNode, MemberSide, PathEntry } from './model.js';
 import { memberNames } from './names.js';
 import { cageGeometryMarks } from './cage-marks.js';
 import { projectView, VIEW_NAMES, type DrawnMember, type ViewName } from './projection.js';
 import { memberMarks } from './verdict-marks.js';
 import type { Finding } from '../../contracts/report.js';
-import { cageViewSvg, type SvgMemberInfo } from './view-svg.js';
+import { cageViewParts, viewPartsSvg, type CageViewParts, type SvgMemberInfo } from './view-svg.js';
 
 export interface CageMemberLike {
   id: string;
@@ -83,11 +83,18 @@ export interface CageDrawingInput {
 
 export interface CageDrawing {
   svgs: Record<ViewName, string>;
+  /** The same views as keyed parts, for a screen that redraws only what changed. */
+  views: Record<ViewName, CageViewParts>;
   /** Per drawn member: name, size, verdict and rule (for hover text and lists beside the drawing). */
   members: Map<string, SvgMemberInfo>;
   drawn: DrawnMember[];
   /** The model's derived geometry facts the drawing labels (the same values the rules read). */
   facts: GeometryFactValues;
+  /**
+   * What the model gives per member with a valid path, so the sheet need not ask for it: the
+   * developed centreline length (the member's length) and the side of the car read from y.
+   */
+  modelled: Map<string, { developedLengthMm: number; side: MemberSide }>;
 }
 
 /** The model's facts (the same values the rules read), from the members that have a size. */
@@ -131,8 +138,11 @@ export function drawCage(input: CageDrawingInput): CageDrawing {
   }
   const geometry = cageGeometryMarks(input.spec, drawn, facts, input.units);
   const svgs = {} as Record<ViewName, string>;
+  const views = {} as Record<ViewName, CageViewParts>;
   for (const view of VIEW_NAMES) {
-    svgs[view] = cageViewSvg(projectView(drawn, view), { members, marks: geometry, units: input.units, highlightId: input.highlightId ?? null, labels: input.labels ?? false });
+    views[view] = cageViewParts(projectView(drawn, view), { members, marks: geometry, units: input.units, highlightId: input.highlightId ?? null, labels: input.labels ?? false });
+    svgs[view] = viewPartsSvg(views[view]);
   }
-  return { svgs, members, drawn, facts };
+  const modelled = new Map(shapes.map((s) => [s.memberId, { developedLengthMm: s.geometry.developedLengthMm, side: memberSide(s.geometry.points) }]));
+  return { svgs, views, members, drawn, facts, modelled };
 }

@@ -47,13 +47,17 @@ export function geometryMarkSvg(mark: GeometryMark, view: ViewName, fontMm: numb
       const reach = Math.min(Math.hypot(f.u - c.u, f.v - c.v), Math.hypot(t.u - c.u, t.v - c.v));
       if (reach < 1) return '';
       const r = Math.min(reach * 0.45, fontMm * 6);
-      let mid = (a1 + a2) / 2;
-      if (Math.abs(a1 - a2) > Math.PI) mid += Math.PI;
+      // The words go just outside the wedge, beyond the brace (away from the vertical, which usually
+      // runs down the hoop's leg), so they cross neither tube.
+      let away = a2 - a1;
+      if (away > Math.PI) away -= 2 * Math.PI;
+      if (away < -Math.PI) away += 2 * Math.PI;
+      const at = a2 + Math.sign(away || 1) * 0.3;
       const ray = (p: Point2) => `M${n(c.u)} ${n(-c.v)} L${n(c.u + (p.u - c.u) * (r * 1.25) / Math.hypot(p.u - c.u, p.v - c.v))} ${n(-(c.v + (p.v - c.v) * (r * 1.25) / Math.hypot(p.u - c.u, p.v - c.v)))}`;
       return (
         `<path${attrs({ d: `${ray(f)} ${ray(t)}`, ...thin, 'stroke-dasharray': `${n(fontMm * 0.4)} ${n(fontMm * 0.25)}` })}/>` +
         `<path${attrs({ d: arcPath(c, r, a1, a2), ...thin, 'stroke-width': fontMm * 0.14 })}/>` +
-        label({ u: c.u + Math.cos(mid) * (r + fontMm * 0.5), v: c.v + Math.sin(mid) * (r + fontMm * 0.5) }, mark.label, Math.cos(mid) < 0 ? 'end' : 'start')
+        label({ u: c.u + Math.cos(at) * (r + fontMm * 0.6), v: c.v + Math.sin(at) * (r + fontMm * 0.6) - fontMm * 0.3 }, mark.label, Math.cos(at) < 0 ? 'end' : 'start')
       );
     }
     case 'drop': {

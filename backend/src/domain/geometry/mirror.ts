@@ -37,6 +37,7 @@ export type MirrorOutcome<M> =
  * a new id and label with left and right swapped. The member itself is not changed.
  */
 export function mirrorMember<M extends MirrorableMember>(nodes: readonly CageNode[], members: readonly MirrorableMember[], member: M): MirrorOutcome<M> {
+  const name = (m: MirrorableMember) => m.label?.trim() || m.id;
   if (!member.path) return { ok: false, message: 'Only a member with a path through the model can be mirrored.' };
   const byId = new Map(nodes.map((n) => [n.id, n]));
   const out = [...nodes];
@@ -58,6 +59,11 @@ export function mirrorMember<M extends MirrorableMember>(nodes: readonly CageNod
     if (!member.path.some((x) => x.nodeId === mapped.get(n.id))) crosses = false;
   }
   if (crosses) return { ok: false, message: 'This member is its own mirror image (it crosses the car symmetrically).' };
+  // Mirroring twice would lay a second tube over the first: say which member is already there.
+  const path0 = member.path.map((e) => mapped.get(e.nodeId)!);
+  const key = (ids: readonly string[]) => [ids.join('>'), [...ids].reverse().join('>')];
+  const twinMember = members.find((m) => m !== member && m.path && key(m.path.map((e) => e.nodeId)).includes(path0.join('>')));
+  if (twinMember) return { ok: false, message: `${name(twinMember)} is already on the other side, on the mirrored nodes.` };
   const memberIds = new Set(members.map((m) => m.id));
   const id = uniqueId(swapSideId(member.id) === member.id ? `${member.id}-mirror` : swapSideId(member.id), memberIds);
   const path = member.path.map((e) => ({ ...e, nodeId: mapped.get(e.nodeId)! }));

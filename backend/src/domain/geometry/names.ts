@@ -20,6 +20,17 @@ export function memberName(members: readonly NamedMember[], index: number): stri
   return `${kindWords} ${ordinal}`;
 }
 
+/** Every member's name, in one pass over the list (the drawing asks on every keystroke). */
 export function memberNames(members: readonly NamedMember[]): string[] {
-  return members.map((_, i) => memberName(members, i));
+  const total = new Map<MemberKind, number>();
+  for (const m of members) total.set(m.kind, (total.get(m.kind) ?? 0) + 1);
+  const seen = new Map<MemberKind, number>();
+  return members.map((m) => {
+    const ordinal = (seen.get(m.kind) ?? 0) + 1;
+    seen.set(m.kind, ordinal);
+    const label = m.label?.trim();
+    if (label) return label;
+    const kindWords = MEMBER_KIND_LABELS[m.kind];
+    return total.get(m.kind)! < 2 ? kindWords : `${kindWords} ${ordinal}`;
+  });
 }

@@ -95,48 +95,74 @@ function markGroups(view: ProjectedView, members: ReadonlyMap<string, SvgMemberI
   return groups;
 }
 
-/** The SVG document of one view. */
-export function cageViewSvg(view: ProjectedView, options: CageSvgOptions): string {
+/**
+ * One view as parts: the `<svg>` element's attributes and title, then keyed pieces of its content in
+ * drawing order (the frame, one per member, the geometry marks, the symbols, the scale bar). The
+ * screen renders each piece on its own, so moving a node re-parses only the pieces that changed; the
+ * PDF takes the whole string (`cageViewSvg`), which is the parts joined.
+ */
+export interface CageViewParts {
+  attrs: Record<string, string>;
+  title: string;
+  parts: { key: string; svg: string }[];
+}
+
+export function cageViewParts(view: ProjectedView, options: CageSvgOptions): CageViewParts {
   const marks = options.marks ?? [];
   const f = frameOf(view, marks);
   const width = f.maxU - f.minU;
   const height = f.maxV - f.minV;
   const fontMm = Math.max(width, height) * 0.02;
   const title = options.title ?? VIEW_TITLES[view.view];
-  const out: string[] = [];
-  out.push(
-    `<svg xmlns="http://www.w3.org/2000/svg"${attrs({ viewBox: `${n(f.minU)} ${n(-f.maxV)} ${n(width)} ${n(height)}`, role: 'img', 'aria-label': title, 'font-family': 'Noto Sans, NotoSans, sans-serif' })}>`,
-    `<title>${escapeXml(title)}</title>`,
-    `<rect${attrs({ x: f.minU, y: -f.maxV, width, height, fill: '#ffffff' })}/>`,
-  );
+  const parts: { key: string; svg: string }[] = [];
+  let frame = `<rect${attrs({ x: f.minU, y: -f.maxV, width, height, fill: '#ffffff' })}/>`;
   if (view.view !== 'top') {
-    out.push(`<path${attrs({ d: `M${n(f.minU)} 0 L${n(f.maxU)} 0`, stroke: MUTED, 'stroke-width': fontMm * 0.08 })}/>`);
-    out.push(text({ u: f.minU + fontMm * 0.4, v: fontMm * 0.35 }, 'floor', fontMm * 0.7, { fill: MUTED }));
+    frame += `<path${attrs({ d: `M${n(f.minU)} 0 L${n(f.maxU)} 0`, stroke: MUTED, 'stroke-width': fontMm * 0.08 })}/>`;
+    frame += text({ u: f.minU + fontMm * 0.4, v: fontMm * 0.35 }, 'floor', fontMm * 0.7, { fill: MUTED });
   }
   if (view.view !== 'side') {
     // The car's centreline (y = 0): vertical in the front view, horizontal in the top view.
     const d = view.view === 'front' ? `M0 ${n(-f.maxV)} L0 ${n(-f.minV)}` : `M${n(f.minU)} 0 L${n(f.maxU)} 0`;
-    out.push(`<path${attrs({ d, stroke: MUTED, 'stroke-width': fontMm * 0.06, 'stroke-dasharray': `${n(fontMm * 1.2)} ${n(fontMm * 0.3)} ${n(fontMm * 0.2)} ${n(fontMm * 0.3)}` })}/>`);
+    frame += `<path${attrs({ d, stroke: MUTED, 'stroke-width': fontMm * 0.06, 'stroke-dasharray': `${n(fontMm * 1.2)} ${n(fontMm * 0.3)} ${n(fontMm * 0.2)} ${n(fontMm * 0.3)}` })}/>`;
   }
   if (view.members.length === 0) {
-    out.push(text({ u: (f.minU + f.maxU) / 2, v: (f.minV + f.maxV) / 2 }, 'No members with a path to draw yet', fontMm, { 'text-anchor': 'middle', fill: MUTED }));
+    frame += text({ u: (f.minU + f.maxU) / 2, v: (f.minV + f.maxV) / 2 }, 'No members with a path to draw yet', fontMm, { 'text-anchor': 'middle', fill: MUTED });
   }
-  for (const m of view.members) out.push(memberSvg(m, options.members.get(m.id) ?? NEUTRAL, options.highlightId === m.id));
-  for (const mark of marks) out.push(geometryMarkSvg(mark, view.view, fontMm));
+  parts.push({ key: 'frame', svg: frame });
+  for (const m of view.members) parts.push({ key: `member:${m.id}`, svg: memberSvg(m, options.members.get(m.id) ?? NEUTRAL, options.highlightId === m.id) });
+  parts.push({ key: 'marks', svg: marks.map((mark) => geometryMarkSvg(mark, view.view, fontMm)).join('') });
   // Symbols and names last, so no tube hides them. Members whose marks would land on one another (the
   // left and right backstays in the side view) share one symbol, the worst, and one label naming them all.
+  let symbols = '';
   for (const group of markGroups(view, options.members, fontMm)) {
     const r = Math.max(group.odMm * 0.9, fontMm * 0.65);
-    out.push(`<g${attrs({ 'data-member-id': group.ids[0], cursor: 'pointer' })}>${symbol(group.verdict, group.at, r)}</g>`);
-    if (options.labels) out.push(text({ u: group.at.u + r * 1.3, v: group.at.v - r * 0.35 }, group.names.join(' / '), fontMm * 0.8, { fill: INK }));
+    symbols += `<g${attrs({ 'data-member-id': group.ids[0], cursor: 'pointer' })}>${symbol(group.verdict, group.at, r)}</g>`;
+    if (options.labels) symbols += text({ u: group.at.u + r * 1.3, v: group.at.v - r * 0.35 }, group.names.join(' / '), fontMm * 0.8, { fill: INK });
   }
+  parts.push({ key: 'symbols', svg: symbols });
   const bar = scaleBar(width, options.units);
   const y = f.minV + fontMm * 1.2;
   const x0 = f.maxU - bar.mm - fontMm;
-  out.push(`<path${attrs({ d: `M${n(x0)} ${n(-y)} L${n(x0 + bar.mm)} ${n(-y)} M${n(x0)} ${n(-y - fontMm * 0.3)} L${n(x0)} ${n(-y + fontMm * 0.3)} M${n(x0 + bar.mm)} ${n(-y - fontMm * 0.3)} L${n(x0 + bar.mm)} ${n(-y + fontMm * 0.3)}`, stroke: INK, 'stroke-width': fontMm * 0.1, fill: 'none' })}/>`);
-  out.push(text({ u: x0 + bar.mm / 2, v: y + fontMm * 0.45 }, bar.label, fontMm * 0.75, { 'text-anchor': 'middle' }));
-  out.push('</svg>');
-  return out.join('');
+  parts.push({
+    key: 'scale',
+    svg:
+      `<path${attrs({ d: `M${n(x0)} ${n(-y)} L${n(x0 + bar.mm)} ${n(-y)} M${n(x0)} ${n(-y - fontMm * 0.3)} L${n(x0)} ${n(-y + fontMm * 0.3)} M${n(x0 + bar.mm)} ${n(-y - fontMm * 0.3)} L${n(x0 + bar.mm)} ${n(-y + fontMm * 0.3)}`, stroke: INK, 'stroke-width': fontMm * 0.1, fill: 'none' })}/>` +
+      text({ u: x0 + bar.mm / 2, v: y + fontMm * 0.45 }, bar.label, fontMm * 0.75, { 'text-anchor': 'middle' }),
+  });
+  return {
+    attrs: { viewBox: `${n(f.minU)} ${n(-f.maxV)} ${n(width)} ${n(height)}`, role: 'img', 'aria-label': title, 'font-family': 'Noto Sans, NotoSans, sans-serif' },
+    title,
+    parts,
+  };
+}
+
+/** The SVG document of one view: its parts joined (what the PDF embeds). */
+export function cageViewSvg(view: ProjectedView, options: CageSvgOptions): string {
+  return viewPartsSvg(cageViewParts(view, options));
+}
+
+export function viewPartsSvg(v: CageViewParts): string {
+  return `<svg xmlns="http://www.w3.org/2000/svg"${attrs(v.attrs)}><title>${escapeXml(v.title)}</title>${v.parts.map((p) => p.svg).join('')}</svg>`;
 }
 
 /** A short length of tube with a verdict's mark and symbol, for the legend (screen and PDF alike). */

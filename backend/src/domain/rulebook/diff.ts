@@ -3,7 +3,7 @@
 // Values are compared in canonical units and shown in the reader's unit system. The order is
 // fixed: rulebook identity, policy, printed equivalents, classes, then requirements in the new
 // document's order with removed ones last, so the same two documents always give the same list.
-import type { RequirementArea, Requirement, RulesetClass, RulesetDocument } from '../../contracts/ruleset.js';
+import type { RequirementArea, Requirement, RulesetClass, RulesetDocument, StrengthMeasure } from '../../contracts/ruleset.js';
 import type { Dimension, UnitSystem } from '../units.js';
 import { FACTS_BY_NAME } from '../facts.js';
 import {
@@ -70,6 +70,35 @@ export function describeRulesetChanges(
 }
 
 type Push = (area: ChangeArea, kind: ChangeKind, text: string, extra?: Extra) => void;
+
+const MEASURE_TEXT: Readonly<Record<StrengthMeasure, string>> = { section_modulus: 'section modulus', bending_strength: 'bending strength (yield × Z)' };
+
+/**
+ * Equivalence by strength in the compare view: whether it is accepted, by which measure, the
+ * listed sizes' yield and the least wall. An omitted option reads as "not accepted, by section
+ * modulus", so adding it switched off changes nothing a check decides and says nothing.
+ */
+function strengthEquivalents(a: RulesetDocument, sa: Side, b: RulesetDocument, sb: Side, push: Push): void {
+  const x = a.strengthEquivalents ?? { accept: false, measure: 'section_modulus' as const };
+  const y = b.strengthEquivalents ?? { accept: false, measure: 'section_modulus' as const };
+  const state = (s: typeof x) => (s.accept ? `accepted by ${MEASURE_TEXT[s.measure]}` : 'not accepted');
+  if (x.accept !== y.accept)
+    push('policy', 'changed', y.accept ? `Equivalents by strength now accepted, by ${MEASURE_TEXT[y.measure]}` : 'Equivalents by strength no longer accepted (advice only)', { before: state(x), after: state(y) });
+  else if (x.measure !== y.measure)
+    push('policy', 'changed', `Equivalence by strength judged by ${MEASURE_TEXT[x.measure]} → ${MEASURE_TEXT[y.measure]}${y.accept ? '' : ' (advice only)'}`, { before: MEASURE_TEXT[x.measure], after: MEASURE_TEXT[y.measure] });
+  const values = [
+    ['listedYield', 'stress', 'Yield the listed sizes are taken at, for equivalence by strength'],
+    ['minWall', 'length', 'Least wall of an equivalent by strength'],
+  ] as const;
+  for (const [key, dim, word] of values) {
+    const u = x[key];
+    const v = y[key];
+    if (!u && v) push('policy', 'added', `${word}: ${quantity(v.value, dim, sb, v.unit)} added`, { after: quantity(v.value, dim, sb, v.unit) });
+    else if (u && !v) push('policy', 'removed', `${word}: ${quantity(u.value, dim, sa, u.unit)} removed`, { before: quantity(u.value, dim, sa, u.unit) });
+    else if (u && v && !sameNumber(canonical(u.value, dim, sa, u.unit), canonical(v.value, dim, sb, v.unit)))
+      push('policy', 'changed', `${word}: ${quantity(u.value, dim, sa, u.unit)} → ${quantity(v.value, dim, sb, v.unit)}`, { before: quantity(u.value, dim, sa, u.unit), after: quantity(v.value, dim, sb, v.unit) });
+  }
+}
 
 function identity(a: RulesetDocument, b: RulesetDocument, push: Push): void {
   const ra = a.rulebook;
@@ -151,6 +180,7 @@ function policy(a: RulesetDocument, sa: Side, b: RulesetDocument, sb: Side, push
       },
     );
   }
+  strengthEquivalents(a, sa, b, sb, push);
   const ea = a.printedEquivalents ?? [];
   const eb = b.printedEquivalents ?? [];
   const used = new Set<number>();

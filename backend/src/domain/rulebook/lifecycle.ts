@@ -1,16 +1,24 @@
-// The life of one rulebook version: draft → published → superseded or retired. Pure rules only:
-// the service loads the versions, asks here what may happen, and writes the changes returned in one
-// transaction. The allowed moves mirror the database trigger on ruleset_versions, so a refusal here
-// is the friendly explanation of what the database would refuse anyway.
+// The life of one rulebook version: draft → scheduled (published ahead of its date) → in force
+// ("published") → superseded or retired. Pure rules only: the service loads the versions, asks here
+// what may happen, and writes the changes returned in one transaction. The allowed moves mirror the
+// database trigger on ruleset_versions, so a refusal here is the friendly explanation of what the
+// database would refuse anyway. "Today" is always passed in: it is the club's calendar date
+// (domain/dates.ts calendarDateIn), never the UTC date of the server.
 import type { RulesetDocument, DocumentProblem } from '../../contracts/ruleset.js';
 import { validateRulesetDocument } from '../rules/validate.js';
+import { formatIsoDate } from '../dates.js';
 
-export const VERSION_STATES = ['draft', 'published', 'superseded', 'retired'] as const;
+export const VERSION_STATES = ['draft', 'scheduled', 'published', 'superseded', 'retired'] as const;
 export type VersionState = (typeof VERSION_STATES)[number];
 
-/** Status moves (besides staying put). Superseding happens only as a side effect of publishing. */
+/**
+ * Status moves (besides staying put). A scheduled version comes into force on its date (or is
+ * overtaken on that day by a newer one due the same day); superseding happens only as a side effect
+ * of a newer version coming into force.
+ */
 export const VERSION_MOVES: Readonly<Record<VersionState, readonly VersionState[]>> = {
-  draft: ['published'],
+  draft: ['published', 'scheduled'],
+  scheduled: ['published', 'superseded', 'retired'],
   published: ['superseded', 'retired'],
   superseded: ['retired'],
   retired: [],
@@ -47,6 +55,8 @@ export interface TransitionContext {
   siblings: readonly RulebookVersion[];
   /** ISO timestamp recorded as publishedAt. */
   now: string;
+  /** The club's calendar date (YYYY-MM-DD): a version dated later is scheduled, not in force. Publishing needs it. */
+  today?: string;
 }
 
 export interface StateChange {
@@ -92,7 +102,8 @@ const refuse = (
 
 const STATE_WORDS: Readonly<Record<VersionState, string>> = {
   draft: 'a draft',
-  published: 'published',
+  scheduled: 'scheduled',
+  published: 'in force',
   superseded: 'superseded by a newer version',
   retired: 'retired',
 };
@@ -155,7 +166,7 @@ export function transitionVersion(
         );
       return { ok: true, version: null, changes: [{ versionId: version.id, from: 'draft', to: 'deleted' }] };
     case 'publish':
-      return publish(version, action.effectiveDate, siblings, context.now);
+      return publish(version, action.effectiveDate, siblings, context.now, context.today);
     case 'retire':
       if (!canTransition(version.state, 'retired')) {
         return refuse(
@@ -173,12 +184,64 @@ export function transitionVersion(
   }
 }
 
+/**
+ * The versions whose date a new edition may not precede: the one in force and any scheduled ahead of
+ * it. A new edition can take effect on the same day as the latest of them (it then wins that day, as
+ * the higher number) but not before, so the order of the numbers is the order of the dates.
+ */
+export function latestDatedSibling(siblings: readonly Pick<RulebookVersion, 'state' | 'effectiveDate' | 'versionNumber'>[]) {
+  let latest: Pick<RulebookVersion, 'state' | 'effectiveDate' | 'versionNumber'> | undefined;
+  for (const s of siblings) {
+    if ((s.state !== 'published' && s.state !== 'scheduled') || !s.effectiveDate) continue;
+    if (!latest || s.effectiveDate > latest.effectiveDate! || (s.effectiveDate === latest.effectiveDate && s.versionNumber > latest.versionNumber)) latest = s;
+  }
+  return latest;
+}
+
+/**
+ * Why the server would refuse `date` as a new edition's effective date, or null when it is fine. The
+ * publish dialog asks the same question before it sends anything, so the form and the server agree.
+ */
+export function effectiveDateRefusal(
+  date: string,
+  siblings: readonly Pick<RulebookVersion, 'state' | 'effectiveDate' | 'versionNumber'>[],
+): LifecycleRefusal | null {
+  if (!date) return refuse('effective_date_required', 'Give the date this version takes effect before publishing it.');
+  if (!isCalendarDate(date)) return refuse('invalid_effective_date', `"${date}" is not a date written YYYY-MM-DD.`);
+  const latest = latestDatedSibling(siblings);
+  if (latest?.effectiveDate && date < latest.effectiveDate) {
+    const when = latest.state === 'scheduled' ? 'takes effect' : 'took effect';
+    const which = latest.state === 'scheduled' ? 'scheduled version' : 'current version';
+    return refuse(
+      'effective_date_before_current',
+      `The effective date ${formatIsoDate(date)} is before ${formatIsoDate(latest.effectiveDate)}, when the ${which} ${latest.versionNumber} ${when}. Choose ${formatIsoDate(latest.effectiveDate)} or later.`,
+    );
+  }
+  return null;
+}
+
+/** The date the publish form offers first: today in the club, or the first date the server accepts. */
+export function defaultEffectiveDate(
+  siblings: readonly Pick<RulebookVersion, 'state' | 'effectiveDate' | 'versionNumber'>[],
+  today: string,
+): string {
+  const latest = latestDatedSibling(siblings)?.effectiveDate;
+  return latest && latest > today ? latest : today;
+}
+
+/** Whether a version of this date is in force on `today` once published (else it is scheduled). */
+export function inForceOn(effectiveDate: string, today: string): boolean {
+  return effectiveDate <= today;
+}
+
 function publish(
   version: RulebookVersion,
   requestedDate: string | undefined,
   siblings: readonly RulebookVersion[],
   now: string,
+  today: string | undefined,
 ): TransitionResult | LifecycleRefusal {
+  if (today === undefined) throw new Error('transitionVersion: publishing needs the club\'s date today');
   if (version.state !== 'draft')
     return refuse(
       'not_a_draft',
@@ -196,13 +259,8 @@ function publish(
       `Version ${newer.versionNumber} was published after this draft was started; start a new draft from it instead.`,
     );
   }
-  const current = siblings.find((s) => s.state === 'published');
-  if (current?.effectiveDate && effectiveDate < current.effectiveDate) {
-    return refuse(
-      'effective_date_before_current',
-      `The effective date ${effectiveDate} is before ${current.effectiveDate}, when the current version ${current.versionNumber} took effect.`,
-    );
-  }
+  const dateRefusal = effectiveDateRefusal(effectiveDate, siblings);
+  if (dateRefusal) return dateRefusal;
   // The published document states the date it took effect, so the two can never disagree.
   const withDate = withRulebookField(version.document, 'effectiveDate', effectiveDate);
   const validation = validateRulesetDocument(withDate);
@@ -215,13 +273,20 @@ function publish(
     );
   }
   const document: RulesetDocument = validation.document;
-  const changes: StateChange[] = [{ versionId: version.id, from: 'draft', to: 'published' }];
-  if (current) changes.push({ versionId: current.id, from: 'published', to: 'superseded' });
+  const state: VersionState = inForceOn(effectiveDate, today) ? 'published' : 'scheduled';
+  const changes: StateChange[] = [{ versionId: version.id, from: 'draft', to: state }];
+  // In force today: whatever was in force or scheduled before it (all dated no later) is replaced now.
+  // Scheduled: the version in force stays in force until the date comes (activateDueVersions).
+  if (state === 'published') {
+    for (const s of siblings) {
+      if (s.state === 'published' || s.state === 'scheduled') changes.push({ versionId: s.id, from: s.state, to: 'superseded' });
+    }
+  }
   return {
     ok: true,
     version: {
       ...version,
-      state: 'published',
+      state,
       document,
       edition: document.rulebook.edition,
       effectiveDate,
@@ -229,6 +294,20 @@ function publish(
     },
     changes,
   };
+}
+
+/**
+ * The moves due on `today` for one rulebook's versions: of the versions in force or scheduled whose
+ * date has come, the highest-numbered is in force and the others are superseded. Empty when nothing
+ * is due. Superseding moves come first, so the one-in-force rule of the database holds at each step.
+ */
+export function activateDueVersions(versions: readonly RulebookVersion[], today: string): StateChange[] {
+  const due = versions.filter((v) => (v.state === 'published' || v.state === 'scheduled') && v.effectiveDate !== null && v.effectiveDate <= today);
+  if (due.length === 0) return [];
+  const winner = due.reduce((a, b) => (b.versionNumber > a.versionNumber ? b : a));
+  const changes: StateChange[] = due.filter((v) => v.id !== winner.id).map((v) => ({ versionId: v.id, from: v.state, to: 'superseded' }));
+  if (winner.state === 'scheduled') changes.push({ versionId: winner.id, from: 'scheduled', to: 'published' });
+  return changes;
 }
 
 function withRulebookField(document: unknown, field: string, value: string): unknown {
@@ -244,7 +323,7 @@ function withRulebookField(document: unknown, field: string, value: string): unk
 /** Whether a builder may start a new check against this version. */
 export function canUseForNewCheck(
   version: Pick<RulebookVersion, 'state' | 'versionNumber'>,
-): { ok: true; superseded: boolean } | LifecycleRefusal {
+): { ok: true; superseded: boolean; scheduled: boolean } | LifecycleRefusal {
   if (version.state === 'retired')
     return refuse(
       'version_retired',
@@ -255,7 +334,8 @@ export function canUseForNewCheck(
       'version_unpublished',
       `Version ${version.versionNumber} is a draft; checks use published versions.`,
     );
-  return { ok: true, superseded: version.state === 'superseded' };
+  // A scheduled version may be checked against ahead of its date, so builders learn early.
+  return { ok: true, superseded: version.state === 'superseded', scheduled: version.state === 'scheduled' };
 }
 
 /**

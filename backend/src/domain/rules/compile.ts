@@ -8,7 +8,7 @@ import type { FactScope } from '../facts.js';
 import { compileConditionTree, resolveUnit } from './conditions.js';
 import type { Path, Problems } from './conditions.js';
 import { compileRequires, sizeLabel } from './templates.js';
-import type { CanonicalEquivalent, TemplateContext } from './templates.js';
+import type { CanonicalEquivalent, CanonicalStrengthPolicy, TemplateContext } from './templates.js';
 import type { CompiledRequirement, CompiledRuleset, CompiledPolicy } from './types.js';
 
 export class RulesetInvalidError extends Error {
@@ -68,6 +68,8 @@ export function compileDocument(doc: RulesetDocument, problems: Problems & { lis
     });
   });
 
+  const strength = strengthPolicy(doc, problems);
+
   const requirementIds = new Map<string, number>();
   const requirements: CompiledRequirement[] = [];
   doc.requirements.forEach((req, index) => {
@@ -83,7 +85,7 @@ export function compileDocument(doc: RulesetDocument, problems: Problems & { lis
     const ctx: TemplateContext = {
       system, scope, tolerance, problems, leaves: {}, factsUsed: new Set(), leafCount: 0,
       nextLeaf: () => `L${leaf++}`, alternatives: {}, nextAlternative: () => `A${alt++}`,
-      acceptPrintedEquivalents: doc.acceptPrintedEquivalents, equivalents,
+      acceptPrintedEquivalents: doc.acceptPrintedEquivalents, equivalents, ...(strength.accept && (strength.measure === 'section_modulus' || strength.listedYieldMpa !== undefined) ? { strength } : {}),
     };
     const before = problems.list.length;
     const when = req.appliesTo?.when === undefined ? undefined : compileConditionTree(req.appliesTo.when, [...path, 'appliesTo', 'when'], ctx);
@@ -109,8 +111,38 @@ export function compileDocument(doc: RulesetDocument, problems: Problems & { lis
       })),
     });
   });
-  const policy: CompiledPolicy = { acceptPrintedEquivalents: doc.acceptPrintedEquivalents, tolerance };
+  const policy: CompiledPolicy = { acceptPrintedEquivalents: doc.acceptPrintedEquivalents, strength, tolerance };
   return { document: doc, classes: Object.fromEntries(doc.classes.map((c) => [c.id, c])), listedWeightsKg, requirements, policy };
+}
+
+/**
+ * `strengthEquivalents` in canonical units. Without it: not accepted, judged (as advice) by section
+ * modulus. Bending strength needs the yield the listed sizes are taken at.
+ */
+function strengthPolicy(doc: RulesetDocument, problems: Problems): CanonicalStrengthPolicy {
+  const se = doc.strengthEquivalents;
+  if (!se) return { accept: false, measure: 'section_modulus' };
+  const ctx = { system: doc.unitSystem, problems };
+  const out: CanonicalStrengthPolicy = { accept: se.accept, measure: se.measure };
+  if (se.listedYield) {
+    const unit = resolveUnit('stress', se.listedYield.unit, ['strengthEquivalents', 'listedYield', 'unit'], ctx);
+    if (unit) {
+      const mpa = toCanonical(se.listedYield.value, unit);
+      if (mpa > 3000) problems.add(['strengthEquivalents', 'listedYield', 'value'], 'A yield over 3000 MPa is not a tube steel: check the unit.');
+      else out.listedYieldMpa = mpa;
+    }
+  } else if (se.measure === 'bending_strength') {
+    problems.add(['strengthEquivalents', 'listedYield'], 'Bending strength compares yield × Z: give the yield the listed sizes are taken at (e.g. the rulebook’s minimum yield).');
+  }
+  if (se.minWall) {
+    const unit = resolveUnit('length', se.minWall.unit, ['strengthEquivalents', 'minWall', 'unit'], ctx);
+    if (unit) {
+      const mm = toCanonical(se.minWall.value, unit);
+      if (mm > 20) problems.add(['strengthEquivalents', 'minWall', 'value'], 'A least wall over 20 mm is not a cage tube: check the unit.');
+      else out.minWallMm = mm;
+    }
+  }
+  return out;
 }
 
 /** Compiles a validated document. Throws RulesetInvalidError (with every problem) otherwise. */

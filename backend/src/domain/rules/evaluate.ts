@@ -6,7 +6,9 @@
 import { Engine, Fact } from 'json-rules-engine';
 import type { Almanac, RuleProperties } from 'json-rules-engine';
 import type { Specification } from '../../contracts/specification.js';
-import type { CheckReport, Finding, MeasuredValue, MissingFact, RequiredValue } from '../../contracts/report.js';
+import type { CheckReport, Finding, FindingStrengthEquivalence, MeasuredValue, MissingFact, RequiredValue } from '../../contracts/report.js';
+import { MEASURE_WORDS, judgeStrengthEquivalence } from '../strength-equivalence.js';
+import type { StrengthEquivalence } from '../strength-equivalence.js';
 import { PRE_CHECK_DISCLAIMER } from '../../contracts/report.js';
 import { FACTS_BY_NAME, SIDE_COUNTS_FACT, countOnSide, factPresent, memberFacts, memberSides, memberTubeData, plateFacts, vehicleFacts } from '../facts.js';
 import type { FactSet, MemberTubeData, SideParam } from '../facts.js';
@@ -14,6 +16,7 @@ import { formatIsoDate } from '../dates.js';
 import { deriveCageGeometry } from '../geometry/derive.js';
 import type { CageGeometry } from '../geometry/derive.js';
 import { memberNames } from '../geometry/names.js';
+import { modelAsks, type ModelAsk } from '../geometry/model-asks.js';
 import { memberReadings, modelLengths, vehicleReadings } from '../model-facts.js';
 import type { Disagreement } from '../model-facts.js';
 import { formatQuantity } from '../units.js';
@@ -202,6 +205,8 @@ interface Ctx {
   certificate?: { issuer?: string; number: string };
   /** The weight is the class's listed weight, not a measured one. */
   listedWeight: boolean;
+  /** With a cage model: what to ask instead of a geometry fact it would give (model-asks.ts). */
+  asks?: (fact: string) => ModelAsk[] | null;
 }
 
 export async function evaluateSpecification(
@@ -216,7 +221,8 @@ export async function evaluateSpecification(
   const plan = planFor(compiled, classId);
   const geo = spec.model ? deriveCageGeometry(spec) : null;
   const lengths = modelLengths(spec, geo);
-  const tubes = spec.members.map((m, i) => memberTubeData(m, i, lengths.get(m.id)));
+  const names = memberNames(spec.members);
+  const tubes = spec.members.map((m, i) => memberTubeData(m, i, lengths.get(m.id), names[i]));
   const listedWeightKg = compiled.listedWeightsKg[classId];
   const vfacts = vehicleFacts(spec, { weightBasis: cls.weightBasis, ...(listedWeightKg !== undefined ? { listedWeightKg } : {}) }, tubes);
   Object.assign(vfacts, peerFacts(spec, peerNamesOf(compiled)));
@@ -224,7 +230,8 @@ export async function evaluateSpecification(
   const certificate = spec.cage?.certificate;
   const ctx: Ctx = {
     compiled, system: options.unitSystem ?? doc.unitSystem, weightKg: vfacts['vehicle.weightKg'] as number | undefined,
-    ...(certificate ? { certificate } : {}), listedWeight: listedWeightKg !== undefined, names: memberNames(spec.members),
+    ...(certificate ? { certificate } : {}), listedWeight: listedWeightKg !== undefined, names,
+    ...(spec.model ? { asks: (fact: string) => modelAsks(spec, fact) } : {}),
   };
   const findings: Ordered[] = [];
   const disagreements: Disagreement[] = [...vr.disagreements];
@@ -413,12 +420,24 @@ function certifiedFinding(ctx: Ctx, req: CompiledRequirement, subject: Subject):
   return f;
 }
 
-function missingList(names: Iterable<string>): MissingFact[] {
-  return [...new Set(names)].sort().map((fact) => {
+/**
+ * The missing facts in words. With a cage model, a geometry fact the model would derive becomes what
+ * the model still needs (a path, the shoulder height, the helmet): the builder is never asked to
+ * measure what the model gives.
+ */
+function missingList(names: Iterable<string>, ctx?: Pick<Ctx, 'asks'>): MissingFact[] {
+  const out = new Map<string, MissingFact>();
+  for (const fact of [...new Set(names)].sort()) {
+    const instead = ctx?.asks?.(fact);
+    if (instead) {
+      for (const a of instead) out.set(a.fact, { fact: a.fact, label: a.label, dimension: a.dimension });
+      continue;
+    }
     const def = FACTS_BY_NAME.get(fact);
     const other = def ? undefined : referenceLabel(fact);
-    return { fact, label: def?.label ?? other ?? fact, dimension: def?.dimension ?? (other ? 'length' : null) };
-  });
+    out.set(fact, { fact, label: def?.label ?? other ?? fact, dimension: def?.dimension ?? (other ? 'length' : null) });
+  }
+  return [...out.values()];
 }
 
 // Other members' sizes a compiled ruleset compares with, found once per compiled ruleset.
@@ -605,8 +624,8 @@ function buildFinding(
     const w = triState(when, facts, whenMissing);
     if (w === false) return baseFinding(ctx, req, subject, 'not_applicable', 'Does not apply to this vehicle or member (its condition is not met).');
     if (w === 'unknown') {
-      const f = baseFinding(ctx, req, subject, 'needs_information', `Whether this applies depends on: ${missingList(whenMissing).map((m) => m.label).join(', ')}.`);
-      f.missing = missingList(whenMissing);
+      const f = baseFinding(ctx, req, subject, 'needs_information', `Whether this applies depends on: ${missingList(whenMissing, ctx).map((m) => m.label).join(', ')}.`);
+      f.missing = missingList(whenMissing, ctx);
       return f;
     }
   }
@@ -629,7 +648,7 @@ function buildFinding(
       passed.forEach((l, i) => parts.push(...(i > 0 ? ['; '] : []), ...leafParts(req, l, facts, true)));
       parts.push('.');
     }
-  } else if (v === 'needs_information') parts.push(`Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')}.`);
+  } else if (v === 'needs_information') parts.push(`Cannot decide without: ${missingList(missing, ctx).map((m) => m.label).join(', ')}.`);
   else {
     const failing = leaves.filter((l) => l.result === false && req.leaves[String(l.name)] && factPresentFor(facts, l));
     if (failing.length > 0) {
@@ -637,7 +656,7 @@ function buildFinding(
       failing.forEach((l, i) => parts.push(...(i > 0 ? ['; '] : []), ...leafParts(req, l, facts, false)));
       parts.push('.');
     } else parts.push('Does not meet the requirement.');
-    if (missing.size > 0) parts.push(` Also not given: ${missingList(missing).map((m) => m.label).join(', ')}.`);
+    if (missing.size > 0) parts.push(` Also not given: ${missingList(missing, ctx).map((m) => m.label).join(', ')}.`);
     toPass.push(...toPassParts(req, failing, facts));
   }
   // Which values came from the cage model, then (for a fail) what to change, last.
@@ -645,7 +664,7 @@ function buildFinding(
   const f = withReason(ctx, baseFinding(ctx, req, subject, v, ''), parts);
   f.measured = measured;
   f.required = required;
-  if (v === 'needs_information') f.missing = missingList(missing);
+  if (v === 'needs_information') f.missing = missingList(missing, ctx);
   return f;
 }
 
@@ -659,6 +678,8 @@ function tubeTableFinding(
   ctx: Ctx, req: CompiledRequirement, variant: CompiledVariant, subject: Subject, requires: ResultNode, facts: FactSet, verdict: Tri, missing: Set<string>,
 ): Finding {
   const alts = (requires.any ?? []).filter((n) => typeof n.name === 'string' && req.alternatives[n.name]);
+  // Equivalents by strength are never "nearest" nor offered as sizes: they stand for listed sizes.
+  const listedAlts = alts.filter((n) => req.alternatives[String(n.name)]!.source !== 'strength_equivalent');
   const od = facts['member.odMm'] as number;
   const wall = facts['member.wallMm'] as number;
   const material = facts['member.material'] as string | undefined;
@@ -692,7 +713,7 @@ function tubeTableFinding(
     if (a.approvedBefore && approvedOn !== undefined && !(approvedOn < a.approvedBefore)) s += 1;
     return s;
   };
-  const pick = matched ?? [...alts].sort((x, y) => score(String(x.name)) - score(String(y.name)))[0];
+  const pick = matched ?? [...listedAlts].sort((x, y) => score(String(x.name)) - score(String(y.name)))[0];
   const pickMeta = pick ? req.alternatives[String(pick.name)] : undefined;
   const required: RequiredValue[] = pick ? copyRequired(summarise(req, String(pick.name), leavesOf(pick))) : [];
   const v: Finding['verdict'] = verdict === 'unknown' ? 'needs_information' : verdict ? 'pass' : 'fail';
@@ -719,12 +740,30 @@ function tubeTableFinding(
   ];
   const readingLabel = (a: NonNullable<typeof pickMeta>) => (a.readingFact ? (FACTS_BY_NAME.get(a.readingFact)?.label ?? a.readingFact) : '');
   const parts: ReasonSegment[] = [];
-  if (v === 'pass' && pickMeta) {
+  let equivalence: FindingStrengthEquivalence | undefined;
+  const memberYield = (facts['member.yieldMpa'] ?? facts['member.gradeMinYieldMpa']) as number | undefined;
+  if (v === 'pass' && pickMeta?.equivalence) {
+    const eq = pickMeta.equivalence;
+    const judged = judgeStrengthEquivalence({ odMm: od, wallMm: wall, ...(memberYield !== undefined ? { yieldMpa: memberYield } : {}) }, { odMm: pickMeta.odMm, wallMm: pickMeta.wallMm, ...(eq.listedYieldMpa !== undefined ? { yieldMpa: eq.listedYieldMpa } : {}) }, eq.measure, eq.minWallMm);
+    equivalence = equivalenceWire(judged, eq.listedLabel, true);
+    const valueFact = eq.measure === 'section_modulus' ? facts['member.sectionModulusMm3'] : facts['member.bendingStrengthNmm'];
+    const d = eq.measure === 'section_modulus' ? 'section_modulus' : 'moment';
+    // The listed size it stands for, described as a listed size is (material first).
+    const listed: ReasonSegment[] = [
+      pickMeta.materials ? `${materialWords(pickMeta.materials)} ` : '',
+      bySystem((s) => (s === docSystem ? eq.listedLabel : tubeSizeText(pickMeta.odMm, pickMeta.wallMm, s))),
+      pickMeta.processes ? ` (${processWords(pickMeta.processes)})` : '',
+      pickMeta.approvedBefore ? `, for cages approved before ${formatIsoDate(pickMeta.approvedBefore)}` : '',
+    ];
+    parts.push(`Equivalent by ${MEASURE_WORDS[eq.measure]} to `, ...listed, ...bandParts, ': ',
+      eq.measure === 'section_modulus' ? 'Z ' : 'yield × Z ', cmp(valueFact as number, eq.requiredValue, d, 'atLeast', true),
+      '. This rulebook accepts a tube at least as strong as a listed size (equivalence by strength).');
+  } else if (v === 'pass' && pickMeta) {
     parts.push('Matches ', ...described(pickMeta), ...bandParts);
     if (pickMeta.requiredReadingMm !== undefined && reading !== undefined && pickMeta.readingFact)
       parts.push(', with ', `${readingLabel(pickMeta)} `, { q: reading, d: 'length' }, ' (at least ', { q: pickMeta.requiredReadingMm, d: 'length' }, ' needed)');
     parts.push('.');
-  } else if (v === 'needs_information') parts.push(`Cannot decide without: ${missingList(missing).map((m) => m.label).join(', ')}`, ...(bandParts.length ? [' (band ', bandParts[1]!, ')'] : []), '.');
+  } else if (v === 'needs_information') parts.push(`Cannot decide without: ${missingList(missing, ctx).map((m) => m.label).join(', ')}`, ...(bandParts.length ? [' (band ', bandParts[1]!, ')'] : []), '.');
   else if (pickMeta) {
     const gaps: ReasonSegment[][] = [];
     const wallReq = required.find((r) => r.fact === 'member.wallMm');
@@ -742,13 +781,68 @@ function tubeTableFinding(
       gaps.forEach((g, i) => parts.push(...(i > 0 ? ['; '] : []), ...g));
       parts.push(')');
     }
-    parts.push('.', ...passingSizesParts(alts.map((n) => req.alternatives[String(n.name)]!), { material, process, approvedOn }, described));
+    parts.push('.', ...passingSizesParts(listedAlts.map((n) => req.alternatives[String(n.name)]!), { material, process, approvedOn }, described));
+    const advice = strengthAdvice(ctx.compiled.policy.strength, listedAlts.map((n) => req.alternatives[String(n.name)]!), { odMm: od, wallMm: wall, ...(memberYield !== undefined ? { yieldMpa: memberYield } : {}) }, { material, process, approvedOn }, docSystem);
+    if (advice) {
+      equivalence = advice.equivalence;
+      parts.push(...advice.parts);
+    }
   } else parts.push('No listed size fits', ...bandParts, '.');
   const f = withReason(ctx, baseFinding(ctx, req, subject, v, ''), parts);
+  if (equivalence) f.strengthEquivalence = equivalence;
   f.measured = measured;
   f.required = required;
-  if (v === 'needs_information') f.missing = missingList(missing);
+  if (v === 'needs_information') f.missing = missingList(missing, ctx);
   return f;
+}
+
+function equivalenceWire(e: StrengthEquivalence, listedLabel: string, accepted: boolean): FindingStrengthEquivalence {
+  const y = (x: number | undefined) => (x !== undefined ? { yieldMpa: x } : {});
+  return {
+    measure: e.measure, accepted, listed: { label: listedLabel, odMm: e.listed.odMm, wallMm: e.listed.wallMm, ...y(e.listed.yieldMpa) },
+    candidate: { odMm: e.candidate.odMm, wallMm: e.candidate.wallMm, ...y(e.candidate.yieldMpa) },
+    ...(e.minWallMm !== undefined ? { minWallMm: e.minWallMm } : {}), equivalent: e.equivalent,
+  };
+}
+
+/**
+ * A failing tube judged against the band's listed sizes by strength. Where the rulebook does not
+ * accept equivalents, a tube at least as strong as a listed size is said to be so, as advice that
+ * does not change the verdict. Where it does accept them (and the tube still failed), the closest
+ * listed size by the measure is kept so the reader sees why not.
+ */
+function strengthAdvice(
+  policy: CompiledRuleset['policy']['strength'], alts: AlternativeMeta[], tube: { odMm: number; wallMm: number; yieldMpa?: number },
+  member: { material?: string; process?: string; approvedOn?: string }, docSystem: UnitSystem,
+): { equivalence: FindingStrengthEquivalence; parts: ReasonSegment[] } | undefined {
+  const listed = alts.filter(
+    (a) => a.source === 'table'
+      && (!a.materials || member.material === undefined || a.materials.includes(member.material))
+      && (!a.processes || member.process === undefined || a.processes.includes(member.process))
+      && (!a.approvedBefore || (member.approvedOn !== undefined && member.approvedOn < a.approvedBefore)),
+  );
+  if (listed.length === 0 || tube.wallMm <= 0 || tube.wallMm >= tube.odMm / 2) return undefined;
+  const listedYield = policy.listedYieldMpa;
+  const judged = listed.map((a) => ({ a, e: judgeStrengthEquivalence(tube, { odMm: a.odMm, wallMm: a.wallMm, ...(listedYield !== undefined ? { yieldMpa: listedYield } : {}) }, policy.measure, policy.minWallMm) }));
+  const label = (a: AlternativeMeta): ReasonSegment => bySystem((s) => (s === docSystem ? a.label : tubeSizeText(a.odMm, a.wallMm, s)));
+  if (!policy.accept) {
+    const hit = judged.find((j) => j.e.equivalent === true);
+    if (!hit) return undefined;
+    const what = policy.measure === 'section_modulus'
+      ? ['Z ', cmp(hit.e.candidate.sectionModulusMm3, hit.e.listed.sectionModulusMm3, 'section_modulus', 'atLeast', true)]
+      : ['yield × Z ', cmp(hit.e.candidate.bendingStrengthNmm!, hit.e.listed.bendingStrengthNmm!, 'moment', 'atLeast', true)];
+    return {
+      equivalence: equivalenceWire(hit.e, hit.a.label, false),
+      parts: [` Advisory only: by ${MEASURE_WORDS[policy.measure]} this tube is equivalent to `, label(hit.a), ': ', ...what, '. This rulebook does not accept equivalents by strength, so the finding stands; only the sanctioning body can accept it.'],
+    };
+  }
+  const best = [...judged].sort((x, y) => (y.e.ratio ?? -1) - (x.e.ratio ?? -1))[0]!;
+  return {
+    equivalence: equivalenceWire(best.e, best.a.label, true),
+    parts: best.e.equivalent === 'unknown'
+      ? [` Nor can it be called equivalent by ${MEASURE_WORDS[policy.measure]} until its yield is known.`]
+      : [` Nor is it equivalent by ${MEASURE_WORDS[policy.measure]}: the closest is `, label(best.a), ' at a ratio of ', { q: best.e.ratio ?? 0, d: 'ratio' }, '.'],
+  };
 }
 
 /**
@@ -813,14 +907,22 @@ function assembleReport(
     findings,
     measureNext: [...next.values()]
       .sort((a, b) => (a.m.fact < b.m.fact ? -1 : a.m.fact > b.m.fact ? 1 : 0))
-      .map((e) => ({ ...e.m, memberIds: [...e.members].sort(), requirementIds: [...e.reqs].sort() })),
+      .map((e) => {
+        const memberIds = [...e.members].sort();
+        const nameOf = new Map(tubes.map((t) => [t.memberId, t.name ?? t.memberId]));
+        return { ...e.m, memberIds, memberNames: memberIds.map((id) => nameOf.get(id) ?? id), requirementIds: [...e.reqs].sort() };
+      }),
     tubes: {
       members: tubes.map((t) => ({ ...t })),
       estimatedTubeMassKg: withLength.reduce((s, t) => s + (t.massKg ?? 0), 0),
       massComplete: withLength.length === tubes.length,
       membersWithoutLength: tubes.filter((t) => t.massKg === null).map((t) => t.memberId),
     },
-    policy: { acceptPrintedEquivalents: ctx.compiled.policy.acceptPrintedEquivalents, measurementTolerance: { ...ctx.compiled.policy.tolerance } },
+    policy: {
+      acceptPrintedEquivalents: ctx.compiled.policy.acceptPrintedEquivalents,
+      strengthEquivalents: { accept: ctx.compiled.policy.strength.accept, measure: ctx.compiled.policy.strength.measure },
+      measurementTolerance: { ...ctx.compiled.policy.tolerance },
+    },
     ...(geo ? { geometry: { ...geo, disagreements } } : {}),
     disclaimer: PRE_CHECK_DISCLAIMER,
   };

@@ -17,6 +17,9 @@ import { compileMemberMatch } from './member-match.js';
 import { WALL_METHOD_FACTS } from '../facts.js';
 import { MEASURED_WALL_MAX_PERCENT } from './measured-wall.js';
 import type { TemplateName, TemplateOf } from './template-kinds.js';
+import type { StrengthMeasure } from '../../contracts/ruleset.js';
+import { tubeSectionProperties } from '../tube.js';
+import { MEASURE_WORDS } from '../strength-equivalence.js';
 
 export interface CanonicalEquivalent {
   size: { odMm: number; wallMm: number };
@@ -24,11 +27,21 @@ export interface CanonicalEquivalent {
   note?: string;
 }
 
+/** The document's `strengthEquivalents`, in canonical units (compile.ts). */
+export interface CanonicalStrengthPolicy {
+  accept: boolean;
+  measure: StrengthMeasure;
+  listedYieldMpa?: number;
+  minWallMm?: number;
+}
+
 export interface TemplateContext extends CompileContext {
   alternatives: Record<string, AlternativeMeta>;
   nextAlternative: () => string;
   acceptPrintedEquivalents: boolean;
   equivalents: readonly CanonicalEquivalent[];
+  /** Set when the rulebook accepts equivalents by strength: each listed size gains one. */
+  strength?: CanonicalStrengthPolicy;
 }
 
 export interface CompiledRequires {
@@ -166,9 +179,40 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
         };
         return { all: [...restrictions(), od, wall, ...(measured ? [measured.node] : [])], name };
       };
+      // Equivalents by strength come after everything the row lists, so a listed size that fits
+      // is always the one named.
+      const strengthNodes: EngineNode[] = [];
+      const strength = ctx.strength;
+      const strengthNode = (s: { odMm: number; wallMm: number }, label: string): EngineNode | undefined => {
+        if (!strength?.accept) return undefined;
+        const name = ctx.nextAlternative();
+        const zMm3 = tubeSectionProperties(s).sectionModulusMm3;
+        const required = strength.measure === 'section_modulus' ? zMm3 : zMm3 * strength.listedYieldMpa!;
+        const leaf = strength.measure === 'section_modulus'
+          ? compileLeaf({ fact: 'member.sectionModulusMm3', operator: 'greaterThanInclusive', value: required, unit: 'mm3' }, rowPath, ctx)
+          : compileLeaf({ fact: 'member.bendingStrengthNmm', operator: 'greaterThanInclusive', value: required, unit: 'N*mm' }, rowPath, ctx);
+        const wall = strength.minWallMm === undefined ? undefined : compileLeaf({ fact: 'member.wallMm', operator: 'greaterThanInclusive', value: strength.minWallMm, unit: 'mm' }, rowPath, ctx);
+        // A table that reads wall readings holds an equivalent to them too: against its least wall, else the listed wall.
+        const measured = readingLeaf(strength.minWallMm ?? s.wallMm, [...path, 'measuredWall']);
+        if (!leaf) return undefined;
+        ctx.alternatives[name] = {
+          label: `equivalent by ${MEASURE_WORDS[strength.measure]} to ${label}`, odMm: s.odMm, wallMm: s.wallMm, requiredWallMm: strength.minWallMm ?? 0, source: 'strength_equivalent',
+          ...(row.materials ? { materials: row.materials } : {}), ...(row.processes ? { processes: row.processes } : {}),
+          ...(row.approvedBefore ? { approvedBefore: row.approvedBefore } : {}),
+          ...(measured ? { requiredReadingMm: measured.requiredMm, readingFact: measured.fact } : {}),
+          equivalence: {
+            measure: strength.measure, listedLabel: label, requiredValue: required,
+            ...(strength.listedYieldMpa !== undefined ? { listedYieldMpa: strength.listedYieldMpa } : {}),
+            ...(strength.minWallMm !== undefined ? { minWallMm: strength.minWallMm } : {}),
+          },
+        };
+        return { all: [...restrictions(), leaf, ...(wall ? [wall] : []), ...(measured ? [measured.node] : [])], name };
+      };
       for (const s of sizes) {
         const label = s.label ?? sizeLabel(s.odMm, s.wallMm, ctx.system);
         alternatives.push(sizeNode(s.odMm, s.wallMm, { label, odMm: s.odMm, wallMm: s.wallMm, source: 'table' }));
+        const eq = strengthNode(s, label);
+        if (eq) strengthNodes.push(eq);
         if (ctx.acceptPrintedEquivalents) {
           for (const eq of ctx.equivalents) {
             if (!sameSize(eq.size, s) || sameSize(eq.printedAs, s)) continue;
@@ -204,6 +248,7 @@ function compileTubeTable(t: TubeTable, path: Path, ctx: TemplateContext): Compi
         const wall = compileLeaf({ fact: 'member.wallMm', operator: 'greaterThanInclusive', value: Math.max(minWallMm - wallAllowanceMm, 0), unit: 'mm' }, [...path, 'allowances'], ctx);
         alternatives.push({ all: [...restrictions(), margin, wall, ...(measured ? [measured.node] : [])], name });
       }
+      alternatives.push(...strengthNodes);
     });
     // Descending priorities make the engine try alternatives one at a time and stop at the first
     // that fits, instead of evaluating every alternative of the band.

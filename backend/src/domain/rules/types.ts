@@ -1,7 +1,8 @@
 // Types of a compiled ruleset: json-rules-engine rules plus the metadata that turns an engine
 // result back into a finding (labels, nominal required values, tube-table alternatives).
 import type { RuleProperties } from 'json-rules-engine';
-import type { RequirementArea, RequirementScope, RulesetClass, RulesetDocument } from '../../contracts/ruleset.js';
+import type { RequirementArea, RequirementScope, RulesetClass, RulesetDocument, StrengthMeasure } from '../../contracts/ruleset.js';
+import type { CanonicalStrengthPolicy } from './templates.js';
 import type { Dimension } from '../units.js';
 import type { FriendlyOperator } from './operators.js';
 import type { TemplateName } from './template-kinds.js';
@@ -33,9 +34,15 @@ export interface AlternativeMeta {
   processes?: readonly string[];
   /** Counts only for cages approved before this date (YYYY-MM-DD). */
   approvedBefore?: string;
-  source: 'table' | 'allowance' | 'printed_equivalent';
+  source: 'table' | 'allowance' | 'printed_equivalent' | 'strength_equivalent';
   /** A printed equivalent: the listed size it stands for (canonical mm), so each reader gets both in their units. */
   equivalentOf?: { odMm: number; wallMm: number };
+  /**
+   * An equivalent by strength of the listed size odMm × wallMm (its `label` is the listed one's
+   * label): the measure, the value the member must reach (canonical mm³ or N·mm), and the policy's
+   * yield and least wall.
+   */
+  equivalence?: { measure: StrengthMeasure; listedLabel: string; requiredValue: number; listedYieldMpa?: number; minWallMm?: number };
   /** With a tube table's `measuredWall`: the thinnest reading the member needs, and its fact. */
   requiredReadingMm?: number;
   readingFact?: string;
@@ -72,6 +79,8 @@ export interface CompiledRequirement {
 
 export interface CompiledPolicy {
   acceptPrintedEquivalents: boolean;
+  /** Equivalence by strength: accepted or advisory, by which measure (off and section modulus when the document says nothing). */
+  strength: CanonicalStrengthPolicy;
   /** Canonical units per dimension. */
   tolerance: Partial<Record<Dimension, number>>;
 }

@@ -4,13 +4,15 @@
 import type { Specification } from '../../contracts/specification';
 import type { CutListRowWire, TubeDataWire } from '../../contracts/garage';
 import { memberTubeData } from '../../domain/facts';
+import { memberNames } from '../../domain/geometry/names';
 import { deriveCageGeometry } from '../../domain/geometry/derive';
 import { modelLengths } from '../../domain/model-facts';
 
 export function tubeDataFor(spec: Specification): TubeDataWire {
   // With a model, a member's developed centreline length is its length.
   const lengths = modelLengths(spec, spec.model ? deriveCageGeometry(spec) : null);
-  const members = spec.members.map((m, i) => memberTubeData(m, i, lengths.get(m.id)));
+  const names = memberNames(spec.members);
+  const members = spec.members.map((m, i) => memberTubeData(m, i, lengths.get(m.id), names[i]));
   const rows = new Map<string, CutListRowWire>();
   spec.members.forEach((m, i) => {
     const tube = members[i]!;
@@ -18,11 +20,15 @@ export function tubeDataFor(spec: Specification): TubeDataWire {
     const key = `${material}|${m.odMm}|${m.wallMm}`;
     let row = rows.get(key);
     if (!row) {
-      row = { odMm: m.odMm, wallMm: m.wallMm, material, memberIds: [], totalLengthMm: 0, massKg: 0, massPerMetreKg: tube.massPerMetreKg, membersWithoutLength: [] };
+      row = { odMm: m.odMm, wallMm: m.wallMm, material, memberIds: [], memberNames: [], totalLengthMm: 0, massKg: 0, massPerMetreKg: tube.massPerMetreKg, membersWithoutLength: [], namesWithoutLength: [] };
       rows.set(key, row);
     }
     row.memberIds.push(m.id);
-    if (tube.lengthMm === null || tube.massKg === null) row.membersWithoutLength.push(m.id);
+    row.memberNames.push(names[i]!);
+    if (tube.lengthMm === null || tube.massKg === null) {
+      row.membersWithoutLength.push(m.id);
+      row.namesWithoutLength.push(names[i]!);
+    }
     else {
       row.totalLengthMm += tube.lengthMm;
       row.massKg += tube.massKg;
@@ -30,12 +36,14 @@ export function tubeDataFor(spec: Specification): TubeDataWire {
   });
   // Largest stock first, as a cut list is usually read: the hoops' size, then the braces'.
   const cutList = [...rows.values()].sort((a, b) => b.odMm - a.odMm || b.wallMm - a.wallMm || a.material.localeCompare(b.material));
-  const membersWithoutLength = members.filter((t) => t.lengthMm === null).map((t) => t.memberId);
+  const without = members.filter((t) => t.lengthMm === null);
+  const membersWithoutLength = without.map((t) => t.memberId);
   return {
     members,
     cutList,
     estimatedTubeMassKg: members.reduce((sum, t) => sum + (t.massKg ?? 0), 0),
     massComplete: membersWithoutLength.length === 0,
     membersWithoutLength,
+    namesWithoutLength: without.map((t) => t.name ?? t.memberId),
   };
 }

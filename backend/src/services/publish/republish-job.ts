@@ -8,6 +8,7 @@
 // down the job still completes and the mail goes out when it returns.
 import type { DataSource, EntityManager } from 'typeorm';
 import type { RulesetDocument } from '../../contracts/ruleset';
+import { newerEditionLines } from '../../contracts/edition-words';
 import { validateRulesetDocument } from '../../domain/rules/validate';
 import { describeRulesetChanges, type RulesetChange } from '../../domain/rulebook/diff';
 import type { Jobs, ProgressReporter } from '../jobs';
@@ -26,8 +27,6 @@ export interface RepublishDeps {
   batchSize?: number;
 }
 
-const verdictWords = { pass: 'meets the rules', fail: 'does not meet the rules', needs_information: 'needs more measurements' } as const;
-
 interface VersionDocument {
   document: RulesetDocument;
   clubId: string;
@@ -36,6 +35,9 @@ interface VersionDocument {
   status: string;
   lockVersion: number;
 }
+
+/** The published version, with every edition name of its rulebook: the mail names the edition each sheet is on. */
+type PublishedDocument = VersionDocument & { editions: Map<string, string> };
 
 export async function documentOf(ds: DataSource, id: string): Promise<VersionDocument | null> {
   const rows: (Omit<VersionDocument, 'document'> & { document: unknown })[] = await ds.query(
@@ -49,23 +51,41 @@ export async function documentOf(ds: DataSource, id: string): Promise<VersionDoc
   return v.ok ? { ...row, document: v.document } : null;
 }
 
+async function publishedDocumentOf(ds: DataSource, id: string): Promise<PublishedDocument | null> {
+  const version = await documentOf(ds, id);
+  if (!version) return null;
+  const siblings: { id: string; edition: string }[] = await ds.query(`SELECT id, edition FROM ruleset_versions WHERE rulebook_id = $1`, [version.rulebookId]);
+  return { ...version, editions: new Map(siblings.map((x) => [x.id, x.edition])) };
+}
+
 /** The changes a builder of `classId` needs to read: those for that class and those for every class. */
 export function changesForClass(changes: readonly RulesetChange[], classId: string): RulesetChange[] {
   return changes.filter((c) => (c.classId ? c.classId === classId : c.classIds && c.classIds.length > 0 ? c.classIds.includes(classId) : c.area !== 'rulebook'));
 }
 
-function verdictMail(sheet: RecheckedSheet, doc: RulesetDocument, changes: RulesetChange[], publicUrl: string) {
+function verdictMail(sheet: RecheckedSheet, published: PublishedDocument, changes: RulesetChange[], publicUrl: string) {
+  const doc = published.document;
   const className = doc.classes.find((c) => c.id === sheet.classId)?.name ?? sheet.classId;
   const lines = changesForClass(changes, sheet.classId).slice(0, 12).map((c) => `• ${c.text}`);
-  const before = sheet.before ? verdictWords[sheet.before] : 'was not checked yet';
+  // The same sentences as the build sheet's banner the mail links to (contracts/edition-words.ts).
+  const words = newerEditionLines({
+    rulebookTitle: doc.rulebook.title,
+    pinnedEdition: published.editions.get(sheet.revisionVersionId) ?? 'an earlier edition',
+    newerEdition: doc.rulebook.edition,
+    newerStatus: published.status === 'scheduled' ? 'scheduled' : 'published',
+    effectiveDate: doc.rulebook.effectiveDate,
+    verdictNow: sheet.before,
+    verdictUnder: sheet.after,
+    className,
+  });
   return renderMail({
     subject: `${doc.rulebook.title} ${doc.rulebook.edition}: new pre-check verdict for ${sheet.carName}`,
     greeting: `Hello ${sheet.ownerName},`,
     paragraphs: [
-      `${doc.rulebook.publisher} published ${doc.rulebook.title}, edition ${doc.rulebook.edition}, taking effect on ${doc.rulebook.effectiveDate}. We re-checked your build sheet "${sheet.sheetName}" (${sheet.carName}, ${className}) against it.`,
-      `Before: ${before}. Now: ${verdictWords[sheet.after]}.`,
+      `${doc.rulebook.publisher} published a new edition. ${words.headline} We checked your build sheet "${sheet.sheetName}" (${sheet.carName}, ${className}) against it.`,
+      `${words.pinned} ${words.verdicts}`,
       lines.length > 0 ? `What changed for ${className}:\n${lines.join('\n')}` : '',
-      'Open the build sheet to see each finding and what to measure or change.',
+      `Open the build sheet to see each finding and what to measure or change. ${words.action}`,
     ],
     action: { label: 'Open the build sheet', url: `${publicUrl.replace(/\/$/, '')}/build-sheets/${sheet.buildSheetId}` },
     reason: 'You get this mail because you keep this build sheet in Cagewright.',
@@ -83,7 +103,7 @@ export function verdictMailKey(versionId: string, buildSheetId: string): string 
  * result that is new here and whose verdict changed, under an idempotency key. Returns how many
  * results were new.
  */
-async function storePage(tx: EntityManager, deps: RepublishDeps, jobId: string, versionId: string, page: RecheckedSheet[], doc: RulesetDocument, changes: RulesetChange[]): Promise<number> {
+async function storePage(tx: EntityManager, deps: RepublishDeps, jobId: string, versionId: string, page: RecheckedSheet[], published: PublishedDocument, changes: RulesetChange[]): Promise<number> {
   if (page.length === 0) return 0;
   // One multi-row insert per page: 200 sheets in one round trip.
   const values: unknown[] = [];
@@ -103,7 +123,7 @@ async function storePage(tx: EntityManager, deps: RepublishDeps, jobId: string, 
   // One INSERT for the page's mails (each under its key, so a retry or a concurrent attempt stores none twice).
   const ids = await deps.mail.enqueueMany(
     toMail.map((s) => ({
-      mail: { to: s.ownerEmail, kind: 'verdict.changed', related: { buildSheetId: s.buildSheetId, rulesetVersionId: versionId }, ...verdictMail(s, doc, changes, deps.publicUrl) },
+      mail: { to: s.ownerEmail, kind: 'verdict.changed', related: { buildSheetId: s.buildSheetId, rulesetVersionId: versionId }, ...verdictMail(s, published, changes, deps.publicUrl) },
       idempotencyKey: verdictMailKey(versionId, s.buildSheetId),
     })),
     { manager: tx },
@@ -144,7 +164,7 @@ export interface RepublishJob {
  * the activity log is written once. Exported for tests and the bench, which call it without pg-boss.
  */
 export async function runRepublish(deps: RepublishDeps, job: RepublishJob): Promise<{ checked: number; failed: number; changed: number; mailed: number }> {
-  const current = await documentOf(deps.ds, job.data.versionId);
+  const current = await publishedDocumentOf(deps.ds, job.data.versionId);
   if (!current) throw new Error('The published version could not be read or is invalid.');
   const previous = job.data.previousVersionId ? await documentOf(deps.ds, job.data.previousVersionId) : null;
   const changes = previous ? describeRulesetChanges(previous.document, current.document) : [];
@@ -161,7 +181,7 @@ export async function runRepublish(deps: RepublishDeps, job: RepublishJob): Prom
     ...(deps.batchSize ? { batchSize: deps.batchSize } : {}),
     onTotal: (remaining) => job.progress.setTotal(before.checked + remaining),
     onPage: async (page, failed) => {
-      const stored = await deps.ds.transaction((tx) => storePage(tx, deps, job.id, job.data.versionId, page, current.document, changes));
+      const stored = await deps.ds.transaction((tx) => storePage(tx, deps, job.id, job.data.versionId, page, current, changes));
       await job.progress.advance({ done: stored, failed });
     },
   });

@@ -23,11 +23,14 @@ export const actionLabels: Record<string, string> = {
   'ruleset.imported': 'Ruleset file imported',
   'ruleset.draft_deleted': 'Rulebook draft deleted',
   'ruleset.published': 'Edition put in force',
+  'ruleset.scheduled': 'Edition scheduled',
+  'ruleset.in_force': 'Scheduled edition came into force',
   'ruleset.retired': 'Edition withdrawn',
   'ruleset.recheck_completed': 'Build sheets re-checked',
   'cage_record.issued': 'Cage record issued',
   'cage_record.revoked': 'Cage record revoked',
   'club.record_settings_changed': 'Cage record settings changed',
+  'club.settings_changed': 'Club time zone changed',
   'submission.submit': 'Sent for review',
   'submission.resubmit': 'Resubmitted',
   'submission.claim': 'Review taken up',
@@ -355,6 +358,16 @@ export function auditSentence(entry: AuditEntry, clubId: string): SentencePart[]
       if (text(d.effectiveDate)) s.say(` from ${text(d.effectiveDate)}`);
       if (typeof d.supersededVersion === 'number') s.say(`, replacing version ${d.supersededVersion}`);
       break;
+    case 'ruleset.scheduled':
+      s.actor(entry).say(' scheduled ').edition(edition);
+      if (text(d.effectiveDate)) s.say(` to come into force on ${text(d.effectiveDate)}`);
+      break;
+    case 'ruleset.in_force': {
+      const replaced = Array.isArray(d.supersededVersions) ? d.supersededVersions.filter((n): n is number => typeof n === 'number') : [];
+      s.say('On its date, ').edition(edition).say(' came into force');
+      if (replaced.length) s.say(`, replacing version ${listed(replaced.map(String))}`);
+      break;
+    }
     case 'ruleset.retired':
       s.actor(entry).say(' withdrew ').edition(edition);
       break;
@@ -381,6 +394,11 @@ export function auditSentence(entry: AuditEntry, clubId: string): SentencePart[]
     case 'club.record_settings_changed':
       s.actor(entry).say(` changed the cage record settings${recordSettings(d)}`);
       break;
+    case 'club.settings_changed': {
+      const zone = (d.timeZone ?? {}) as { from?: unknown; to?: unknown };
+      s.actor(entry).say(` changed the club's time zone from ${text(zone.from)} to ${text(zone.to)}`);
+      break;
+    }
     case 'tube_stock.added':
       s.actor(entry)
         .say(` added ${text(d.label)} to the `)

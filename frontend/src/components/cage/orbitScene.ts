@@ -66,6 +66,22 @@ function symbolTexture(verdict: MarkVerdict): THREE.CanvasTexture | null {
   return texture;
 }
 
+/** "front" on the floor beside the arrow, in the page's font. */
+function frontLabel(): THREE.Sprite {
+  const canvas = document.createElement('canvas');
+  canvas.width = 256;
+  canvas.height = 64;
+  const ctx = canvas.getContext('2d')!;
+  ctx.fillStyle = '#1d2327';
+  ctx.font = '600 40px "Noto Sans", sans-serif';
+  ctx.textAlign = 'center';
+  ctx.textBaseline = 'middle';
+  ctx.fillText('front', 128, 34);
+  const texture = new THREE.CanvasTexture(canvas);
+  texture.colorSpace = THREE.SRGBColorSpace;
+  return new THREE.Sprite(new THREE.SpriteMaterial({ map: texture, depthTest: false }));
+}
+
 export interface OrbitScene {
   scene: THREE.Scene;
   /** Tube meshes by member id, for picking. */
@@ -124,6 +140,16 @@ export function buildOrbitScene(drawing: CageDrawing, selectedId: string | null)
   grid.rotation.x = Math.PI / 2; // the floor is the model's x-y plane
   scene.add(grid);
   disposables.push(grid.geometry, grid.material as THREE.Material);
+  // Which way is forward (+x), since a cage seen from above its middle reads either way round.
+  const ahead = box.isEmpty() ? 0 : box.max.x + 200;
+  const front = new THREE.ArrowHelper(new THREE.Vector3(1, 0, 0), new THREE.Vector3(ahead, 0, 2), 700, '#1d2327', 200, 120);
+  scene.add(front);
+  disposables.push(front.line.geometry, front.line.material as THREE.Material, front.cone.geometry, front.cone.material as THREE.Material);
+  const label = frontLabel();
+  label.position.set(ahead + 1050, 0, 120);
+  label.scale.set(640, 160, 1);
+  scene.add(label);
+  disposables.push(label.material.map!, label.material);
   const centre = box.isEmpty() ? new THREE.Vector3(0, 0, 600) : box.getCenter(new THREE.Vector3());
   const radiusMm = box.isEmpty() ? 1500 : Math.max(box.getSize(new THREE.Vector3()).length() / 2, 400);
   return { scene, meshes, centre, radiusMm, dispose: () => disposables.forEach((x) => x.dispose()) };

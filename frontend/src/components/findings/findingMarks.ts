@@ -34,7 +34,7 @@ const PLATE_FACTS: Record<string, string[]> = {
   attachedOdMm: [],
 };
 
-const DIRECT_VEHICLE_FACTS = new Set(['weightWithDriverKg', 'weightWithoutDriverKg', 'chassis', 'cockpit', 'fuel']);
+const DIRECT_VEHICLE_FACTS = new Set(['weightWithDriverKg', 'weightWithoutDriverKg', 'chassis', 'cockpit', 'fuel', 'driverShoulderHeightMm']);
 
 /** The input paths a fact was typed into, for a finding about a member, a plate or the vehicle. */
 export function inputPathsForFact(fact: string, finding: Pick<Finding, 'member' | 'plate'>): string[] {
@@ -46,6 +46,8 @@ export function inputPathsForFact(fact: string, finding: Pick<Finding, 'member' 
     return (PLATE_FACTS[name] ?? [name]).map((n) => `plates.${finding.plate!.index}.${n}`);
   }
   if (fact === 'vehicle.weightKg') return ['vehicle.weightWithDriverKg', 'vehicle.weightWithoutDriverKg'];
+  // What the cage model asks for instead of a helmet clearance (domain/geometry/model-asks.ts).
+  if (fact === 'vehicle.helmet') return ['vehicle.helmet.xMm', 'vehicle.helmet.yMm', 'vehicle.helmet.zMm', 'vehicle.helmet.radiusMm'];
   // Counts, kinds present and estimated mass are worked out from the members, not typed anywhere.
   if (scope === 'vehicle') return DIRECT_VEHICLE_FACTS.has(name) ? [fact] : [];
   if (['geometry', 'padding', 'welding'].includes(scope)) return [fact];

@@ -8,21 +8,31 @@ import { MEMBER_KIND_LABELS } from '@domain/vocabulary';
 import type { MemberKind } from '@domain/vocabulary';
 import type { CheckReport, Finding, MeasuredValue, RequiredValue } from '@contracts/report';
 import type { RequirementArea } from '@contracts/ruleset';
+import { CHECK_VERDICT_WORDS, FINDING_VERDICT_WORDS } from '@contracts/verdict-words';
 import { valueLabel } from '@/components/sheet/sheetLabels';
 
-export type AnyVerdict = Finding['verdict'] | CheckReport['verdict'];
+export type AnyVerdict = Finding['verdict'] | CheckReport['verdict'] | 'waived';
 
+// The words are the server's (contracts/verdict-words.ts), so the screens, the PDF and the mail agree.
 export const VERDICT_WORDS: Record<AnyVerdict, { label: string; icon: string }> = {
-  pass: { label: 'Meets the rule', icon: 'pi pi-check-circle' },
-  fail: { label: 'Does not meet it', icon: 'pi pi-times-circle' },
-  needs_information: { label: 'Needs a measurement', icon: 'pi pi-question-circle' },
-  not_applicable: { label: 'Does not apply', icon: 'pi pi-minus-circle' },
+  pass: { label: FINDING_VERDICT_WORDS.pass, icon: 'pi pi-check-circle' },
+  fail: { label: FINDING_VERDICT_WORDS.fail, icon: 'pi pi-times-circle' },
+  needs_information: { label: FINDING_VERDICT_WORDS.needs_information, icon: 'pi pi-question-circle' },
+  not_applicable: { label: FINDING_VERDICT_WORDS.not_applicable, icon: 'pi pi-minus-circle' },
+  waived: { label: FINDING_VERDICT_WORDS.waived, icon: 'pi pi-file-check' },
 };
 
 export const OVERALL_WORDS: Record<CheckReport['verdict'], string> = {
-  pass: 'Every mandatory rule is met',
-  fail: 'Some mandatory rules are not met',
-  needs_information: 'More measurements needed to decide',
+  pass: CHECK_VERDICT_WORDS.pass.summary,
+  fail: CHECK_VERDICT_WORDS.fail.summary,
+  needs_information: CHECK_VERDICT_WORDS.needs_information.summary,
+};
+
+/** "Pre-check met", "Pre-check not met", "Needs measurements". */
+export const SHORT_VERDICT_WORDS: Record<CheckReport['verdict'], string> = {
+  pass: CHECK_VERDICT_WORDS.pass.short,
+  fail: CHECK_VERDICT_WORDS.fail.short,
+  needs_information: CHECK_VERDICT_WORDS.needs_information.short,
 };
 
 export const AREA_LABELS: Record<RequirementArea, string> = {
@@ -56,22 +66,18 @@ export function showRequired(r: RequiredValue, units: UnitSystem): string {
   return [OPERATOR_WORDS[r.operator], showValue(r.value, r.dimension, units)].filter(Boolean).join(' ');
 }
 
-/** "Main hoop (main-hoop-1)", "Plate plate-1", or null for the vehicle as a whole. */
+/**
+ * The member by the builder's name ("Backstay left"), "Plate plate-1", or null for the vehicle as a
+ * whole. Runs stored before names were carried fall back to the kind and the id.
+ */
 export function subjectOf(f: Finding): string | null {
-  if (f.member) return `${capitalise(MEMBER_KIND_LABELS[f.member.kind as MemberKind])} (${f.member.id})`;
+  if (f.member) return f.member.name ? capitalise(f.member.name) : `${capitalise(MEMBER_KIND_LABELS[f.member.kind as MemberKind])} (${f.member.id})`;
   if (f.plate) return `Plate ${f.plate.id} at ${f.plate.location.replace(/_/g, ' ')}`;
   return null;
 }
 
 export function capitalise(text: string): string {
   return text.charAt(0).toUpperCase() + text.slice(1);
-}
-
-/** Findings grouped by area in the order builders think about a cage; empty areas left out. */
-export function groupByArea(findings: readonly Finding[]): { area: RequirementArea; label: string; findings: Finding[] }[] {
-  return AREA_ORDER.map((area) => ({ area, label: AREA_LABELS[area], findings: findings.filter((f) => f.area === area) })).filter(
-    (g) => g.findings.length > 0,
-  );
 }
 
 export type VerdictFilter = 'all' | 'not_met' | 'needs_information' | 'met' | 'not_applicable';

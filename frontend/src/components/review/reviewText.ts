@@ -1,14 +1,11 @@
-// Words for the review's states, actions and record statuses, in one place for every review screen.
+// Words for the review's states, actions and record statuses for every review screen. The state and
+// verdict words are the server's too (contracts/verdict-words.ts): the PDF and the mail say the same.
 import type { RecordStatus, SubmissionState } from '@/api/review';
+import { SUBMISSION_STATE_WORDS, submissionStateText } from '@contracts/verdict-words';
 
-export const STATE_LABELS: Readonly<Record<SubmissionState, string>> = {
-  pending: 'Waiting for a steward',
-  in_review: 'In review',
-  approved: 'Approved',
-  changes_requested: 'Changes requested',
-  rejected: 'Rejected',
-  withdrawn: 'Withdrawn',
-};
+export { approvedText, reviewVerdictText, submissionStateText, SUBMISSION_STATE_SHORT } from '@contracts/verdict-words';
+
+export const STATE_LABELS: Readonly<Record<SubmissionState, string>> = SUBMISSION_STATE_WORDS;
 
 export const STATE_SEVERITY: Readonly<Record<SubmissionState, 'info' | 'warn' | 'success' | 'danger' | 'secondary'>> = {
   pending: 'info',
@@ -18,6 +15,12 @@ export const STATE_SEVERITY: Readonly<Record<SubmissionState, 'info' | 'warn' | 
   rejected: 'danger',
   withdrawn: 'secondary',
 };
+
+/** A submission's state as a tag: approvals count their waivers; an answered request for changes is not open. */
+export function stateTag(state: SubmissionState, options: { waivedCount?: number; resubmitted?: boolean } = {}): { label: string; severity: (typeof STATE_SEVERITY)[SubmissionState] } {
+  const label = submissionStateText(state, options);
+  return { label, severity: state === 'changes_requested' && options.resubmitted ? 'secondary' : STATE_SEVERITY[state] };
+}
 
 export const ACTION_LABELS: Readonly<Record<string, string>> = {
   submit: 'Submitted',
@@ -38,13 +41,6 @@ export const RECORD_STATUS_LABELS: Readonly<Record<RecordStatus, string>> = {
   superseded: 'Superseded by a newer record',
   revoked: 'Revoked',
 };
-
-export const OVERALL_REVIEW_LABELS = {
-  pass: 'Meets every mandatory rule',
-  pass_with_waivers: 'Meets the rules with waivers',
-  fail: 'Mandatory rules not met',
-  needs_information: 'Measurements missing',
-} as const;
 
 /** "3 days ago", "today": how long a submission has waited. */
 export function ageText(iso: string, now = new Date()): string {

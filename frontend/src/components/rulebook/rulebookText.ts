@@ -4,14 +4,14 @@ import type { DocumentProblem, RequirementArea, RequirementScope, RulesetDocumen
 import { DEFAULT_UNIT } from '@domain/units';
 import { MATERIAL_LABELS, MEMBER_KIND_LABELS, type MemberKind, type PlateLocation } from '@domain/vocabulary';
 
-export type VersionStatus = 'draft' | 'published' | 'superseded' | 'retired';
+import { EDITION_STATUS_WORDS, type EditionStatusKey } from '@contracts/edition-words';
 
-export const STATUS_WORDS: Readonly<Record<VersionStatus, { label: string; severity: 'info' | 'success' | 'secondary' | 'warn'; hint: string }>> = {
-  draft: { label: 'Being written', severity: 'info', hint: 'Only admins see it; changes save by themselves.' },
-  published: { label: 'In force', severity: 'success', hint: 'Builders check against it. It can never change.' },
-  superseded: { label: 'Replaced', severity: 'secondary', hint: 'A newer edition is in force; older checks still cite this one.' },
-  retired: { label: 'Withdrawn', severity: 'warn', hint: 'No new checks against it; saved checks keep citing it.' },
-};
+export { editionDateText } from '@contracts/edition-words';
+
+export type VersionStatus = EditionStatusKey;
+
+/** The edition states in words, shared with the server's e-mails (contracts/edition-words.ts). */
+export const STATUS_WORDS = EDITION_STATUS_WORDS;
 
 export function documentUnits(doc: Pick<RulesetDocument, 'unitSystem'>): { length: string; mass: string; angle: string; area: string } {
   const d = DEFAULT_UNIT[doc.unitSystem];

@@ -58,6 +58,25 @@ describe('cut lengths', () => {
     expect(leg.legs.map((l) => l.nodeId)).toEqual(['fl', 'fr']);
     for (const l of leg.legs) expect(l.cutHeightMm).toBeCloseTo(Math.hypot(150, 1150), 6);
   });
+  test('measured pads decide the leg cuts, each leg to its own pad; a typed hoop gets them too; a brace never', () => {
+    const lean = (Math.atan(150 / 1150) * 180) / Math.PI;
+    const cos = Math.cos((lean * Math.PI) / 180);
+    const measured = { mh: { legs: [{ uncutMm: 1170, padHeightMm: 6 }, { uncutMm: 1170, padHeightMm: -4 }] as [{ uncutMm: number; padHeightMm: number }, { uncutMm: number; padHeightMm: number }], leanDeg: lean }, bl: { legs: [{ uncutMm: 900, padHeightMm: 0 }, { uncutMm: 900, padHeightMm: 0 }] as [{ uncutMm: number; padHeightMm: number }, { uncutMm: number; padHeightMm: number }], leanDeg: 0 } };
+    const fab = sheetFabrication(modelSpec, settings, measured);
+    const mh = fab.members.find((m) => m.memberId === 'mh')!;
+    // Top = min(6 + 1170·cos, −4 + 1170·cos) = 1170·cos − 4: the right (lower) pad's leg stays whole, the
+    // left loses 10 / cos(lean) (computed: h = (T − P) / cos, docs/geometry.md).
+    expect(mh.measuredLegs!.result!.topHeightMm).toBeCloseTo(1170 * cos - 4, 9);
+    expect(mh.measuredLegs!.result!.legs.map((l) => l.trimMm)).toEqual([expect.closeTo(10 / cos, 9), expect.closeTo(0, 9)]);
+    expect(mh.legCut).not.toBeNull();
+    expect(fab.members.find((m) => m.memberId === 'bl')!.measuredLegs).toBeNull();
+    const typed = sheetFabrication({ vehicle: { classId: 'x' }, members: [{ id: 'fh', kind: 'front_hoop', odMm: 38, wallMm: 2.5, lengthMm: 3000 }] }, settings, { fh: measured.mh });
+    expect(typed.members[0]!.source).toBe('typed');
+    expect(typed.members[0]!.measuredLegs!.result!.legs).toHaveLength(2);
+    const unreachable = sheetFabrication(modelSpec, settings, { mh: { ...measured.mh, topHeightMm: 1400 } }).members.find((m) => m.memberId === 'mh')!;
+    expect(unreachable.measuredLegs!.result).toBeNull();
+    expect(unreachable.measuredLegs!.problems.map((p) => p.path)).toEqual(['legs.0.padHeightMm', 'legs.1.padHeightMm']);
+  });
   test('typed members: the typed length plus trims; no length, no cut', () => {
     expect(byId('db')).toMatchObject({ source: 'typed', cutLengthMm: 1110 });
     expect(byId('gx')).toMatchObject({ source: 'none', cutLengthMm: null });

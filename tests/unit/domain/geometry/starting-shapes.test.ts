@@ -5,6 +5,8 @@ import { deriveCageGeometry, mirrorMember, startingShape } from '@backend/domain
 import type { StartingChoices, StartingDimensions } from '@backend/domain/geometry/index';
 import { parseSpecification } from '@backend/contracts/specification';
 import type { MemberKind } from '@backend/domain/vocabulary';
+import { startingSizes } from '@backend/domain/tube-choice';
+import { IN, LB, compileFile } from '../helpers';
 
 const dims: StartingDimensions = {
   hoopWidthAtFeetMm: 1250, hoopWidthAtTopMm: 1050, hoopHeightMm: 1150, hoopLeanDeg: 8,
@@ -96,9 +98,36 @@ describe('mirrorMember', () => {
     expect(foot).toEqual({ ...orig, id: 'bs-foot-r', label: 'backstay foot right', yMm: -orig.yMm });
     expect(r.nodes).toHaveLength(nodes.length + 1);
   });
+  test('mirroring a member whose twin is already there is refused, naming the twin', () => {
+    const shape = generate({ harnessBar: false, front: 'none', doorBars: 'none', diagonal: 'none' });
+    const left = shape.members.find((m) => m.id === 'backstay-l')!;
+    expect(mirrorMember(shape.nodes, shape.members, left)).toEqual({ ok: false, message: 'backstay right is already on the other side, on the mirrored nodes.' });
+  });
   test('a hoop is its own mirror image', () => {
     const shape = generate(full);
     const r = mirrorMember(shape.nodes, shape.members, shape.members[0]);
     expect(r).toEqual({ ok: false, message: 'This member is its own mirror image (it crosses the car symmetrically).' });
+  });
+});
+
+describe('startingSizes: the class’s lightest listed size, on the class’s weight basis', () => {
+  // The demo club's § C4.2.2 (rulesets/tarnwick-vale-mc-cage-regulations-2027.json, invented) weighs
+  // Club Saloons with the driver: 2,201–3,000 lb lists 1.500 × 0.120 and 1.750 × 0.095 in.
+  const demo = compileFile('rulesets/tarnwick-vale-mc-cage-regulations-2027.json');
+  test('2,600 lb with the driver picks the heavier band even though the car alone is 1,800 lb', () => {
+    const sizes = startingSizes(demo, 'club-saloon', { weightWithDriverKg: 2600 * LB, weightWithoutDriverKg: 1800 * LB });
+    // Computed: A = π/4 (D² − d²): 1.750 × 0.095 gives 0.5184 in², 1.500 × 0.120 gives 0.5202 in², so the first is lighter.
+    expect(sizes.sizeFor('main_hoop')).toEqual({ odMm: 1.75 * IN, wallMm: 0.095 * IN }); // F-UNIT-1: 1 in = 25.4 mm
+    expect(sizes.fallbacks.size).toBe(0);
+  });
+  test('without the weight the class bands on, a common size stands in and the builder is told why', () => {
+    const sizes = startingSizes(demo, 'club-saloon', { weightWithoutDriverKg: 800 });
+    expect(sizes.sizeFor('main_hoop')).toEqual({ odMm: 45, wallMm: 2.5 }); // common practice, not a rule
+    expect(sizes.fallbacks.get('main_hoop')).toBe('the car’s weight is not typed yet');
+  });
+  test('a kind the rulebook lists no size for', () => {
+    const sizes = startingSizes(demo, 'open-sprint', { weightWithoutDriverKg: 600 });
+    expect(sizes.sizeFor('harness_bar')).toEqual({ odMm: 38, wallMm: 2 });
+    expect(sizes.fallbacks.get('harness_bar')).toBe('the rulebook lists no size for it');
   });
 });

@@ -73,7 +73,7 @@ describe('rulebook identity and policy', () => {
       (d) => {
         d.rulebook.effectiveDate = '2027-02-01';
       },
-      'Effective date 2027-01-01 → 2027-02-01',
+      'Effective date 2026-11-01 → 2027-02-01',
     ],
     [
       'link added',
@@ -816,6 +816,28 @@ describe('allowed values and raw conditions', () => {
       requirementId: 'tv-padding',
       paths: ['all.1.value.1'],
     });
+  });
+});
+
+describe('equivalence by strength (docs/rulesets.md)', () => {
+  test.each([
+    ['omitted → switched off with nothing set: no change', (d: Json) => { d.strengthEquivalents = { accept: false, measure: 'section_modulus' }; }, []],
+    ['accepted by section modulus', (d: Json) => { d.strengthEquivalents = { accept: true, measure: 'section_modulus' }; }, ['Equivalents by strength now accepted, by section modulus']],
+    [
+      'accepted by bending strength at 50,763 psi (350 MPa, F-MSUK-1)',
+      (d: Json) => { d.strengthEquivalents = { accept: true, measure: 'bending_strength', listedYield: { value: 350, unit: 'MPa' } }; },
+      ['Equivalents by strength now accepted, by bending strength (yield × Z)', 'Yield the listed sizes are taken at, for equivalence by strength: 50,763 psi added'],
+    ],
+    ['advice only, by bending strength', (d: Json) => { d.strengthEquivalents = { accept: false, measure: 'bending_strength', listedYield: { value: 50000 } }; }, ['Equivalence by strength judged by section modulus → bending strength (yield × Z) (advice only)', 'Yield the listed sizes are taken at, for equivalence by strength: 50,000 psi added']],
+    ['a least wall', (d: Json) => { d.strengthEquivalents = { accept: false, measure: 'section_modulus', minWall: { value: 0.083 } }; }, ['Least wall of an equivalent by strength: 0.083 in added']],
+  ])('%s', (_name, edit, expected) => {
+    expect(texts(edit)).toEqual(expected);
+  });
+  test('switched off again, and a yield written in another unit that is the same is no change', () => {
+    const on = structuredClone(IMPERIAL);
+    on.strengthEquivalents = { accept: true, measure: 'bending_strength', listedYield: { value: 350, unit: 'MPa' } };
+    expect(texts((d) => { d.strengthEquivalents.accept = false; }, on)).toEqual(['Equivalents by strength no longer accepted (advice only)']);
+    expect(texts((d) => { d.strengthEquivalents.listedYield = { value: 350, unit: 'N/mm2' }; }, on)).toEqual([]);
   });
 });
 

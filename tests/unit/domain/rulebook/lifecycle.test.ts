@@ -1,10 +1,14 @@
-// Rulebook version life cycle: every allowed and refused move, publishing with supersession,
-// drafts copied from the latest edition, and which versions new checks may use.
+// Rulebook version life cycle: every allowed and refused move, publishing with supersession or ahead
+// of its date (scheduled), scheduled versions coming into force on their date, the dates the publish
+// form may offer, drafts copied from the latest edition, and which versions new checks may use.
 import { readFileSync } from 'node:fs';
 import { describe, expect, test } from 'vitest';
 import {
   VERSION_STATES,
+  activateDueVersions,
   canTransition,
+  defaultEffectiveDate,
+  effectiveDateRefusal,
   canUseForNewCheck,
   isCalendarDate,
   startDraftFrom,
@@ -20,6 +24,8 @@ const demo = JSON.parse(
   ),
 ) as Record<string, unknown>;
 const NOW = '2026-12-01T10:00:00.000Z';
+/** The club's calendar date at NOW. */
+const TODAY = '2026-12-01';
 
 function version(over: Partial<RulebookVersion> = {}): RulebookVersion {
   return {
@@ -38,6 +44,10 @@ function version(over: Partial<RulebookVersion> = {}): RulebookVersion {
 describe('canTransition', () => {
   const allowed: [VersionState, VersionState][] = [
     ['draft', 'published'],
+    ['draft', 'scheduled'],
+    ['scheduled', 'published'],
+    ['scheduled', 'superseded'],
+    ['scheduled', 'retired'],
     ['published', 'superseded'],
     ['published', 'retired'],
     ['superseded', 'retired'],
@@ -71,6 +81,9 @@ describe('transitionVersion: refusals', () => {
       'not_a_draft',
     ],
     ['publish a retired version', 'retired', { type: 'publish', effectiveDate: '2027-01-01' }, 'not_a_draft'],
+    ['publish a scheduled version', 'scheduled', { type: 'publish', effectiveDate: '2027-01-01' }, 'not_a_draft'],
+    ['edit a scheduled version', 'scheduled', { type: 'edit', document: {} }, 'not_a_draft'],
+    ['delete a scheduled version', 'scheduled', { type: 'delete' }, 'not_a_draft'],
     ['retire a draft', 'draft', { type: 'retire' }, 'not_a_draft'],
     ['retire a retired version', 'retired', { type: 'retire' }, 'invalid_transition'],
     ['publish without an effective date', 'draft', { type: 'publish' }, 'effective_date_required'],
@@ -94,7 +107,7 @@ describe('transitionVersion: refusals', () => {
     ],
   ])('%s', (_name, state, action, code) => {
     const published = state === 'draft' ? {} : { effectiveDate: '2026-01-01', publishedAt: NOW };
-    const r = transitionVersion(version({ state, ...published }), action, { siblings: [], now: NOW });
+    const r = transitionVersion(version({ state, ...published }), action, { siblings: [], now: NOW, today: TODAY });
     expect(r.ok).toBe(false);
     if (!r.ok) {
       expect(r.code).toBe(code);
@@ -108,7 +121,7 @@ describe('transitionVersion: refusals', () => {
     const r = transitionVersion(
       version({ document }),
       { type: 'publish', effectiveDate: '2027-01-01' },
-      { siblings: [], now: NOW },
+      { siblings: [], now: NOW, today: TODAY },
     );
     expect(r).toMatchObject({ ok: false, code: 'invalid_document' });
     if (!r.ok) expect(r.problems).toContainEqual({ path: 'classes', message: 'Define at least one class' });
@@ -119,7 +132,7 @@ describe('transitionVersion: refusals', () => {
     const r = transitionVersion(
       version({ id: 'v2', versionNumber: 2 }),
       { type: 'publish', effectiveDate: '2027-06-01' },
-      { siblings: [newer], now: NOW },
+      { siblings: [newer], now: NOW, today: TODAY },
     );
     expect(r).toMatchObject({ ok: false, code: 'newer_version_published' });
   });
@@ -129,7 +142,7 @@ describe('transitionVersion: refusals', () => {
     const r = transitionVersion(
       version({ id: 'v2', versionNumber: 2 }),
       { type: 'publish', effectiveDate: '2026-12-31' },
-      { siblings: [current], now: NOW },
+      { siblings: [current], now: NOW, today: TODAY },
     );
     expect(r).toMatchObject({ ok: false, code: 'effective_date_before_current' });
   });
@@ -139,7 +152,7 @@ describe('transitionVersion: refusals', () => {
     const r = transitionVersion(
       version(),
       { type: 'publish', effectiveDate: '2027-01-01' },
-      { siblings: [foreign], now: NOW },
+      { siblings: [foreign], now: NOW, today: TODAY },
     );
     expect(r).toMatchObject({ ok: false, code: 'other_rulebook' });
   });
@@ -149,28 +162,43 @@ describe('transitionVersion: allowed moves', () => {
   test('publishing the first version: one change, the date written into the document', () => {
     const r = transitionVersion(
       version(),
-      { type: 'publish', effectiveDate: '2027-02-01' },
-      { siblings: [], now: NOW },
+      { type: 'publish', effectiveDate: '2026-11-01' },
+      { siblings: [], now: NOW, today: TODAY },
     );
     expect(r.ok).toBe(true);
     if (!r.ok || !r.version) throw new Error('expected a version');
     expect(r.changes).toEqual([{ versionId: 'v1', from: 'draft', to: 'published' }]);
     expect(r.version).toMatchObject({
       state: 'published',
-      effectiveDate: '2027-02-01',
+      effectiveDate: '2026-11-01',
       publishedAt: NOW,
       edition: '2027',
     });
     expect((r.version.document as { rulebook: { effectiveDate: string } }).rulebook.effectiveDate).toBe(
-      '2027-02-01',
+      '2026-11-01',
     );
+  });
+
+  test('published on its date it is in force that day: today is the last day it is not', () => {
+    const on = transitionVersion(version(), { type: 'publish', effectiveDate: TODAY }, { siblings: [], now: NOW, today: TODAY });
+    expect(on.ok && on.version?.state).toBe('published');
+    const tomorrow = transitionVersion(version(), { type: 'publish', effectiveDate: '2026-12-02' }, { siblings: [], now: NOW, today: TODAY });
+    expect(tomorrow.ok && tomorrow.version?.state).toBe('scheduled');
+  });
+
+  test('published ahead of its date it is scheduled, and the version in force stays in force', () => {
+    const current = version({ id: 'v1', versionNumber: 1, state: 'published', effectiveDate: '2026-01-01' });
+    const draft = version({ id: 'v2', versionNumber: 2 });
+    const r = transitionVersion(draft, { type: 'publish', effectiveDate: '2027-01-01' }, { siblings: [current], now: NOW, today: TODAY });
+    expect(r.ok && r.changes).toEqual([{ versionId: 'v2', from: 'draft', to: 'scheduled' }]);
+    expect(r.ok && r.version).toMatchObject({ state: 'scheduled', effectiveDate: '2027-01-01', publishedAt: NOW });
   });
 
   test('publishing a new version supersedes the published one (and no other)', () => {
     const old = version({ id: 'v0', versionNumber: 1, state: 'superseded', effectiveDate: '2025-01-01' });
     const current = version({ id: 'v1', versionNumber: 2, state: 'published', effectiveDate: '2026-01-01' });
-    const draft = version({ id: 'v2', versionNumber: 3, effectiveDate: '2027-01-01' });
-    const r = transitionVersion(draft, { type: 'publish' }, { siblings: [old, current, draft], now: NOW });
+    const draft = version({ id: 'v2', versionNumber: 3, effectiveDate: '2026-06-01' });
+    const r = transitionVersion(draft, { type: 'publish' }, { siblings: [old, current, draft], now: NOW, today: TODAY });
     expect(r.ok && r.changes).toEqual([
       { versionId: 'v2', from: 'draft', to: 'published' },
       { versionId: 'v1', from: 'published', to: 'superseded' },
@@ -178,13 +206,36 @@ describe('transitionVersion: allowed moves', () => {
   });
 
   test('the same effective date as the current version is allowed (a corrected reissue)', () => {
-    const current = version({ id: 'v1', state: 'published', effectiveDate: '2027-01-01' });
+    const current = version({ id: 'v1', state: 'published', effectiveDate: '2026-10-01' });
     const r = transitionVersion(
       version({ id: 'v2', versionNumber: 2 }),
-      { type: 'publish', effectiveDate: '2027-01-01' },
-      { siblings: [current], now: NOW },
+      { type: 'publish', effectiveDate: '2026-10-01' },
+      { siblings: [current], now: NOW, today: TODAY },
     );
-    expect(r.ok).toBe(true);
+    expect(r.ok && r.changes).toEqual([
+      { versionId: 'v2', from: 'draft', to: 'published' },
+      { versionId: 'v1', from: 'published', to: 'superseded' },
+    ]);
+  });
+
+  test('a new version may not be dated before a scheduled one, and the message says which', () => {
+    const current = version({ id: 'v1', versionNumber: 1, state: 'published', effectiveDate: '2026-01-01' });
+    const scheduled = version({ id: 'v2', versionNumber: 2, state: 'scheduled', effectiveDate: '2027-01-01' });
+    const r = transitionVersion(version({ id: 'v3', versionNumber: 3 }), { type: 'publish', effectiveDate: '2026-12-15' }, { siblings: [current, scheduled], now: NOW, today: TODAY });
+    expect(r).toMatchObject({ ok: false, code: 'effective_date_before_current' });
+    if (!r.ok) expect(r.message).toBe('The effective date 15 Dec 2026 is before 1 Jan 2027, when the scheduled version 2 takes effect. Choose 1 Jan 2027 or later.');
+  });
+
+  test('a scheduled version whose date has come is replaced with the one in force by a newer edition in force today', () => {
+    // The clock had not run yet: v2 is still scheduled though its date is today.
+    const current = version({ id: 'v1', versionNumber: 1, state: 'published', effectiveDate: '2026-01-01' });
+    const due = version({ id: 'v2', versionNumber: 2, state: 'scheduled', effectiveDate: TODAY });
+    const r = transitionVersion(version({ id: 'v3', versionNumber: 3 }), { type: 'publish', effectiveDate: TODAY }, { siblings: [current, due], now: NOW, today: TODAY });
+    expect(r.ok && r.changes).toEqual([
+      { versionId: 'v3', from: 'draft', to: 'published' },
+      { versionId: 'v1', from: 'published', to: 'superseded' },
+      { versionId: 'v2', from: 'scheduled', to: 'superseded' },
+    ]);
   });
 
   test('editing a draft replaces its document and takes the edition from it', () => {
@@ -193,7 +244,7 @@ describe('transitionVersion: allowed moves', () => {
     const r = transitionVersion(
       version(),
       { type: 'edit', document, effectiveDate: '2027-04-01' },
-      { siblings: [], now: NOW },
+      { siblings: [], now: NOW, today: TODAY },
     );
     expect(r.ok && r.version).toMatchObject({
       state: 'draft',
@@ -208,13 +259,13 @@ describe('transitionVersion: allowed moves', () => {
     const r = transitionVersion(
       version(),
       { type: 'edit', document: { rulebook: {} } },
-      { siblings: [], now: NOW },
+      { siblings: [], now: NOW, today: TODAY },
     );
     expect(r.ok && r.version).toMatchObject({ document: { rulebook: {} }, edition: '2027' });
   });
 
   test('deleting a draft', () => {
-    const r = transitionVersion(version(), { type: 'delete' }, { siblings: [], now: NOW });
+    const r = transitionVersion(version(), { type: 'delete' }, { siblings: [], now: NOW, today: TODAY });
     expect(r).toEqual({
       ok: true,
       version: null,
@@ -222,11 +273,11 @@ describe('transitionVersion: allowed moves', () => {
     });
   });
 
-  test.each<VersionState>(['published', 'superseded'])('retiring a %s version', (state) => {
+  test.each<VersionState>(['scheduled', 'published', 'superseded'])('retiring a %s version', (state) => {
     const r = transitionVersion(
       version({ state, effectiveDate: '2027-01-01' }),
       { type: 'retire' },
-      { siblings: [], now: NOW },
+      { siblings: [], now: NOW, today: TODAY },
     );
     expect(r.ok && r.changes).toEqual([{ versionId: 'v1', from: state, to: 'retired' }]);
     expect(r.ok && r.version?.state).toBe('retired');
@@ -236,6 +287,7 @@ describe('transitionVersion: allowed moves', () => {
 describe('new checks', () => {
   test.each<[VersionState, boolean, string | undefined]>([
     ['draft', false, 'version_unpublished'],
+    ['scheduled', true, undefined],
     ['published', true, undefined],
     ['superseded', true, undefined],
     ['retired', false, 'version_retired'],
@@ -243,7 +295,70 @@ describe('new checks', () => {
     const r = canUseForNewCheck({ state, versionNumber: 4 });
     expect(r.ok).toBe(ok);
     if (!r.ok) expect(r.code).toBe(code);
-    else expect(r.superseded).toBe(state === 'superseded');
+    else expect([r.superseded, r.scheduled]).toEqual([state === 'superseded', state === 'scheduled']);
+  });
+});
+
+describe('scheduled versions come into force on their date', () => {
+  const inForce = version({ id: 'v1', versionNumber: 1, state: 'published', effectiveDate: '2026-01-01' });
+  const next = version({ id: 'v2', versionNumber: 2, state: 'scheduled', effectiveDate: '2027-01-01' });
+  test.each<[string, string, { versionId: string; from: VersionState; to: VersionState }[]]>([
+    ['the day before: nothing moves', '2026-12-31', []],
+    ['on the date: in force, and the one before replaced', '2027-01-01', [
+      { versionId: 'v1', from: 'published', to: 'superseded' },
+      { versionId: 'v2', from: 'scheduled', to: 'published' },
+    ]],
+    ['a clock that missed the day catches up', '2027-03-04', [
+      { versionId: 'v1', from: 'published', to: 'superseded' },
+      { versionId: 'v2', from: 'scheduled', to: 'published' },
+    ]],
+  ])('%s', (_name, today, changes) => {
+    expect(activateDueVersions([inForce, next], today)).toEqual(changes);
+  });
+
+  test('two due on the same catch-up: the higher number wins, the other is superseded without being in force', () => {
+    const later = version({ id: 'v3', versionNumber: 3, state: 'scheduled', effectiveDate: '2027-02-01' });
+    expect(activateDueVersions([inForce, next, later], '2027-02-01')).toEqual([
+      { versionId: 'v1', from: 'published', to: 'superseded' },
+      { versionId: 'v2', from: 'scheduled', to: 'superseded' },
+      { versionId: 'v3', from: 'scheduled', to: 'published' },
+    ]);
+  });
+
+  test('a rulebook whose first edition is scheduled has nothing in force until its date', () => {
+    const first = version({ id: 'v1', versionNumber: 1, state: 'scheduled', effectiveDate: '2027-01-01' });
+    expect(activateDueVersions([first], '2026-12-31')).toEqual([]);
+    expect(activateDueVersions([first], '2027-01-01')).toEqual([{ versionId: 'v1', from: 'scheduled', to: 'published' }]);
+  });
+
+  test('nothing to do once in force (idempotent)', () => {
+    expect(activateDueVersions([inForce, { ...next, state: 'retired' }], '2027-06-01')).toEqual([]);
+  });
+});
+
+describe('the effective date the publish form offers and refuses', () => {
+  const inForce = { state: 'published' as const, effectiveDate: '2026-11-01', versionNumber: 1 };
+  test('today in the club when nothing is dated later', () => {
+    expect(defaultEffectiveDate([inForce], TODAY)).toBe(TODAY);
+    expect(effectiveDateRefusal(defaultEffectiveDate([inForce], TODAY), [inForce])).toBeNull();
+  });
+  test('the current version’s date when it is later than today (so the default is never refused)', () => {
+    const ahead = { state: 'published' as const, effectiveDate: '2027-01-01', versionNumber: 1 };
+    const scheduled = { state: 'scheduled' as const, effectiveDate: '2027-03-01', versionNumber: 2 };
+    expect(defaultEffectiveDate([ahead], TODAY)).toBe('2027-01-01');
+    expect(defaultEffectiveDate([ahead, scheduled], TODAY)).toBe('2027-03-01');
+    expect(effectiveDateRefusal(defaultEffectiveDate([ahead, scheduled], TODAY), [ahead, scheduled])).toBeNull();
+  });
+  test.each([
+    ['', 'effective_date_required'],
+    ['2026-02-30', 'invalid_effective_date'],
+    ['2026-10-31', 'effective_date_before_current'],
+  ])('%j is refused (%s)', (date, code) => {
+    expect(effectiveDateRefusal(date, [inForce])).toMatchObject({ ok: false, code });
+  });
+  test('replaced and withdrawn versions do not hold a new date back', () => {
+    const old = [{ state: 'superseded' as const, effectiveDate: '2027-01-01', versionNumber: 1 }, { state: 'retired' as const, effectiveDate: '2028-01-01', versionNumber: 2 }];
+    expect(effectiveDateRefusal('2026-12-01', old)).toBeNull();
   });
 });
 
