@@ -107,6 +107,8 @@ let app: Express;
 let builder: { agent: Agent; token: string };
 let admin: { agent: Agent; token: string };
 const params: Record<string, string> = {};
+/** The sheet the photo-upload fuzz posts to (see beforeAll). */
+let photoSheetId: string;
 const templates: Record<string, Json> = {};
 
 async function signedIn(email: string) {
@@ -143,6 +145,15 @@ beforeAll(async () => {
     .send({ name: 'Fuzz sheet', clubId: club.id, rulesetVersionId: version.id, classId: 'club-saloon' })
     .expect(201);
   const sheetId: string = sheet.body.sheet?.id ?? sheet.body.buildSheet?.id ?? sheet.body.id;
+  // The photo fuzz gets a car and sheet of its own: the route fuzz may archive or delete the first ones,
+  // and an upload to an archived sheet is refused (409) before its fields are read.
+  const photoCar = await builder.agent.post('/api/cars').set('X-CSRF-Token', builder.token).send({ name: 'Fuzz photo car', chassisType: 'unibody' }).expect(201);
+  const photoSheet = await builder.agent
+    .post(`/api/cars/${photoCar.body.car.id}/build-sheets`)
+    .set('X-CSRF-Token', builder.token)
+    .send({ name: 'Fuzz photo sheet', clubId: club.id, rulesetVersionId: version.id, classId: 'club-saloon' })
+    .expect(201);
+  photoSheetId = photoSheet.body.sheet?.id ?? photoSheet.body.buildSheet?.id ?? photoSheet.body.id;
   const draft = await admin.agent.post(`/api/rulebooks/${version.rulebook_id}/drafts`).set('X-CSRF-Token', admin.token).expect(201);
   Object.assign(params, {
     carId: car.body.car.id,
@@ -246,7 +257,7 @@ describe('fuzzing every write endpoint', () => {
     await fc.assert(
       fc.asyncProperty(fc.record({ captions: evilString, memberIds: evilString, areas: evilString }), fc.oneof(fc.constant('fuzz.jpg'), evilString), async (fields, fileName) => {
         const res = await builder.agent
-          .post(`/api/build-sheets/${params.sheetId}/photos`)
+          .post(`/api/build-sheets/${photoSheetId}/photos`)
           .set('X-CSRF-Token', builder.token)
           .attach('photos', jpeg, fileName)
           .field('captions', fields.captions)
