@@ -49,6 +49,8 @@ export interface RecheckRun {
   cpuSeconds: number;
   mainThreadCpuSeconds: number | null;
   health: { p50Ms: number; p99Ms: number; maxMs: number; probes: number; non200: number };
+  /** CPU time PostgreSQL's processes of the bench cluster spent during the run (null off Linux). */
+  postgresCpuSeconds: number | null;
 }
 
 export interface RepublishBenchResult {
@@ -231,6 +233,33 @@ async function serve(databaseUrl: string): Promise<void> {
   process.send!({ type: 'ready', port: (server.address() as AddressInfo).port });
 }
 
+/**
+ * CPU seconds of every process of the bench database's cluster (backends and background workers, as
+ * pg_stat_activity lists them), read from /proc: what the database took of the same cores. Null off Linux.
+ */
+async function postgresCpu(db: import('pg').Client): Promise<Map<number, number> | null> {
+  const rows: { pid: number }[] = (await db.query(`SELECT pid FROM pg_stat_activity`)).rows;
+  const ticks = new Map<number, number>();
+  for (const { pid } of rows) {
+    try {
+      // Fields after the command name: utime and stime are the 12th and 13th (clock ticks, 100 a second).
+      const stat = readFileSync(`/proc/${pid}/stat`, 'utf8');
+      const fields = stat.slice(stat.lastIndexOf(')') + 2).split(' ');
+      ticks.set(pid, Number(fields[11]) + Number(fields[12]));
+    } catch {
+      if (process.platform !== 'linux') return null;
+    }
+  }
+  return ticks;
+}
+
+function cpuSpent(before: Map<number, number> | null, after: Map<number, number> | null): number | null {
+  if (!before || !after) return null;
+  let ticks = 0;
+  for (const [pid, t] of after) ticks += t - (before.get(pid) ?? 0);
+  return ticks / 100;
+}
+
 /** GET /api/health 20 times a second until `stop` resolves; latencies in ms. */
 async function probeHealth(base: string, stop: Promise<unknown>): Promise<RecheckRun['health']> {
   let done = false;
@@ -293,16 +322,18 @@ export async function runRepublishBench(options: { sheets?: number; log?: boolea
       for (const mode of ['workers', 'one-thread'] as const) {
         await db.query(`DELETE FROM outbox_messages WHERE kind = 'verdict.changed'`);
         const ran = reply(child, 'ran');
+        const pgBefore = await postgresCpu(db);
         child.send({ type: 'run', mode, data });
         const health = await probeHealth(base, ran.catch(() => undefined));
         const r = await ran;
+        const postgresCpuSeconds = cpuSpent(pgBefore, await postgresCpu(db));
         const run: RecheckRun = {
           mode, threads: r.threads as number, sheets: r.checked as number, seconds: r.seconds as number, sheetsPerSecond: (r.checked as number) / (r.seconds as number),
           changed: r.changed as number, mailed: r.mailed as number, failed: r.failed as number, eventLoopDelayP99Ms: r.eventLoopDelayP99Ms as number,
-          coresUsed: r.coresUsed as number, cpuSeconds: r.cpuSeconds as number, mainThreadCpuSeconds: r.mainThreadCpuSeconds as number | null, health,
+          coresUsed: r.coresUsed as number, cpuSeconds: r.cpuSeconds as number, mainThreadCpuSeconds: r.mainThreadCpuSeconds as number | null, health, postgresCpuSeconds,
         };
         runs[mode].push(run);
-        log(`${mode === 'workers' ? `worker pool (${run.threads} threads)` : 'one thread'}: ${run.sheets} sheets in ${run.seconds.toFixed(2)} s (${run.sheetsPerSecond.toFixed(0)} sheets/s); ${run.changed} changed, ${run.mailed} mails queued, ${run.failed} failed; health p50 ${health.p50Ms.toFixed(1)} ms, p99 ${health.p99Ms.toFixed(1)} ms, max ${health.maxMs.toFixed(1)} ms over ${health.probes} probes; server event-loop delay p99 ${run.eventLoopDelayP99Ms.toFixed(1)} ms; the server used ${run.coresUsed.toFixed(2)} cores on average, ${run.cpuSeconds.toFixed(1)} s of CPU, ${run.mainThreadCpuSeconds === null ? '?' : run.mainThreadCpuSeconds.toFixed(1)} s of it on the main thread`);
+        log(`${mode === 'workers' ? `worker pool (${run.threads} threads)` : 'one thread'}: ${run.sheets} sheets in ${run.seconds.toFixed(2)} s (${run.sheetsPerSecond.toFixed(0)} sheets/s); ${run.changed} changed, ${run.mailed} mails queued, ${run.failed} failed; health p50 ${health.p50Ms.toFixed(1)} ms, p99 ${health.p99Ms.toFixed(1)} ms, max ${health.maxMs.toFixed(1)} ms over ${health.probes} probes; server event-loop delay p99 ${run.eventLoopDelayP99Ms.toFixed(1)} ms; the server used ${run.coresUsed.toFixed(2)} cores on average, ${run.cpuSeconds.toFixed(1)} s of CPU, ${run.mainThreadCpuSeconds === null ? '?' : run.mainThreadCpuSeconds.toFixed(1)} s of it on the main thread; PostgreSQL ${run.postgresCpuSeconds === null ? '?' : run.postgresCpuSeconds.toFixed(1)} s of CPU`);
       }
     }
     // The best time of each kind; the health figures over all runs of that kind.

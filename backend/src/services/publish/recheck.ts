@@ -4,8 +4,8 @@
 // sit in memory at once). Each page goes to the evaluator at once: normally the check service's bulk
 // pool of worker threads, one per core, so the server's main thread only reads pages, routes
 // messages and stores results while the cores compute (the specification travels as the JSON text
-// PostgreSQL returns and is parsed in the worker). The next page is read while this one is evaluated,
-// and a page is stored while the next is evaluated, so the workers seldom wait.
+// PostgreSQL returns and is parsed in the worker). The next page is read and queued while this one is
+// evaluated, and a page is stored while the next is evaluated, so the workers seldom wait.
 import type { DataSource } from 'typeorm';
 import type { Verdict } from '../../contracts/rulebook-admin';
 import type { CacheKeyParts } from '../compiled-ruleset-cache';
@@ -159,20 +159,32 @@ export async function recheckSheets(options: RecheckOptions): Promise<{ checked:
     return { results, failed: all.length - results.length };
   }
 
+  // Two pages in flight: the next page's sheets join the pool's queue as soon as they are read, so
+  // the workers never drain between pages (a page's last few sheets would otherwise leave a core idle
+  // while the slowest worker finishes), and a page is stored while the next one is evaluated.
   let rows = await page(ds, rulebookId, known, null, batchSize, skip);
   let evaluating = rows.length > 0 ? evaluatePage(rows) : null;
   while (evaluating) {
-    const next = page(ds, rulebookId, known, rows[rows.length - 1]!.id, batchSize, skip);
-    // A failure below leaves `next` unawaited; it must not become an unhandled rejection.
-    next.catch(() => undefined);
+    // A short page is the last one: no query for an empty page after it.
+    let nextRows: SheetRow[] = [];
+    if (rows.length === batchSize) {
+      try {
+        nextRows = await page(ds, rulebookId, known, rows[rows.length - 1]!.id, batchSize, skip);
+      } catch (err) {
+        // This page's evaluation is abandoned with the attempt; it must not become an unhandled rejection.
+        evaluating.catch(() => undefined);
+        throw err;
+      }
+    }
+    const next = nextRows.length > 0 ? evaluatePage(nextRows) : null;
+    next?.catch(() => undefined);
     const done = await evaluating;
-    rows = await next;
-    evaluating = rows.length > 0 ? evaluatePage(rows) : null;
-    evaluating?.catch(() => undefined);
     checked += done.results.length;
     failedTotal += done.failed;
     // Stored while the workers evaluate the next page.
     await options.onPage(done.results, done.failed);
+    rows = nextRows;
+    evaluating = next;
   }
   return { checked, failed: failedTotal };
 }
