@@ -16,12 +16,14 @@ export default defineConfig({
     projects: [
       {
         resolve: { alias },
-        test: { name: 'unit', environment: 'node', include: ['tests/unit/**/*.test.ts'], exclude: ['tests/unit/frontend/**'] },
+        // Time limits are a guard against a hang, not a speed test (the benches measure speed): some unit
+        // tests render a PDF and read it back with pdftotext, which on a loaded machine takes seconds.
+        test: { name: 'unit', environment: 'node', include: ['tests/unit/**/*.test.ts'], exclude: ['tests/unit/frontend/**'], testTimeout: 15000 },
       },
       {
         plugins: [vue()],
         resolve: { alias },
-        test: { name: 'frontend', environment: 'happy-dom', include: ['tests/unit/frontend/**/*.test.ts'] },
+        test: { name: 'frontend', environment: 'happy-dom', include: ['tests/unit/frontend/**/*.test.ts'], testTimeout: 15000 },
       },
       {
         resolve: { alias },

@@ -136,11 +136,19 @@ export function startingShape(choices: StartingChoices, d: StartingDimensions, s
   const mainOd = sizeFor('main_hoop').odMm;
   const mainClr = startingClrMm(mainOd);
   const mainLeg = (s: number) => leg({ x: 0, y: (s * d.hoopWidthAtFeetMm) / 2 }, { x: topX, y: (s * d.hoopWidthAtTopMm) / 2, z: h });
-  // Backstays meet each leg just below the top bend's tangent point, on the straight.
+  // Backstays meet the top of the hoop just inside each top bend, on the straight past its tangent
+  // point (the bend's setback from the corner, half the brace's OD and 10 mm more): common practice, and
+  // at the hoop's top, where rulebooks ask them to be. On a leg below the bend they would sit a bend's
+  // setback (about 3.5 ODs) under the top, lower than a "within 150 mm of the top" rule allows.
   const legLength = Math.hypot(topX, (d.hoopWidthAtFeetMm - d.hoopWidthAtTopMm) / 2, h);
   const cornerTurn = Math.PI - Math.acos(Math.max(-1, Math.min(1, ((d.hoopWidthAtTopMm - d.hoopWidthAtFeetMm) / 2) / legLength)));
   const setback = mainClr * Math.tan(cornerTurn / 2);
-  const stayZ = h - ((setback + 10) * h) / legLength;
+  const stayInset = setback + sizeFor('rear_brace').odMm / 2 + 10;
+  const stayPoint = (s: number) => ({ x: topX, y: s * (d.hoopWidthAtTopMm / 2 - stayInset), z: h });
+  // Each backstay needs its inset from the corner, and 25 mm to the middle of the top at least.
+  const narrowestTop = Math.ceil(2 * (stayInset + 25));
+  if (d.hoopWidthAtTopMm < narrowestTop)
+    return { ok: false, problems: [{ path: 'hoopWidthAtTopMm', message: `The top must be at least ${narrowestTop} mm wide between the corners: two bends of CLR ${mainClr} mm and a backstay inside each` }] };
 
   const legJunctions: Record<'l' | 'r', { z: number; id: string }[]> = { l: [], r: [] };
   const junctionAt = (side: (typeof sides)[number], z: number, label: string): string => {
@@ -158,14 +166,14 @@ export function startingShape(choices: StartingChoices, d: StartingDimensions, s
   for (const side of sides) {
     feet[side.key] = add(`mh-foot-${side.key}`, `hoop foot ${side.word}`, 'foot', mainLeg(side.s)(0));
     tops[side.key] = add(`mh-top-${side.key}`, `hoop top ${side.word}`, 'bend', mainLeg(side.s)(h));
-    stays[side.key] = junctionAt(side, stayZ, 'backstay');
+    stays[side.key] = add(`mh-backstay-${side.key}`, `main hoop at backstay ${side.word}`, 'junction', stayPoint(side.s));
   }
 
   // Backstays: straight back from the junction to the landing.
   const landZ = d.backstayLandingHeightMm ?? 300;
   const landings: Record<string, string> = {};
   for (const side of sides) {
-    const j = mainLeg(side.s)(stayZ);
+    const j = stayPoint(side.s);
     landings[side.key] = add(`bs-foot-${side.key}`, `backstay foot ${side.word}`, 'foot', { x: j.x - d.backstayLandingBehindMm, y: j.y, z: landZ });
     member(`backstay-${side.key}`, 'rear_brace', `backstay ${side.word}`, [{ nodeId: stays[side.key] }, { nodeId: landings[side.key] }]);
   }
@@ -234,11 +242,12 @@ export function startingShape(choices: StartingChoices, d: StartingDimensions, s
     member('diagonal', 'diagonal', 'backstay diagonal', [{ nodeId: landings.r }, { nodeId: stays.l }]);
   }
 
-  // Hoop paths: foot, the junctions on the leg in height order, the top corners, and down again.
+  // Hoop paths: foot, the junctions on the leg in height order, the top corners (the main hoop's
+  // backstay junctions between them, on its top), and down again.
   const legPath = (list: { z: number; id: string }[]) => [...list].sort((a, b) => a.z - b.z).map((j) => ({ nodeId: j.id }));
   const mainPath: PathEntry[] = [
     { nodeId: feet.l }, ...legPath(legJunctions.l),
-    { nodeId: tops.l, clrMm: mainClr }, { nodeId: tops.r, clrMm: mainClr },
+    { nodeId: tops.l, clrMm: mainClr }, { nodeId: stays.l }, { nodeId: stays.r }, { nodeId: tops.r, clrMm: mainClr },
     ...legPath(legJunctions.r).reverse(), { nodeId: feet.r },
   ];
   members.unshift({ id: 'main-hoop', kind: 'main_hoop', label: 'main hoop', ...sizeFor('main_hoop'), path: mainPath });

@@ -45,16 +45,41 @@ describe('startingShape', () => {
     expect(hoop.bends[0].clrMm).toBe(160); // 3.5 × 45 = 157.5, rounded up to 5 mm
     expect(hoop.side).toBe('centre');
     // Backstays run straight back 900 mm and drop from the junction to 300 mm: angle from vertical
-    // atan(900 / (z_junction − 300)); the junction sits on the leg just below the top bend.
+    // atan(900 / (z_junction − 300)); the junction sits on the top of the hoop, at 1150 mm, so
+    // atan(900 / 850) = 46.6°, and 0 mm below the hoop top.
     const stay = geo.members.find((m) => m.name === 'backstay left')!;
     expect(stay.side).toBe('left');
     expect(stay.driverSide).toBe('passenger');
     const a = geo.facts['geometry.rearBraceAngleFromVerticalDeg']!.value;
-    const drop = 900 / Math.tan((a * Math.PI) / 180);
-    expect(drop).toBeGreaterThan(600);
-    expect(drop).toBeLessThan(850);
+    expect(a).toBeCloseTo((Math.atan(900 / 850) * 180) / Math.PI, 6);
+    // Inside the top bend: the near-90° bend sets back about its CLR (160 mm) from the corner, then half the
+    // brace's 40 mm OD and 10 mm: about 190 mm in from the corner at y = 525, so y ≈ 335.
+    const junction = generate(full).nodes.find((n) => n.id === 'mh-backstay-l')!;
+    expect(junction.zMm).toBe(1150);
+    expect(junction.yMm).toBeGreaterThan(525 - 190 - 1);
+    expect(junction.yMm).toBeLessThan(525 - 160);
     expect(geo.facts['geometry.diagonalUpperEndFromNodeMm']?.value).toBe(0);
     expect(geo.facts['geometry.diagonalLowerEndFromNodeMm']?.value).toBe(0);
+  });
+
+  test.each([
+    ['hoop and stays', { harnessBar: false, front: 'none', doorBars: 'none', diagonal: 'none' }],
+    ['the full cage', full],
+    ['halo, crossed door bars, backstay diagonal', { harnessBar: true, front: 'halo', doorBars: 'crossed', diagonal: 'backstays' }],
+  ] as [string, StartingChoices][])('%s: the backstays meet the hoop at its top, by its top bends', (_n, choices) => {
+    const shape = generate(choices);
+    const geo = deriveCageGeometry(asSpec(shape));
+    // F-NHRA-G1 (NHRA GR 4.10): rear braces meet the hoop ≤ 5 in from its top; F-SCCA-G1 (SCCA GCR,
+    // older): not more than 6 in below the top. The stricter 5 in = 127 mm; a starting shape's brace
+    // centreline meets the hoop's centreline at its top, half the hoop's 45 mm OD below the tube's top.
+    expect(geo.facts['geometry.rearBraceAttachBelowTopMm']?.value).toBeCloseTo(45 / 2, 6);
+    expect(geo.facts['geometry.rearBraceAttachBelowTopMm']!.value).toBeLessThanOrEqual(5 * IN);
+    // F-MSUK-G1 (Motorsport UK): near the top outer bends; here within 200 mm of each corner node.
+    for (const side of ['l', 'r']) {
+      const junction = shape.nodes.find((n) => n.id === `mh-backstay-${side}`)!;
+      const corner = shape.nodes.find((n) => n.id === `mh-top-${side}`)!;
+      expect(Math.hypot(junction.xMm - corner.xMm, junction.yMm - corner.yMm, junction.zMm - corner.zMm)).toBeLessThan(200);
+    }
   });
 
   test('door bars meet both hoops at the door bar height; bowed bars bend outwards', () => {
@@ -76,11 +101,12 @@ describe('startingShape', () => {
     expect(doors).toEqual({ ok: false, problems: [{ path: 'doorBarHeightMm', message: 'Door bars need a front hoop or a halo to run to' }] });
   });
 
-  test('a top too narrow for its bends is refused, not generated', () => {
-    // Vertical legs 300 apart: two 90° bends of CLR 160 need 2 × 160 = 320 mm of top (computed).
+  test('a top too narrow for its bends and backstays is refused, not generated', () => {
+    // Vertical legs 300 apart: each 90° bend of CLR 160 sets back 160 mm, a 40 mm backstay inside it
+    // 20 + 10 mm more, and 25 mm to the middle: 2 × (160 + 30 + 25) = 430 mm of top (computed).
     const r = startingShape({ ...full, front: 'none', doorBars: 'none' }, { ...dims, hoopWidthAtFeetMm: 300, hoopWidthAtTopMm: 300, hoopLeanDeg: 0 }, sizeFor);
-    expect(r.ok).toBe(false);
-    if (!r.ok) expect(r.problems[0].message).toMatch(/^These dimensions do not make a main hoop that can be bent: The bend radius is too large/);
+    expect(r).toEqual({ ok: false, problems: [{ path: 'hoopWidthAtTopMm', message: 'The top must be at least 430 mm wide between the corners: two bends of CLR 160 mm and a backstay inside each' }] });
+    expect(startingShape({ ...full, front: 'none', doorBars: 'none' }, { ...dims, hoopWidthAtFeetMm: 430, hoopWidthAtTopMm: 430, hoopLeanDeg: 0 }, sizeFor).ok).toBe(true);
   });
 });
 
