@@ -129,7 +129,10 @@ const ROW_ORDER: readonly string[] = [
 
 function rowLabel(key: string): string {
   const [kind, value] = key.split(':') as [RowKind, string];
-  if (kind === 'member') return MEMBER_KIND_LABELS[value as MemberKind];
+  if (kind === 'member') {
+    const words = MEMBER_KIND_LABELS[value as MemberKind];
+    return words.charAt(0).toUpperCase() + words.slice(1);
+  }
   if (kind === 'plate') return `Plates: ${OTHER_VOCABULARY_WORDS[value as PlateLocation] ?? 'other places'}`;
   return AREA_ROW_WORDS[value as RequirementArea];
 }
@@ -205,6 +208,8 @@ const sameSize = (a: TubeSize, b: TubeSize) => Math.abs(a.odMm - b.odMm) < 1e-4 
 
 function compareTubes(cols: readonly ComparedRulebook[], kind: MemberKind, spec: Specification): ComparedTubes | null {
   const members = spec.members.filter((m) => m.kind === kind);
+  // A table for a member the sheet does not have asks nothing of this sheet.
+  if (members.length === 0) return null;
   const sheet: SheetTube = {
     materials: new Set(members.flatMap((m) => (m.material ? [m.material] : []))),
     processes: new Set(members.flatMap((m) => (m.process ? [m.process] : []))),
@@ -311,8 +316,16 @@ export function compareRulebooks(spec: Specification, rulebooks: readonly Compar
 export function satisfyAllLine(comparison: RulebookComparison, system: UnitSystem): string {
   const n = comparison.columns.length;
   const tubeRows = comparison.rows.filter((r) => r.tubes !== null);
-  const none = tubeRows.filter((r) => r.tubes!.satisfyAll.length === 0).map((r) => r.label);
-  const met = tubeRows.filter((r) => r.tubes!.satisfyAll.length > 0).map((r) => `${r.label} ${tubeSizeText(r.tubes!.satisfyAll[0]!.odMm, r.tubes!.satisfyAll[0]!.wallMm, system)}`);
+  const none = tubeRows.filter((r) => r.tubes!.satisfyAll.length === 0).map((r) => r.label.toLowerCase());
+  // Members that can share a size are named together: "1.750 × 0.095 in for the main hoop and rear brace".
+  const bySize = new Map<string, string[]>();
+  for (const r of tubeRows) {
+    const first = r.tubes!.satisfyAll[0];
+    if (!first) continue;
+    const size = tubeSizeText(first.odMm, first.wallMm, system);
+    bySize.set(size, [...(bySize.get(size) ?? []), r.label.toLowerCase()]);
+  }
+  const met = [...bySize].map(([size, labels]) => `${size} for the ${joinWords(labels)}`);
   const limits = comparison.rows.some((r) => r.limits.length > 0) ? ' Every other limit at its strictest value (marked) meets them all.' : '';
   if (tubeRows.length === 0) return `None of the ${n} rulebooks lists tube sizes for this sheet's members.${limits}`;
   if (none.length > 0) {

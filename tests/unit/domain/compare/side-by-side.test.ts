@@ -85,7 +85,8 @@ describe('satisfies all: the intersection of listed sizes', () => {
     const t = row(m, 'member:main_hoop').tubes!;
     // F-MSUK-2 lists 45 × 2.5; F-SCCA-T1 accepts it through 1.750 × 0.095 in (44.45 × 2.41 mm).
     expect(t.satisfyAll).toEqual([{ odMm: 45, wallMm: 2.5 }]);
-    expect(satisfyAllLine(m, 'metric')).toContain('main hoop 45 × 2.5 mm');
+    // The brace has MSUK's table only (F-MSUK-4): its lighter listed size, 40 × 2.0 mm, satisfies "all".
+    expect(satisfyAllLine(m, 'metric')).toMatch(/^To satisfy all 2 rulebooks at once: 45 × 2\.5 mm for the main hoop; 40 × 2 mm for the rear brace \(backstay\)\./);
   });
 
   test('MSUK + SCCA + NHRA (mild steel): nothing in the listed sizes satisfies all three, and the line says so', async () => {
@@ -147,6 +148,8 @@ describe('the matrix', () => {
     const keys = m.rows.map((r) => r.key);
     expect(keys.indexOf('member:main_hoop')).toBeLessThan(keys.indexOf('member:rear_brace'));
     expect(keys.indexOf('member:rear_brace')).toBeLessThan(keys.indexOf('plate:main_hoop_foot'));
+    // F-MSUK-2's table covers lateral hoops too, but this sheet has none: no row asks about one.
+    expect(keys).not.toContain('member:lateral_hoop');
     // The rear brace: MSUK lists 38 × 2.5 or 40 × 2.0 for it (F-MSUK-4) and the brace is 40 × 2.0; SCCA's
     // §9.4 table is for hoops only, so SCCA has no tube rule for the brace.
     const brace = row(m, 'member:rear_brace');
