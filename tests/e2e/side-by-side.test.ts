@@ -36,7 +36,8 @@ test('a builder with two clubs sees the side-by-side matrix', async ({ browser }
   const matrix = page.getByRole('region', { name: 'Rule areas by rulebook' });
   await matrix.waitFor();
   const heads = matrix.locator('thead th');
-  await expect.poll(() => heads.count()).toBe(3);
+  // A first check of a rulebook compiles it in the worker: allow a busy machine its seconds.
+  await expect.poll(() => heads.count(), { timeout: 20_000 }).toBe(3);
   expect(await heads.nth(1).innerText()).toMatch(/Home rulebook[\s\S]*Tarnwick Vale MC Hillclimb Cage Schedule/i);
   expect(await heads.nth(2).innerText()).toMatch(/Wexcombe Safety Cage Schedule 2027[\s\S]*Wexcombe Hill & Sprint Association · Hillclimb Saloon/);
   const hoop = matrix.locator('tbody tr', { has: page.getByRole('rowheader', { name: /main hoop/i }) });
@@ -44,8 +45,8 @@ test('a builder with two clubs sees the side-by-side matrix', async ({ browser }
   expect(await hoop.locator('td').nth(0).innerText()).toMatch(/(Meets the rule|Does not meet it|Needs a measurement)[\s\S]*§ H2\.1\.1/);
   expect(await hoop.locator('td').nth(1).innerText()).toMatch(/(Meets the rule|Does not meet it|Needs a measurement)[\s\S]*§ W-12\.1/);
   expect(await hoop.getByText('strictest').count()).toBeGreaterThan(0);
-  const line = page.getByRole('status').filter({ hasText: 'rulebooks at once' });
-  expect(await line.innerText()).toMatch(/(To satisfy all 2 rulebooks at once: main hoop|Nothing in the listed sizes satisfies all 2 rulebooks)/);
+  const line = page.getByRole('status').filter({ hasText: 'rulebooks' });
+  expect(await line.innerText()).toMatch(/(To satisfy all 2 rulebooks at once: [\d.]+ × [\d.]+ in for the main hoop|Nothing in the listed sizes satisfies all 2 rulebooks at once for the main hoop)/);
   await screenshot(page, 'side-by-side-two-desktop');
 
   // The demo club's cage regulations: no class like the sheet's, so the builder is asked to pick one.
@@ -54,9 +55,13 @@ test('a builder with two clubs sees the side-by-side matrix', async ({ browser }
   await cage.getByText('pick the one you would enter').waitFor();
   await cage.getByRole('combobox').selectOption('club-saloon');
   await page.getByRole('button', { name: 'Compare' }).click();
-  await expect.poll(() => heads.count()).toBe(4);
-  expect(await heads.nth(3).innerText()).toMatch(/Tarnwick Vale MC Cage Regulations[\s\S]*Club Saloon \(full cage\)/);
-  expect(await line.innerText()).toMatch(/3 rulebooks at once/);
+  await expect.poll(() => heads.count(), { timeout: 20_000 }).toBe(4);
+  // Columns follow the picker's order (by club, then title): the demo club's second rulebook comes before Wexcombe's.
+  expect(await heads.nth(2).innerText()).toMatch(/Tarnwick Vale MC Cage Regulations[\s\S]*Club Saloon \(full cage\)/);
+  expect(await heads.nth(3).innerText()).toMatch(/Wexcombe Safety Cage Schedule/);
+  // The demo sheet gives its weight without driver only; the saloon class reads it with driver, so
+  // that rulebook's tube table cannot be read and the line says so.
+  expect(await line.innerText()).toMatch(/(all 3 rulebooks at once|all 2 rulebooks that give a size for this car at once[\s\S]*Tarnwick Vale MC Cage Regulations cannot be read without the car's weight)/);
   await screenshot(page, 'side-by-side-three-desktop');
   expect(pageErrors).toEqual([]);
 }, 120_000);

@@ -82,6 +82,8 @@ export interface ComparedTubes {
   strictestWallColumns: number[];
   /** Listed sizes every rulebook with a table for the row accepts, lightest first; empty: none does. */
   satisfyAll: TubeSize[];
+  /** Rulebooks with a table for the row whose band cannot be chosen (no weight on the class's basis, or beyond the table). */
+  undecidedColumns: number[];
 }
 
 export interface ComparisonRow {
@@ -189,19 +191,24 @@ export function alternativeAccepts(a: AlternativeMeta, size: TubeSize): boolean 
 }
 
 /** Per tube-table requirement of a kind: the usable alternatives of the band the sheet falls in. */
-function tubeTablesFor(col: ComparedRulebook, kind: MemberKind, spec: Specification, sheet: SheetTube): { req: CompiledRequirement; alts: AlternativeMeta[] }[] {
+function tubeTablesFor(col: ComparedRulebook, kind: MemberKind, spec: Specification, sheet: SheetTube): { tables: { req: CompiledRequirement; alts: AlternativeMeta[] }[]; undecided: boolean } {
   const weight = bandWeightKg(col.compiled, col.classId, spec);
   const out: { req: CompiledRequirement; alts: AlternativeMeta[] }[] = [];
+  let undecided = false;
   for (const req of col.compiled.requirements) {
     if (req.template !== 'tube_table' || req.severity !== 'mandatory') continue;
     if (req.classes !== null && !req.classes.includes(col.classId)) continue;
     if (req.scope.kind !== 'member' || !req.scope.memberKinds.includes(kind)) continue;
     const choice = chooseVariant(req, weight);
-    if (!('variant' in choice)) continue;
+    if (!('variant' in choice)) {
+      undecided = true;
+      continue;
+    }
     const alts = alternativeNames(choice.variant.rule.conditions, req).map((n) => req.alternatives[n]!).filter((a) => usable(a, sheet));
     out.push({ req, alts });
   }
-  return out;
+  // A table whose band is unknown leaves the rulebook's demand unknown, even beside another table.
+  return undecided ? { tables: [], undecided } : { tables: out, undecided };
 }
 
 const sameSize = (a: TubeSize, b: TubeSize) => Math.abs(a.odMm - b.odMm) < 1e-4 && Math.abs(a.wallMm - b.wallMm) < 1e-4;
@@ -215,8 +222,10 @@ function compareTubes(cols: readonly ComparedRulebook[], kind: MemberKind, spec:
     processes: new Set(members.flatMap((m) => (m.process ? [m.process] : []))),
     approvedOn: spec.cage?.approvedOn,
   };
-  const tables = cols.map((c) => tubeTablesFor(c, kind, spec, sheet));
-  if (tables.every((t) => t.length === 0)) return null;
+  const found = cols.map((c) => tubeTablesFor(c, kind, spec, sheet));
+  const tables = found.map((f) => f.tables);
+  const undecidedColumns = found.flatMap((f, i) => (f.undecided ? [i] : []));
+  if (tables.every((t) => t.length === 0)) return undecidedColumns.length > 0 ? { demands: cols.map(() => null), strictestOdMm: 0, strictestOdColumns: [], strictestWallMm: 0, strictestWallColumns: [], satisfyAll: [], undecidedColumns } : null;
   const demands: (TubeDemand | null)[] = tables.map((t) => {
     if (t.length === 0) return null;
     const sized = t.map(({ alts }) => alts.filter((a) => a.source !== 'strength_equivalent'));
@@ -244,6 +253,7 @@ function compareTubes(cols: readonly ComparedRulebook[], kind: MemberKind, spec:
     strictestWallMm,
     strictestWallColumns: present.filter(([d]) => Math.abs(d.leastWallMm - strictestWallMm) < EPS).map(([, i]) => i),
     satisfyAll,
+    undecidedColumns,
   };
 }
 
@@ -316,7 +326,6 @@ export function compareRulebooks(spec: Specification, rulebooks: readonly Compar
 export function satisfyAllLine(comparison: RulebookComparison, system: UnitSystem): string {
   const n = comparison.columns.length;
   const tubeRows = comparison.rows.filter((r) => r.tubes !== null);
-  const none = tubeRows.filter((r) => r.tubes!.satisfyAll.length === 0).map((r) => r.label.toLowerCase());
   // Members that can share a size are named together: "1.750 × 0.095 in for the main hoop and rear brace".
   const bySize = new Map<string, string[]>();
   for (const r of tubeRows) {
@@ -327,12 +336,19 @@ export function satisfyAllLine(comparison: RulebookComparison, system: UnitSyste
   }
   const met = [...bySize].map(([size, labels]) => `${size} for the ${joinWords(labels)}`);
   const limits = comparison.rows.some((r) => r.limits.length > 0) ? ' Every other limit at its strictest value (marked) meets them all.' : '';
+  const undecided = [...new Set(comparison.rows.flatMap((r) => r.tubes?.undecidedColumns ?? []))].map((i) => comparison.columns[i]!.title);
+  const unknown = undecided.length > 0 ? ` ${joinWords(undecided)} cannot be read without the car's weight on ${undecided.length === 1 ? 'its class’s' : 'their classes’'} basis, so ${undecided.length === 1 ? 'it is' : 'they are'} left out of the tube sizes.` : '';
   if (tubeRows.length === 0) return `None of the ${n} rulebooks lists tube sizes for this sheet's members.${limits}`;
+  const decided = tubeRows.filter((r) => r.tubes!.demands.some((d) => d !== null));
+  if (decided.length === 0) return `The tube sizes cannot be compared yet.${unknown}${limits}`;
+  const known = n - undecided.length;
+  const scope = undecided.length === 0 ? `all ${n} rulebooks at once` : known === 1 ? 'the one rulebook that gives a size for this car' : `all ${known} rulebooks that give a size for this car at once`;
+  const none = decided.filter((r) => r.tubes!.satisfyAll.length === 0).map((r) => r.label.toLowerCase());
   if (none.length > 0) {
     const rest = met.length > 0 ? ` For the rest: ${met.join('; ')}.` : '';
-    return `Nothing in the listed sizes satisfies all ${n} rulebooks at once for the ${joinWords(none)}.${rest}${limits}`;
+    return `Nothing in the listed sizes satisfies ${scope} for the ${joinWords(none)}.${rest}${unknown}${limits}`;
   }
-  return `To satisfy all ${n} rulebooks at once: ${met.join('; ')}.${limits}`;
+  return `To satisfy ${scope}: ${met.join('; ')}.${unknown}${limits}`;
 }
 
 function joinWords(words: readonly string[]): string {

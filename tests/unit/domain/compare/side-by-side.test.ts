@@ -109,6 +109,17 @@ describe('satisfies all: the intersection of listed sizes', () => {
     expect(sizes[0]!.odMm).toBeCloseTo(1.75 * IN, 6);
   });
 
+  test('a banded table without the weight on its class’s basis is left out, and the line says so (F-SCCA-T1 bands by weight with driver)', async () => {
+    const spec = sheet('new_cage', { vehicle: { classId: 'new_cage', chassis: 'unibody', weightWithoutDriverKg: 1320 } } as Partial<Specification>);
+    const m = await matrix(spec, [['msuk', MSUK, 'new_cage'], ['scca', SCCA, 'gcr_2008']]);
+    const t = row(m, 'member:main_hoop').tubes!;
+    expect(t.undecidedColumns).toEqual([1]);
+    expect(t.demands[1]).toBeNull();
+    // F-MSUK-2 alone: its lighter listed size.
+    expect(t.satisfyAll[0]).toEqual({ odMm: 50, wallMm: 2.0 });
+    expect(satisfyAllLine(m, 'metric')).toMatch(/^To satisfy the one rulebook that gives a size for this car: 50 × 2 mm for the main hoop[\s\S]*General Competition Rules[\s\S]* cannot be read without the car's weight/);
+  });
+
   test('MSUK and FIA list the same main hoop sizes (F-MSUK-2 and F-FIA-1): both sizes satisfy both', async () => {
     const m = await matrix(sheet('new_cage'), [['msuk', MSUK, 'new_cage'], ['fia', FIA, 'group_n']]);
     expect(row(m, 'member:main_hoop').tubes!.satisfyAll).toEqual([{ odMm: 50, wallMm: 2.0 }, { odMm: 45, wallMm: 2.5 }].sort((a, b) => a.odMm * a.wallMm - b.odMm * b.wallMm));
