@@ -144,7 +144,7 @@ function cellOf(findings: readonly Finding[]): ComparisonCell {
   const mandatory = findings.filter((f) => f.severity === 'mandatory');
   const deciding = mandatory.length > 0 ? mandatory : findings;
   const worst = [...deciding].sort((a, b) => VERDICT_ORDER.indexOf(a.verdict) - VERDICT_ORDER.indexOf(b.verdict))[0]!;
-  const sections = [worst.citation.section, ...findings.map((f) => f.citation.section)].filter((s, i, all) => all.indexOf(s) === i);
+  const sections = [...new Set([worst.citation.section, ...findings.map((f) => f.citation.section)])];
   return { verdict: worst.verdict, severity: mandatory.length > 0 ? 'mandatory' : 'advisory', sections, findings: findings.length };
 }
 
@@ -190,8 +190,26 @@ export function alternativeAccepts(a: AlternativeMeta, size: TubeSize): boolean 
   return size.odMm >= a.odMm - EPS && size.wallMm >= a.requiredWallMm - EPS;
 }
 
+type TubeTables = { tables: { req: CompiledRequirement; alts: AlternativeMeta[] }[]; undecided: boolean };
+// Memoised per compiled ruleset object, like the engine's plans: a pure function of it and the key.
+const tubeTableMemo = new WeakMap<CompiledRuleset, Map<string, TubeTables>>();
+
+function tubeTablesFor(col: ComparedRulebook, kind: MemberKind, spec: Specification, sheet: SheetTube): TubeTables {
+  let memo = tubeTableMemo.get(col.compiled);
+  if (!memo) tubeTableMemo.set(col.compiled, (memo = new Map()));
+  const key = JSON.stringify([col.classId, kind, bandWeightKg(col.compiled, col.classId, spec) ?? null, [...sheet.materials].sort(), [...sheet.processes].sort(), sheet.approvedOn ?? null]);
+  let found = memo.get(key);
+  if (!found) {
+    found = readTubeTables(col, kind, spec, sheet);
+    // Bounded: a long-lived compiled ruleset meets many sheets.
+    if (memo.size > 500) memo.clear();
+    memo.set(key, found);
+  }
+  return found;
+}
+
 /** Per tube-table requirement of a kind: the usable alternatives of the band the sheet falls in. */
-function tubeTablesFor(col: ComparedRulebook, kind: MemberKind, spec: Specification, sheet: SheetTube): { tables: { req: CompiledRequirement; alts: AlternativeMeta[] }[]; undecided: boolean } {
+function readTubeTables(col: ComparedRulebook, kind: MemberKind, spec: Specification, sheet: SheetTube): { tables: { req: CompiledRequirement; alts: AlternativeMeta[] }[]; undecided: boolean } {
   const weight = bandWeightKg(col.compiled, col.classId, spec);
   const out: { req: CompiledRequirement; alts: AlternativeMeta[] }[] = [];
   let undecided = false;
@@ -260,12 +278,11 @@ function compareTubes(cols: readonly ComparedRulebook[], kind: MemberKind, spec:
 const DIRECTION: Readonly<Record<string, 'atLeast' | 'atMost'>> = { atLeast: 'atLeast', above: 'atLeast', atMost: 'atMost', below: 'atMost' };
 
 /** Numeric limits the row's findings name (tube tables aside: they are compared by their alternatives). */
-function compareLimits(cols: readonly ComparedRulebook[], perColumn: readonly (readonly Finding[])[]): ComparedLimit[] {
+function compareLimits(cols: readonly ComparedRulebook[], perColumn: readonly (readonly Finding[])[], templates: readonly ReadonlyMap<string, string>[]): ComparedLimit[] {
   const byKey = new Map<string, ComparedLimit>();
   perColumn.forEach((findings, i) => {
-    const templates = new Map(cols[i]!.compiled.requirements.map((r) => [r.id, r.template]));
     for (const f of findings) {
-      if (f.verdict === 'not_applicable' || f.acceptedOnCertificate || templates.get(f.requirementId) === 'tube_table') continue;
+      if (f.verdict === 'not_applicable' || f.acceptedOnCertificate || templates[i]!.get(f.requirementId) === 'tube_table') continue;
       for (const r of f.required) {
         const direction = DIRECTION[r.operator];
         if (!direction || typeof r.value !== 'number' || r.dimension === null) continue;
@@ -301,6 +318,7 @@ export function compareRulebooks(spec: Specification, rulebooks: readonly Compar
       per[i]!.push(f);
     }
   });
+  const templates = cols.map((c) => new Map(c.compiled.requirements.map((r) => [r.id, r.template as string])));
   const rows: ComparisonRow[] = [];
   for (const key of ROW_ORDER) {
     const [kind, value] = key.split(':') as [RowKind, string];
@@ -308,7 +326,7 @@ export function compareRulebooks(spec: Specification, rulebooks: readonly Compar
     const per = grouped.get(key);
     if (!per && !tubes) continue;
     const perColumn = per ?? cols.map(() => []);
-    rows.push({ key, kind, label: rowLabel(key), cells: perColumn.map(cellOf), limits: compareLimits(cols, perColumn), tubes });
+    rows.push({ key, kind, label: rowLabel(key), cells: perColumn.map(cellOf), limits: compareLimits(cols, perColumn, templates), tubes });
   }
   return {
     columns: cols.map((c) => ({
