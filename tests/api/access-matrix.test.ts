@@ -184,6 +184,17 @@ const FIXTURES: Record<string, Fixture> = {
   'GET /api/build-sheets/:sheetId/editions': {},
   // The owner is let through and finds no newer edition to move to (409); the readers get 403.
   'POST /api/build-sheets/:sheetId/move-edition': { ok: { owner: 409 }, req: () => ({ body: { baseRevision: 1, rulesetVersionId: fx.versionId } }) },
+  'GET /api/build-sheets/:sheetId/side-by-side': {},
+  // The demo club's second rulebook (the hillclimb schedule) beside the sheet's own.
+  'POST /api/build-sheets/:sheetId/side-by-side': {
+    req: async () => {
+      const [hill]: { id: string }[] = await db.ds.query(
+        `SELECT v.id FROM ruleset_versions v JOIN rulebooks r ON r.id = v.rulebook_id WHERE r.club_id = $1 AND r.slug = 'tarnwick-vale-mc-hillclimb-2027-metric' AND v.status = 'published'`,
+        [fx.clubId],
+      );
+      return { body: { columns: [{ rulesetVersionId: hill!.id, classId: 'hill-saloon' }] } };
+    },
+  },
   'GET /api/build-sheets/:sheetId/revisions': {},
   'GET /api/build-sheets/:sheetId/revisions/:number': { req: () => ({ params: { number: '1' } }) },
   'GET /api/build-sheets/:sheetId/revisions/:from/diff/:to': { req: () => ({ params: { from: '1', to: '2' } }) },

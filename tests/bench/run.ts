@@ -3,7 +3,8 @@
 // (tests/bench/frame.ts), first-load JavaScript per route from the built front end
 // (tests/bench/bundle.ts), the API bench (tests/bench/api.ts, latency, throughput and
 // responsiveness through HTTP), and the re-check of 10,000 sheets through the worker pool and on one
-// thread, with /api/health probed meanwhile (tests/bench/republish.ts).
+// thread, with /api/health probed meanwhile (tests/bench/republish.ts), and one sheet against five
+// rulebooks side by side against one check (tests/bench/side-by-side.ts).
 // Prints one summary and exits non-zero when any target is missed. Numbers depend on the machine
 // and on what else runs on it: see docs/decisions/0005-checks-in-worker-threads.md.
 import { runApiBench, TARGETS } from './api';
@@ -99,6 +100,20 @@ try {
   lines.push({ name: 'tube chooser, whole sheet with the braces matched to the hoop (sizes tried on the sheet)', value: `${t.sheetMatchedMs.toFixed(1)} ms, ${(t.sheetMatchedMs / t.sheetMs).toFixed(1)}× the sheet without`, target: 'reported', ok: true });
 } catch (err) {
   console.error('tube chooser bench failed:', err instanceof Error ? err.message : err);
+  failed = true;
+}
+
+try {
+  const { runSideBySideBench, MAX_RATIO } = await import('./side-by-side');
+  const s = await runSideBySideBench({ log: true });
+  lines.push({
+    name: `one sheet against ${s.rulebooks} rulebooks side by side (engine, reports and comparison; ${s.rows} rows), median`,
+    value: `${s.fiveMs.toFixed(1)} ms, ${s.ratio.toFixed(2)}× one check (${s.oneCheckMs.toFixed(1)} ms, a fifth of checking the sheet against each of the ${s.rulebooks} in turn)`,
+    target: `≤ ${MAX_RATIO}× one check`,
+    ok: s.ratio <= MAX_RATIO,
+  });
+} catch (err) {
+  console.error('side-by-side bench failed:', err instanceof Error ? err.message : err);
   failed = true;
 }
 

@@ -12,7 +12,7 @@ export const checkRunParamsSchema = z.object({ id: uuidSchema });
 /** A code as typed from a PDF: cleaned and read by domain/review/verification-code.ts. */
 export const checkRunCodeParamsSchema = z.object({ code: z.string().max(200, 'At most 200 characters') });
 
-const classIdSchema = z
+export const classIdSchema = z
   .string('Must be text')
   .trim()
   .min(1, 'Required')

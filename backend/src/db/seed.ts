@@ -10,6 +10,7 @@ import { createDataSource } from './data-source';
 import { isMainModule } from './main-module';
 import { demoGarageStep } from './seed-garage';
 import { rulesetSeedStep } from './seed-rulesets';
+import { secondClubStep } from './seed-second-club';
 import { demoClub, demoPassword, demoPeople } from './seed-data';
 
 export interface SeedContext {
@@ -34,9 +35,10 @@ export const demoSeedSteps: SeedStep[] = [rulesetSeedStep];
 
 /**
  * What `npm start` (and the browser tests' server) seeds: the above plus the demo builder's garage,
- * a hillclimb sheet with a full cage model. The API tests keep the garage empty.
+ * a hillclimb sheet with a full cage model, and a second club the builder races in, with its own
+ * rulebook (to compare the sheet side by side). The API tests keep the garage empty and one club.
  */
-export const cliSeedSteps: SeedStep[] = [...demoSeedSteps, demoGarageStep];
+export const cliSeedSteps: SeedStep[] = [...demoSeedSteps, secondClubStep, demoGarageStep];
 
 export interface SeedSummary {
   created: { clubs: number; users: number; memberships: number };

@@ -2,13 +2,14 @@
 // rulebook with the move to a newer one (docs/api.md, "Garage"). The owner edits; the club's stewards
 // and admins read (403 when they try to edit); anyone else gets 404.
 import { Router } from 'express';
+import { sideBySideBodySchema } from '../contracts/side-by-side';
 import { diffParamsSchema, moveEditionBodySchema, restoreRevisionBodySchema, revisionParamsSchema, saveRevisionBodySchema, sheetParamsSchema, updateSheetBodySchema } from '../contracts/garage';
 import { signedInUserId } from '../middleware/guards';
 import type { Services } from '../services';
 import { mountRoutes, route, type RouteTableRouter } from './route-table';
 
 export function createBuildSheetsRouter({ services }: { services: Services }): RouteTableRouter {
-  const { buildSheets, sheetEditions } = services;
+  const { buildSheets, sheetEditions, sideBySide } = services;
   return mountRoutes(Router(), [
     route({
       method: 'get', path: '/build-sheets/:sheetId', access: 'sheet.read', params: sheetParamsSchema,
@@ -52,6 +53,20 @@ export function createBuildSheetsRouter({ services }: { services: Services }): R
       summary: 'Moves the sheet to a newer edition of its rulebook as a new revision.',
       handler: async ({ req, res, params, body }) => {
         res.json(await sheetEditions.move(params.sheetId, signedInUserId(req), body));
+      },
+    }),
+    route({
+      method: 'get', path: '/build-sheets/:sheetId/side-by-side', access: 'sheet.edit', params: sheetParamsSchema,
+      summary: 'The sheet’s own rulebook and every other edition in force in the builder’s clubs, with a class suggested for each.',
+      handler: async ({ req, res, params }) => {
+        res.json(await sideBySide.options(params.sheetId, signedInUserId(req)));
+      },
+    }),
+    route({
+      method: 'post', path: '/build-sheets/:sheetId/side-by-side', access: 'sheet.edit', params: sheetParamsSchema, body: sideBySideBodySchema,
+      summary: 'The sheet’s latest revision checked against its own rulebook and the ones picked: rule areas × rulebooks, strictest marked.',
+      handler: async ({ req, res, params, body }) => {
+        res.json(await sideBySide.compare(params.sheetId, signedInUserId(req), body));
       },
     }),
     route({

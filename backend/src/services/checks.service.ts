@@ -13,7 +13,7 @@ import { implausibleValues } from '../domain/field-ranges';
 import { CheckRun, User } from '../entities';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import { availableParallelism } from 'node:os';
-import { createInProcessEngine, createWorkerEngine, type CheckEngine, type CheckEngineStats, type VerdictJob } from './check-engine';
+import { createInProcessEngine, createWorkerEngine, type CheckEngine, type CheckEngineStats, type CheckJob, type VerdictJob } from './check-engine';
 import type { Verdict } from '../contracts/rulebook-admin';
 import { parseCheckSpecification } from './check-input';
 import { enforce } from './access';
@@ -182,6 +182,14 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService, opt
     async dryRunJson(input: CheckInput): Promise<string> {
       refuseImplausibleValues(input.specification);
       return (await check(input)).reportJson;
+    },
+
+    /**
+     * The full report of a stored specification, through the same engine and compiled-ruleset cache
+     * as a builder's check (several rulebooks side by side). The caller has checked access and state.
+     */
+    async reportFor(job: CheckJob): Promise<CheckReport> {
+      return JSON.parse((await engine.evaluate(job)).reportJson) as CheckReport;
     },
 
     /** A check stored as an immutable record; the stored specification is the parsed one. */

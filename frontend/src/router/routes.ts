@@ -9,7 +9,7 @@ export type RouteName = 'sign-in' | 'forgot-password' | 'reset-password' | 'invi
   | 'review-queue' | 'submission' | 'cage-record' | 'verify' | 'verify-code'
   | 'dev-mailbox' | 'club-activity'
   | 'rulebooks' | 'rulebook-version' | 'rulebook-compare'
-  | 'tube-choice' | 'tube-stock' | 'build-journal'
+  | 'tube-choice' | 'tube-stock' | 'build-journal' | 'side-by-side'
   | 'fabrication';
 
 declare module 'vue-router' {
@@ -80,6 +80,7 @@ export const routes: NamedRoute[] = [
       { path: 'cars/:carId', name: 'car', component: () => import('@/views/CarView.vue'), meta: { title: 'Car' } },
       { path: 'build-sheets/:sheetId', name: 'build-sheet', component: () => import('@/views/BuildSheetView.vue'), meta: { title: 'Build sheet' } },
       { path: 'build-sheets/:sheetId/tubes', name: 'tube-choice', component: () => import('@/views/TubeChoiceView.vue'), meta: { title: 'Lightest legal tubes' } },
+      { path: 'build-sheets/:sheetId/side-by-side', name: 'side-by-side', component: () => import('@/views/SideBySideView.vue'), meta: { title: 'Rulebooks side by side' } },
       { path: 'build-sheets/:sheetId/journal', name: 'build-journal', component: () => import('@/views/BuildJournalView.vue'), meta: { title: 'Build journal' } },
       { path: 'clubs/:clubId/tube-stock', name: 'tube-stock', component: () => import('@/views/TubeStockView.vue'), meta: { roles: ['builder', 'steward', 'admin'], title: 'Tube stock' } },
       { path: 'dev/mailbox', name: 'dev-mailbox', component: () => import('@/views/MailboxView.vue'), meta: { roles: ['admin'], title: 'Mailbox' } },
