@@ -42,7 +42,7 @@ async function approved(car: { name?: string; make?: string; model?: string; rac
 
 const list = (who: SignedIn, query: Record<string, string | number> = {}, clubId = fx.clubId) =>
   who.agent.get(`/api/clubs/${clubId}/cage-records`).query(query);
-const inspect = (who: SignedIn, recordId: string, body: unknown) =>
+const inspect = (who: SignedIn, recordId: string, body: object) =>
   who.agent.post(`/api/cage-records/${recordId}/inspections`).set('X-CSRF-Token', who.token).send(body);
 const inspectionCount = async (recordId: string) =>
   Number((await db.ds.query(`SELECT count(*) AS n FROM cage_record_inspections WHERE record_id = $1`, [recordId]))[0].n);
