@@ -67,7 +67,8 @@ export function inspectionProblems(
   // A few minutes of slack: the steward's device clock may run a little ahead of the server's.
   if (input.inspectedAt.getTime() > context.now.getTime() + 5 * 60_000)
     problems.push({ path: 'inspectedAt', message: 'An inspection cannot be in the future.' });
-  if (input.inspectedAt.getTime() < context.issuedAt.getTime())
+  // A minute's slack: a time typed to the minute, in the minute the record was issued, is not before it.
+  if (input.inspectedAt.getTime() < context.issuedAt.getTime() - 60_000)
     problems.push({ path: 'inspectedAt', message: 'An inspection on this record cannot be before the record was issued.' });
   const range = FIELD_RANGES['members.*.wallReadings.*.wallMm'];
   const seen = new Set<string>();
