@@ -5,6 +5,11 @@
 // against the rulebook's minimum) as a history on the record, and a bad reading is refused at its path
 // with nothing stored. Builders are mailed once, 30 days ahead, however often the job runs. The
 // public check shows the record number, club, make, model and expiry, and still no people or photos.
+import { execFileSync } from 'node:child_process';
+import { mkdirSync } from 'node:fs';
+import { mkdtemp, writeFile } from 'node:fs/promises';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { EXPIRY_NOTICE_DAYS } from '../../backend/src/contracts/record-words';
 import { createServices } from '../../backend/src/services';
@@ -315,5 +320,28 @@ describe('the expiry reminder', () => {
     expect(dueMail.text_body).toContain(`${testPublicUrl}/cage-records/${due.record.id}`);
     const marks = await db.ds.query(`SELECT id, expiry_reminded_at FROM cage_records WHERE id = $1`, [due.record.id]);
     expect(new Date(marks[0].expiry_reminded_at).toISOString()).toBe(T.toISOString());
+  });
+});
+
+describe('the record’s PDF', () => {
+  it('lists the track inspections with their seal, steward and readings', async () => {
+    const { steward } = fx.who;
+    const r = await approved({ raceNumber: '515' });
+    await inspect(steward, r.record.id, { sealNumber: 'TV-S-0515', readings: [{ memberId: 'mh', wallMm: 2.45 }, { memberId: 'fh', wallMm: 1.3 }] }).expect(201);
+    const res = await steward.agent.get(`/api/submissions/${r.submissionId}/report.pdf?units=metric`).buffer(true).parse((response, done) => {
+      const chunks: Buffer[] = [];
+      response.on('data', (c: Buffer) => chunks.push(c));
+      response.on('end', () => done(null, Buffer.concat(chunks)));
+    }).expect(200);
+    const dir = await mkdtemp(join(tmpdir(), 'cw-inspect-'));
+    const file = join(dir, 'record.pdf');
+    await writeFile(file, res.body as Buffer);
+    const text = execFileSync('pdftotext', [file, '-'], { encoding: 'utf8' }).replace(/\s+/g, ' ');
+    expect(text).toContain('seal TV-S-0515, by Imogen Feld');
+    expect(text).toContain("1 reading under the rulebook's minimum");
+    expect(text).toMatch(/main hoop 2\.45 mm/);
+    expect(text).toMatch(/front hoop 1\.30? mm \(under\)/);
+    mkdirSync(join(process.cwd(), '.artifacts/screens'), { recursive: true });
+    execFileSync('pdftoppm', ['-png', '-r', '60', file, join(process.cwd(), '.artifacts/screens/records-pdf')]);
   });
 });
