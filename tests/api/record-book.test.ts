@@ -12,9 +12,12 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { EXPIRY_NOTICE_DAYS } from '../../backend/src/contracts/record-words';
+import { createLogger } from '../../backend/src/logger';
 import { createServices } from '../../backend/src/services';
+import { createJobs } from '../../backend/src/services/jobs';
+import { expiryReminderCron, expiryReminderQueue, registerExpiryReminders } from '../../backend/src/services/records/expiry-reminder-job';
 import { formatIsoDate } from '../../backend/src/domain/dates';
-import { agentFor, errorOf, makeTestApp, testPublicUrl, useTestDatabase } from './helpers';
+import { agentFor, errorOf, makeTestApp, testConfig, testPublicUrl, useTestDatabase } from './helpers';
 import { as, type SignedIn } from './garage-fixtures';
 import { act, reviewFixture, submitNew, type ReviewFixture } from './review-fixtures';
 
@@ -344,4 +347,37 @@ describe('the record’s PDF', () => {
     mkdirSync(join(process.cwd(), '.artifacts/screens'), { recursive: true });
     execFileSync('pdftoppm', ['-png', '-r', '60', file, join(process.cwd(), '.artifacts/screens/records-pdf')]);
   });
+});
+
+describe('the expiry reminder job', () => {
+  it('runs on pg-boss: a job on the queue reminds the due records and completes; the schedule is registered', async () => {
+    const T = new Date(Date.now() + 9 * DAY);
+    const { recordBook } = createServices(db.ds, { publicUrl: testPublicUrl, now: () => T });
+    const jobs = createJobs(testConfig(), createLogger('silent'), { pollingIntervalSeconds: 0.5 });
+    await jobs.start();
+    try {
+      await registerExpiryReminders(jobs, { recordBook, now: () => T });
+      const schedules: { name: string; cron: string }[] = await db.ds.query(`SELECT name, cron FROM pgboss.schedule WHERE name = $1`, [expiryReminderQueue]);
+      expect(schedules).toEqual([{ name: expiryReminderQueue, cron: expiryReminderCron }]);
+      const due = await approved({ name: 'Job Car' });
+      await db.ds.query(`UPDATE cage_records SET expires_at = $2 WHERE id = $1`, [due.record.id, new Date(T.getTime() + 20 * DAY)]);
+      const jobId = await jobs.send(expiryReminderQueue, {});
+      const deadline = Date.now() + 20_000;
+      for (;;) {
+        const p = await jobs.getProgress(jobId);
+        if (p?.state === 'completed') break;
+        if (p?.state === 'failed' || Date.now() > deadline) throw new Error(`reminder job ${p?.state ?? 'missing'}: ${p?.error ?? ''}`);
+        await new Promise((r) => setTimeout(r, 100));
+      }
+      const mark = await db.ds.query(`SELECT expiry_reminded_at FROM cage_records WHERE id = $1`, [due.record.id]);
+      expect(new Date(mark[0].expiry_reminded_at).toISOString()).toBe(T.toISOString());
+      // The same round again (a retry, the next hour): no second mail.
+      await jobs.send(expiryReminderQueue, {});
+      await new Promise((r) => setTimeout(r, 1500));
+      const mails = await db.ds.query(`SELECT count(*)::int AS n FROM outbox_messages WHERE kind = 'cage_record.expiring' AND related->>'recordId' = $1`, [due.record.id]);
+      expect(mails[0].n).toBe(1);
+    } finally {
+      await jobs.stop();
+    }
+  }, 60_000);
 });
