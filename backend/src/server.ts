@@ -2,8 +2,9 @@
 // Parses configuration, waits for PostgreSQL, runs pending migrations, then listens. SIGTERM and
 // SIGINT stop taking connections, let requests in flight finish, and close the database cleanly.
 // Background work runs here too (docs/mail-and-jobs.md): the fake SMTP server when FAKE_SMTP is on, the
-// outbox dispatcher when SMTP_URL is known, the pg-boss job workers, and the edition clock that brings
-// scheduled rulebook editions into force on their date.
+// outbox dispatcher when SMTP_URL is known, the pg-boss job workers (with the hourly cage-record expiry
+// reminder on pg-boss's cron), and the edition clock that brings scheduled rulebook editions into force
+// on their date.
 // Under `npm start` with SERVER_PROCESSES above 1 this file runs once per process as a node:cluster
 // worker (supervisor.ts): only the first process runs the fake SMTP server (one port), the others send
 // to it; everything else runs in each process and is safe to (docs/decisions/0012-more-than-one-server.md).
@@ -24,6 +25,7 @@ import { createPhotoStorage } from './services/photos/storage';
 import { registerImpactWorker } from './services/publish/impact-job';
 import { registerRepublishWorker } from './services/publish/republish-job';
 import { startEditionClock } from './services/publish/edition-clock';
+import { registerExpiryReminders } from './services/records/expiry-reminder-job';
 import { exitCodeConfig } from './supervisor';
 
 function readConfig(): Config {
@@ -94,7 +96,7 @@ if (config.smtpUrl) {
 } else {
   logger.warn('SMTP_URL is not set: e-mails wait in the outbox until it is');
 }
-const jobs = createJobs(config, logger, { staleAfterSeconds: config.jobStaleAfterSeconds });
+const jobs = createJobs(config, logger, { staleAfterSeconds: config.jobStaleAfterSeconds, cron: true });
 try {
   await jobs.start();
 } catch (err) {
@@ -107,6 +109,8 @@ const services = createServices(dataSource, { publicUrl: config.publicUrl, photo
 // Both re-checks run in the check service's bulk pool of worker threads (RECHECK_WORKERS).
 await registerRepublishWorker(jobs, { ds: dataSource, evaluator: services.checks.bulk, mail: services.mail, audit: services.audit, publicUrl: config.publicUrl, batchSize: config.recheckBatchSize });
 await registerImpactWorker(jobs, { rulebookAdmin: services.rulebookAdmin });
+// Builders hear once, 30 days ahead, that their cage record expires (hourly, on pg-boss's cron).
+await registerExpiryReminders(jobs, { recordBook: services.recordBook });
 // Every process runs the clock: each round locks the rulebooks it moves (docs/decisions/0014).
 const editionClock = startEditionClock(() => services.rulebookAdmin.activateDueEditions(), logger);
 const app = createApp({ dataSource, config, logger, services, republishQueue: jobs, jobControl: jobs });

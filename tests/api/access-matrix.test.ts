@@ -71,6 +71,7 @@ const EXPECT: Record<string, Record<Actor, Cell>> = {
   'submission.annotate': row(401, 403, 404, 'ok', 404, 'ok', 404),
   'record.read': row(401, 'ok', 404, 'ok', 404, 'ok', 404),
   'record.revoke': row(401, 403, 404, 'ok', 404, 'ok', 404),
+  'record.inspect': row(401, 403, 404, 'ok', 404, 'ok', 404),
   'job.admin': row(401, 403, 403, 403, 404, 'ok', 404),
 };
 
@@ -274,6 +275,9 @@ const FIXTURES: Record<string, Fixture> = {
   'GET /api/cage-records/:recordId': {},
   // Revoked by the steward; the admin is let through and finds it revoked already.
   'POST /api/cage-records/:recordId/revoke': { ok: { steward: 200, admin: 409 }, req: () => ({ params: { recordId: ids.revocableRecord! }, body: { reason: 'The main hoop was cut and rewelded since.' } }) },
+  'GET /api/clubs/:clubId/cage-records': { req: () => ({ query: { q: '47', status: 'valid' } }) },
+  'GET /api/cage-records/:recordId/inspections': {},
+  'POST /api/cage-records/:recordId/inspections': { ok: 201, req: () => ({ body: { sealNumber: 'TV-S-00417' } }) },
   'GET /api/clubs/:clubId/settings': {},
   'PATCH /api/clubs/:clubId/settings': { req: () => ({ body: { timeZone: 'Europe/London' } }) },
   'GET /api/clubs/:clubId/record-settings': {},

@@ -36,8 +36,11 @@ describe('GET /api/verify/:code', () => {
     const { code } = await issue();
     const res = await verify(code).expect(200);
     expect(res.body.kind).toBe('cage_record');
-    expect(Object.keys(res.body.record).sort()).toEqual(['carName', 'className', 'edition', 'raceNumber', 'rulebookTitle', 'status']);
-    expect(res.body.record).toMatchObject({ carName: 'Grey Saloon', raceNumber: '47', status: 'valid' });
+    // The record number, club, make, model and expiry too (issue 13), and the latest inspection's date and seal only.
+    expect(Object.keys(res.body.record).sort()).toEqual([
+      'carName', 'className', 'clubName', 'edition', 'expiresAt', 'expiresOn', 'lastInspection', 'make', 'model', 'raceNumber', 'recordNumber', 'rulebookTitle', 'status',
+    ]);
+    expect(res.body.record).toMatchObject({ carName: 'Grey Saloon', make: 'Varden', model: 'Corsair', raceNumber: '47', status: 'valid', clubName: 'Tarnwick Vale Motor Club', lastInspection: null });
     const text = JSON.stringify(res.body);
     for (const personal of ['Robin', 'Ashcombe', 'Imogen', 'tarnwick.example', 'photo']) expect(text).not.toContain(personal);
     expect(res.headers['cache-control']).toBe('no-store');

@@ -248,10 +248,19 @@ export interface CheckRunVerificationWire {
 
 /** What anyone at the track may see: no people, no photos. */
 export interface VerificationWire {
+  recordNumber: string;
+  clubName: string;
   carName: string;
+  make: string | null;
+  model: string | null;
   raceNumber: string | null;
   className: string;
   rulebookTitle: string;
   edition: string;
   status: RecordStatusWire;
+  /** The record's expiry instant (ISO 8601) and its UTC date (YYYY-MM-DD). */
+  expiresAt: string;
+  expiresOn: string;
+  /** The latest track inspection: its UTC date and seal number only (never who inspected). */
+  lastInspection: { inspectedOn: string; sealNumber: string } | null;
 }

@@ -112,6 +112,8 @@ export const ACCESS_RULES = {
   'record.read': rule('record', 'The car’s owner and the stewards and admins of the record’s club (404 for anyone else).', ownerOrReviewer),
   'record.revoke': rule('record', 'The stewards and admins of the record’s club; the car’s owner gets 403, anyone else 404.', (f) =>
     isReviewer(f.roles) ? allow : isOwner(f) ? forbidden : hidden),
+  'record.inspect': rule('record', 'The stewards and admins of the record’s club, never on their own car (403 for the car’s owner, 404 for anyone else).', (f) =>
+    !isReviewer(f.roles) ? (isOwner(f) ? forbidden : hidden) : isOwner(f) ? forbidden : allow),
 
   'job.admin': rule('job', 'Admins of the job’s club (403 for its other members, 404 for anyone else and for jobs of no club).', (f) => clubRole(f, 'admin')),
 } satisfies Record<string, AccessRule>;

@@ -99,6 +99,10 @@ export class CageRecord {
   @Column({ name: 'superseded_at', type: 'timestamptz', nullable: true })
   supersededAt!: Date | null;
 
+  /** When the builder was mailed that the record expires within 30 days (once: the reminder job sets it). */
+  @Column({ name: 'expiry_reminded_at', type: 'timestamptz', nullable: true })
+  expiryRemindedAt!: Date | null;
+
   @CreateDateColumn({ name: 'created_at', type: 'timestamptz' })
   createdAt!: Date;
 }

@@ -20,6 +20,7 @@ import { ClubStockSeed, StockTube } from './stock-tube.entity';
 import { JournalEntry, JournalPhoto } from './journal.entity';
 import { HoopLegMeasurement } from './hoop-leg-measurement.entity';
 import { PasswordReset } from './password-reset.entity';
+import { CageRecordInspection } from './cage-record-inspection.entity';
 
 export { Club, Invitation, Membership, User, PasswordReset };
 export { clubRoles, type ClubRole } from './membership.entity';
@@ -32,10 +33,11 @@ export type { ChassisType } from './car.entity';
 export { OutboxMessage, AuditEntry };
 export { outboxStatuses, type OutboxStatus } from './outbox-message.entity';
 export { Submission, SubmissionEvent, FindingAnnotation, CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn };
-export { StockTube, ClubStockSeed, JournalEntry, JournalPhoto, HoopLegMeasurement };
+export { StockTube, ClubStockSeed, JournalEntry, JournalPhoto, HoopLegMeasurement, CageRecordInspection };
+export type { StoredInspectionReading } from './cage-record-inspection.entity';
 export type { MeasuredLeg } from './hoop-leg-measurement.entity';
 export { stockMaterials, stockProcesses } from './stock-tube.entity';
 
 export const entities = [User, Club, Membership, Invitation, Rulebook, RulesetVersion, CheckRun, Car, BuildSheet, BuildSheetRevision, Photo, OutboxMessage, AuditEntry,
   Submission, SubmissionEvent, FindingAnnotation, CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn,
-  StockTube, ClubStockSeed, JournalEntry, JournalPhoto, PasswordReset, HoopLegMeasurement];
+  StockTube, ClubStockSeed, JournalEntry, JournalPhoto, PasswordReset, HoopLegMeasurement, CageRecordInspection];

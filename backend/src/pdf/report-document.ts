@@ -78,6 +78,15 @@ export interface ReportReview {
   verificationUrl: string;
   /** The QR code of verificationUrl as an SVG document. */
   qrSvg: string;
+  /** The record's track inspections, newest first (absent or empty: none yet). */
+  inspections?: ReportInspection[];
+}
+
+export interface ReportInspection {
+  inspectedAt: Date;
+  sealNumber: string;
+  stewardName: string;
+  readings: { memberName: string; wallMm: number; minWallMm: number | null; belowMinimum: boolean }[];
 }
 
 const COLOURS = { ink: '#1d2327', muted: '#5b6670', rule: '#c9d0d6', band: '#eef1f3', pass: '#1f6f43', fail: '#a3261d', info: '#8a5a00', na: '#5b6670' };
@@ -342,7 +351,7 @@ function cageBlock(cage: NonNullable<ReportDocumentInput['cage']>): Content[] {
 }
 
 /** The steward's decision: the record number, who approved it and when, waivers, and the QR to check it. */
-function reviewBlock(review: ReportReview, findings: readonly Finding[]): Content[] {
+function reviewBlock(review: ReportReview, findings: readonly Finding[], units: UnitSystem): Content[] {
   const byKey = new Map(findings.map((f) => [findingKey(f), f]));
   const day = (d: Date) => formatIsoDate(d.toISOString().slice(0, 10));
   const waivedCount = overallWithWaivers(findings, review.waivers.map((w) => ({ findingKey: w.findingKey, reason: w.reason, stewardId: w.stewardName }))).waivedCount;
@@ -384,6 +393,30 @@ function reviewBlock(review: ReportReview, findings: readonly Finding[]): Conten
       fontSize: 8.5,
       margin: [0, 0, 0, 6],
     });
+  }
+  for (const i of review.inspections ?? []) {
+    const when = `${day(i.inspectedAt)} ${i.inspectedAt.toISOString().slice(11, 16)} UTC`;
+    const low = i.readings.filter((r) => r.belowMinimum).length;
+    out.push({ text: pdfSafe(`Track inspection ${when}, seal ${i.sealNumber}, by ${i.stewardName}${low ? ` · ${low} reading${low === 1 ? '' : 's'} under the rulebook's minimum` : ''}`), style: 'h3' });
+    out.push(i.readings.length
+      ? {
+          table: {
+            widths: ['*', 90, 110],
+            headerRows: 1,
+            body: [
+              [{ text: 'Member', bold: true }, { text: 'Wall reading', bold: true }, { text: 'Rulebook minimum', bold: true }],
+              ...i.readings.map((r) => [
+                { text: pdfSafe(r.memberName) },
+                { text: `${quantity(r.wallMm, 'length', units)}${r.belowMinimum ? ' (under)' : ''}`, bold: r.belowMinimum, color: r.belowMinimum ? COLOURS.fail : COLOURS.ink },
+                { text: r.minWallMm === null ? 'none named' : quantity(r.minWallMm, 'length', units) },
+              ]),
+            ],
+          },
+          layout: 'lightHorizontalLines',
+          fontSize: 8.5,
+          margin: [0, 0, 0, 6],
+        }
+      : { text: 'No wall readings taken.', fontSize: 8.5, color: COLOURS.muted, margin: [0, 0, 0, 6] });
   }
   return out;
 }
@@ -484,7 +517,7 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
       ['Checked on', dateText],
       ['Units', units === 'metric' ? 'metric (mm, kg)' : 'imperial (in, lb)'],
     ]),
-    ...(input.review ? reviewBlock(input.review, report.findings) : []),
+    ...(input.review ? reviewBlock(input.review, report.findings, input.units) : []),
     { text: SAFETY_CAUTION, bold: true, margin: [0, 2, 0, 2] },
     { text: pdfSafe(report.disclaimer), color: COLOURS.muted, fontSize: 8.5, margin: [0, 0, 0, 10] },
   ];

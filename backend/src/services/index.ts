@@ -18,6 +18,7 @@ import { createReportService, type ReportService } from './reports.service';
 import { createReviewService, type ReviewService } from './review.service';
 import { createReviewReader, type ReviewReader } from './review-detail';
 import { createCageRecordService, type CageRecordService } from './cage-records.service';
+import { createRecordBookService, type RecordBookService } from './record-book.service';
 import { createVerificationService, type VerificationService } from './verification.service';
 import { createRulebookAdminService, type RulebookAdminService } from './rulebook-admin.service';
 import { createTubeStockService, type TubeStockService } from './tube-stock.service';
@@ -48,6 +49,8 @@ export interface Services {
   review: ReviewService;
   reviewReader: ReviewReader;
   cageRecords: CageRecordService;
+  /** The club's records page, track inspections and expiry reminders. */
+  recordBook: RecordBookService;
   verification: VerificationService;
   rulebookAdmin: RulebookAdminService;
   tubeStock: TubeStockService;
@@ -112,6 +115,7 @@ export function createServices(
     review: createReviewService(ds, { mail, audit, publicUrl: options.publicUrl, records: cageRecords }),
     reviewReader: createReviewReader(ds, { records: cageRecords, reports, publicUrl: options.publicUrl }),
     cageRecords,
+    recordBook: createRecordBookService(ds, { audit, mail, publicUrl: options.publicUrl, now }),
     verification: createVerificationService(ds),
     rulebookAdmin: createRulebookAdminService(ds, { rulesets, audit, clubSettings, now, evaluator: checks.bulk, ...(options.recheckBatchSize ? { batchSize: options.recheckBatchSize } : {}) }),
     tubeStock,

@@ -1,11 +1,12 @@
 // The PDF report of an approved submission: the pre-check report of its check run, plus the steward's
 // decision, the waivers (each finding marked waived, with its reason), the cage record's number and
-// a QR code of the public verification link.
+// a QR code of the public verification link, and the record's track inspections with their readings.
 import QRCode from 'qrcode';
 import type { DataSource } from 'typeorm';
 import { recordStatus } from '../domain/review/cage-record';
 import type { UnitSystem } from '../domain/units';
-import { CageRecord, User } from '../entities';
+import { CageRecord, CageRecordInspection, User } from '../entities';
+import { isBelowMinimum } from '../domain/review/inspection';
 import { ConflictError } from '../errors';
 import type { ReportService } from './reports.service';
 import { verificationUrl } from './cage-records.service';
@@ -20,6 +21,7 @@ export async function approvedSubmissionPdf(
     throw new ConflictError('Only an approved submission has a report with the steward’s decision. Download the check run’s pre-check report instead.');
   const name = async (id: string | null) => (id ? ((await ds.getRepository(User).findOneBy({ id }))?.displayName ?? 'a steward') : 'a steward');
   const url = verificationUrl(deps.publicUrl, record.verificationCode);
+  const inspections = await ds.getRepository(CageRecordInspection).find({ where: { recordId: record.id }, order: { inspectedAt: 'DESC', createdAt: 'DESC' } });
   const { pdf } = await deps.reports.pdf(row.checkRunId, userId, units, {
     recordNumber: record.number,
     recordStatus: recordStatus({ ...record }, new Date()),
@@ -30,6 +32,10 @@ export async function approvedSubmissionPdf(
     waivers: await Promise.all(row.waivers.map(async (w) => ({ findingKey: w.findingKey, reason: w.reason, stewardName: await name(w.stewardId) }))),
     verificationUrl: url,
     qrSvg: await QRCode.toString(url, { type: 'svg', margin: 0, errorCorrectionLevel: 'M' }),
+    inspections: await Promise.all(inspections.map(async (i) => ({
+      inspectedAt: i.inspectedAt, sealNumber: i.sealNumber, stewardName: await name(i.stewardId),
+      readings: i.readings.map((r) => ({ memberName: r.memberName, wallMm: r.wallMm, minWallMm: r.minWallMm, belowMinimum: isBelowMinimum(r.wallMm, r.minWallMm) })),
+    }))),
   });
   return { pdf, recordNumber: record.number };
 }

@@ -1,6 +1,7 @@
 // The public check at the track: a code printed on a cage record or on a check run's PDF. A cage
-// record shows only the car's name and race number, the class, the rulebook edition and the status
-// now; a check run says it is a pre-check of its date (not a cage record), against which rulebook and
+// record shows only its number, the club, the car's name, make, model and race number, the class,
+// the rulebook edition, the expiry and the status now, and the latest track inspection's date and
+// seal number; a check run says it is a pre-check of its date (not a cage record), against which rulebook and
 // class, and its overall result, the same words as its PDF. Never people or photos. An unknown code
 // and a malformed one get the same answer (null → one 404), after the same two indexed look-ups, so
 // neither the body nor the timing says which codes exist. Check runs saved before the one code form
@@ -40,6 +41,11 @@ interface Row {
   class_name: string;
   rulebook_title: string;
   edition: string;
+  club_name: string;
+  make: string | null;
+  model: string | null;
+  inspected_at: Date | null;
+  seal_number: string | null;
 }
 
 export type VerificationService = ReturnType<typeof createVerificationService>;
@@ -53,8 +59,12 @@ export function createVerificationService(ds: DataSource) {
       const runCode = lookup.form === 'malformed' ? '' : lookup.code;
       const rows: Row[] = await ds.query(
         `SELECT r.id, r.number, r.submission_id, r.verification_code, r.issued_at, r.expires_at, r.revoked_at, r.revoked_reason,
-                r.superseded_by_id, r.superseded_at, c.name AS car_name, c.race_number, r.class_name, r.rulebook_title, r.edition
-         FROM cage_records r JOIN cars c ON c.id = r.car_id WHERE r.verification_code = $1`,
+                r.superseded_by_id, r.superseded_at, c.name AS car_name, c.race_number, c.make, c.model, r.class_name, r.rulebook_title, r.edition,
+                cl.name AS club_name, li.inspected_at, li.seal_number
+         FROM cage_records r JOIN cars c ON c.id = r.car_id JOIN clubs cl ON cl.id = r.club_id
+         LEFT JOIN LATERAL (SELECT i.inspected_at, i.seal_number FROM cage_record_inspections i WHERE i.record_id = r.id
+                            ORDER BY i.inspected_at DESC, i.created_at DESC LIMIT 1) li ON true
+         WHERE r.verification_code = $1`,
         [recordCode],
       );
       const runs: RunRow[] = await ds.query(
@@ -81,7 +91,15 @@ export function createVerificationService(ds: DataSource) {
           },
           now,
         );
-        return { kind: 'cage_record', record: { carName: row.car_name, raceNumber: row.race_number, className: row.class_name, rulebookTitle: row.rulebook_title, edition: row.edition, status } };
+        const expiresAt = new Date(row.expires_at).toISOString();
+        return {
+          kind: 'cage_record',
+          record: {
+            recordNumber: row.number, clubName: row.club_name, carName: row.car_name, make: row.make, model: row.model, raceNumber: row.race_number,
+            className: row.class_name, rulebookTitle: row.rulebook_title, edition: row.edition, status, expiresAt, expiresOn: expiresAt.slice(0, 10),
+            lastInspection: row.inspected_at ? { inspectedOn: new Date(row.inspected_at).toISOString().slice(0, 10), sealNumber: row.seal_number ?? '' } : null,
+          },
+        };
       }
       if (!run) return null;
       return {

@@ -22,6 +22,7 @@ export const navEntries: readonly NavEntry[] = [
   { label: 'Garage', icon: 'pi pi-car', route: 'garage', roles: ['builder'] },
   { label: 'Tube stock', icon: 'pi pi-box', route: 'tube-stock', roles: ['builder', 'admin'] },
   { label: 'Review queue', icon: 'pi pi-check-square', route: 'review-queue', roles: ['steward'] },
+  { label: 'Cage records', icon: 'pi pi-id-card', route: 'club-records', roles: ['steward', 'admin'] },
   { label: 'Members', icon: 'pi pi-users', route: 'club-members', roles: ['admin'] },
   { label: 'Rulebooks', icon: 'pi pi-book', route: 'rulebooks', roles: ['admin'] },
   { label: 'Activity log', icon: 'pi pi-history', route: 'club-activity', roles: ['admin'] },

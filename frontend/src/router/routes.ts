@@ -6,7 +6,7 @@ import type { Role } from '@/api/types';
 /** Every route name; links and redirects use these, never raw paths. */
 export type RouteName = 'sign-in' | 'forgot-password' | 'reset-password' | 'invitation' | 'home' | 'account' | 'club-members' | 'not-found'
   | 'garage' | 'car' | 'build-sheet' | 'check-run'
-  | 'review-queue' | 'submission' | 'cage-record' | 'verify' | 'verify-code'
+  | 'review-queue' | 'submission' | 'cage-record' | 'club-records' | 'verify' | 'verify-code'
   | 'dev-mailbox' | 'club-activity'
   | 'rulebooks' | 'rulebook-version' | 'rulebook-compare'
   | 'tube-choice' | 'tube-stock' | 'build-journal' | 'side-by-side'
@@ -88,6 +88,7 @@ export const routes: NamedRoute[] = [
       { path: 'check-runs/:checkRunId', name: 'check-run', component: () => import('@/views/CheckRunView.vue'), meta: { title: 'Check run' } },
       { path: 'clubs/:clubId/review', name: 'review-queue', component: () => import('@/views/ReviewQueueView.vue'), meta: { roles: ['steward', 'admin'], title: 'Review queue' } },
       { path: 'submissions/:submissionId', name: 'submission', component: () => import('@/views/SubmissionView.vue'), meta: { title: 'Review' } },
+      { path: 'clubs/:clubId/records', name: 'club-records', component: () => import('@/views/ClubRecordsView.vue'), meta: { roles: ['steward', 'admin'], title: 'Cage records' } },
       { path: 'cage-records/:recordId', name: 'cage-record', component: () => import('@/views/CageRecordView.vue'), meta: { title: 'Cage record' } },
       { path: 'clubs/:clubId/rulebooks', name: 'rulebooks', component: () => import('@/views/RulebooksView.vue'), meta: { roles: ['admin'], title: 'Rulebooks' } },
       { path: 'ruleset-versions/:versionId', name: 'rulebook-version', component: () => import('@/views/RulebookVersionView.vue'), meta: { roles: ['admin'], title: 'Rulebook' } },

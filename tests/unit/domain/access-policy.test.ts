@@ -57,6 +57,12 @@ const cases: Case[] = [
   ['record.read', 'the car’s owner', { actorId: me, ownerId: me, roles: null }, true],
   ['record.revoke', 'the car’s owner', { actorId: me, ownerId: me, roles: ['builder'] }, 403],
   ['record.revoke', 'a steward of another club', { actorId: me, ownerId: other, roles: null }, 404],
+  ['record.inspect', 'a steward of the club', { actorId: me, ownerId: other, roles: ['steward'] }, true],
+  ['record.inspect', 'an admin of the club', { actorId: me, ownerId: other, roles: ['admin'] }, true],
+  ['record.inspect', 'a steward, on their own car', { actorId: me, ownerId: me, roles: ['steward', 'builder'] }, 403],
+  ['record.inspect', 'the car’s owner', { actorId: me, ownerId: me, roles: ['builder'] }, 403],
+  ['record.inspect', 'another builder of the club', { actorId: me, ownerId: other, roles: ['builder'] }, 404],
+  ['record.inspect', 'a steward of another club', { actorId: me, ownerId: other, roles: null }, 404],
   ['job.admin', 'a job of no club', { actorId: me, roles: null }, 404],
   ['job.admin', 'an admin of its club', { actorId: me, roles: ['admin', 'steward'] }, true],
 ];

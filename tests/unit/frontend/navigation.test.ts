@@ -11,11 +11,11 @@ describe('the app menu', () => {
   test.each<[Role[], string[]]>([
     [[], ['Overview', 'Bench tools', 'Account']],
     [['builder'], ['Overview', 'Garage', 'Tube stock', 'Bench tools', 'Account']],
-    [['steward'], ['Overview', 'Review queue', 'Bench tools', 'Account']],
-    [['admin'], ['Overview', 'Tube stock', 'Members', 'Rulebooks', 'Activity log', 'Bench tools', 'Account']],
+    [['steward'], ['Overview', 'Review queue', 'Cage records', 'Bench tools', 'Account']],
+    [['admin'], ['Overview', 'Tube stock', 'Cage records', 'Members', 'Rulebooks', 'Activity log', 'Bench tools', 'Account']],
     [
       ['builder', 'steward', 'admin'],
-      ['Overview', 'Garage', 'Tube stock', 'Review queue', 'Members', 'Rulebooks', 'Activity log', 'Bench tools', 'Account'],
+      ['Overview', 'Garage', 'Tube stock', 'Review queue', 'Cage records', 'Members', 'Rulebooks', 'Activity log', 'Bench tools', 'Account'],
     ],
   ])('roles %j in the current club show %j', (roles, expected) => {
     expect(labels(roles)).toEqual(expected);

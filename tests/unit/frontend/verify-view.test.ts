@@ -30,9 +30,23 @@ test('a check-run code is answered as a pre-check of its date, not a cage record
   expect(document.querySelector('[data-test="verify-status"]')).toBeNull();
 });
 
-test('a cage record code still shows the record', async () => {
-  mock.on('GET', /^\/api\/verify\//, json(200, { kind: 'cage_record', record: { carName: 'Grey hatch', raceNumber: '27', className: 'Open Sprint', rulebookTitle: 'Tarnwick', edition: '2027', status: 'valid' } }));
+test('a cage record code shows the record: number, club, make and model, expiry and the latest seal', async () => {
+  mock.on('GET', /^\/api\/verify\//, json(200, {
+    kind: 'cage_record',
+    record: {
+      recordNumber: 'TVMC-2026-0007', clubName: 'Tarnwick Vale Motor Club', carName: 'Grey hatch', make: 'Varden', model: 'Corsair', raceNumber: '27',
+      className: 'Open Sprint', rulebookTitle: 'Tarnwick', edition: '2027', status: 'valid', expiresAt: '2027-12-02T10:00:00.000Z', expiresOn: '2027-12-02',
+      lastInspection: { inspectedOn: '2027-03-14', sealNumber: 'TV-S-0417' },
+    },
+  }));
   await mountAt('/verify/ABCD', VerifyView);
   await settle();
-  expect(document.querySelector('[data-test="verify-status"]')!.textContent).toContain('Valid');
+  const text = (sel: string) => document.querySelector(`[data-test="${sel}"]`)!.textContent!.trim();
+  expect(text('verify-status')).toContain('Valid');
+  expect(text('verify-number')).toBe('TVMC-2026-0007');
+  expect(text('verify-club')).toBe('Tarnwick Vale Motor Club');
+  expect(text('verify-make-model')).toBe('Varden Corsair');
+  expect(text('verify-expiry')).toBe('2 Dec 2027');
+  expect(text('verify-inspection')).toContain('14 Mar 2027, seal TV-S-0417');
+  expect(document.querySelectorAll('img')).toHaveLength(0);
 });

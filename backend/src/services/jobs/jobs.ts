@@ -68,6 +68,11 @@ export interface JobsOptions {
   staleAfterSeconds?: number;
   /** How often the running attempt writes its heartbeat; default a sixth of staleAfterSeconds. */
   heartbeatSeconds?: number;
+  /**
+   * Run pg-boss's cron timekeeper so `schedule` fires (the server turns it on; tests leave it off).
+   * Every process may run it: pg-boss sends one job per schedule and minute whichever process fires.
+   */
+  cron?: boolean;
 }
 
 export interface Jobs extends JobControl {
@@ -78,6 +83,11 @@ export interface Jobs extends JobControl {
   getProgress(jobId: string): Promise<JobProgress | null>;
   /** Looks for jobs whose worker died now (it also runs on a timer); returns the ids handed back. */
   reapStale(): Promise<string[]>;
+  /**
+   * Sends a job to `queue` on a cron schedule (UTC), for every process of the deployment: stored by
+   * pg-boss under the queue's name, so calling it again (each start, each process) replaces it.
+   */
+  schedule(queue: string, cron: string, data?: object): Promise<void>;
   /** The queue as pg-boss has it (tests check the options reached it). */
   queueInfo(name: string): Promise<{ retryLimit: number; retryDelay: number; expireInSeconds: number } | null>;
 }
@@ -113,8 +123,8 @@ export function createJobs(config: Pick<Config, 'databaseUrl'>, logger: Logger, 
   const boss = new PgBoss({
     db: { executeSql: (text, values) => pool.query(text, values) },
     schema,
-    // No cron schedules are used; skip their polling.
-    schedule: false,
+    // Cron schedules (expiry reminders) only where asked for; otherwise skip their polling.
+    schedule: options.cron ?? false,
   });
   boss.on('error', (err) => logger.warn('job queue error', { ...errorFields(err), stack: undefined }));
   const progress = createJobProgressStore(sql);
@@ -322,6 +332,12 @@ export function createJobs(config: Pick<Config, 'databaseUrl'>, logger: Logger, 
     },
 
     reapStale,
+
+    async schedule(queue, cron, data = {}) {
+      assertStarted();
+      await ensureQueue(queue);
+      await boss.schedule(queue, cron, data, { tz: 'UTC' });
+    },
 
     async queueInfo(name) {
       const q = (await boss.getQueue(name)) as { retryLimit: number; retryDelay: number; expireInSeconds: number } | null;

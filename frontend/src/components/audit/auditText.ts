@@ -29,6 +29,8 @@ export const actionLabels: Record<string, string> = {
   'ruleset.recheck_completed': 'Build sheets re-checked',
   'cage_record.issued': 'Cage record issued',
   'cage_record.revoked': 'Cage record revoked',
+  'cage_record.inspected': 'Track inspection recorded',
+  'cage_record.expiry_reminded': 'Expiry reminder e-mailed',
   'club.record_settings_changed': 'Cage record settings changed',
   'club.settings_changed': 'Club time zone changed',
   'submission.submit': 'Sent for review',
@@ -390,6 +392,18 @@ export function auditSentence(entry: AuditEntry, clubId: string): SentencePart[]
         .say(' of ')
         .car(car)
         .note(d.reason);
+      break;
+    case 'cage_record.inspected': {
+      s.actor(entry).say(' inspected ').car(car).say(' at the track, record ').record(record, d.number).say(`, seal ${text(d.sealNumber)}`);
+      const readings = count(d.readings);
+      const low = count(d.belowMinimum);
+      s.say(readings ? `: ${plural(readings, 'wall reading')}${low ? `, ${low} under the rulebook’s minimum` : ''}` : ', no wall readings');
+      break;
+    }
+    case 'cage_record.expiry_reminded':
+      s.say('The builder of ').car(car).say(' was e-mailed that cage record ').record(record, d.number).say(
+        typeof d.expiresAt === 'string' ? ` expires on ${new Date(d.expiresAt).toLocaleDateString(undefined, { dateStyle: 'medium' })}` : ' expires soon',
+      );
       break;
     case 'club.record_settings_changed':
       s.actor(entry).say(` changed the cage record settings${recordSettings(d)}`);

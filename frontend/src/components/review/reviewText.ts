@@ -2,6 +2,7 @@
 // verdict words are the server's too (contracts/verdict-words.ts): the PDF and the mail say the same.
 import type { RecordStatus, SubmissionState } from '@/api/review';
 import { SUBMISSION_STATE_WORDS, submissionStateText } from '@contracts/verdict-words';
+import { RECORD_STATUS_WORDS } from '@contracts/record-words';
 
 export { approvedText, reviewVerdictText, submissionStateText, SUBMISSION_STATE_SHORT } from '@contracts/verdict-words';
 
@@ -35,11 +36,12 @@ export const ACTION_LABELS: Readonly<Record<string, string>> = {
   withdraw: 'Withdrew',
 };
 
+/** The shared words (contracts/record-words.ts): the records page, a record's card and the mail agree. */
 export const RECORD_STATUS_LABELS: Readonly<Record<RecordStatus, string>> = {
-  valid: 'Valid',
-  expired: 'Expired',
-  superseded: 'Superseded by a newer record',
-  revoked: 'Revoked',
+  valid: RECORD_STATUS_WORDS.valid.label,
+  expired: RECORD_STATUS_WORDS.expired.label,
+  superseded: RECORD_STATUS_WORDS.superseded.label,
+  revoked: RECORD_STATUS_WORDS.revoked.label,
 };
 
 /** "3 days ago", "today": how long a submission has waited. */
