@@ -237,6 +237,10 @@ function submissionSentence(s: Sentence, entry: AuditEntry): boolean {
       if (d.from === null || d.from === undefined) {
         s.actor(entry).say(' resubmitted ').car(car).say(' for review after the changes asked');
         if (sheet) s.say(', build sheet ').sheet(sheet);
+        if (text(d.returnedToName))
+          s.say('; it went back to ')
+            .person({ id: text(d.returnedToId), name: text(d.returnedToName), open: !!text(d.returnedToId) })
+            .say(', who asked for them');
       } else {
         s.actor(entry)
           .say(' answered the changes asked on ')
@@ -249,7 +253,9 @@ function submissionSentence(s: Sentence, entry: AuditEntry): boolean {
       s.actor(entry).say(' took up the review of ').car(car);
       return true;
     case 'release':
-      s.actor(entry).say(' put the review of ').car(car).say(' back in the queue').note(d.note);
+      if (d.from === 'changes_requested')
+        s.actor(entry).say(' let any steward take the resubmission of ').car(car).note(d.note);
+      else s.actor(entry).say(' put the review of ').car(car).say(' back in the queue').note(d.note);
       return true;
     case 'waive':
       s.actor(entry)
