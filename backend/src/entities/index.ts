@@ -20,6 +20,7 @@ import { ClubStockSeed, StockTube } from './stock-tube.entity';
 import { JournalEntry, JournalPhoto } from './journal.entity';
 import { HoopLegMeasurement } from './hoop-leg-measurement.entity';
 import { PasswordReset } from './password-reset.entity';
+import { CarTransfer } from './car-transfer.entity';
 
 export { Club, Invitation, Membership, User, PasswordReset };
 export { clubRoles, type ClubRole } from './membership.entity';
@@ -35,7 +36,9 @@ export { Submission, SubmissionEvent, FindingAnnotation, CageRecord, CageRecordS
 export { StockTube, ClubStockSeed, JournalEntry, JournalPhoto, HoopLegMeasurement };
 export type { MeasuredLeg } from './hoop-leg-measurement.entity';
 export { stockMaterials, stockProcesses } from './stock-tube.entity';
+export { CarTransfer };
+export { carTransferStates, type CarTransferState } from './car-transfer.entity';
 
 export const entities = [User, Club, Membership, Invitation, Rulebook, RulesetVersion, CheckRun, Car, BuildSheet, BuildSheetRevision, Photo, OutboxMessage, AuditEntry,
   Submission, SubmissionEvent, FindingAnnotation, CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn,
-  StockTube, ClubStockSeed, JournalEntry, JournalPhoto, PasswordReset, HoopLegMeasurement];
+  StockTube, ClubStockSeed, JournalEntry, JournalPhoto, PasswordReset, HoopLegMeasurement, CarTransfer];

@@ -27,6 +27,7 @@ import { createFabricationService, type FabricationService } from './fabrication
 import { createFabricationSettingsService } from './fabrication-settings.service';
 import { createClubSettingsService, type ClubSettingsService } from './club-settings.service';
 import { createSheetEditionService, type SheetEditionService } from './sheet-editions.service';
+import { createCarTransferService, type CarTransferService } from './car-transfers.service';
 
 export interface Services {
   /** The access policy's look-ups for the route guards (roles in a club, roles anywhere). */
@@ -55,6 +56,7 @@ export interface Services {
   fabrication: FabricationService;
   clubSettings: ClubSettingsService;
   sheetEditions: SheetEditionService;
+  carTransfers: CarTransferService;
 }
 
 export function createServices(
@@ -118,5 +120,6 @@ export function createServices(
     fabrication: createFabricationService(ds, { buildSheets, settings: fabricationSettings }),
     clubSettings,
     sheetEditions: createSheetEditionService(ds, { rulesets, buildSheets }),
+    carTransfers: createCarTransferService(ds, { audit, mail, publicUrl: options.publicUrl }),
   };
 }

@@ -90,7 +90,8 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
       return ds.transaction(async (tx) => {
         const { run, sheet, car, photoIds } = await runToSubmit(tx, body.checkRunId, userId);
         const roles = await rolesOf(tx, userId, sheet.clubId);
-        const resubmittable = await tx.getRepository(Submission).findOne({ where: { buildSheetId: sheet.id, state: 'changes_requested', resubmittedAsId: IsNull() } });
+        // Only the caller's own request for changes: after a car is sold, its new owner submits afresh.
+        const resubmittable = await tx.getRepository(Submission).findOne({ where: { buildSheetId: sheet.id, state: 'changes_requested', resubmittedAsId: IsNull(), builderId: userId } });
         if (resubmittable)
           throw new ConflictError('A steward asked for changes on this build sheet: resubmit that submission instead, so the steward sees what changed.', { reason: 'resubmit_instead', submissionId: resubmittable.id });
         const result = submitForReview({ id: randomUUID(), checkRunId: run.id, checkRunOwnerId: run.createdById, findings: run.report.findings }, { id: userId, roles });
