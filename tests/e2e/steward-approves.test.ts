@@ -3,7 +3,7 @@
 // size in the specification table, opens the check run's PDF in a new page (a PDF, never embedded), chooses
 // Approve (nothing is preselected) and confirms the dialog that names the car and its waivers. Then the
 // builder offers the car by e-mail to a new member of the club, who takes it over from their garage; the
-// car, its sheet and its cage record are then theirs. Screens in .artifacts/screens/steward-approves-*.png
+// car, its sheet and its cage record are then theirs; a club admin moves it back from the members page. Screens in .artifacts/screens/steward-approves-*.png
 // and car-transfer-*.png, at 1280 and 390 px.
 import type { Page } from 'playwright-core';
 import { expect, inject } from 'vitest';
@@ -180,6 +180,26 @@ test('the steward approves from the specification table; the car is sold and the
     await builder.getByRole('heading', { name: 'Garage' }).waitFor();
     await builder.locator('.garage__cars, .empty').first().waitFor();
     expect(await builder.getByRole('article', { name: carName }).count()).toBe(0);
+
+    // A club admin can move it back outright, from the members page, after a confirm naming both people.
+    // (Signed in already, through the API with the page's own cookies.)
+    const admin = adminSession.page;
+    await admin.goto(`${baseUrl}/clubs/${clubId}/members`);
+    const move = admin.getByRole('region', { name: 'Move a car to another member' });
+    await move.locator('#ccm-car option', { hasText: carName }).first().waitFor({ state: 'attached' });
+    const carOption = await move.locator('#ccm-car option', { hasText: carName }).first().getAttribute('value');
+    await move.locator('#ccm-car').selectOption(carOption!);
+    await move.locator('#ccm-to').selectOption({ label: `Robin Ashcombe (${demoUsers.builder})` });
+    await move.getByRole('button', { name: 'Move the car' }).click();
+    const moveDialog = admin.getByRole('alertdialog');
+    await moveDialog.waitFor();
+    expect(await moveDialog.innerText()).toContain(`Move ${carName} to Robin Ashcombe?`);
+    await shot(admin, 'car-transfer-admin-move');
+    await phoneShot(admin, 'car-transfer-admin-move-390');
+    await moveDialog.getByRole('button', { name: 'Move the car' }).click();
+    await admin.getByText(`${carName} moved to Robin Ashcombe`).waitFor();
+    await builder.goto(`${baseUrl}/garage`);
+    await builder.getByRole('article', { name: carName }).waitFor();
     expect([...browser.pageErrors, ...others.flatMap((o) => o.pageErrors)]).toEqual([]);
   } finally {
     for (const o of others) await o.close();
