@@ -22,6 +22,7 @@ import { createAuthRouter } from './routes/auth.routes';
 import { createPasswordResetRouter } from './routes/password-reset.routes';
 import { createBuildSheetsRouter } from './routes/build-sheets.routes';
 import { createCarsRouter } from './routes/cars.routes';
+import { createCarTransfersRouter } from './routes/car-transfers.routes';
 import { createCheckRunsReportRouter } from './routes/check-runs-report.routes';
 import { createPhotosRouter } from './routes/photos.routes';
 import { createChecksRouter } from './routes/checks.routes';
@@ -183,6 +184,7 @@ export function createApp(options: CreateAppOptions): Express {
   use(createChecksRouter({ services }));
   use(createGeometryRouter());
   use(createCarsRouter({ services }));
+  use(createCarTransfersRouter({ services }));
   use(createBuildSheetsRouter({ services }));
   use(createPhotosRouter({ services }));
   use(createCheckRunsReportRouter({ services }));

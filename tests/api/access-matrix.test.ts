@@ -73,6 +73,9 @@ const EXPECT: Record<string, Record<Actor, Cell>> = {
   'record.revoke': row(401, 403, 404, 'ok', 404, 'ok', 404),
   'record.inspect': row(401, 403, 404, 'ok', 404, 'ok', 404),
   'job.admin': row(401, 403, 403, 403, 404, 'ok', 404),
+  // A car the owner offered to the other builder of the club.
+  'transfer.recipient': row(401, 403, 'ok', 404, 404, 404, 404),
+  'transfer.sender': row(401, 'ok', 403, 404, 404, 404, 404),
 };
 
 interface Req {
@@ -295,7 +298,27 @@ const FIXTURES: Record<string, Fixture> = {
   'GET /api/dev/mailbox': {},
   'GET /api/dev/mailbox/:id': { req: () => ({ params: { id: ids.mail! } }) },
   'DELETE /api/dev/mailbox': { ok: 204 },
+  // Every request its own car (a car holds one open offer), offered to the club's other builder.
+  'POST /api/cars/:carId/transfer-offers': { ok: 201, req: async () => ({ params: { carId: await spareCar() }, body: { email: people.otherBuilder } }) },
+  'GET /api/car-transfers': {},
+  'POST /api/car-transfers/:transferId/accept': { req: async () => ({ params: { transferId: await offeredCar() } }) },
+  'POST /api/car-transfers/:transferId/decline': { req: async () => ({ params: { transferId: await offeredCar() } }) },
+  'POST /api/car-transfers/:transferId/withdraw': { req: async () => ({ params: { transferId: await offeredCar() } }) },
+  'GET /api/clubs/:clubId/cars': {},
+  'POST /api/clubs/:clubId/cars/:carId/transfer': { req: async () => ({ params: { carId: (await carWithSheet(who.owner, fx)).carId }, body: { toUserId: ids.otherBuilderId! } }) },
 };
+
+let spareCars = 0;
+async function spareCar(): Promise<string> {
+  const res = await who.owner.agent.post('/api/cars').set('X-CSRF-Token', who.owner.token).send({ name: `Car for sale ${++spareCars}`, chassisType: 'unibody' }).expect(201);
+  return res.body.car.id as string;
+}
+
+/** A car of the owner's, offered to the club's other builder. */
+async function offeredCar(): Promise<string> {
+  const res = await who.owner.agent.post(`/api/cars/${await spareCar()}/transfer-offers`).set('X-CSRF-Token', who.owner.token).send({ email: people.otherBuilder }).expect(201);
+  return res.body.transfer.id as string;
+}
 
 /** Parameters that name a thing by its UUID: the ones the "does not exist" column replaces. */
 const idParam = /^(?:\w+Id|id)$/;
@@ -446,6 +469,7 @@ beforeAll(async () => {
   )) as { job_id: string }[])[0]!.job_id;
   ids.mail = await createMailboxService(db.ds).store({ to: 'robin@tarnwick.example', from: 'Cagewright <no-reply@cagewright.example>', subject: 'Matrix', text: 'Hello', html: null });
   ids.invitation = await invitationToken();
+  ids.otherBuilderId = ((await db.ds.query(`SELECT id FROM users WHERE email = $1`, [people.otherBuilder])) as { id: string }[])[0]!.id;
 }, 180_000);
 
 describe('the access matrix', () => {

@@ -179,7 +179,8 @@ describe('changes requested and resubmission', () => {
       .send({ checkRunId: runId, note: 'Door bars now 0.095 in wall.', expected: { state: old.state, version: old.version } });
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     const next = res.body.submission;
-    expect(next).toMatchObject({ state: 'pending', previousSubmissionId: first.submissionId, builderNote: 'Door bars now 0.095 in wall.' });
+    // Back with the steward who asked for the changes (tests/api/review-return.test.ts has the rest).
+    expect(next).toMatchObject({ state: 'in_review', assignedSteward: { displayName: 'Imogen Feld' }, previousSubmissionId: first.submissionId, builderNote: 'Door bars now 0.095 in wall.' });
     expect(next.changesSince).toMatchObject({ previousSubmissionId: first.submissionId, fromRevision: 1, toRevision: 2, rulesetChanged: false });
     expect(next.changesSince.changes.some((c: { subjectId: string; field: string }) => c.subjectId === 'db1' && c.field === 'wallMm')).toBe(true);
     expect(next.history).toEqual([expect.objectContaining({ id: first.submissionId, state: 'changes_requested' })]);

@@ -130,10 +130,11 @@ describe('a request for changes answered by a resubmission', () => {
     expect(after.counts.changes_requested).toBe(askedCount - 1);
     const all = (await steward.agent.get(`${url}?state=all`).expect(200)).body.items;
     expect(all.find((i: { id: string }) => i.id === first.submissionId)).toMatchObject({ state: 'changes_requested', resubmittedAsId: res.body.submission.id });
-    // The garage shows the sheet's latest submission: the resubmission, sent for review.
+    // The garage shows the sheet's latest submission: the resubmission, back with the steward who asked
+    // for the changes (tests/api/review-return.test.ts), so being reviewed.
     const cars = (await builder.agent.get('/api/cars').expect(200)).body.cars as { buildSheets: { id: string; review: { submissionId: string; state: string } | null }[] }[];
     const sheet = cars.flatMap((c) => c.buildSheets).find((b) => b.id === first.sheetId)!;
-    expect(sheet.review).toMatchObject({ submissionId: res.body.submission.id, state: 'pending' });
+    expect(sheet.review).toMatchObject({ submissionId: res.body.submission.id, state: 'in_review' });
     const detail = await current(builder, first.submissionId);
     expect(submissionStateText(detail.state as 'changes_requested', { resubmitted: detail.resubmittedAsId !== null })).toBe('Changes made and resubmitted');
   });

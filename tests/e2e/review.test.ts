@@ -130,7 +130,9 @@ test('a builder submits a check, a steward asks for changes, approves the resubm
     await screenshot(builder, 'review-check-run-resubmit');
     await builder.locator('[data-test="submit-review"]').click();
     await builder.waitForURL(/\/submissions\//);
-    await expect.poll(() => stateTag(builder).innerText()).toBe('Waiting for a steward');
+    // It goes back to the steward who asked for the changes, already claimed by them.
+    await expect.poll(() => stateTag(builder).innerText()).toBe('In review');
+    expect(await builder.locator('[data-test="claimed-by"]').innerText()).toContain('Imogen Feld');
 
     // The steward sees what changed and approves.
     await openFromQueue(steward, true);
@@ -138,13 +140,16 @@ test('a builder submits a check, a steward asks for changes, approves the resubm
     await changes.waitFor();
     expect(await changes.innerText()).toContain('Lower the harness bar a little.');
     expect(await changes.locator('[data-test="changes"] li').count()).toBeGreaterThan(0);
-    await steward.locator('[data-test="claim"]').click();
+    expect(await steward.locator('[data-test="claim"]').count()).toBe(0);
     await expect.poll(() => stateTag(steward).innerText()).toBe('In review');
     expect(await steward.locator('[data-test="blocking"]').count()).toBe(0);
     await steward.getByRole('form', { name: 'Decision' }).getByText('Approve', { exact: true }).click();
     await steward.locator('#decision-text').fill('Good work, see you at scrutineering.');
     await screenshot(steward, 'review-steward-resubmission');
     await steward.locator('[data-test="decide"]').click();
+    const confirmBox = steward.getByRole('dialog', { name: `Approve ${carName} (No. 63)?` });
+    await confirmBox.waitFor();
+    await confirmBox.locator('[data-test="decision-accept"]').click();
     await expect.poll(() => stateTag(steward).innerText()).toBe('Approved');
     const recordCard = steward.getByRole('region', { name: 'Cage record' });
     await recordCard.waitFor();

@@ -92,6 +92,11 @@ test('a waived finding, an approval, and every screen, the mail and the PDF say 
     await screenshot(steward, 'waiver-steward-waived');
     await steward.getByRole('form', { name: 'Decision' }).getByText('Approve', { exact: true }).click();
     await steward.locator('[data-test="decide"]').click();
+    // The confirmation names the car and the waiver in verdict-words' wording.
+    const confirmBox = steward.getByRole('dialog');
+    await confirmBox.waitFor();
+    expect(await confirmBox.innerText()).toContain('“Approved with 1 waiver”');
+    await confirmBox.locator('[data-test="decision-accept"]').click();
     await expect.poll(() => state.innerText()).toBe('Approved with 1 waiver');
     await screenshot(steward, 'waiver-steward-approved');
 

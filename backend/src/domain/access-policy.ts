@@ -24,6 +24,8 @@ export interface AccessFacts {
   ownerId?: string | null;
   /** A ruleset version that is still a draft: only the club's admins know it exists. */
   draft?: boolean;
+  /** A car transfer's buyer (its `ownerId` is the seller who offered it). */
+  recipientId?: string | null;
 }
 
 export type Refusal = { allowed: false; status: 401 | 403 | 404 };
@@ -59,7 +61,7 @@ interface AccessRule {
   /** The rule in plain words, for docs/api.md and the OpenAPI document. */
   summary: string;
   /** What the rule is about: the route parameter or body field that names it (none: no one thing). */
-  subject: 'none' | 'self' | 'club' | 'car' | 'sheet' | 'checkRun' | 'version' | 'rulebook' | 'submission' | 'record' | 'job';
+  subject: 'none' | 'self' | 'club' | 'car' | 'sheet' | 'checkRun' | 'version' | 'rulebook' | 'submission' | 'record' | 'job' | 'transfer';
   decide(f: AccessFacts): Verdict;
 }
 
@@ -114,6 +116,11 @@ export const ACCESS_RULES = {
     isReviewer(f.roles) ? allow : isOwner(f) ? forbidden : hidden),
   'record.inspect': rule('record', 'The stewards and admins of the record’s club, never on their own car (403 for the car’s owner, 404 for anyone else).', (f) =>
     !isReviewer(f.roles) ? (isOwner(f) ? forbidden : hidden) : isOwner(f) ? forbidden : allow),
+
+  'transfer.recipient': rule('transfer', 'The person the car is offered to; the seller who offered it gets 403, anyone else 404.', (f) =>
+    f.actorId !== null && f.recipientId === f.actorId ? allow : isOwner(f) ? forbidden : hidden),
+  'transfer.sender': rule('transfer', 'The seller who offered the car; the person it is offered to gets 403, anyone else 404.', (f) =>
+    isOwner(f) ? allow : f.actorId !== null && f.recipientId === f.actorId ? forbidden : hidden),
 
   'job.admin': rule('job', 'Admins of the job’s club (403 for its other members, 404 for anyone else and for jobs of no club).', (f) => clubRole(f, 'admin')),
 } satisfies Record<string, AccessRule>;

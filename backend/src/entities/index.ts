@@ -21,6 +21,7 @@ import { JournalEntry, JournalPhoto } from './journal.entity';
 import { HoopLegMeasurement } from './hoop-leg-measurement.entity';
 import { PasswordReset } from './password-reset.entity';
 import { CageRecordInspection } from './cage-record-inspection.entity';
+import { CarTransfer } from './car-transfer.entity';
 
 export { Club, Invitation, Membership, User, PasswordReset };
 export { clubRoles, type ClubRole } from './membership.entity';
@@ -37,7 +38,10 @@ export { StockTube, ClubStockSeed, JournalEntry, JournalPhoto, HoopLegMeasuremen
 export type { StoredInspectionReading } from './cage-record-inspection.entity';
 export type { MeasuredLeg } from './hoop-leg-measurement.entity';
 export { stockMaterials, stockProcesses } from './stock-tube.entity';
+export { CarTransfer };
+export { carTransferStates, type CarTransferState } from './car-transfer.entity';
 
 export const entities = [User, Club, Membership, Invitation, Rulebook, RulesetVersion, CheckRun, Car, BuildSheet, BuildSheetRevision, Photo, OutboxMessage, AuditEntry,
   Submission, SubmissionEvent, FindingAnnotation, CageRecord, CageRecordSequence, ClubRecordSettings, StewardMailOptIn,
   StockTube, ClubStockSeed, JournalEntry, JournalPhoto, PasswordReset, HoopLegMeasurement, CageRecordInspection];
+  StockTube, ClubStockSeed, JournalEntry, JournalPhoto, PasswordReset, HoopLegMeasurement, CarTransfer];

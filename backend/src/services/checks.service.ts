@@ -148,9 +148,15 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService, opt
 
   async function visibleRun(run: CheckRun | null, viewerUserId: string, notFound: string): Promise<CheckRunWire> {
     if (!run) throw new NotFoundError(notFound);
-    // Whoever saved the run needs no roles; spare the query.
-    const roles = run.createdById === viewerUserId ? null : ((await rulesets.access(run.rulesetVersionId, viewerUserId))?.roles ?? null);
-    enforce('checkRun.read', { actorId: viewerUserId, ownerId: run.createdById, roles }, { notFound });
+    // Whoever saved the run needs no roles; spare the query. A run of a build sheet is also the car's:
+    // after a sale its new owner reads the runs the seller saved (the sheet and its PDF reports follow the car).
+    const carOwner: { owner_id: string }[] = run.createdById === viewerUserId || !run.buildSheetRevisionId ? [] : await ds.query(
+      `SELECT c.owner_id FROM build_sheet_revisions r JOIN build_sheets s ON s.id = r.build_sheet_id JOIN cars c ON c.id = s.car_id WHERE r.id = $1`,
+      [run.buildSheetRevisionId],
+    );
+    const ownerId = carOwner[0]?.owner_id === viewerUserId ? viewerUserId : run.createdById;
+    const roles = ownerId === viewerUserId ? null : ((await rulesets.access(run.rulesetVersionId, viewerUserId))?.roles ?? null);
+    enforce('checkRun.read', { actorId: viewerUserId, ownerId, roles }, { notFound });
     return runView(run, run.createdBy ?? null);
   }
 

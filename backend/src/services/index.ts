@@ -29,6 +29,7 @@ import { createFabricationSettingsService } from './fabrication-settings.service
 import { createClubSettingsService, type ClubSettingsService } from './club-settings.service';
 import { createSheetEditionService, type SheetEditionService } from './sheet-editions.service';
 import { createSideBySideService, type SideBySideService } from './side-by-side.service';
+import { createCarTransferService, type CarTransferService } from './car-transfers.service';
 
 export interface Services {
   /** The access policy's look-ups for the route guards (roles in a club, roles anywhere). */
@@ -60,6 +61,7 @@ export interface Services {
   clubSettings: ClubSettingsService;
   sheetEditions: SheetEditionService;
   sideBySide: SideBySideService;
+  carTransfers: CarTransferService;
 }
 
 export function createServices(
@@ -125,5 +127,6 @@ export function createServices(
     clubSettings,
     sheetEditions: createSheetEditionService(ds, { rulesets, buildSheets }),
     sideBySide: createSideBySideService(ds, { rulesets, checks }),
+    carTransfers: createCarTransferService(ds, { audit, mail, publicUrl: options.publicUrl }),
   };
 }

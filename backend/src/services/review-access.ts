@@ -32,7 +32,11 @@ export async function submissionFor(em: EntityManager, submissionId: string, use
   const row = await em.getRepository(Submission).findOne({ where: { id: submissionId }, ...(lock ? { lock: { mode: 'pessimistic_write' as const } } : {}) });
   if (!row) throw notFound();
   const roles = await rolesOf(em, userId, row.clubId);
-  enforce('submission.read', { actorId: userId, ownerId: row.builderId, roles }, { notFound: 'Submission not found.' });
+  // The car's owner reads its submissions too: after a sale the new owner sees the car's review history
+  // (the workflow's builder-only actions still ask for the builder who submitted).
+  const carOwner: { owner_id: string }[] = row.builderId === userId ? [] : await em.query(`SELECT owner_id FROM cars WHERE id = $1`, [row.carId]);
+  const ownerId = carOwner[0]?.owner_id === userId ? userId : row.builderId;
+  enforce('submission.read', { actorId: userId, ownerId, roles }, { notFound: 'Submission not found.' });
   return { row, roles, isBuilder: row.builderId === userId };
 }
 

@@ -160,7 +160,8 @@ export function createReviewReader(ds: DataSource, deps: { records: CageRecordSe
         record: recordRow ? await deps.records.view(ds.manager, recordRow, { userId, roles }) : null,
         can: {
           claim: isSteward && s.state === 'pending',
-          release: s.state === 'in_review' && ((isSteward && s.assignedStewardId === userId) || roles.includes('admin')),
+          release: (s.state === 'in_review' || (s.state === 'changes_requested' && !s.resubmittedAsId && s.assignedStewardId !== null))
+            && ((isSteward && s.assignedStewardId === userId) || roles.includes('admin')),
           decide: isSteward && s.state === 'in_review' && s.assignedStewardId === userId,
           withdraw: isBuilder && (s.state === 'pending' || s.state === 'in_review'),
           resubmit: isBuilder && s.state === 'changes_requested' && !s.resubmittedAsId,

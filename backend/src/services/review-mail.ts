@@ -93,14 +93,39 @@ export async function mailRevoked(
 /** Tells the club's opted-in stewards (never the builder themself) that a submission is waiting. */
 export async function mailNewSubmission(
   deps: ReviewMailDeps, em: EntityManager,
-  input: { clubId: string; clubName: string; carName: string; builderId: string; builderName: string; submissionId: string; resubmission: boolean },
+  input: {
+    clubId: string; clubName: string; carName: string; builderId: string; builderName: string; submissionId: string; resubmission: boolean;
+    /** The steward a resubmission went back to: told whether or not they asked for mail. */
+    returnedTo?: Person & { id: string };
+  },
 ): Promise<void> {
+  const back = input.returnedTo;
+  if (back) {
+    await deps.mail.enqueue(
+      {
+        to: back.email,
+        kind: 'review.submitted',
+        related: { clubId: input.clubId, submissionId: input.submissionId },
+        ...renderMail({
+          subject: `Back with you for review: ${input.carName}`,
+          greeting: `Hello ${back.displayName},`,
+          paragraphs: [
+            `${input.builderName} resubmitted a check of ${input.carName} in ${input.clubName} after the changes you asked for.`,
+            'It is claimed for you already. If another steward should take it, release it on the submission page.',
+          ],
+          action: { label: 'Open the submission', url: `${deps.publicUrl}/submissions/${input.submissionId}` },
+          reason: `You asked for the changes on this car as a steward of ${input.clubName}.`,
+        }),
+      },
+      { manager: em },
+    );
+  }
   const stewards: Person[] = await em.query(
     `SELECT u.email, u.display_name AS "displayName" FROM steward_mail_opt_ins o
        JOIN memberships m ON m.user_id = o.user_id AND m.club_id = o.club_id
        JOIN users u ON u.id = o.user_id
-     WHERE o.club_id = $1 AND 'steward' = ANY(m.roles) AND o.user_id <> $2`,
-    [input.clubId, input.builderId],
+     WHERE o.club_id = $1 AND 'steward' = ANY(m.roles) AND o.user_id <> $2 AND o.user_id <> $3`,
+    [input.clubId, input.builderId, back?.id ?? input.builderId],
   );
   for (const s of stewards) {
     await deps.mail.enqueue(
@@ -111,7 +136,10 @@ export async function mailNewSubmission(
         ...renderMail({
           subject: `${input.resubmission ? 'Resubmission' : 'New submission'} for review: ${input.carName}`,
           greeting: `Hello ${s.displayName},`,
-          paragraphs: [`${input.builderName} ${input.resubmission ? 'resubmitted' : 'submitted'} a check of ${input.carName} for review in ${input.clubName}.`],
+          paragraphs: [
+            `${input.builderName} ${input.resubmission ? 'resubmitted' : 'submitted'} a check of ${input.carName} for review in ${input.clubName}.`,
+            ...(back ? [`It went back to ${back.displayName}, who asked for the changes.`] : []),
+          ],
           action: { label: 'Open the submission', url: `${deps.publicUrl}/submissions/${input.submissionId}` },
           reason: `You asked to hear of new submissions as a steward of ${input.clubName}. Turn this off in the review queue.`,
         }),

@@ -29,6 +29,8 @@ interface SubmissionAbout {
   car: { id: string; name: string };
   sheet: { id: string; name: string };
   record?: { id: string; number: string };
+  /** A resubmission that went back to the steward who asked for the changes. */
+  returnedTo?: { id: string; name: string };
 }
 
 export type ReviewService = ReturnType<typeof createReviewService>;
@@ -41,12 +43,13 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
   async function storeEvent(tx: EntityManager, submissionId: string, clubId: string, event: AuditEvent, about: SubmissionAbout): Promise<void> {
     await tx.getRepository(SubmissionEvent).insert({ submissionId, fromState: event.from, toState: event.to, action: event.action, actorId: event.actorId, note: event.note });
     const record = about.record ? { recordId: about.record.id, recordNumber: about.record.number } : {};
+    const returned = about.returnedTo ? { returnedToId: about.returnedTo.id, returnedToName: about.returnedTo.name } : {};
     await deps.audit.record(
       {
         clubId, actorId: event.actorId, action: `submission.${event.action}`, entity: { type: 'submission', id: submissionId },
         details: {
           from: event.from, to: event.to, ...(event.note ? { note: event.note } : {}),
-          carId: about.car.id, carName: about.car.name, sheetId: about.sheet.id, sheetName: about.sheet.name, ...record,
+          carId: about.car.id, carName: about.car.name, sheetId: about.sheet.id, sheetName: about.sheet.name, ...record, ...returned,
         },
       },
       { manager: tx },
@@ -71,10 +74,13 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
     return { run, sheet: found.sheet, car: found.car, photoIds: photos.map((p) => p.id) };
   }
 
-  async function announce(tx: EntityManager, s: Submission, carName: string, resubmission: boolean): Promise<void> {
+  async function announce(tx: EntityManager, s: Submission, carName: string, resubmission: boolean, returnedTo: User | null = null): Promise<void> {
     const club = await tx.getRepository(Club).findOneByOrFail({ id: s.clubId });
     const builder = await tx.getRepository(User).findOneByOrFail({ id: s.builderId });
-    await mailNewSubmission(deps, tx, { clubId: club.id, clubName: club.name, carName, builderId: builder.id, builderName: builder.displayName, submissionId: s.id, resubmission });
+    await mailNewSubmission(deps, tx, {
+      clubId: club.id, clubName: club.name, carName, builderId: builder.id, builderName: builder.displayName, submissionId: s.id, resubmission,
+      ...(returnedTo ? { returnedTo: { id: returnedTo.id, email: returnedTo.email, displayName: returnedTo.displayName } } : {}),
+    });
   }
 
   const note = (text: string | undefined) => (text?.trim() ? text.trim() : null);
@@ -84,7 +90,8 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
       return ds.transaction(async (tx) => {
         const { run, sheet, car, photoIds } = await runToSubmit(tx, body.checkRunId, userId);
         const roles = await rolesOf(tx, userId, sheet.clubId);
-        const resubmittable = await tx.getRepository(Submission).findOne({ where: { buildSheetId: sheet.id, state: 'changes_requested', resubmittedAsId: IsNull() } });
+        // Only the caller's own request for changes: after a car is sold, its new owner submits afresh.
+        const resubmittable = await tx.getRepository(Submission).findOne({ where: { buildSheetId: sheet.id, state: 'changes_requested', resubmittedAsId: IsNull(), builderId: userId } });
         if (resubmittable)
           throw new ConflictError('A steward asked for changes on this build sheet: resubmit that submission instead, so the steward sees what changed.', { reason: 'resubmit_instead', submissionId: resubmittable.id });
         const result = submitForReview({ id: randomUUID(), checkRunId: run.id, checkRunOwnerId: run.createdById, findings: run.report.findings }, { id: userId, roles });
@@ -109,18 +116,22 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
         if (sheet.id !== prev.buildSheetId) throw new ValidationError([{ path: 'checkRunId', message: 'Resubmit a check run of the same build sheet.' }]);
         if (run.id === prev.checkRunId) throw new ValidationError([{ path: 'checkRunId', message: 'This is the check the steward already saw. Make the changes, run a new check, then resubmit.' }]);
         const prevRun = await tx.getRepository(CheckRun).findOneByOrFail({ id: prev.checkRunId });
-        const result = resubmit(toDomain(prev, prevRun.report), { id: randomUUID(), checkRunId: run.id, checkRunOwnerId: run.createdById, findings: run.report.findings }, { id: userId, roles }, body.expected);
+        // Back to the steward who asked for the changes, while they are still a steward of the club.
+        const asker = prev.assignedStewardId ? await tx.getRepository(User).findOneBy({ id: prev.assignedStewardId }) : null;
+        const returnTo = asker && (await rolesOf(tx, asker.id, prev.clubId)).includes('steward') ? asker : null;
+        const result = resubmit(toDomain(prev, prevRun.report), { id: randomUUID(), checkRunId: run.id, checkRunOwnerId: run.createdById, findings: run.report.findings }, { id: userId, roles }, body.expected, returnTo?.id ?? null);
         if (!result.ok) throw refusalError(result);
         const repo = tx.getRepository(Submission);
+        const returned = result.submission.assignedStewardId !== null && returnTo ? returnTo : null;
         const s = await repo.save(repo.create({
           id: result.submission.id, clubId: prev.clubId, carId: car.id, buildSheetId: sheet.id, checkRunId: run.id, builderId: userId,
-          state: 'pending', version: 1, classId: run.classId, builderNote: note(body.note), assignedStewardId: null, previousSubmissionId: prev.id,
+          state: result.submission.state, version: 1, classId: run.classId, builderNote: note(body.note), assignedStewardId: returned?.id ?? null, previousSubmissionId: prev.id,
           resubmittedAsId: null, waivers: [], photoIds, decisionNote: null, decidedAt: null,
         }));
         await repo.update({ id: prev.id, version: prev.version }, { resubmittedAsId: s.id, version: result.previous.version });
         await storeEvent(tx, prev.id, prev.clubId, result.events.previous, { car, sheet });
-        await storeEvent(tx, s.id, s.clubId, { ...result.events.submission, note: s.builderNote ?? result.events.submission.note }, { car, sheet });
-        await announce(tx, s, car.name, true);
+        await storeEvent(tx, s.id, s.clubId, { ...result.events.submission, note: s.builderNote ?? result.events.submission.note }, { car, sheet, ...(returned ? { returnedTo: { id: returned.id, name: returned.displayName } } : {}) });
+        await announce(tx, s, car.name, true, returned);
         return { id: s.id };
       });
     },

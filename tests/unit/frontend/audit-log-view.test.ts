@@ -219,6 +219,33 @@ describe('auditSentence', () => {
       { car, submission },
       'Sam Reyes answered the changes asked on Grey Saloon with a resubmission.',
     ],
+    [
+      'submission.resubmit',
+      { from: null, returnedToId: 'u-imogen', returnedToName: 'Imogen Feld' },
+      { car, sheet, submission },
+      'Sam Reyes resubmitted Grey Saloon for review after the changes asked, build sheet Full cage 2027; it went back to Imogen Feld, who asked for them.',
+    ],
+    [
+      'submission.release',
+      { from: 'changes_requested', to: 'changes_requested', note: 'Away for two events' },
+      { car, submission },
+      'Sam Reyes let any steward take the resubmission of Grey Saloon: Away for two events.',
+    ],
+    ['car.transfer_offered', { otherName: 'Robin Ashcombe' }, { car, person: robin }, 'Sam Reyes offered Grey Saloon to Robin Ashcombe.'],
+    [
+      'car.transfer_accepted',
+      { otherName: 'Robin Ashcombe' },
+      { car, person: robin },
+      'Sam Reyes took over Grey Saloon from Robin Ashcombe, with its build sheets and cage records.',
+    ],
+    ['car.transfer_declined', {}, { car, person: robin }, 'Sam Reyes declined the offer of Grey Saloon from Robin Ashcombe.'],
+    ['car.transfer_withdrawn', {}, { car, person: robin }, 'Sam Reyes withdrew the offer of Grey Saloon to Robin Ashcombe.'],
+    [
+      'car.transferred',
+      { fromUserId: 'u-lee', fromName: 'Lee Marr', otherName: 'Robin Ashcombe' },
+      { car, person: robin },
+      'Sam Reyes moved Grey Saloon from Lee Marr to Robin Ashcombe.',
+    ],
     ['submission.claim', {}, { car, submission }, 'Sam Reyes took up the review of Grey Saloon.'],
     [
       'submission.release',

@@ -23,6 +23,8 @@ beforeEach(() => {
   vi.stubGlobal('fetch', mock.fetch);
   mock.on('GET', '/api/auth/csrf', csrfToken('csrf-m'));
   mock.on('GET', membersPath, json(200, { members: [pat, robin] }));
+  // The "Move a car to another member" panel below the list (tests/unit/frontend/car-transfer.test.ts).
+  mock.on('GET', `/api/clubs/${tarnwick.id}/cars`, json(200, { cars: [] }));
 });
 afterEach(() => {
   document.body.innerHTML = '';

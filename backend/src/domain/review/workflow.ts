@@ -211,11 +211,18 @@ export function applyReviewAction(
       if (s.state !== 'pending')
         return refuse('wrong_state', `The submission is already ${STATE_WORDS[s.state]}.`);
       return next('in_review', { assignedStewardId: actor.id }, null);
-    case 'release':
-      if (s.state !== 'in_review')
+    case 'release': {
+      // A request for changes keeps its steward: the resubmission comes back to them (see `resubmit`)
+      // unless they let it go to the whole queue, which is this same release, before the builder answers.
+      const returning = s.state === 'changes_requested' && !s.resubmittedAsId && s.assignedStewardId !== null;
+      if (s.state !== 'in_review' && !returning)
         return refuse(
           'wrong_state',
-          `Only a claimed submission can be released; this one is ${STATE_WORDS[s.state]}.`,
+          s.state === 'changes_requested'
+            ? s.resubmittedAsId
+              ? 'The builder has already resubmitted; release the newer submission instead.'
+              : 'The resubmission of this submission already goes to every steward.'
+            : `Only a claimed submission can be released; this one is ${STATE_WORDS[s.state]}.`,
         );
       // An admin may free a claim its steward left behind; a steward only their own.
       if (s.assignedStewardId !== actor.id && !actor.roles.includes('admin'))
@@ -223,7 +230,8 @@ export function applyReviewAction(
           'not_assigned_steward',
           'Only the steward who claimed it (or a club admin) can release it.',
         );
-      return next('pending', { assignedStewardId: null }, optionalNote(action.note));
+      return next(returning ? 'changes_requested' : 'pending', { assignedStewardId: null }, optionalNote(action.note));
+    }
     case 'waive': {
       const problem = mustBeInReviewBy();
       if (problem) return problem;
@@ -347,13 +355,17 @@ export interface ResubmitResult {
 
 /**
  * After changes were requested the builder submits a new check run as a new submission linked to
- * the old one. Waivers are not carried over: the new report is a new set of findings.
+ * the old one. Waivers are not carried over: the new report is a new set of findings. The new one goes
+ * back to the steward who asked for the changes, already claimed by them (`in_review`), when
+ * `returnTo` names them: the caller passes the previous submission's steward while they still hold the
+ * steward role in the club and did not release it. Otherwise it waits in the queue (`pending`).
  */
 export function resubmit(
   previous: Submission,
   input: NewSubmissionInput,
   actor: ReviewActor,
   expected: Expected,
+  returnTo: string | null = null,
 ): ResubmitResult | ReviewRefusal {
   if (actor.id !== previous.builderId)
     return refuse('not_builder', 'Only the builder who submitted it can resubmit.');
@@ -375,7 +387,10 @@ export function resubmit(
       'already_resubmitted',
       'This submission has already been resubmitted; follow the newer one.',
     );
-  const submission = fresh(input, actor.id, previous.id);
+  const back = returnTo !== null && returnTo !== actor.id ? returnTo : null;
+  const submission: Submission = back
+    ? { ...fresh(input, actor.id, previous.id), state: 'in_review', assignedStewardId: back }
+    : fresh(input, actor.id, previous.id);
   return {
     ok: true,
     previous: { ...previous, resubmittedAsId: input.id, version: previous.version + 1 },
@@ -390,10 +405,12 @@ export function resubmit(
       },
       submission: {
         from: null,
-        to: 'pending',
+        to: submission.state,
         action: 'resubmit',
         actorId: actor.id,
-        note: `Resubmission of ${previous.id}`,
+        note: back
+          ? `Resubmission of ${previous.id}, back with the steward who asked for the changes`
+          : `Resubmission of ${previous.id}`,
       },
     },
   };

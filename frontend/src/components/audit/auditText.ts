@@ -52,6 +52,11 @@ export const actionLabels: Record<string, string> = {
   'journal.stage_changed': 'Build stage changed',
   'journal.stage_removed': 'Build stage removed',
   'journal.photos_added': 'Build journal photos added',
+  'car.transfer_offered': 'Car offered to a new owner',
+  'car.transfer_accepted': 'Car taken over',
+  'car.transfer_declined': 'Car offer declined',
+  'car.transfer_withdrawn': 'Car offer withdrawn',
+  'car.transferred': 'Car moved by an admin',
 };
 
 /** `ruleset.version_published` → "Ruleset: version published" for actions without a label yet. */
@@ -239,6 +244,10 @@ function submissionSentence(s: Sentence, entry: AuditEntry): boolean {
       if (d.from === null || d.from === undefined) {
         s.actor(entry).say(' resubmitted ').car(car).say(' for review after the changes asked');
         if (sheet) s.say(', build sheet ').sheet(sheet);
+        if (text(d.returnedToName))
+          s.say('; it went back to ')
+            .person({ id: text(d.returnedToId), name: text(d.returnedToName), open: !!text(d.returnedToId) })
+            .say(', who asked for them');
       } else {
         s.actor(entry)
           .say(' answered the changes asked on ')
@@ -251,7 +260,9 @@ function submissionSentence(s: Sentence, entry: AuditEntry): boolean {
       s.actor(entry).say(' took up the review of ').car(car);
       return true;
     case 'release':
-      s.actor(entry).say(' put the review of ').car(car).say(' back in the queue').note(d.note);
+      if (d.from === 'changes_requested')
+        s.actor(entry).say(' let any steward take the resubmission of ').car(car).note(d.note);
+      else s.actor(entry).say(' put the review of ').car(car).say(' back in the queue').note(d.note);
       return true;
     case 'waive':
       s.actor(entry)
@@ -453,6 +464,27 @@ export function auditSentence(entry: AuditEntry, clubId: string): SentencePart[]
         .say(` removed the ${stageLabel(d.stage)} stage of `)
         .sheet(sheet, text(d.sheetName) || 'a build sheet');
       if (text(d.happenedOn)) s.say(` (${text(d.happenedOn)})`);
+      break;
+    case 'car.transfer_offered':
+      s.actor(entry).say(' offered ').car(car).say(' to ').person(person, text(d.otherName));
+      break;
+    case 'car.transfer_accepted':
+      s.actor(entry).say(' took over ').car(car).say(' from ').person(person, text(d.otherName)).say(', with its build sheets and cage records');
+      break;
+    case 'car.transfer_declined':
+      s.actor(entry).say(' declined the offer of ').car(car).say(' from ').person(person, text(d.otherName));
+      break;
+    case 'car.transfer_withdrawn':
+      s.actor(entry).say(' withdrew the offer of ').car(car).say(' to ').person(person, text(d.otherName));
+      break;
+    case 'car.transferred':
+      s.actor(entry)
+        .say(' moved ')
+        .car(car)
+        .say(' from ')
+        .person(text(d.fromUserId) ? { id: text(d.fromUserId), name: text(d.fromName), open: false } : undefined, text(d.fromName) || 'its owner')
+        .say(' to ')
+        .person(person, text(d.otherName));
       break;
     case 'journal.photos_added':
       s.actor(entry)

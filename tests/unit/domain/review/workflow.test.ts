@@ -82,7 +82,8 @@ describe('every action from every state (right actor, fresh client)', () => {
   // [action, actor] → states it is allowed from and the state it leads to ('same' = unchanged).
   const table: [ReviewAction['type'], ReviewActor, Partial<Record<SubmissionState, SubmissionState>>][] = [
     ['claim', OTHER_STEWARD, { pending: 'in_review' }],
-    ['release', STEWARD, { in_review: 'pending' }],
+    // Releasing a request for changes lets its resubmission go to every steward; its state stays.
+    ['release', STEWARD, { in_review: 'pending', changes_requested: 'changes_requested' }],
     ['approve', STEWARD, { in_review: 'approved' }],
     ['request_changes', STEWARD, { in_review: 'changes_requested' }],
     ['reject', STEWARD, { in_review: 'rejected' }],
@@ -504,6 +505,25 @@ describe('submitting and resubmitting', () => {
       actorId: BUILDER.id,
       note: 'Resubmission of s1',
     });
+  });
+
+  test('the resubmission goes back to the steward who asked, already claimed by them', () => {
+    const previous = sub('changes_requested', { decisionNote: NOTE });
+    const r = resubmit(previous, input, BUILDER, { state: 'changes_requested', version: 3 }, STEWARD.id);
+    if (!r.ok) throw new Error(r.message);
+    expect(r.submission).toMatchObject({ state: 'in_review', assignedStewardId: STEWARD.id, previousSubmissionId: 's1' });
+    expect(r.events.submission).toMatchObject({ from: null, to: 'in_review', note: 'Resubmission of s1, back with the steward who asked for the changes' });
+    // Never back to the builder themself (a builder who is also a steward of the club).
+    const own = resubmit(previous, input, BUILDER, { state: 'changes_requested', version: 3 }, BUILDER.id);
+    expect(own.ok && own.submission).toMatchObject({ state: 'pending', assignedStewardId: null });
+  });
+
+  test('a released request for changes keeps its state and lets go of its steward', () => {
+    const r = applyReviewAction(sub('changes_requested'), { type: 'release', expected: { state: 'changes_requested', version: 3 } }, STEWARD);
+    expect(r.ok && r.submission).toMatchObject({ state: 'changes_requested', assignedStewardId: null, version: 4 });
+    expect(applyReviewAction(sub('changes_requested'), { type: 'release', expected: { state: 'changes_requested', version: 3 } }, OTHER_STEWARD)).toMatchObject({ ok: false, code: 'not_assigned_steward' });
+    expect(applyReviewAction(sub('changes_requested', { assignedStewardId: null }), { type: 'release', expected: { state: 'changes_requested', version: 3 } }, STEWARD)).toMatchObject({ ok: false, code: 'wrong_state' });
+    expect(applyReviewAction(sub('changes_requested', { resubmittedAsId: 's9' }), { type: 'release', expected: { state: 'changes_requested', version: 3 } }, STEWARD)).toMatchObject({ ok: false, code: 'wrong_state' });
   });
 
   test.each<[string, Submission, ReviewActor, number, string]>([
