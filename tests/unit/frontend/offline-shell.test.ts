@@ -77,7 +77,9 @@ test('a real 401 goes to sign-in and forgets who was kept', async () => {
 });
 
 test('the banner shows while the server cannot be reached and goes when it answers', async () => {
-  const w = mount(ConnectionBanner);
+  const router = createRouter({ history: createMemoryHistory(), routes: stub(routes) });
+  await router.push('/garage');
+  const w = mount(ConnectionBanner, { global: { plugins: [router] } });
   expect(w.find('[data-test="offline-banner"]').exists()).toBe(false);
   reportUnreachable();
   await nextTick();
