@@ -2,10 +2,36 @@
 import { fileURLToPath, URL } from 'node:url';
 import { defineConfig } from 'vite';
 import vue from '@vitejs/plugin-vue';
+import { VitePWA } from 'vite-plugin-pwa';
 
 export default defineConfig({
   root: fileURLToPath(new URL('.', import.meta.url)),
-  plugins: [vue()],
+  plugins: [
+    vue(),
+    // The app shell for poor signal (docs/decisions/0015-kept-on-this-device.md): the built files are
+    // precached, so a page seen once (the public verification page, a builder's own records) opens with
+    // no signal. /api is never cached: it is network-only and kept out of the navigation fallback; the
+    // app keeps its own last answer and says how old it is. The worker is registered by main.ts in
+    // production builds only; the dev server has none.
+    VitePWA({
+      strategies: 'generateSW',
+      injectRegister: false,
+      manifest: false,
+      workbox: {
+        globPatterns: ['**/*.{js,css,html,woff2,svg,png,ico}'],
+        // The 3D view's chunk is the largest; everything the app can load stays within this.
+        maximumFileSizeToCacheInBytes: 3 * 1024 * 1024,
+        navigateFallback: 'index.html',
+        navigateFallbackDenylist: [/^\/api(\/|$)/],
+        runtimeCaching: [{ urlPattern: ({ url }) => url.pathname === '/api' || url.pathname.startsWith('/api/'), handler: 'NetworkOnly' }],
+        cleanupOutdatedCaches: true,
+        clientsClaim: true,
+        // A new version waits until every tab of the old one is closed, so no open page asks for a
+        // chunk the new worker no longer has.
+        skipWaiting: false,
+      },
+    }),
+  ],
   resolve: {
     alias: {
       '@': fileURLToPath(new URL('./src', import.meta.url)),

@@ -36,3 +36,9 @@ http.onUnauthenticated(() => {
 });
 
 app.mount('#app');
+
+// The app-shell cache (vite.config.ts): production builds only, so the dev server and its hot reload
+// never meet a cached file. Scoped to the whole app; the worker leaves /api to the network.
+if (import.meta.env.PROD && 'serviceWorker' in navigator) {
+  window.addEventListener('load', () => void navigator.serviceWorker.register('/sw.js', { scope: '/' }).catch(() => undefined));
+}

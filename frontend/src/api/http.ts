@@ -1,7 +1,12 @@
 // The one configured API client: JSON over fetch with the session cookie, the CSRF token fetched once and
 // cached (sent on every state-changing request, refetched once after a `csrf_failed` 403), every error
 // turned into an ApiError, and a single hook for "not signed in" so pages never handle 401 themselves.
+// At the track the signal comes and goes: every call times out (15 s, a minute for files), a GET that
+// found no server is tried again after a pause (never a POST/PUT/PATCH/DELETE, which might have been
+// done once already), and what the client learns about the server feeds the offline banner
+// (connection.ts). Only a real 401 means "signed out"; an unreachable server never does.
 import { ApiError, apiErrorFromBody } from './errors';
+import { isGatewayStatus, reportReachable, reportUnreachable, setProbe } from './connection';
 
 type Method = 'GET' | 'POST' | 'PUT' | 'PATCH' | 'DELETE';
 
@@ -9,6 +14,10 @@ export interface RequestOptions {
   /** Leave a 401 to the caller instead of signing out (session probe at start-up, sign-in itself). */
   allowUnauthenticated?: boolean;
   signal?: AbortSignal;
+  /** Give up after this long without a whole answer (default DEFAULT_TIMEOUT_MS). */
+  timeoutMs?: number;
+  /** How often a GET is tried again when the server cannot be reached (default RETRY_DELAYS_MS.length). */
+  retries?: number;
 }
 
 export interface HttpClientOptions {
@@ -16,8 +25,38 @@ export interface HttpClientOptions {
   fetch?: typeof globalThis.fetch;
 }
 
+/** Long enough for a slow phone connection, short enough that a dead one is noticed. */
+export const DEFAULT_TIMEOUT_MS = 15_000;
+/** Files (PDFs) are made on the server and can be large. */
+export const FILE_TIMEOUT_MS = 60_000;
+/** An upload (photos through XMLHttpRequest) may take minutes on a weak signal, but not for ever. */
+export const UPLOAD_TIMEOUT_MS = 180_000;
+/** Pauses before each new try of a GET: a short one for a blip, a longer one for a tunnel. */
+export const RETRY_DELAYS_MS: readonly number[] = [600, 2000];
+
 const CSRF_HEADER = 'X-CSRF-Token';
 const STATE_CHANGING = new Set<Method>(['POST', 'PUT', 'PATCH', 'DELETE']);
+const UNREACHABLE_MESSAGE = 'Cannot reach the server. Check the connection and try again.';
+const TIMEOUT_MESSAGE = 'The server did not answer in time. Check the connection and try again.';
+
+/** An answer that arrived whole: the response and its body, read before the timeout. */
+interface Exchange {
+  response: Response;
+  parsed: unknown;
+  blob?: Blob;
+}
+
+/** True for failures where no server answered: worth a new try for a GET, and the offline banner. */
+export function isUnreachable(error: unknown): boolean {
+  return error instanceof ApiError && (error.status === 0 ? error.code !== 'aborted' : isGatewayStatus(error.status));
+}
+
+function sleep(ms: number, signal?: AbortSignal): Promise<void> {
+  return new Promise((resolve, reject) => {
+    const timer = setTimeout(resolve, ms);
+    signal?.addEventListener('abort', () => (clearTimeout(timer), reject(signal.reason as Error)), { once: true });
+  });
+}
 
 export function createHttpClient(options: HttpClientOptions = {}) {
   const baseUrl = options.baseUrl ?? '/api';
@@ -26,21 +65,59 @@ export function createHttpClient(options: HttpClientOptions = {}) {
   let csrfToken: Promise<string> | null = null;
   const unauthenticatedHandlers = new Set<() => void>();
 
-  async function send(method: Method, path: string, body: unknown, signal?: AbortSignal): Promise<Response> {
+  /** One try: the request and its whole body within the time allowed, or an ApiError (status 0). */
+  async function once(method: Method, path: string, body: unknown, opts: RequestOptions, asBlob: boolean): Promise<Exchange> {
     const headers: Record<string, string> = { Accept: 'application/json' };
     if (body !== undefined) headers['Content-Type'] = 'application/json';
     if (STATE_CHANGING.has(method)) headers[CSRF_HEADER] = await getCsrfToken();
+    const controller = new AbortController();
+    let timedOut = false;
+    const timer = setTimeout(() => ((timedOut = true), controller.abort()), opts.timeoutMs ?? (asBlob ? FILE_TIMEOUT_MS : DEFAULT_TIMEOUT_MS));
+    const onCallerAbort = () => controller.abort();
+    if (opts.signal?.aborted) controller.abort();
+    opts.signal?.addEventListener('abort', onCallerAbort, { once: true });
     try {
-      return await doFetch(baseUrl + path, {
+      const response = await doFetch(baseUrl + path, {
         method,
         headers,
         body: body === undefined ? undefined : JSON.stringify(body),
         credentials: 'same-origin',
-        signal,
+        signal: controller.signal,
       });
+      if (asBlob && response.ok) return { response, parsed: undefined, blob: await response.blob() };
+      return { response, parsed: await readBody(response) };
     } catch (cause) {
-      if (signal?.aborted) throw cause;
-      throw new ApiError(0, 'network_error', 'Cannot reach the server. Check the connection and try again.');
+      if (cause instanceof ApiError) throw cause;
+      if (opts.signal?.aborted) throw cause;
+      reportUnreachable();
+      throw new ApiError(0, timedOut ? 'timeout' : 'network_error', timedOut ? TIMEOUT_MESSAGE : UNREACHABLE_MESSAGE);
+    } finally {
+      clearTimeout(timer);
+      opts.signal?.removeEventListener('abort', onCallerAbort);
+    }
+  }
+
+  /** One try, again after a pause for a GET that found no server; the answer reports reachability. */
+  async function send(method: Method, path: string, body: unknown, opts: RequestOptions, asBlob = false): Promise<Exchange> {
+    const retries = method === 'GET' ? (opts.retries ?? RETRY_DELAYS_MS.length) : 0;
+    for (let attempt = 0; ; attempt += 1) {
+      let exchange: Exchange | null = null;
+      let failure: unknown = null;
+      try {
+        exchange = await once(method, path, body, opts, asBlob);
+      } catch (error) {
+        if (!isUnreachable(error)) throw error;
+        failure = error;
+      }
+      if (exchange) {
+        if (!isGatewayStatus(exchange.response.status)) {
+          reportReachable();
+          return exchange;
+        }
+        reportUnreachable();
+        if (attempt >= retries) return exchange;
+      } else if (attempt >= retries) throw failure;
+      await sleep(RETRY_DELAYS_MS[Math.min(attempt, RETRY_DELAYS_MS.length - 1)]!, opts.signal);
     }
   }
 
@@ -57,46 +134,30 @@ export function createHttpClient(options: HttpClientOptions = {}) {
     }
   }
 
-  async function request<T>(
-    method: Method,
-    path: string,
-    body?: unknown,
-    opts: RequestOptions = {},
-  ): Promise<T> {
-    let response = await send(method, path, body, opts.signal);
-    let parsed = await readBody(response);
-    if (response.status === 403 && errorCode(parsed) === 'csrf_failed') {
+  /** Sends, fetching a new CSRF token and trying once more after a `csrf_failed` 403; errors thrown. */
+  async function exchange(method: Method, path: string, body: unknown, opts: RequestOptions, asBlob: boolean): Promise<Exchange> {
+    let answer = await send(method, path, body, opts, asBlob);
+    if (answer.response.status === 403 && errorCode(answer.parsed) === 'csrf_failed') {
       // The token is bound to the session, which may have changed under us: fetch a new one, retry once.
       csrfToken = null;
-      response = await send(method, path, body, opts.signal);
-      parsed = await readBody(response);
+      answer = await send(method, path, body, opts, asBlob);
     }
-    if (response.ok) return parsed as T;
-    const error = apiErrorFromBody(response.status, parsed);
-    if (response.status === 401 && error.code === 'unauthenticated') {
+    if (answer.response.ok) return answer;
+    const error = apiErrorFromBody(answer.response.status, answer.parsed);
+    if (answer.response.status === 401 && error.code === 'unauthenticated') {
       csrfToken = null;
       if (!opts.allowUnauthenticated) unauthenticatedHandlers.forEach((handler) => handler());
     }
     throw error;
   }
 
+  async function request<T>(method: Method, path: string, body?: unknown, opts: RequestOptions = {}): Promise<T> {
+    return (await exchange(method, path, body, opts, false)).parsed as T;
+  }
+
   /** A POST whose answer is a file (a PDF); a refusal still arrives as the API's JSON error. */
   async function postForBlob(path: string, body: unknown, opts: RequestOptions = {}): Promise<Blob> {
-    let response = await send('POST', path, body, opts.signal);
-    if (response.ok) return response.blob();
-    let parsed = await readBody(response);
-    if (response.status === 403 && errorCode(parsed) === 'csrf_failed') {
-      csrfToken = null;
-      response = await send('POST', path, body, opts.signal);
-      if (response.ok) return response.blob();
-      parsed = await readBody(response);
-    }
-    const error = apiErrorFromBody(response.status, parsed);
-    if (response.status === 401 && error.code === 'unauthenticated') {
-      csrfToken = null;
-      if (!opts.allowUnauthenticated) unauthenticatedHandlers.forEach((handler) => handler());
-    }
-    throw error;
+    return (await exchange('POST', path, body, opts, true)).blob!;
   }
 
   function getCsrfToken(): Promise<string> {
@@ -106,8 +167,7 @@ export function createHttpClient(options: HttpClientOptions = {}) {
 
   async function fetchCsrfToken(): Promise<string> {
     try {
-      const response = await send('GET', '/auth/csrf', undefined);
-      const parsed = await readBody(response);
+      const { response, parsed } = await send('GET', '/auth/csrf', undefined, {});
       if (!response.ok) throw apiErrorFromBody(response.status, parsed);
       const token = (parsed as { token?: unknown } | undefined)?.token;
       if (typeof token !== 'string')
@@ -148,3 +208,6 @@ export type HttpClient = ReturnType<typeof createHttpClient>;
 
 /** The app's client for `/api`. */
 export const http = createHttpClient();
+
+// While the server is unreachable, the banner asks the health probe now and then whether it is back.
+setProbe(() => http.get('/health', { retries: 0, timeoutMs: 5000 }).then(() => true, () => false));

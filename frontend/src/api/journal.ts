@@ -1,6 +1,7 @@
 // The build journal (docs/api.md, "Build journal"): stages with dates, notes and photos. Photo uploads
 // send one file per request through XMLHttpRequest so each shows its progress, as sheet photos do.
-import { http } from './http';
+import { http, UPLOAD_TIMEOUT_MS } from './http';
+import { reportUnreachable } from './connection';
 import { ApiError, apiErrorFromBody } from './errors';
 import { fetchCsrfToken } from './photos';
 import type { CreateJournalEntryInput, JournalEntryWire, JournalPhotoWire, JournalWire, UpdateJournalEntryBody } from '@contracts/journal';
@@ -56,7 +57,10 @@ export function uploadJournalPhoto(entryId: string, file: File, caption: string,
           else if (xhr.status >= 200 && xhr.status < 300) reject(new ApiError(xhr.status, 'unexpected_response', 'The server sent an unreadable answer.'));
           else reject(apiErrorFromBody(xhr.status, body));
         };
-        xhr.onerror = () => reject(new ApiError(0, 'network_error', 'Cannot reach the server. Check the connection and try again.'));
+        // Uploads are never tried again by themselves; a dead connection ends after UPLOAD_TIMEOUT_MS.
+        xhr.timeout = UPLOAD_TIMEOUT_MS;
+        xhr.ontimeout = () => (reportUnreachable(), reject(new ApiError(0, 'timeout', 'The upload took too long. Check the connection and try again.')));
+        xhr.onerror = () => (reportUnreachable(), reject(new ApiError(0, 'network_error', 'Cannot reach the server. Check the connection and try again.')));
         xhr.send(form);
       }),
   );

@@ -1,6 +1,7 @@
 // Photos of a build sheet. Uploads go through XMLHttpRequest, one file per request, because fetch
 // reports no upload progress; the CSRF header and the one error shape are handled here as http.ts does.
-import { http } from './http';
+import { http, UPLOAD_TIMEOUT_MS } from './http';
+import { reportUnreachable } from './connection';
 import { ApiError, apiErrorFromBody } from './errors';
 import type { PhotoArea, PhotoWire, UpdatePhotoBody } from '@contracts/garage';
 
@@ -86,8 +87,11 @@ export function uploadPhoto(
             else reject(new ApiError(xhr.status, 'unexpected_response', 'The server sent an unreadable answer.'));
           } else reject(apiErrorFromBody(xhr.status, body));
         };
+        // Uploads are never tried again by themselves; a dead connection ends after UPLOAD_TIMEOUT_MS.
+        xhr.timeout = UPLOAD_TIMEOUT_MS;
+        xhr.ontimeout = () => (reportUnreachable(), reject(new ApiError(0, 'timeout', 'The upload took too long. Check the connection and try again.')));
         xhr.onerror = () =>
-          reject(new ApiError(0, 'network_error', 'Cannot reach the server. Check the connection and try again.'));
+          (reportUnreachable(), reject(new ApiError(0, 'network_error', 'Cannot reach the server. Check the connection and try again.')));
         xhr.onabort = () => reject(new ApiError(0, 'aborted', 'Upload cancelled.'));
         xhr.send(form);
       }),

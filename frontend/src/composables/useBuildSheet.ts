@@ -1,13 +1,29 @@
 // The build sheet page's data: the sheet and its current revision, the draft being edited, and saving
 // a new revision on top of the one the draft started from. A stale base (someone saved meanwhile,
 // say from the phone) answers 409; the draft stays exactly as typed and the page offers what to do.
-import { computed, ref, shallowRef, toRaw, watch, type Ref } from 'vue';
+// Until it is saved the draft is kept on this device (useKeptDraft.ts), typed text and all, so a
+// dropped signal or a closed tab loses nothing; reopening the sheet offers it back. With no signal
+// the sheet opens from the copy this device saw last.
+import { computed, onScopeDispose, reactive, ref, shallowRef, toRaw, watch, type Ref } from 'vue';
 import * as garageApi from '@/api/garage';
 import { ApiError, errorMessage } from '@/api/errors';
+import { isUnreachable } from '@/api/http';
+import { keep, recall } from '@/api/kept';
 import type { BuildSheetDetail } from '@/api/garage';
 import type { Specification } from '@contracts/specification';
 import type { UnitSystem } from '@domain/index';
-import { checkDraft, draftFromSpecification, emptyDraft, problemsByPath, type SheetDraft } from './useBuildSheetDraft';
+import { checkDraft, draftFromSpecification, emptyDraft, plainCopy, problemsByPath, type SheetDraft } from './useBuildSheetDraft';
+import { forgetSheetDraft, hasBadText, keepSheetDraft, recallSheetDraft, type KeptSheetDraft, type TypedText } from './useKeptDraft';
+
+/** A pause in typing before the draft is written to this device (and at once when the tab is hidden). */
+export const KEEP_DELAY_MS = 400;
+
+/** A draft this device kept for the sheet, offered when the sheet is opened again. */
+export interface KeptOffer {
+  at: number;
+  baseRevision: number;
+  kept: KeptSheetDraft;
+}
 
 export interface SaveConflict {
   baseRevision: number;
@@ -19,7 +35,7 @@ function currentRevisionOf(error: ApiError): number | null {
   return typeof details?.currentRevision === 'number' ? details.currentRevision : null;
 }
 
-export function useBuildSheet(sheetId: Ref<string>, units: Ref<UnitSystem>) {
+export function useBuildSheet(sheetId: Ref<string>, units: Ref<UnitSystem>, userId: Ref<string | null> = ref(null)) {
   const detail = shallowRef<BuildSheetDetail | null>(null);
   const draft = ref<SheetDraft>(emptyDraft('none'));
   const classId = ref<string | null>(null);
@@ -43,6 +59,16 @@ export function useBuildSheet(sheetId: Ref<string>, units: Ref<UnitSystem>) {
   const plainDraft = computed<SheetDraft>(() => (edits.value, { ...toRaw(draft.value) }));
   const dirty = computed(() => JSON.stringify({ d: plainDraft.value, c: classId.value }) !== savedSnapshot.value);
   const canEdit = computed(() => detail.value?.access === 'owner' && !detail.value.buildSheet.archivedAt);
+  /** Raw text of every number typed since the sheet was loaded, by input path. */
+  const typed = reactive<Record<string, TypedText>>({});
+  /** A kept draft waiting for "restore" or "discard"; nothing is written over it meanwhile. */
+  const offer = ref<KeptOffer | null>(null);
+  /** When the sheet on screen is this device's copy (no signal at opening): when that copy was seen. */
+  const keptCopyAt = ref<number | null>(null);
+  /** Bumped when a kept draft is restored, so the inputs start again from its typed text. */
+  const restoreKey = ref(0);
+  /** Unsaved work: a changed draft, or text in an input that the draft cannot hold yet. */
+  const unsaved = computed(() => dirty.value || hasBadText(typed));
 
   function adopt(next: BuildSheetDetail): void {
     detail.value = next;
@@ -53,18 +79,114 @@ export function useBuildSheet(sheetId: Ref<string>, units: Ref<UnitSystem>) {
     savedSnapshot.value = JSON.stringify({ d: draft.value, c: classId.value });
   }
 
+  function clearTyped(): void {
+    for (const key of Object.keys(typed)) delete typed[key];
+  }
+
+  /** Writes the draft to this device now when there is unsaved work, else forgets what was kept. */
+  function keepNow(): void {
+    clearTimeout(keepTimer);
+    const user = userId.value;
+    if (!user || !detail.value || offer.value || !canEdit.value) return;
+    if (!unsaved.value) return forgetSheetDraft(user, sheetId.value);
+    keepSheetDraft(user, sheetId.value, {
+      baseRevision: baseRevision.value,
+      classId: classId.value,
+      units: units.value,
+      draft: plainCopy(toRaw(draft.value)),
+      typed: plainCopy(typed),
+    });
+  }
+  let keepTimer: ReturnType<typeof setTimeout> | undefined;
+  // Text typed in one unit system would read as another value in the other.
+  watch(units, clearTyped);
+  watch([plainDraft, classId, typed], () => {
+    clearTimeout(keepTimer);
+    keepTimer = setTimeout(keepNow, KEEP_DELAY_MS);
+  }, { deep: true });
+
+  /** Offers the draft this device kept, unless it is what the server has anyway. */
+  function offerKept(): void {
+    const user = userId.value;
+    offer.value = null;
+    if (!user) return;
+    const kept = recallSheetDraft(user, sheetId.value);
+    if (!kept) return;
+    const same = JSON.stringify({ d: kept.value.draft, c: kept.value.classId }) === savedSnapshot.value && !hasBadText(kept.value.typed);
+    if (same) forgetSheetDraft(user, sheetId.value);
+    else offer.value = { at: kept.at, baseRevision: kept.value.baseRevision, kept: kept.value };
+  }
+
   async function load(): Promise<void> {
     loading.value = true;
     loadError.value = null;
     try {
-      adopt(await garageApi.getSheet(sheetId.value));
+      const next = await garageApi.getSheet(sheetId.value);
+      clearTyped();
+      adopt(next);
+      keptCopyAt.value = null;
+      if (userId.value) keep('sheet', userId.value, sheetId.value, next);
       conflict.value = null;
       serverErrors.value = {};
+      offerKept();
     } catch (error) {
-      loadError.value = errorMessage(error);
+      const copy = userId.value && isUnreachable(error) ? recall<BuildSheetDetail>('sheet', userId.value, sheetId.value) : null;
+      if (copy) {
+        clearTyped();
+        adopt(copy.value);
+        keptCopyAt.value = copy.at;
+        offerKept();
+      } else loadError.value = errorMessage(error);
     } finally {
       loading.value = false;
     }
+  }
+
+  /** Puts the kept draft back on screen, typed text included, on top of the revision it started from. */
+  function restoreKept(): void {
+    const kept = offer.value?.kept;
+    if (!kept) return;
+    offer.value = null;
+    draft.value = plainCopy(kept.draft);
+    if (kept.classId) classId.value = kept.classId;
+    baseRevision.value = kept.baseRevision;
+    clearTyped();
+    // Text typed in other units would read as other values: then the parsed values alone come back.
+    if (kept.units === units.value) Object.assign(typed, kept.typed);
+    restoreKey.value += 1;
+    keepNow();
+  }
+
+  function discardKept(): void {
+    if (userId.value) forgetSheetDraft(userId.value, sheetId.value);
+    offer.value = null;
+  }
+
+  /** The conflict view's "load the latest": the builder drops their changes, here and on the device. */
+  async function dropMineAndLoad(): Promise<void> {
+    if (userId.value) forgetSheetDraft(userId.value, sheetId.value);
+    offer.value = null;
+    await load();
+  }
+
+  // Closing the tab with unsaved work asks first, and writes the draft at once (the pause may not end).
+  const onBeforeUnload = (event: BeforeUnloadEvent) => {
+    keepNow();
+    if (!unsaved.value || !canEdit.value) return;
+    event.preventDefault();
+    event.returnValue = ''; // older browsers show the prompt only with a returnValue set
+  };
+  const onHide = () => document.visibilityState === 'hidden' && keepNow();
+  if (typeof window !== 'undefined') {
+    window.addEventListener('beforeunload', onBeforeUnload);
+    window.addEventListener('pagehide', keepNow);
+    document.addEventListener('visibilitychange', onHide);
+    onScopeDispose(() => {
+      keepNow();
+      window.removeEventListener('beforeunload', onBeforeUnload);
+      window.removeEventListener('pagehide', keepNow);
+      document.removeEventListener('visibilitychange', onHide);
+    });
   }
 
   /**
@@ -90,15 +212,24 @@ export function useBuildSheet(sheetId: Ref<string>, units: Ref<UnitSystem>) {
         specification: checked.specification,
       });
       // Keep what is on screen (the same content) but take the new revision as the base.
-      const typed = draft.value;
+      const onScreen = draft.value;
       adopt(saved);
-      draft.value = typed;
+      draft.value = onScreen;
       savedSnapshot.value = JSON.stringify({ d: draft.value, c: classId.value });
       conflict.value = null;
+      keptCopyAt.value = null;
+      clearTyped();
+      if (userId.value) {
+        forgetSheetDraft(userId.value, sheetId.value);
+        keep('sheet', userId.value, sheetId.value, saved);
+      }
       return true;
     } catch (error) {
       if (error instanceof ApiError && error.status === 409) {
         conflict.value = { baseRevision: baseRevision.value, currentRevision: currentRevisionOf(error) };
+      } else if (isUnreachable(error)) {
+        keepNow();
+        saveError.value = 'Not saved: the server cannot be reached. Your changes are kept on this device; save again when the signal is back.';
       } else {
         if (error instanceof ApiError) serverErrors.value = stripPrefix(error.fieldErrors);
         saveError.value = errorMessage(error);
@@ -113,11 +244,13 @@ export function useBuildSheet(sheetId: Ref<string>, units: Ref<UnitSystem>) {
   function keepMine(): void {
     if (conflict.value?.currentRevision) baseRevision.value = conflict.value.currentRevision;
     conflict.value = null;
+    keepNow();
   }
 
   return {
     detail, draft, plainDraft, classId, baseRevision, loading, loadError, saving, saveError, serverErrors, conflict, dirty, canEdit,
-    load, save, keepMine, adopt,
+    typed, offer, keptCopyAt, restoreKey, unsaved,
+    load, save, keepMine, adopt, restoreKept, discardKept, dropMineAndLoad, keepNow,
   };
 }
 

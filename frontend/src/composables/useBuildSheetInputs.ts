@@ -6,6 +6,7 @@ import type { UnitSystem } from '@domain/index';
 import type { CageDrawing } from '@domain/geometry/cage-drawing';
 import type { InputMark } from '@/components/findings/findingMarks';
 import { emptyDraft, type SheetDraft } from './useBuildSheetDraft';
+import type { TypedText } from './useKeptDraft';
 
 export interface SheetInputs {
   /** The draft the sections edit in place (shared, not passed down as a prop to mutate). */
@@ -20,6 +21,8 @@ export interface SheetInputs {
   modelled: ComputedRef<CageDrawing['modelled']>;
   /** The geometry facts the model derives (the values the rules read), likewise not asked for. */
   modelFacts: ComputedRef<CageDrawing['facts']>;
+  /** The raw text typed into each number input, by path: kept on the device with the draft. */
+  typed: Record<string, TypedText>;
 }
 
 const KEY: InjectionKey<SheetInputs> = Symbol('sheet-inputs');
@@ -31,6 +34,7 @@ export function provideSheetInputs(
   marks: ComputedRef<Record<string, InputMark>>,
   modelled: ComputedRef<CageDrawing['modelled']> = computed(() => new Map()),
   modelFacts: ComputedRef<CageDrawing['facts']> = computed(() => ({})),
+  typed: Record<string, TypedText> = reactive({}),
 ): SheetInputs {
   const parseErrors = reactive<Record<string, string>>({});
   const inputs: SheetInputs = {
@@ -40,6 +44,7 @@ export function provideSheetInputs(
     marks,
     modelled,
     modelFacts,
+    typed,
     parseErrors,
     setParseError(path, message) {
       if (message === null) delete parseErrors[path];
@@ -60,6 +65,7 @@ export function useSheetInputs(): SheetInputs {
       marks: computed(() => ({})),
       modelled: computed(() => new Map()),
       modelFacts: computed(() => ({})),
+      typed: {},
       parseErrors: {},
       setParseError: () => undefined,
     }

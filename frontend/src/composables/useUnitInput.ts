@@ -80,16 +80,18 @@ export function useUnitInput(
   const parseError = ref<string | null>(null);
   let lastEmitted: number | undefined | null = null;
 
-  function onText(next: string): void {
+  /** Takes the text as typed; returns how it read, so a caller may keep the text with its value. */
+  function onText(next: string): InputParse {
     text.value = next;
     const parsed = parseInput(next, dimension.value, system.value, rules.value);
     if (!parsed.ok) {
       parseError.value = parsed.message;
-      return;
+      return parsed;
     }
     parseError.value = null;
     lastEmitted = parsed.value;
     if (parsed.value !== model.value) emit(parsed.value);
+    return parsed;
   }
 
   /** Tidy the text to the usual decimals once the builder leaves the input. */

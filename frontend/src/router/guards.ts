@@ -1,6 +1,7 @@
 // Navigation guards. They only shape navigation for a pleasant flow; the API enforces every permission.
 import type { RouteLocationNormalized, RouteLocationRaw } from 'vue-router';
 import { useSessionStore } from '@/stores/session';
+import { isUnreachable } from '@/api/http';
 
 /** Only same-site paths may be used as a return path after signing in. */
 export function safeRedirect(value: unknown): string | null {
@@ -11,8 +12,10 @@ export async function sessionGuard(to: RouteLocationNormalized): Promise<true | 
   const session = useSessionStore();
   try {
     await session.ensureLoaded();
-  } catch {
-    // The API is unreachable: treat the visitor as signed out; sign-in will show the real error.
+  } catch (error) {
+    // No signal: whoever was signed in on this device last stays, so their pages show what was kept
+    // and the offline banner, never the sign-in page. With nobody kept, sign-in shows the real error.
+    if (isUnreachable(error)) session.restoreKept();
   }
 
   if (to.name === 'sign-in' && session.isSignedIn) {

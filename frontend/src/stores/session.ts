@@ -3,6 +3,7 @@
 import { computed, ref } from 'vue';
 import { defineStore } from 'pinia';
 import * as authApi from '@/api/auth';
+import { forgetSession, forgetUser, keepSession, recallSession } from '@/api/kept';
 import type { Membership, PreferredUnits, Role, SessionPayload, User } from '@/api/types';
 
 export const CURRENT_CLUB_KEY = 'cagewright.currentClubId';
@@ -62,6 +63,20 @@ export const useSessionStore = defineStore('session', () => {
     user.value = payload.user;
     memberships.value = payload.memberships;
     loading = Promise.resolve();
+    keepSession(payload);
+  }
+
+  /**
+   * With no signal at start-up: who was signed in here last, so kept drafts and records can be offered.
+   * The API still decides: its first answer after the signal returns may be a 401, which signs out.
+   */
+  function restoreKept(): boolean {
+    const kept = recallSession<SessionPayload>();
+    if (!kept?.value?.user) return false;
+    user.value = kept.value.user;
+    memberships.value = kept.value.memberships;
+    loading = Promise.resolve(); // the first real answer (a 401 if the session ended) corrects it
+    return true;
   }
 
   function setUser(next: User): void {
@@ -73,6 +88,7 @@ export const useSessionStore = defineStore('session', () => {
     user.value = null;
     memberships.value = [];
     loading = Promise.resolve();
+    forgetSession();
   }
 
   /** Asks the API once who is signed in; later calls reuse the answer. */
@@ -98,10 +114,13 @@ export const useSessionStore = defineStore('session', () => {
     setSession(await authApi.signIn(email, password));
   }
 
+  /** Signs out, and forgets what this device kept for the user (drafts, records): laptops are shared. */
   async function signOut(): Promise<void> {
+    const id = user.value?.id;
     try {
       await authApi.signOut();
     } finally {
+      if (id) forgetUser(id);
       clear();
     }
   }
@@ -120,6 +139,7 @@ export const useSessionStore = defineStore('session', () => {
     hasRoleInCurrentClub,
     selectClub,
     setSession,
+    restoreKept,
     setUser,
     clear,
     ensureLoaded,

@@ -5,7 +5,7 @@
 import { afterEach, beforeEach, describe, expect, test, vi } from 'vitest';
 import { ref } from 'vue';
 import AuditLogView from '@/views/AuditLogView.vue';
-import { http } from '@/api/http';
+import { http, RETRY_DELAYS_MS } from '@/api/http';
 import { useSessionStore } from '@/stores/session';
 import { actionLabel, auditSentence, auditSentenceText } from '@/components/audit/auditText';
 import type { AuditEntry } from '@/api/audit';
@@ -489,13 +489,19 @@ describe('the activity log page', () => {
     mock.on(
       'GET',
       auditPath,
-      json(503, {
-        error: { code: 'database_unavailable', message: 'The database is unavailable right now.' },
-      }),
+      // A GET meeting a 503 is tried again twice (api/http.ts) before the page shows the error.
+      ...Array.from({ length: 1 + RETRY_DELAYS_MS.length }, () =>
+        json(503, {
+          error: { code: 'database_unavailable', message: 'The database is unavailable right now.' },
+        }),
+      ),
       page([changed]),
     );
     await openPage();
-    expect(document.body.textContent).toContain('The database is unavailable right now.');
+    await vi.waitFor(
+      () => expect(document.body.textContent).toContain('The database is unavailable right now.'),
+      { timeout: 4000 },
+    );
     (
       [...document.querySelectorAll('button')].find(
         (b) => b.textContent?.trim() === 'Try again',

@@ -3,7 +3,7 @@
 // failing tube marks the very inputs it concerns, and the marks carry the rule's section.
 import { afterEach, beforeAll, beforeEach, describe, expect, test, vi } from 'vitest';
 import { effectScope, nextTick, ref } from 'vue';
-import { http } from '@/api/http';
+import { http, RETRY_DELAYS_MS } from '@/api/http';
 import { forgetRulesetVersions } from '@/api/rulesets';
 import { useLiveFindings, LIVE_CHECK_DELAY_MS } from '@/composables/useLiveFindings';
 import { emptyDraft, type SheetDraft } from '@/composables/useBuildSheetDraft';
@@ -129,6 +129,8 @@ describe('debounce and fallback', () => {
     }
     expect(mock.calls.filter((c) => c.method === 'POST')).toHaveLength(0);
     await pause();
+    // The document's GET meets a 503 and is tried again after each pause (api/http.ts) before it gives up.
+    await vi.advanceTimersByTimeAsync(RETRY_DELAYS_MS.reduce((a, b) => a + b, 0));
 
     const posts = mock.calls.filter((c) => c.method === 'POST');
     expect(posts).toHaveLength(1);

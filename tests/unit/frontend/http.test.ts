@@ -126,7 +126,7 @@ describe('errors', () => {
   test('a body that is not the error shape still gives a readable ApiError', async () => {
     mock.on('GET', '/api/health', () => ({ status: 502, body: undefined }));
 
-    const error = (await client.get('/health').catch((e: unknown) => e)) as ApiError;
+    const error = (await client.get('/health', { retries: 0 }).catch((e: unknown) => e)) as ApiError;
 
     expect(error.status).toBe(502);
     expect(error.code).toBe('unexpected_response');
@@ -136,7 +136,7 @@ describe('errors', () => {
   test('a failed connection becomes a network_error', async () => {
     const offline = createHttpClient({ fetch: () => Promise.reject(new TypeError('Failed to fetch')) });
 
-    const error = (await offline.get('/auth/me').catch((e: unknown) => e)) as ApiError;
+    const error = (await offline.get('/auth/me', { retries: 0 }).catch((e: unknown) => e)) as ApiError;
 
     expect(error.code).toBe('network_error');
     expect(error.status).toBe(0);
