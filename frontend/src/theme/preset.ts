@@ -41,6 +41,15 @@ export const steel = {
  */
 export const textTokens = { color: '{surface.800}', hoverColor: '{surface.900}', mutedColor: '{surface.600}' } as const;
 
+/** A filled button of one severity, one step darker than Aura's so white text reads at 4.5:1 or more. */
+function filled(hue: string) {
+  return {
+    background: `{${hue}.700}`, hoverBackground: `{${hue}.800}`, activeBackground: `{${hue}.900}`,
+    borderColor: `{${hue}.700}`, hoverBorderColor: `{${hue}.800}`, activeBorderColor: `{${hue}.900}`,
+    focusRing: { color: `{${hue}.700}`, shadow: 'none' },
+  };
+}
+
 export const CagewrightPreset = definePreset(Aura, {
   primitive: {
     borderRadius: { none: '0', xs: '2px', sm: '3px', md: '4px', lg: '6px', xl: '8px' },
@@ -92,11 +101,49 @@ export const CagewrightPreset = definePreset(Aura, {
         },
       },
     },
+    // Buttons: Aura's 500 fills carry white text at 2.3–3.8:1 and its text and outlined buttons use the
+    // 500 tones as text; every severity here is 700 (fills) or 700–800 (text) so labels reach 4.5:1
+    // on white and on the page (axe color-contrast in the browser journeys found each of these).
     button: {
       colorScheme: {
         light: {
-          text: { primary: { color: '{primary.700}' } },
-          outlined: { primary: { color: '{primary.700}', borderColor: '{primary.400}' } },
+          root: {
+            success: filled('green'),
+            info: filled('sky'),
+            warn: filled('orange'),
+            help: filled('purple'),
+            danger: filled('red'),
+          },
+          text: {
+            primary: { color: '{primary.800}' },
+            secondary: { color: '{surface.600}' },
+            success: { color: '{green.800}' },
+            info: { color: '{sky.800}' },
+            warn: { color: '{orange.800}' },
+            help: { color: '{purple.700}' },
+            danger: { color: '{red.700}' },
+          },
+          outlined: {
+            primary: { color: '{primary.800}', borderColor: '{primary.400}' },
+            secondary: { color: '{surface.600}' },
+            success: { color: '{green.800}' },
+            info: { color: '{sky.800}' },
+            warn: { color: '{orange.800}' },
+            help: { color: '{purple.700}' },
+            danger: { color: '{red.700}' },
+          },
+          link: { color: '{primary.800}', hoverColor: '{primary.900}', activeColor: '{primary.950}' },
+        },
+      },
+    },
+    toast: {
+      colorScheme: {
+        light: {
+          info: { color: '{blue.800}', detailColor: '{surface.700}' },
+          success: { color: '{green.800}', detailColor: '{surface.700}' },
+          warn: { color: '{yellow.800}', detailColor: '{surface.700}' },
+          error: { color: '{red.800}', detailColor: '{surface.700}' },
+          secondary: { color: '{surface.700}', detailColor: '{surface.700}' },
         },
       },
     },
