@@ -45,7 +45,9 @@ export default defineConfig({
           include: ['tests/e2e/**/*.test.ts'],
           fileParallelism: false,
           globalSetup: ['tests/e2e/global-setup.ts'],
-          testTimeout: 60000,
+          // Every screenshot and every session's last page is also checked with axe (tests/e2e/browser.ts),
+          // about a second each on this shared machine; a long journey needs the room.
+          testTimeout: 120000,
           hookTimeout: 120000,
         },
       },

@@ -5,6 +5,7 @@ import { describe, expect, it } from 'vitest';
 import request from 'supertest';
 import { agentFor, csrfToken, demo, demoClubId, errorBody, hasErrorBody, makeTestApp, signIn, testConfig, useTestDatabase } from './helpers';
 import { demoPassword } from '../../backend/src/db/seed-data';
+import { passwordMinLength } from '../../backend/src/contracts/password-rules';
 
 const db = useTestDatabase();
 const invalidCredentials = { error: { code: 'invalid_credentials', message: 'E-mail or password is wrong.' } };
@@ -200,7 +201,7 @@ describe('change password', () => {
       error: { code: 'validation_failed', message: 'Some fields are invalid.', details: [{ path: 'currentPassword', message: 'The current password is wrong' }] },
     }));
     const short = await agent.post('/api/auth/password').set('X-CSRF-Token', token).send({ currentPassword: demoPassword, newPassword: 'short' }).expect(400);
-    expect(short.body.error.details).toEqual([{ path: 'newPassword', message: 'At least 10 characters' }]);
+    expect(short.body.error.details).toEqual([{ path: 'newPassword', message: `At least ${passwordMinLength} characters` }]);
 
     await agent.post('/api/auth/password').set('X-CSRF-Token', token).send({ currentPassword: demoPassword, newPassword: 'a-new-long-password' }).expect(204);
     await agent.get('/api/auth/me').expect(200);

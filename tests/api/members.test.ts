@@ -6,6 +6,7 @@ import request from 'supertest';
 import { type Agent, agentFor, csrfToken, demo, demoClubId, errorBody, hasErrorBody, makeTestApp, signIn, testPublicUrl, useTestDatabase } from './helpers';
 import { hashPassword } from '../../backend/src/services/passwords';
 import { hashToken } from '../../backend/src/services/members.service';
+import { passwordMinLength } from '../../backend/src/contracts/password-rules';
 
 const db = useTestDatabase();
 const forbidden = { error: { code: 'forbidden', message: 'Your role does not allow this.' } };
@@ -176,7 +177,7 @@ describe('invitations', () => {
     await guest.get(`/api/invitations/${inviteToken}`).expect(200, { email: 'new.builder@tarnwick.example', clubName: 'Tarnwick Vale Motor Club' });
     const t = await csrfToken(guest);
     const short = await guest.post(`/api/invitations/${inviteToken}/accept`).set('X-CSRF-Token', t).send({ password: 'short' }).expect(400);
-    expect(short.body.error.details).toEqual([{ path: 'password', message: 'At least 10 characters' }]);
+    expect(short.body.error.details).toEqual([{ path: 'password', message: `At least ${passwordMinLength} characters` }]);
     const accepted = await guest.post(`/api/invitations/${inviteToken}/accept`).set('X-CSRF-Token', t).send({ password: 'my-own-password', displayName: 'Sam Ordell' }).expect(200);
     expect(accepted.body).toEqual({
       user: { id: res.body.member.user.id, email: 'new.builder@tarnwick.example', displayName: 'Sam Ordell', preferredUnits: 'imperial' },

@@ -1,11 +1,14 @@
 // Debian's Chromium driven by playwright-core, one fresh profile per browser, for the journeys in
 // tests/e2e. Screenshots land in .artifacts/screens/ so a person can look at what the tests saw.
+// Every screenshot, and the last page of every session, is also checked with axe-core
+// (accessibility.ts): a serious or critical finding fails the journey.
 import { mkdirSync, mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { test } from 'vitest';
+import { alreadyReported, describeFindings, expectAccessible, seriousFindings, settleAnimations } from './accessibility';
 
 const screensDir = fileURLToPath(new URL('../../.artifacts/screens', import.meta.url));
 
@@ -20,6 +23,13 @@ const chromiumArgs = [
   '--disable-component-update',
   '--disable-sync',
 ];
+
+/**
+ * Findings of the check a session runs on its last page when it closes. close() runs in `finally`
+ * blocks, where throwing would hide a journey's own failure, so it keeps them here and the
+ * `browserTest` fixture fails the journey with them once the journey has ended.
+ */
+const findingsAtClose: string[] = [];
 
 export interface BrowserSession {
   context: BrowserContext;
@@ -48,10 +58,23 @@ export async function openBrowser(viewport = { width: 1280, height: 800 }, extra
     page,
     pageErrors,
     async close() {
+      await checkLastPage(page);
       await context.close();
       rmSync(profileDir, { recursive: true, force: true });
     },
   };
+}
+
+/** axe on the page a session ends on, unless it is closed or never left about:blank. */
+async function checkLastPage(page: Page): Promise<void> {
+  if (page.isClosed() || !/^https?:/.test(page.url())) return;
+  try {
+    await settleAnimations(page);
+    const findings = await seriousFindings(page);
+    if (findings.length > 0 && !alreadyReported(page, findings)) findingsAtClose.push(describeFindings('the last page of a browser session', page.url(), findings));
+  } catch {
+    // The page was navigating or crashed as the journey ended: nothing stable to check.
+  }
 }
 
 /**
@@ -61,9 +84,7 @@ export async function openBrowser(viewport = { width: 1280, height: 800 }, extra
  * (content-visibility: auto on long lists) are drawn for the shot, as a person scrolling down sees them.
  */
 export async function screenshot(page: Page, name: string): Promise<string> {
-  await page
-    .waitForFunction(() => document.getAnimations().every((a) => a.effect?.getTiming().iterations === Infinity), undefined, { timeout: 2000 })
-    .catch(() => undefined);
+  await settleAnimations(page);
   mkdirSync(screensDir, { recursive: true });
   const path = join(screensDir, `${name}.png`);
   const all = await page.addStyleTag({ content: '* { content-visibility: visible !important; }' });
@@ -72,10 +93,15 @@ export async function screenshot(page: Page, name: string): Promise<string> {
   } finally {
     await all.evaluate((el) => (el as Element).remove());
   }
+  // The shot is saved first, so a failure below can be looked at.
+  await expectAccessible(page, `screenshot "${name}" (${path})`);
   return path;
 }
 
-/** `test` with a fresh browser per test (`async ({ browser }) => …`), closed afterwards. */
+/**
+ * `test` with a fresh browser per test (`async ({ browser }) => …`), closed afterwards. The journey
+ * fails afterwards when the last page of any session it opened has a serious accessibility finding.
+ */
 export const browserTest = test.extend<{ browser: BrowserSession }>({
   // vitest reads the fixtures a fixture needs from this first parameter's pattern; this one needs none.
   // eslint-disable-next-line no-empty-pattern
@@ -86,5 +112,7 @@ export const browserTest = test.extend<{ browser: BrowserSession }>({
     } finally {
       await session.close();
     }
+    const late = findingsAtClose.splice(0);
+    if (late.length > 0) throw new Error(late.join('\n\n'));
   },
 });

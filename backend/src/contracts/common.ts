@@ -1,6 +1,7 @@
 // Wire building blocks shared by the contracts: ids, e-mail, roles, units, and the error shape.
 // The front end imports these through @contracts, so both sides validate the same way.
 import { z } from 'zod';
+import { CLUB_ROLES, rolesListText } from './roles';
 
 export const uuidSchema = z.uuid('Must be an id');
 
@@ -11,7 +12,7 @@ export const emailSchema = z
   .max(320, 'At most 320 characters')
   .pipe(z.email('Must be an e-mail address'));
 
-export const clubRoleSchema = z.enum(['builder', 'steward', 'admin'], 'Must be builder, steward or admin');
+export const clubRoleSchema = z.enum(CLUB_ROLES, `Must be ${rolesListText('or')}`);
 export type ClubRoleWire = z.infer<typeof clubRoleSchema>;
 
 export const rolesSchema = z

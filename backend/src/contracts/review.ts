@@ -1,6 +1,7 @@
 // The wire of reviews, cage records and verification (docs/api.md, "Review and cage records"): zod
 // schemas for what comes in, and the shapes that go out. Shared with the front end.
 import { z } from 'zod';
+import { NOTE_MAX, REVOKE_REASON_MAX, WAIVER_REASON_MAX } from './review-limits';
 import type { CheckReport } from './report';
 import type { DiffChangeWire, PhotoWire } from './garage';
 import type { Specification } from './specification';
@@ -11,7 +12,7 @@ export type SubmissionStateWire = (typeof SUBMISSION_STATES)[number];
 export const RECORD_STATUSES = ['valid', 'expired', 'superseded', 'revoked'] as const;
 export type RecordStatusWire = (typeof RECORD_STATUSES)[number];
 
-const noteText = z.string('Must be text').max(4000, 'At most 4,000 characters');
+const noteText = z.string('Must be text').max(NOTE_MAX, `At most ${NOTE_MAX.toLocaleString('en-GB')} characters`);
 const expectedSchema = z.object({
   state: z.enum(SUBMISSION_STATES, 'Must be a submission state'),
   version: z.number('Must be a number').int('Must be a whole number').positive('Must be positive'),
@@ -33,7 +34,7 @@ const findingKeySchema = z.string('Must be a finding key').min(1, 'Must be a fin
 export const actionBodySchema = z.discriminatedUnion('type', [
   z.object({ type: z.literal('claim'), expected: expectedSchema }).strict(),
   z.object({ type: z.literal('release'), expected: expectedSchema, note: noteText.optional() }).strict(),
-  z.object({ type: z.literal('waive'), expected: expectedSchema, findingKey: findingKeySchema, reason: z.string('Give the reason for the waiver').max(2000, 'At most 2,000 characters') }).strict(),
+  z.object({ type: z.literal('waive'), expected: expectedSchema, findingKey: findingKeySchema, reason: z.string('Give the reason for the waiver').max(WAIVER_REASON_MAX, `At most ${WAIVER_REASON_MAX.toLocaleString('en-GB')} characters`) }).strict(),
   z.object({ type: z.literal('remove_waiver'), expected: expectedSchema, findingKey: findingKeySchema }).strict(),
   z.object({ type: z.literal('approve'), expected: expectedSchema, note: noteText.optional() }).strict(),
   z.object({ type: z.literal('request_changes'), expected: expectedSchema, note: noteText }).strict(),
@@ -61,7 +62,7 @@ export type QueueQuery = z.infer<typeof queueQuerySchema>;
 
 export const mySubmissionsQuerySchema = z.object({ checkRunId: uuidSchema.optional() }).strict();
 
-export const revokeBodySchema = z.object({ reason: z.string('Give the reason').max(2000, 'At most 2,000 characters') }).strict();
+export const revokeBodySchema = z.object({ reason: z.string('Give the reason').max(REVOKE_REASON_MAX, `At most ${REVOKE_REASON_MAX.toLocaleString('en-GB')} characters`) }).strict();
 
 export const recordSettingsBodySchema = z.object({
   recordPrefix: z.string('Must be text').trim().toUpperCase().regex(/^[A-Z][A-Z0-9]{1,5}$/, '2 to 6 letters or digits, starting with a letter').optional(),

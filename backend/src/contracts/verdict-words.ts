@@ -53,6 +53,16 @@ export const SUBMISSION_STATE_WORDS: Readonly<Record<SubmissionStateKey, string>
   withdrawn: 'Withdrawn',
 };
 
+/** A submission's state inside a sentence: "The submission is already approved", "it is now in review". */
+export const SUBMISSION_STATE_IN_SENTENCE: Readonly<Record<SubmissionStateKey, string>> = {
+  pending: 'waiting for a steward',
+  in_review: 'in review',
+  approved: 'approved',
+  changes_requested: 'returned for changes',
+  rejected: 'rejected',
+  withdrawn: 'withdrawn',
+};
+
 /** "Approved", "Approved with 1 waiver". */
 export function approvedText(waivedCount: number): string {
   return waivedCount > 0 ? `Approved with ${waiverCountText(waivedCount)}` : 'Approved';

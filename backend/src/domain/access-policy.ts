@@ -8,7 +8,9 @@
 // exactly as for an id that does not exist (nobody learns which ids are in use); a thing they may see
 // but not change is 403. Signed out is 401 before anything else.
 
-export type ClubRole = 'builder' | 'steward' | 'admin';
+import { CLUB_ROLES, type ClubRole } from '../contracts/roles.js';
+
+export type { ClubRole };
 
 /** The caller's roles in the club that owns the thing; null when they are not a member. */
 export type ClubRoles = readonly ClubRole[] | null;
@@ -79,7 +81,7 @@ export const ACCESS_RULES = {
   'self.builder': rule('self', 'Anyone holding the builder role in some club (403 otherwise).', (f) =>
     has(f.rolesAnywhere ?? null, 'builder') ? allow : forbidden),
 
-  'club.member': rule('club', 'Members of the club (404 for anyone else).', (f) => clubRole(f, 'builder', 'steward', 'admin')),
+  'club.member': rule('club', 'Members of the club (404 for anyone else).', (f) => clubRole(f, ...CLUB_ROLES)),
   'club.reviewer': rule('club', 'Stewards and admins of the club (403 for its other members, 404 for anyone else).', (f) => clubRole(f, 'steward', 'admin')),
   'club.steward': rule('club', 'Stewards of the club (403 for its other members, 404 for anyone else).', (f) => clubRole(f, 'steward')),
   'club.admin': rule('club', 'Admins of the club (403 for its other members, 404 for anyone else).', (f) => clubRole(f, 'admin')),

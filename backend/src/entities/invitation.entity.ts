@@ -5,9 +5,10 @@ import type { Relation } from 'typeorm';
 import { Club } from './club.entity';
 import type { ClubRole } from './membership.entity';
 import { User } from './user.entity';
+import { CLUB_ROLES_SQL } from '../contracts/roles';
 
 @Entity({ name: 'invitations' })
-@Check('CHK_invitations_roles', `cardinality("roles") > 0 AND "roles" <@ ARRAY['builder', 'steward', 'admin']::text[]`)
+@Check('CHK_invitations_roles', `cardinality("roles") > 0 AND "roles" <@ ${CLUB_ROLES_SQL}::text[]`)
 @Index('IDX_invitations_club_email', ['clubId', 'email'])
 export class Invitation {
   @PrimaryGeneratedColumn('uuid')

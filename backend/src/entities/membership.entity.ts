@@ -4,11 +4,13 @@ import type { Relation } from 'typeorm';
 import { Club } from './club.entity';
 import { User } from './user.entity';
 
-export const clubRoles = ['builder', 'steward', 'admin'] as const;
-export type ClubRole = (typeof clubRoles)[number];
+import { CLUB_ROLES, CLUB_ROLES_SQL, type ClubRole } from '../contracts/roles';
+
+export const clubRoles = CLUB_ROLES;
+export type { ClubRole };
 
 @Entity({ name: 'memberships' })
-@Check('CHK_memberships_roles', `cardinality("roles") > 0 AND "roles" <@ ARRAY['builder', 'steward', 'admin']::text[]`)
+@Check('CHK_memberships_roles', `cardinality("roles") > 0 AND "roles" <@ ${CLUB_ROLES_SQL}::text[]`)
 @Unique('UQ_memberships_user_club', ['userId', 'clubId'])
 export class Membership {
   @PrimaryGeneratedColumn('uuid')

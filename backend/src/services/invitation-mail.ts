@@ -3,19 +3,15 @@
 import type { EntityManager } from 'typeorm';
 import type { MailService } from './mail';
 import { renderMail } from './mail';
+import { rolesListText } from '../contracts/roles';
 
-const roleWords: Record<string, string> = { builder: 'builder', steward: 'steward', admin: 'admin' };
-
-function listed(words: string[]): string {
-  return words.length <= 1 ? (words[0] ?? '') : `${words.slice(0, -1).join(', ')} and ${words[words.length - 1]}`;
-}
 
 /** Queues the mail; returns its outbox id, which the activity log reads to say whether it went out. */
 export async function mailInvitation(
   mail: MailService, em: EntityManager,
   input: { to: string; clubId: string; clubName: string; inviterName: string; roles: string[]; url: string; expiresAt: Date },
 ): Promise<string> {
-  const roles = listed(input.roles.map((r) => roleWords[r] ?? r));
+  const roles = rolesListText('and', input.roles);
   const until = input.expiresAt.toISOString().slice(0, 10);
   const { id } = await mail.enqueue(
     {

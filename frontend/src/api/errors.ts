@@ -29,7 +29,7 @@ export class ApiError extends Error {
   readonly details: unknown;
   /** The server's id of the request (on its log lines), when it sent one. */
   readonly requestId: string | undefined;
-  /** First message per field path, e.g. `{ newPassword: 'Must be at least 10 characters' }`. */
+  /** First message per field path, e.g. `{ email: 'Must be an e-mail address' }`. */
   readonly fieldErrors: Readonly<Record<string, string>>;
 
   constructor(status: number, code: ApiErrorCode, message: string, details?: unknown, requestId?: string) {

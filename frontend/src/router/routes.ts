@@ -1,7 +1,7 @@
 // The route table. Views load lazily so the first page stays small; the signed-in shell is the parent
 // route, and sign-in, password reset, invitation and not-found pages sit outside it.
 import type { RouteRecordRaw } from 'vue-router';
-import type { Role } from '@/api/types';
+import { ROLES, type Role } from '@/api/types';
 
 /** Every route name; links and redirects use these, never raw paths. */
 export type RouteName = 'sign-in' | 'forgot-password' | 'reset-password' | 'invitation' | 'home' | 'account' | 'club-members' | 'not-found'
@@ -82,7 +82,7 @@ export const routes: NamedRoute[] = [
       { path: 'build-sheets/:sheetId/tubes', name: 'tube-choice', component: () => import('@/views/TubeChoiceView.vue'), meta: { title: 'Lightest legal tubes' } },
       { path: 'build-sheets/:sheetId/side-by-side', name: 'side-by-side', component: () => import('@/views/SideBySideView.vue'), meta: { title: 'Rulebooks side by side' } },
       { path: 'build-sheets/:sheetId/journal', name: 'build-journal', component: () => import('@/views/BuildJournalView.vue'), meta: { title: 'Build journal' } },
-      { path: 'clubs/:clubId/tube-stock', name: 'tube-stock', component: () => import('@/views/TubeStockView.vue'), meta: { roles: ['builder', 'steward', 'admin'], title: 'Tube stock' } },
+      { path: 'clubs/:clubId/tube-stock', name: 'tube-stock', component: () => import('@/views/TubeStockView.vue'), meta: { roles: ROLES, title: 'Tube stock' } },
       { path: 'dev/mailbox', name: 'dev-mailbox', component: () => import('@/views/MailboxView.vue'), meta: { roles: ['admin'], title: 'Mailbox' } },
       { path: 'clubs/:clubId/activity', name: 'club-activity', component: () => import('@/views/AuditLogView.vue'), meta: { roles: ['admin'], title: 'Activity log' } },
       { path: 'check-runs/:checkRunId', name: 'check-run', component: () => import('@/views/CheckRunView.vue'), meta: { title: 'Check run' } },

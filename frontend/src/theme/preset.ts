@@ -4,7 +4,7 @@ import { definePreset } from '@primeuix/themes';
 import Aura from '@primeuix/themes/aura';
 
 /** Signal amber: reads as "caution" on the garage floor; 500 is the fill, 700+ carry text. */
-const signalAmber = {
+export const signalAmber = {
   50: '#fff7ec',
   100: '#ffecd0',
   200: '#ffd59e',
@@ -19,7 +19,7 @@ const signalAmber = {
 };
 
 /** Steel: a blue-grey with a little more blue than slate, like painted tube under shop lights. */
-const steel = {
+export const steel = {
   0: '#ffffff',
   50: '#f3f5f8',
   100: '#e5e9ef',
@@ -33,6 +33,22 @@ const steel = {
   900: '#242b36',
   950: '#161b22',
 };
+
+/**
+ * Text tones on the light surfaces. Muted text is steel 600, not 500: 500 measured 3.96:1 on the page
+ * background (steel 100), under the 4.5:1 WCAG 2.2 SC 1.4.3 asks for normal text; 600 gives 5.57:1
+ * there and 6.79:1 on white. tests/unit/frontend/theme-contrast.test.ts keeps every pair above 4.5:1.
+ */
+export const textTokens = { color: '{surface.800}', hoverColor: '{surface.900}', mutedColor: '{surface.600}' } as const;
+
+/** A filled button of one severity, one step darker than Aura's so white text reads at 4.5:1 or more. */
+function filled(hue: string) {
+  return {
+    background: `{${hue}.700}`, hoverBackground: `{${hue}.800}`, activeBackground: `{${hue}.900}`,
+    borderColor: `{${hue}.700}`, hoverBorderColor: `{${hue}.800}`, activeBorderColor: `{${hue}.900}`,
+    focusRing: { color: `{${hue}.700}`, shadow: 'none' },
+  };
+}
 
 export const CagewrightPreset = definePreset(Aura, {
   primitive: {
@@ -56,7 +72,7 @@ export const CagewrightPreset = definePreset(Aura, {
           color: '{primary.900}',
           focusColor: '{primary.950}',
         },
-        text: { color: '{surface.800}', hoverColor: '{surface.900}', mutedColor: '{surface.500}' },
+        text: textTokens,
         formField: { color: '{surface.800}', borderColor: '{surface.300}' },
       },
     },
@@ -72,11 +88,62 @@ export const CagewrightPreset = definePreset(Aura, {
         },
       },
     },
+    // Aura writes message text in the 600 tones, a little under 4.5:1 on their own tints (red 600 on
+    // red 50 is about 4.4:1 once laid over the page); one step darker reads at 5:1 and more.
+    message: {
+      colorScheme: {
+        light: {
+          info: { color: '{blue.700}', outlined: { color: '{blue.700}' }, simple: { color: '{blue.700}' } },
+          success: { color: '{green.700}', outlined: { color: '{green.700}' }, simple: { color: '{green.700}' } },
+          warn: { color: '{yellow.800}', outlined: { color: '{yellow.800}' }, simple: { color: '{yellow.800}' } },
+          error: { color: '{red.700}', outlined: { color: '{red.700}' }, simple: { color: '{red.700}' } },
+          secondary: { color: '{surface.700}', outlined: { color: '{surface.700}' }, simple: { color: '{surface.700}' } },
+        },
+      },
+    },
+    // Buttons: Aura's 500 fills carry white text at 2.3–3.8:1 and its text and outlined buttons use the
+    // 500 tones as text; every severity here is 700 (fills) or 700–800 (text) so labels reach 4.5:1
+    // on white and on the page (axe color-contrast in the browser journeys found each of these).
     button: {
       colorScheme: {
         light: {
-          text: { primary: { color: '{primary.700}' } },
-          outlined: { primary: { color: '{primary.700}', borderColor: '{primary.400}' } },
+          root: {
+            success: filled('green'),
+            info: filled('sky'),
+            warn: filled('orange'),
+            help: filled('purple'),
+            danger: filled('red'),
+          },
+          text: {
+            primary: { color: '{primary.800}' },
+            secondary: { color: '{surface.600}' },
+            success: { color: '{green.800}' },
+            info: { color: '{sky.800}' },
+            warn: { color: '{orange.800}' },
+            help: { color: '{purple.700}' },
+            danger: { color: '{red.700}' },
+          },
+          outlined: {
+            primary: { color: '{primary.800}', borderColor: '{primary.400}' },
+            secondary: { color: '{surface.600}' },
+            success: { color: '{green.800}' },
+            info: { color: '{sky.800}' },
+            warn: { color: '{orange.800}' },
+            help: { color: '{purple.700}' },
+            danger: { color: '{red.700}' },
+          },
+          link: { color: '{primary.800}', hoverColor: '{primary.900}', activeColor: '{primary.950}' },
+        },
+      },
+    },
+    toast: {
+      colorScheme: {
+        light: {
+          info: { color: '{blue.800}', detailColor: '{surface.700}' },
+          success: { color: '{green.800}', detailColor: '{surface.700}' },
+          warn: { color: '{yellow.800}', detailColor: '{surface.700}' },
+          error: { color: '{red.800}', detailColor: '{surface.700}' },
+          secondary: { color: '{surface.700}', detailColor: '{surface.700}' },
         },
       },
     },

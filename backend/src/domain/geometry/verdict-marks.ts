@@ -3,6 +3,7 @@
 // everywhere, and colour is never the only cue (each verdict also has its own pattern and symbol).
 import type { Finding } from '../../contracts/report.js';
 import { findingKey } from '../review/waivers.js';
+import { FINDING_VERDICT_WORDS } from '../../contracts/verdict-words.js';
 
 export const MARK_VERDICTS = ['fail', 'needs_information', 'waived', 'pass', 'unchecked'] as const;
 export type MarkVerdict = (typeof MARK_VERDICTS)[number];
@@ -30,7 +31,7 @@ export interface VerdictMark {
 export const VERDICT_MARKS: Readonly<Record<MarkVerdict, VerdictMark>> = {
   fail: { verdict: 'fail', label: 'Fails a rule', colour: '#a3261d', tint: '#f3c9c4', dashPerOd: [1.6, 0.8], symbol: 'cross', rank: 0 },
   needs_information: {
-    verdict: 'needs_information', label: 'Needs a measurement', colour: '#7a4f00', tint: '#f5e0b3', dashPerOd: [0.15, 0.55], symbol: 'question', rank: 1,
+    verdict: 'needs_information', label: FINDING_VERDICT_WORDS.needs_information, colour: '#7a4f00', tint: '#f5e0b3', dashPerOd: [0.15, 0.55], symbol: 'question', rank: 1,
   },
   waived: { verdict: 'waived', label: 'Waived by a steward', colour: '#2f4f9a', tint: '#cfd9f0', dashPerOd: [1.6, 0.5, 0.15, 0.5], symbol: 'waived', rank: 2 },
   pass: { verdict: 'pass', label: 'Passes', colour: '#1f6f43', tint: '#c5e4d0', dashPerOd: [], symbol: 'tick', rank: 3 },

@@ -1,6 +1,7 @@
 // Cage records: issued when a steward approves a submission, valid for the club's period, and
 // checkable by anyone at the track. Numbers are our own format, PREFIX-YEAR-SEQUENCE
 // (e.g. TV-2027-0042). Status is computed at a moment, so "was it valid on race day" has an answer.
+import { REVOKE_REASON_MIN } from '../../contracts/review-limits.js';
 
 export type RecordStatus = 'valid' | 'expired' | 'superseded' | 'revoked';
 
@@ -20,7 +21,7 @@ export interface CageRecord {
 export const RECORD_PREFIX_PATTERN = /^[A-Z][A-Z0-9]{1,5}$/;
 const NUMBER_PATTERN = /^([A-Z][A-Z0-9]{1,5})-(\d{4})-(\d{4,})$/;
 export const VALIDITY_MONTHS_MAX = 120;
-export const REVOKE_REASON_MIN = 10;
+export { REVOKE_REASON_MIN };
 
 /** "tv", 2027, 42 → "TV-2027-0042". Throws on a prefix, year or sequence the format cannot hold. */
 export function formatRecordNumber(prefix: string, year: number, sequence: number): string {

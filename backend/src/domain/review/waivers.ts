@@ -23,8 +23,7 @@ export function findingKey(f: ReviewFinding): string {
 
 /** Findings a steward may waive: ones that failed or that lack a measurement. */
 export const WAIVABLE_VERDICTS: readonly FindingVerdict[] = ['fail', 'needs_information'];
-export const WAIVER_REASON_MIN = 10;
-export const WAIVER_REASON_MAX = 2000;
+export { WAIVER_REASON_MAX, WAIVER_REASON_MIN } from '../../contracts/review-limits.js';
 
 export type ShownVerdict = FindingVerdict | 'waived';
 export type OverallReviewVerdict = 'pass' | 'pass_with_waivers' | 'fail' | 'needs_information';

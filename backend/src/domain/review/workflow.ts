@@ -10,6 +10,9 @@ import {
   findingKey,
 } from './waivers.js';
 import type { ReviewFinding, Waiver } from './waivers.js';
+import type { ClubRole } from '../../contracts/roles.js';
+import { NOTE_MAX, NOTE_MIN } from '../../contracts/review-limits.js';
+import { SUBMISSION_STATE_IN_SENTENCE } from '../../contracts/verdict-words.js';
 
 export const SUBMISSION_STATES = [
   'pending',
@@ -27,7 +30,7 @@ export const FINAL_STATES: readonly SubmissionState[] = [
   'withdrawn',
 ];
 
-export type ClubRole = 'builder' | 'steward' | 'admin';
+export type { ClubRole };
 export interface ReviewActor {
   id: string;
   /** The actor's roles in the submission's club. */
@@ -108,17 +111,10 @@ export interface ReviewResult {
   event: AuditEvent;
 }
 
-export const NOTE_MIN = 10;
-export const NOTE_MAX = 4000;
+export { NOTE_MIN, NOTE_MAX };
 
-const STATE_WORDS: Readonly<Record<SubmissionState, string>> = {
-  pending: 'waiting for a steward',
-  in_review: 'in review',
-  approved: 'approved',
-  changes_requested: 'returned for changes',
-  rejected: 'rejected',
-  withdrawn: 'withdrawn',
-};
+// The words live with the other review words (contracts/verdict-words.ts), so refusals and screens agree.
+const STATE_WORDS = SUBMISSION_STATE_IN_SENTENCE;
 
 const refuse = (
   code: ReviewRefusalCode,

@@ -6,6 +6,7 @@
 import type { RouteLocationRaw } from 'vue-router';
 import type { AuditEntry } from '@/api/audit';
 import type { AuditRefWire } from '@contracts/audit';
+import { SUBMISSION_STATE_SHORT } from '@contracts/verdict-words';
 import { roleLabels } from '@/components/common/roles';
 import type { Role } from '@/api/types';
 import { JOURNAL_STAGE_LABELS, type JournalStage } from '@/api/journal';
@@ -33,14 +34,14 @@ export const actionLabels: Record<string, string> = {
   'cage_record.expiry_reminded': 'Expiry reminder e-mailed',
   'club.record_settings_changed': 'Cage record settings changed',
   'club.settings_changed': 'Club time zone changed',
-  'submission.submit': 'Sent for review',
+  'submission.submit': SUBMISSION_STATE_SHORT.pending,
   'submission.resubmit': 'Resubmitted',
   'submission.claim': 'Review taken up',
   'submission.release': 'Review released',
   'submission.waive': 'Finding waived',
   'submission.remove_waiver': 'Waiver removed',
   'submission.approve': 'Approved',
-  'submission.request_changes': 'Changes asked',
+  'submission.request_changes': SUBMISSION_STATE_SHORT.changes_requested,
   'submission.reject': 'Rejected',
   'submission.withdraw': 'Withdrawn',
   'submission.annotated': 'Finding annotated',

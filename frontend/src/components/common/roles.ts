@@ -1,11 +1,9 @@
 // How each club role is named on screen and what it lets a person do in Cagewright.
+import { ROLE_WORDS } from '@contracts/roles';
 import { ROLES, type Role } from '@/api/types';
 
-export const roleLabels: Record<Role, string> = {
-  builder: 'Builder',
-  steward: 'Steward',
-  admin: 'Admin',
-};
+/** The labels are the server's (contracts/roles.ts), so the invitation mail and the screens agree. */
+export const roleLabels: Record<Role, string> = Object.fromEntries(ROLES.map((r) => [r, ROLE_WORDS[r].label])) as Record<Role, string>;
 
 export const roleDuties: Record<Role, string> = {
   builder:

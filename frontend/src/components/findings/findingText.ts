@@ -28,7 +28,7 @@ export const OVERALL_WORDS: Record<CheckReport['verdict'], string> = {
   needs_information: CHECK_VERDICT_WORDS.needs_information.summary,
 };
 
-/** "Pre-check met", "Pre-check not met", "Needs measurements". */
+/** The short overall verdicts (CHECK_VERDICT_WORDS.short). */
 export const SHORT_VERDICT_WORDS: Record<CheckReport['verdict'], string> = {
   pass: CHECK_VERDICT_WORDS.pass.short,
   fail: CHECK_VERDICT_WORDS.fail.short,
@@ -84,9 +84,9 @@ export type VerdictFilter = 'all' | 'not_met' | 'needs_information' | 'met' | 'n
 
 /** The verdict groups in the order a builder fixes things: what is not met first. */
 export const VERDICT_GROUPS: readonly { value: Exclude<VerdictFilter, 'all'>; label: string; verdicts: readonly Finding['verdict'][] }[] = [
-  { value: 'not_met', label: 'Not met', verdicts: ['fail'] },
-  { value: 'needs_information', label: 'Needs a measurement', verdicts: ['needs_information'] },
-  { value: 'met', label: 'Met', verdicts: ['pass'] },
+  { value: 'not_met', label: capitalise(CHECK_VERDICT_WORDS.fail.outcome), verdicts: ['fail'] },
+  { value: 'needs_information', label: FINDING_VERDICT_WORDS.needs_information, verdicts: ['needs_information'] },
+  { value: 'met', label: capitalise(CHECK_VERDICT_WORDS.pass.outcome), verdicts: ['pass'] },
   { value: 'not_applicable', label: 'Do not apply', verdicts: ['not_applicable'] },
 ];
 
