@@ -14,9 +14,7 @@ import { PasswordResets1796198100000 } from './1796198100000-password-resets';
 import { JobResults1796300000000 } from './1796300000000-job-results';
 import { EditionSchedule1796300100000 } from './1796300100000-edition-schedule';
 import { HoopLegMeasurements1796310000000 } from './1796310000000-hoop-leg-measurements';
+import { CarTransfers1796320000000 } from './1796320000000-car-transfers';
 import { CageRecordInspections1796320200000 } from './1796320200000-cage-record-inspections';
 
-export const migrations = [Accounts1796083200000, RulesetsAndChecks1796083300000, Garage1796083400000, OutboxAndAudit1796083500000, RulesetRechecks1796083600000, Review1796083700000, ResumableJobs1796083812000, TubeStock1796195189144, FabricationSettings1796196000000, BuildJournal1796197266052, RateLimits1796198000000, PasswordResets1796198100000, JobResults1796300000000, EditionSchedule1796300100000, HoopLegMeasurements1796310000000, CageRecordInspections1796320200000];
-import { CarTransfers1796320000000 } from './1796320000000-car-transfers';
-
-export const migrations = [Accounts1796083200000, RulesetsAndChecks1796083300000, Garage1796083400000, OutboxAndAudit1796083500000, RulesetRechecks1796083600000, Review1796083700000, ResumableJobs1796083812000, TubeStock1796195189144, FabricationSettings1796196000000, BuildJournal1796197266052, RateLimits1796198000000, PasswordResets1796198100000, JobResults1796300000000, EditionSchedule1796300100000, HoopLegMeasurements1796310000000, CarTransfers1796320000000];
+export const migrations = [Accounts1796083200000, RulesetsAndChecks1796083300000, Garage1796083400000, OutboxAndAudit1796083500000, RulesetRechecks1796083600000, Review1796083700000, ResumableJobs1796083812000, TubeStock1796195189144, FabricationSettings1796196000000, BuildJournal1796197266052, RateLimits1796198000000, PasswordResets1796198100000, JobResults1796300000000, EditionSchedule1796300100000, HoopLegMeasurements1796310000000, CarTransfers1796320000000, CageRecordInspections1796320200000];
