@@ -90,3 +90,21 @@ describe('cageViewSvg', () => {
     expect(svg).toMatch(/>\d+ in<\/text>/); // the scale bar in the reader's units
   });
 });
+
+describe('typed names in the drawing', () => {
+  it('a member name with markup stays text: escaped in titles and labels, no element of its own', () => {
+    const hostile = '<script>alert(1)</script> & "hoop" <img src=x onerror=alert(2)>';
+    const named = new Map(members);
+    named.set('mh', { ...members.get('mh')!, name: hostile });
+    const svg = cageViewSvg(projectView(SAMPLE_CAGE, 'front'), { members: named, units: 'metric', marks: [], labels: true, highlightId: 'mh' });
+    const doc = new XmlDocument(svg);
+    const names = all(doc).map((el) => el.name);
+    expect(names).not.toContain('script');
+    expect(names).not.toContain('img');
+    expect(svg).not.toContain('<script');
+    expect(svg).not.toContain('<img');
+    // The words are still there for a reader, as text.
+    const texts = all(doc).filter((el) => el.name === 'title' || el.name === 'text').map((el) => el.val);
+    expect(texts.some((t) => t.includes(hostile))).toBe(true);
+  });
+});
