@@ -8,7 +8,7 @@ export default defineConfig({
   root: fileURLToPath(new URL('.', import.meta.url)),
   plugins: [
     vue(),
-    // The app shell for poor signal (docs/decisions/0015-kept-on-this-device.md): the built files are
+    // The app shell for poor signal (docs/decisions/0018-kept-on-this-device.md): the built files are
     // precached, so a page seen once (the public verification page, a builder's own records) opens with
     // no signal. /api is never cached: it is network-only and kept out of the navigation fallback; the
     // app keeps its own last answer and says how old it is. The worker is registered by main.ts in

@@ -2,7 +2,7 @@
 // and the last answer seen for a few things worth opening with no signal (the sheet being edited, a
 // builder's own cage records, public verification answers, who was signed in). Everything but the
 // public answers is keyed by user id and forgotten at sign-out, because laptops at the track are
-// shared. Why localStorage and not IndexedDB: docs/decisions/0015-kept-on-this-device.md.
+// shared. Why localStorage and not IndexedDB: docs/decisions/0018-kept-on-this-device.md.
 const PREFIX = 'cagewright.kept.';
 
 /** What is kept: drafts and last-seen answers per user; verification answers are public. */
