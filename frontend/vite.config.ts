@@ -10,8 +10,9 @@ export default defineConfig({
     vue(),
     // The app shell for poor signal (docs/decisions/0018-kept-on-this-device.md): the built files are
     // precached, so a page seen once (the public verification page, a builder's own records) opens with
-    // no signal. /api is never cached: it is network-only and kept out of the navigation fallback; the
-    // app keeps its own last answer and says how old it is. The worker is registered by main.ts in
+    // no signal. /api is never cached: the worker has no route for it (so it never answers an API call
+    // and each one goes to the network as if there were no worker) and it is kept out of the navigation
+    // fallback; the app keeps its own last answer and says how old it is. The worker is registered by main.ts in
     // production builds only; the dev server has none.
     VitePWA({
       strategies: 'generateSW',
@@ -23,7 +24,6 @@ export default defineConfig({
         maximumFileSizeToCacheInBytes: 3 * 1024 * 1024,
         navigateFallback: 'index.html',
         navigateFallbackDenylist: [/^\/api(\/|$)/],
-        runtimeCaching: [{ urlPattern: ({ url }) => url.pathname === '/api' || url.pathname.startsWith('/api/'), handler: 'NetworkOnly' }],
         cleanupOutdatedCaches: true,
         clientsClaim: true,
         // A new version waits until every tab of the old one is closed, so no open page asks for a

@@ -8,9 +8,9 @@ const baseUrl = inject('e2eBaseUrl');
 
 test.for<[DemoRole, string[]]>([
   ['builder', ['Overview', 'Garage', 'Tube stock', 'Bench tools', 'Account']],
-  ['steward', ['Overview', 'Review queue', 'Bench tools', 'Account']],
+  ['steward', ['Overview', 'Review queue', 'Cage records', 'Bench tools', 'Account']],
   // The demo admin is a steward too.
-  ['admin', ['Overview', 'Tube stock', 'Review queue', 'Members', 'Rulebooks', 'Activity log', 'Mailbox', 'Bench tools', 'Account']],
+  ['admin', ['Overview', 'Tube stock', 'Review queue', 'Cage records', 'Members', 'Rulebooks', 'Activity log', 'Mailbox', 'Bench tools', 'Account']],
 ])('signed in as the demo %s, the menu shows exactly %j', async ([role, expected], { browser }) => {
   const { page } = browser;
   await signIn(page, baseUrl, demoUsers[role]);
