@@ -75,10 +75,24 @@ export function describeFindings(where: string, url: string, findings: readonly 
   return `axe found ${findings.length} serious or critical accessibility problem${findings.length === 1 ? '' : 's'} at ${where} (${url}):\n${blocks.join('\n')}`;
 }
 
+/**
+ * The serious and critical findings on the page once it is still. A message can start leaving
+ * (a toast fading out at the end of its life) between the wait for animations and axe's run, and axe
+ * then measures the half-faded text. So a page with findings is let settle and checked once more, and
+ * only what is still found then counts: a steady problem is found both times.
+ */
+export async function steadyFindings(page: Page): Promise<AxeFinding[]> {
+  await settleAnimations(page);
+  const first = await seriousFindings(page);
+  if (first.length === 0) return first;
+  await page.waitForTimeout(250);
+  await settleAnimations(page);
+  return seriousFindings(page);
+}
+
 /** Fails (throws) when axe finds a serious or critical problem on the page as it is now. */
 export async function expectAccessible(page: Page, where: string): Promise<void> {
-  await settleAnimations(page);
-  const findings = await seriousFindings(page);
+  const findings = await steadyFindings(page);
   if (findings.length === 0) return;
   lastThrown.set(page, signature(page.url(), findings));
   throw new Error(describeFindings(where, page.url(), findings));

@@ -8,7 +8,7 @@ import { join } from 'node:path';
 import { fileURLToPath } from 'node:url';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { test } from 'vitest';
-import { alreadyReported, describeFindings, expectAccessible, seriousFindings, settleAnimations } from './accessibility';
+import { alreadyReported, describeFindings, expectAccessible, settleAnimations, steadyFindings } from './accessibility';
 
 const screensDir = fileURLToPath(new URL('../../.artifacts/screens', import.meta.url));
 
@@ -69,8 +69,7 @@ export async function openBrowser(viewport = { width: 1280, height: 800 }, extra
 async function checkLastPage(page: Page): Promise<void> {
   if (page.isClosed() || !/^https?:/.test(page.url())) return;
   try {
-    await settleAnimations(page);
-    const findings = await seriousFindings(page);
+    const findings = await steadyFindings(page);
     if (findings.length > 0 && !alreadyReported(page, findings)) findingsAtClose.push(describeFindings('the last page of a browser session', page.url(), findings));
   } catch {
     // The page was navigating or crashed as the journey ended: nothing stable to check.
