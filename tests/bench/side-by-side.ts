@@ -1,16 +1,15 @@
 // Side-by-side bench (issue 13 §5): one sheet against 5 rulebooks must take at most 5 × the time of one
-// check, both measured in this run. Both go the way the server goes: the check engine's `evaluate`
-// job with the compiled-ruleset cache (here the in-process engine, the one-thread baseline; the server
-// spreads the columns over its worker pool), then for the five the reports parsed and the pure
-// comparison (domain/compare/side-by-side.ts). The five rulebooks are the 40-requirement bench ruleset
+// check, both measured in this run. Both go the way the server goes, through the check engine with
+// the compiled-ruleset cache (here the in-process engine, on one thread; the server runs the same
+// jobs in a worker): one check is the `evaluate` job (the sheet parsed, evaluated, its report
+// serialised), the five are one `compare` job (the sheet parsed once, evaluated under each rulebook,
+// the reports laid side by side by domain/compare/side-by-side.ts where they were made). The five rulebooks are the 40-requirement bench ruleset
 // with their tube tables moved apart, so each is a compilation of its own and the comparison has
 // real differences to mark. Run: npx tsx --tsconfig tsconfig.json tests/bench/side-by-side.ts
 import type { RulesetDocument } from '../../backend/src/contracts/ruleset.js';
-import type { CheckReport } from '../../backend/src/contracts/report.js';
 import { compileRuleset } from '../../backend/src/domain/rules/compile.js';
 import { validateRulesetDocument } from '../../backend/src/domain/rules/validate.js';
 import type { CompiledRuleset } from '../../backend/src/domain/rules/types.js';
-import { compareRulebooks, satisfyAllLine } from '../../backend/src/domain/compare/side-by-side.js';
 import { createInProcessEngine } from '../../backend/src/services/check-engine.js';
 import { createCompiledRulesetCache, compiledCacheKey, type CacheKeyParts } from '../../backend/src/services/compiled-ruleset-cache.js';
 import { buildBenchRuleset, buildBenchSpecification } from './fixtures.js';
@@ -68,20 +67,13 @@ export async function runSideBySideBench(options: { log?: boolean; runs?: number
   const fiveSingleChecks = async () => {
     for (const version of versions) await engine.evaluate({ version, classId, specification: spec, unitSystem: 'imperial' });
   };
-  const five = async () => {
-    // One after another: on one thread, running them at once only interleaves their promises.
-    const compared = [];
-    for (const [i, version] of versions.entries()) {
-      const evaluated = await engine.evaluate({ version, classId, specification: spec, unitSystem: 'imperial' });
-      compared.push({ key: version.id, home: i === 0, classId, compiled: await compile(version), report: JSON.parse(evaluated.reportJson) as CheckReport });
-    }
-    const comparison = compareRulebooks(spec, compared);
-    satisfyAllLine(comparison, 'imperial');
-    return comparison;
-  };
+  // The five as the server runs them: one `compare` job of the same engine (parsed once, evaluated
+  // under each, the reports read where they were made and the matrix built there).
+  const columns = versions.map((version, i) => ({ version, classId, home: i === 0 }));
+  const five = () => engine.compare({ columns, specification: spec, unitSystem: 'imperial' });
 
   // Warm: every rulebook compiled once, the code paths hot, before anything is timed.
-  const sample = await five();
+  const sample = (await five()).comparison;
   for (let i = 0; i < 5; i++) {
     await fiveSingleChecks();
     await five();

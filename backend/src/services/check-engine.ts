@@ -7,8 +7,10 @@
 //    without limit.
 //  - `in-process`: evaluation on the calling thread, with the compiled-ruleset cache (tests and
 //    tools that want no threads, and the one-thread baseline of the re-check).
-// Two jobs: `evaluate` (a builder's check: the specification parsed, the full report as JSON text)
-// and `verdict` (bulk re-checks: a stored specification's verdict only, no report built on the wire).
+// Three jobs: `evaluate` (a builder's check: the specification parsed, the full report as JSON text),
+// `verdict` (bulk re-checks: a stored specification's verdict only, no report built on the wire) and
+// `compare` (one sheet against several rulebooks: parsed once, evaluated under each, and only the
+// side-by-side matrix crosses back; the reports are never serialised).
 // The check service keeps two pools: interactive checks in one (cores − 1 workers, bounded), bulk
 // re-checks in their own (one worker per core, started on demand and ended when idle), so a publish
 // or impact re-check never makes a builder's check wait for a place (`checks_busy`).
@@ -23,6 +25,7 @@ import type { DocumentProblem, RulesetDocument } from '../contracts/ruleset';
 import type { Specification } from '../contracts/specification';
 import type { Verdict } from '../contracts/rulebook-admin';
 import { evaluateSpecification, UnknownClassError, type CompiledRuleset } from '../domain';
+import { evaluateSideBySide, type SideBySideResult } from '../domain/compare/side-by-side';
 import type { UnitSystem } from '../domain/units';
 import { AppError, ConflictError, InternalError, NotFoundError, ValidationError } from '../errors';
 import { parseCheckSpecification } from './check-input';
@@ -45,6 +48,15 @@ export interface VerdictJob {
   specificationJson: string;
 }
 
+/** One specification against several rulebooks, side by side. */
+export interface CompareJob {
+  /** The sheet's own rulebook first: the specification names its class. */
+  columns: readonly { version: CacheKeyParts; classId: string; home: boolean }[];
+  /** Parsed by the engine with the shared schema, once for every column. */
+  specification: unknown;
+  unitSystem: UnitSystem;
+}
+
 export interface EvaluatedCheck {
   /** The specification as parsed (what a saved run stores). */
   specification: Specification;
@@ -64,16 +76,24 @@ export interface CheckEngine {
   evaluate(job: CheckJob): Promise<EvaluatedCheck>;
   /** Rejects when the specification cannot be evaluated (the caller counts it as failed). */
   verdict(job: VerdictJob): Promise<Verdict>;
+  compare(job: CompareJob): Promise<SideBySideResult>;
   stats(): CheckEngineStats;
   close(): Promise<void>;
 }
 
 export type CheckJobMessage =
   | (Omit<CheckJob, 'version'> & { type: 'report'; id: number; key: string; document?: RulesetDocument })
-  | (Omit<VerdictJob, 'version'> & { type: 'verdict'; id: number; key: string; document?: RulesetDocument });
+  | (Omit<VerdictJob, 'version'> & { type: 'verdict'; id: number; key: string; document?: RulesetDocument })
+  | (Omit<CompareJob, 'columns'> & {
+      type: 'compare';
+      id: number;
+      /** `key` is the compilation's, `column` the matrix's; a document rides with the first column that needs it. */
+      columns: { key: string; column: string; classId: string; home: boolean; document?: RulesetDocument }[];
+    });
 export type CheckReplyMessage =
   | { id: number; ok: true; reportJson: string; specification: Specification; compiled: boolean }
   | { id: number; ok: true; verdict: Verdict; compiled: boolean }
+  | { id: number; ok: true; result: SideBySideResult; compiled: number }
   | {
       id: number;
       ok: false;
@@ -95,6 +115,18 @@ export class ChecksBusyError extends AppError {
  */
 export class CheckEngineUnavailableError extends InternalError {
   override name = 'CheckEngineUnavailableError';
+}
+
+/** The side-by-side column key: one rulebook version in one class. */
+export function compareColumnKey(versionId: string, classId: string): string {
+  return `${versionId}:${classId}`;
+}
+
+/** The first column's class is the one the specification must name. */
+export function parseCompareSpecification(job: { columns: readonly { classId: string }[]; specification: unknown }) {
+  const first = job.columns[0];
+  if (!first) return { ok: false as const, problems: [{ path: 'columns', message: 'At least one rulebook to compare with' }] };
+  return parseCheckSpecification(job.specification, first.classId);
 }
 
 function invalidRuleset(problems: DocumentProblem[]): ConflictError {
@@ -138,6 +170,18 @@ export function createInProcessEngine(compile: (version: CacheKeyParts) => Promi
       queue = run.catch(() => undefined);
       return run.finally(() => inFlight--);
     },
+    async compare(job) {
+      const parsed = parseCompareSpecification(job);
+      if (!parsed.ok) throw new ValidationError(parsed.problems);
+      const rulebooks = [];
+      for (const c of job.columns) rulebooks.push({ key: compareColumnKey(c.version.id, c.classId), home: c.home, classId: c.classId, compiled: await compile(c.version) });
+      try {
+        return await evaluateSideBySide(parsed.specification, rulebooks, job.unitSystem);
+      } catch (err) {
+        if (err instanceof UnknownClassError) throw new NotFoundError(err.message);
+        throw err;
+      }
+    },
     stats: () => ({ mode: 'in-process', compiles: counter(), workers: 0, inFlight }),
     close: async () => undefined,
   };
@@ -159,9 +203,17 @@ export interface WorkerEngineOptions {
   documentFor: (version: CacheKeyParts) => Promise<RulesetDocument>;
 }
 
-type Pending =
-  | { type: 'report'; job: CheckJob; key: string; resolve: (result: EvaluatedCheck) => void; reject: (err: unknown) => void; retried: boolean }
-  | { type: 'verdict'; job: VerdictJob; key: string; resolve: (result: Verdict) => void; reject: (err: unknown) => void; retried: boolean };
+/** The compilations a job needs: one, or one per column of a comparison. */
+interface Need {
+  key: string;
+  version: CacheKeyParts;
+}
+
+type Pending = { needs: Need[]; reject: (err: unknown) => void; retried: boolean } & (
+  | { type: 'report'; job: CheckJob; resolve: (result: EvaluatedCheck) => void }
+  | { type: 'verdict'; job: VerdictJob; resolve: (result: Verdict) => void }
+  | { type: 'compare'; job: CompareJob; resolve: (result: SideBySideResult) => void }
+);
 
 interface PoolWorker {
   worker: Worker;
@@ -177,6 +229,10 @@ interface PoolWorker {
 const tsxApi = pathToFileURL(createRequire(import.meta.url).resolve('tsx/esm/api')).href.replace(/index\.cjs$/, 'index.mjs');
 const workerFile = new URL('./check-worker.ts', import.meta.url).href;
 const bootstrap = `import(${JSON.stringify(tsxApi)}).then(({ tsImport }) => tsImport(${JSON.stringify(workerFile)}, ${JSON.stringify(workerFile)}))`;
+
+function needOf(version: CacheKeyParts): Need {
+  return { key: compiledCacheKey(version), version };
+}
 
 export function createWorkerEngine(options: WorkerEngineOptions): CheckEngine {
   const size = Math.max(1, options.size ?? availableParallelism() - 1);
@@ -229,27 +285,37 @@ export function createWorkerEngine(options: WorkerEngineOptions): CheckEngine {
 
   function send(pw: PoolWorker, id: number, p: Pending): void {
     pw.chain = pw.chain.then(async () => {
-      let document: RulesetDocument | undefined;
-      if (!pw.sent.has(p.key)) {
-        try {
-          document = await options.documentFor(p.job.version);
-        } catch (err) {
-          pw.pending.delete(id);
-          inFlight--;
-          p.reject(err);
-          settle();
-          return;
-        }
-        pw.sent.add(p.key);
+      const documents = new Map<string, RulesetDocument>();
+      try {
+        for (const need of p.needs) if (!pw.sent.has(need.key) && !documents.has(need.key)) documents.set(need.key, await options.documentFor(need.version));
+      } catch (err) {
+        pw.pending.delete(id);
+        inFlight--;
+        p.reject(err);
+        settle();
+        return;
       }
-      const extra = { id, key: p.key, ...(document ? { document } : {}) };
+      for (const key of documents.keys()) pw.sent.add(key);
+      /** The document for this key, once per message: later columns with the same key go without. */
+      const take = (key: string) => {
+        const document = documents.get(key);
+        documents.delete(key);
+        return document ? { document } : {};
+      };
       let msg: CheckJobMessage;
-      if (p.type === 'report') {
-        const { version: _version, ...rest } = p.job;
-        msg = { type: 'report', ...rest, ...extra };
+      if (p.type === 'compare') {
+        const columns = p.job.columns.map((c, i) => ({ key: p.needs[i]!.key, column: compareColumnKey(c.version.id, c.classId), classId: c.classId, home: c.home, ...take(p.needs[i]!.key) }));
+        msg = { type: 'compare', id, columns, specification: p.job.specification, unitSystem: p.job.unitSystem };
       } else {
-        const { version: _version, ...rest } = p.job;
-        msg = { type: 'verdict', ...rest, ...extra };
+        const key = p.needs[0]!.key;
+        const extra = { id, key, ...take(key) };
+        if (p.type === 'report') {
+          const { version: _version, ...rest } = p.job;
+          msg = { type: 'report', ...rest, ...extra };
+        } else {
+          const { version: _version, ...rest } = p.job;
+          msg = { type: 'verdict', ...rest, ...extra };
+        }
       }
       try {
         pw.worker.postMessage(msg);
@@ -266,8 +332,8 @@ export function createWorkerEngine(options: WorkerEngineOptions): CheckEngine {
     const p = pw.pending.get(reply.id);
     if (!p) return;
     if (!reply.ok && reply.kind === 'need-document' && !p.retried) {
-      // The worker let this compilation go (its cache is bounded): send the document again.
-      pw.sent.delete(p.key);
+      // The worker let a compilation go (its cache is bounded): send the documents again.
+      for (const need of p.needs) pw.sent.delete(need.key);
       p.retried = true;
       send(pw, reply.id, p);
       return;
@@ -276,15 +342,18 @@ export function createWorkerEngine(options: WorkerEngineOptions): CheckEngine {
     inFlight--;
     settle();
     if (reply.ok) {
-      if (reply.compiled) compiles++;
+      compiles += Number(reply.compiled);
       if ('verdict' in reply) {
         if (p.type === 'verdict') p.resolve(reply.verdict);
+        else p.reject(new InternalError());
+      } else if ('result' in reply) {
+        if (p.type === 'compare') p.resolve(reply.result);
         else p.reject(new InternalError());
       } else if (p.type === 'report') p.resolve({ specification: reply.specification, reportJson: reply.reportJson });
       else p.reject(new InternalError());
       return;
     }
-    if (reply.kind === 'invalid-ruleset') pw.sent.delete(p.key);
+    if (reply.kind === 'invalid-ruleset') for (const need of p.needs) pw.sent.delete(need.key);
     if (reply.kind === 'unknown-class') p.reject(new NotFoundError(reply.message));
     else if (reply.kind === 'invalid-ruleset') p.reject(invalidRuleset(reply.problems ?? []));
     else if (reply.kind === 'invalid-specification') p.reject(new ValidationError(reply.problems ?? []));
@@ -306,10 +375,14 @@ export function createWorkerEngine(options: WorkerEngineOptions): CheckEngine {
 
   return {
     evaluate(job) {
-      return submit<EvaluatedCheck>((resolve, reject) => ({ type: 'report', job, key: compiledCacheKey(job.version), resolve, reject, retried: false }));
+      return submit<EvaluatedCheck>((resolve, reject) => ({ type: 'report', job, needs: [needOf(job.version)], resolve, reject, retried: false }));
     },
     verdict(job) {
-      return submit<Verdict>((resolve, reject) => ({ type: 'verdict', job, key: compiledCacheKey(job.version), resolve, reject, retried: false }));
+      return submit<Verdict>((resolve, reject) => ({ type: 'verdict', job, needs: [needOf(job.version)], resolve, reject, retried: false }));
+    },
+    compare(job) {
+      if (job.columns.length === 0) return Promise.reject(new ValidationError([{ path: 'columns', message: 'At least one rulebook to compare with' }]));
+      return submit<SideBySideResult>((resolve, reject) => ({ type: 'compare', job, needs: job.columns.map((c) => needOf(c.version)), resolve, reject, retried: false }));
     },
     stats: () => ({ mode: 'workers', compiles, workers: workers.length, inFlight }),
     async close() {

@@ -1,15 +1,17 @@
 // The worker side of the check engine pools (check-engine.ts): validates and compiles a ruleset
 // document the first time its key is seen, keeps the compilation (bounded), and evaluates
-// specifications: a builder's check (parsed with the shared schema, the report serialised here) or a
-// stored sheet's verdict for a bulk re-check. Runs in a worker thread, so neither holds up the
+// specifications: a builder's check (parsed with the shared schema, the report serialised here), a
+// stored sheet's verdict for a bulk re-check, or one sheet against several rulebooks (side by side). Runs in a worker thread, so neither holds up the
 // server's event loop. Pure computation: no database, no I/O besides the message port (and, once, the
 // thread's own id from /proc to lower its priority when asked).
 import { readlinkSync } from 'node:fs';
 import { setPriority } from 'node:os';
 import { parentPort, workerData } from 'node:worker_threads';
 import type { Specification } from '../contracts/specification';
+import type { RulesetDocument } from '../contracts/ruleset';
 import { compileRuleset, evaluateSpecification, UnknownClassError, validateRulesetDocument, type CompiledRuleset } from '../domain';
-import type { CheckJobMessage, CheckReplyMessage } from './check-engine';
+import { evaluateSideBySide, type RulebookToCompare } from '../domain/compare/side-by-side';
+import { parseCompareSpecification, type CheckJobMessage, type CheckReplyMessage } from './check-engine';
 import { parseCheckSpecification } from './check-input';
 
 // Linux applies a priority to one thread when given the thread's id; other systems have no
@@ -26,26 +28,27 @@ if (niceness !== 0) {
 const maxCompiled = 32;
 const compiled = new Map<string, CompiledRuleset>();
 
-function compiledFor(msg: CheckJobMessage): { ruleset: CompiledRuleset; compiledNow: boolean } | CheckReplyMessage {
-  const cached = compiled.get(msg.key);
+function compiledFor(id: number, key: string, document: RulesetDocument | undefined): { ruleset: CompiledRuleset; compiledNow: boolean } | CheckReplyMessage {
+  const cached = compiled.get(key);
   if (cached) {
-    compiled.delete(msg.key);
-    compiled.set(msg.key, cached);
+    compiled.delete(key);
+    compiled.set(key, cached);
     return { ruleset: cached, compiledNow: false };
   }
-  if (msg.document === undefined) return { id: msg.id, ok: false, kind: 'need-document', message: 'document not held' };
-  const validation = validateRulesetDocument(msg.document);
-  if (!validation.ok) return { id: msg.id, ok: false, kind: 'invalid-ruleset', message: 'invalid ruleset document', problems: validation.problems };
+  if (document === undefined) return { id, ok: false, kind: 'need-document', message: 'document not held' };
+  const validation = validateRulesetDocument(document);
+  if (!validation.ok) return { id, ok: false, kind: 'invalid-ruleset', message: 'invalid ruleset document', problems: validation.problems };
   const ruleset = compileRuleset(validation.document);
-  compiled.set(msg.key, ruleset);
+  compiled.set(key, ruleset);
   while (compiled.size > maxCompiled) compiled.delete(compiled.keys().next().value as string);
   return { ruleset, compiledNow: true };
 }
 
 async function handle(msg: CheckJobMessage): Promise<CheckReplyMessage> {
   try {
+    if (msg.type === 'compare') return await compare(msg);
     // The ruleset first: a document sent along is compiled even when the specification is bad.
-    const got = compiledFor(msg);
+    const got = compiledFor(msg.id, msg.key, msg.document);
     if ('id' in got) return got;
     if (msg.type === 'verdict') {
       // A stored specification was valid when it was saved; only its verdict crosses back.
@@ -61,6 +64,21 @@ async function handle(msg: CheckJobMessage): Promise<CheckReplyMessage> {
     if (err instanceof UnknownClassError) return { id: msg.id, ok: false, kind: 'unknown-class', message: err.message };
     return { id: msg.id, ok: false, kind: 'error', message: err instanceof Error ? err.message : String(err) };
   }
+}
+
+/** Every column's ruleset first (documents sent along are compiled), then the parse and the matrix. */
+async function compare(msg: Extract<CheckJobMessage, { type: 'compare' }>): Promise<CheckReplyMessage> {
+  const rulebooks: RulebookToCompare[] = [];
+  let compiles = 0;
+  for (const c of msg.columns) {
+    const got = compiledFor(msg.id, c.key, c.document);
+    if ('id' in got) return got;
+    if (got.compiledNow) compiles++;
+    rulebooks.push({ key: c.column, home: c.home, classId: c.classId, compiled: got.ruleset });
+  }
+  const parsed = parseCompareSpecification(msg);
+  if (!parsed.ok) return { id: msg.id, ok: false, kind: 'invalid-specification', message: 'invalid specification', problems: parsed.problems };
+  return { id: msg.id, ok: true, result: await evaluateSideBySide(parsed.specification, rulebooks, msg.unitSystem), compiled: compiles };
 }
 
 // One job at a time, in the order they came: the pool may hand a worker a whole page of sheets at

@@ -13,7 +13,8 @@ import { implausibleValues } from '../domain/field-ranges';
 import { CheckRun, User } from '../entities';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import { availableParallelism } from 'node:os';
-import { createInProcessEngine, createWorkerEngine, type CheckEngine, type CheckEngineStats, type CheckJob, type VerdictJob } from './check-engine';
+import type { SideBySideResult } from '../domain/compare/side-by-side';
+import { createInProcessEngine, createWorkerEngine, type CheckEngine, type CheckEngineStats, type CompareJob, type VerdictJob } from './check-engine';
 import type { Verdict } from '../contracts/rulebook-admin';
 import { parseCheckSpecification } from './check-input';
 import { enforce } from './access';
@@ -191,12 +192,11 @@ export function createCheckService(ds: DataSource, rulesets: RulesetService, opt
     },
 
     /**
-     * The full report of a stored specification, through the same engine and compiled-ruleset cache
-     * as a builder's check (several rulebooks side by side). The caller has checked access and state.
+     * A stored specification against several rulebooks, side by side, in one job of the same engine:
+     * parsed once, evaluated under each, and only the matrix comes back. The caller has checked access
+     * and state.
      */
-    async reportFor(job: CheckJob): Promise<CheckReport> {
-      return JSON.parse((await engine.evaluate(job)).reportJson) as CheckReport;
-    },
+    compare: (job: CompareJob): Promise<SideBySideResult> => engine.compare(job),
 
     /** A check stored as an immutable record; the stored specification is the parsed one. */
     async saveRun(input: SaveRunInput): Promise<CheckRunWire> {

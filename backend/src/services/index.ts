@@ -126,7 +126,7 @@ export function createServices(
     fabrication: createFabricationService(ds, { buildSheets, settings: fabricationSettings }),
     clubSettings,
     sheetEditions: createSheetEditionService(ds, { rulesets, buildSheets }),
-    sideBySide: createSideBySideService(ds, { rulesets, checks }),
+    sideBySide: createSideBySideService(ds, { checks }),
     carTransfers: createCarTransferService(ds, { audit, mail, publicUrl: options.publicUrl }),
   };
 }

@@ -1,14 +1,14 @@
 // One build sheet against several rulebooks at once (issue 13 §5). The sheet's own rulebook edition
 // is the home column; the others are editions in force (published) in clubs the builder belongs to,
-// each in a class the builder picks. Each rulebook runs through the check engine a builder's check
-// uses (worker pool and compiled-ruleset cache), and the pure domain lays the reports side by side.
+// each in a class the builder picks. The comparison is one job of the check engine a builder's check
+// uses (worker pool and compiled-ruleset cache): the sheet evaluated under each rulebook and the
+// reports laid side by side by the pure domain, in the worker.
 // Only the car's owner compares (sheet.edit: the club's stewards get 403, anyone else 404), and only
 // against versions they may read (version.read: another club's rulebook is not found).
 import type { DataSource } from 'typeorm';
 import type { SideBySideBody, SideBySideOptionsWire, SideBySideOptionWire, SideBySideWire } from '../contracts/side-by-side';
 import type { Specification } from '../contracts/specification';
 import type { RulesetDocument } from '../contracts/ruleset';
-import { compareRulebooks, satisfyAllLine, type ComparedRulebook } from '../domain/compare/side-by-side';
 import { formatIsoDate } from '../domain/dates';
 import type { UnitSystem } from '../domain/units';
 import type { ClubRole, RulesetStatus } from '../entities';
@@ -17,7 +17,7 @@ import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import { enforce } from './access';
 import type { CheckService } from './checks.service';
 import { sheetFor } from './garage.service';
-import { versionFacts, type RulesetService } from './rulesets.service';
+import { versionFacts } from './rulesets.service';
 
 interface VersionRow {
   id: string;
@@ -51,7 +51,7 @@ export function suggestedClass(classes: readonly { id: string; name: string }[],
 
 export type SideBySideService = ReturnType<typeof createSideBySideService>;
 
-export function createSideBySideService(ds: DataSource, deps: { rulesets: RulesetService; checks: CheckService }) {
+export function createSideBySideService(ds: DataSource, deps: { checks: CheckService }) {
   async function homeOf(sheetId: string, userId: string) {
     const { sheet } = await sheetFor(ds.manager, sheetId, userId, 'edit');
     const revision = await ds.getRepository(BuildSheetRevision).findOneOrFail({ where: { buildSheetId: sheet.id, number: sheet.currentRevision } });
@@ -117,22 +117,17 @@ export function createSideBySideService(ds: DataSource, deps: { rulesets: Rulese
       const units: UnitSystem = body.unitSystem ?? (await ds.getRepository(User).findOneBy({ id: userId }))?.preferredUnits ?? 'imperial';
       const spec = revision.specification as Specification;
       const all = [{ version: home, classId: revision.classId, home: true }, ...picked.map((p) => ({ ...p, home: false }))];
-      // Every rulebook at once: the worker pool spreads them over its threads.
-      const compared: ComparedRulebook[] = await Promise.all(
-        all.map(async ({ version, classId, home: isHome }) => {
-          const key = { id: version.id, status: version.status, lockVersion: version.lockVersion };
-          const [report, compiled] = await Promise.all([
-            deps.checks.reportFor({ version: key, classId, specification: { ...spec, vehicle: { ...spec.vehicle, classId } }, unitSystem: units }),
-            deps.rulesets.loadCompiled(version.id, key),
-          ]);
-          return { key: `${version.id}:${classId}`, home: isHome, classId, compiled, report };
-        }),
-      );
-      const comparison = compareRulebooks(spec, compared);
+      // One job: the sheet parsed once and evaluated under each rulebook where the reports are read,
+      // so only the matrix crosses back (the worker pool keeps the event loop free meanwhile).
+      const { comparison, line } = await deps.checks.compare({
+        columns: all.map(({ version, classId, home: isHome }) => ({ version: { id: version.id, status: version.status, lockVersion: version.lockVersion }, classId, home: isHome })),
+        specification: spec,
+        unitSystem: units,
+      });
       return {
         comparison,
         columns: all.map(({ version }) => ({ rulesetVersionId: version.id, clubName: version.clubName })),
-        line: satisfyAllLine(comparison, units),
+        line,
         revision: revision.number,
       };
     },

@@ -16,7 +16,7 @@ import type { RequirementArea } from '../../contracts/ruleset.js';
 import { AREAS } from '../../contracts/ruleset.js';
 import type { Specification } from '../../contracts/specification.js';
 import type { CompiledRequirement, CompiledRuleset, AlternativeMeta } from '../rules/types.js';
-import { chooseVariant } from '../rules/evaluate.js';
+import { chooseVariant, evaluateSpecification } from '../rules/evaluate.js';
 import { tubeSizeText } from '../rules/reason-text.js';
 import { tubeSectionProperties } from '../tube.js';
 import type { Dimension, UnitSystem } from '../units.js';
@@ -335,6 +335,30 @@ export function compareRulebooks(spec: Specification, rulebooks: readonly Compar
     })),
     rows,
   };
+}
+
+/** A rulebook to evaluate the sheet against, before its report exists. */
+export type RulebookToCompare = Omit<ComparedRulebook, 'report'>;
+
+/** The matrix and its one line, together: what the side-by-side screen shows. */
+export interface SideBySideResult {
+  comparison: RulebookComparison;
+  line: string;
+}
+
+/**
+ * The sheet evaluated under each rulebook (in its column's class) and the reports laid side by side,
+ * in one go: the reports are read here and never serialised, so the five cost five evaluations and
+ * one comparison. The specification is trusted (parsed by the caller) and names its own class.
+ */
+export async function evaluateSideBySide(spec: Specification, rulebooks: readonly RulebookToCompare[], system: UnitSystem): Promise<SideBySideResult> {
+  const compared: ComparedRulebook[] = [];
+  for (const r of rulebooks) {
+    const asChecked = r.classId === spec.vehicle.classId ? spec : { ...spec, vehicle: { ...spec.vehicle, classId: r.classId } };
+    compared.push({ ...r, report: await evaluateSpecification(r.compiled, r.classId, asChecked, { unitSystem: system }) });
+  }
+  const comparison = compareRulebooks(spec, compared);
+  return { comparison, line: satisfyAllLine(comparison, system) };
 }
 
 /**
