@@ -43,13 +43,18 @@ export interface InputRules {
   maxHint?: string;
   /** The field's plausible range (domain/field-ranges.ts): outside it is a units slip. */
   range?: FieldRange;
+  /**
+   * The field cannot be empty (a node's coordinate): emptying it is refused with this message and the
+   * value it held stays, rather than becoming zero or nothing without a word.
+   */
+  required?: string;
 }
 
 export type InputParse = { ok: true; value: number | undefined } | { ok: false; message: string };
 
 /** Typed text → canonical value (undefined when empty), or the message to show at the input. */
 export function parseInput(text: string, dimension: Dimension, system: UnitSystem, rules: InputRules = {}): InputParse {
-  if (text.trim() === '') return { ok: true, value: undefined };
+  if (text.trim() === '') return rules.required ? { ok: false, message: rules.required } : { ok: true, value: undefined };
   const parsed = parseQuantity(text, dimension, inputUnit(dimension, system), system);
   if (!parsed.ok) return parsed;
   const value = parsed.valueCanonical;

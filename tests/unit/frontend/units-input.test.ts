@@ -3,7 +3,7 @@
 import { describe, expect, test } from 'vitest';
 import { defineComponent, h, ref, computed } from 'vue';
 import { mount } from '@vue/test-utils';
-import { formatForInput, inputUnitLabel, parseInput } from '@/composables/useUnitInput';
+import { formatForInput, inputUnitLabel, parseInput, type InputRules } from '@/composables/useUnitInput';
 import { provideSheetInputs } from '@/composables/useBuildSheetInputs';
 import { emptyDraft } from '@/composables/useBuildSheetDraft';
 import SheetQuantityInput from '@/components/sheet/SheetQuantityInput.vue';
@@ -81,10 +81,16 @@ describe('typed at the input', () => {
   test('empty text means "not measured", not zero', () => {
     expect(parseInput('  ', 'length', 'metric')).toEqual({ ok: true, value: undefined });
   });
+
+  test('a field that cannot be empty (a node coordinate) refuses empty text with its own message', () => {
+    const rules = { min: -5000, max: 5000, required: 'A node needs all three coordinates: type 0 for one on the origin.' };
+    expect(parseInput('', 'length', 'metric', rules)).toEqual({ ok: false, message: rules.required });
+    expect(parseInput('0', 'length', 'metric', rules)).toEqual({ ok: true, value: 0 });
+  });
 });
 
 describe('the input component', () => {
-  function host(units: UnitSystem, initial?: number, field: { path: string; dimension: 'length' | 'mass' } = { path: 'members.0.wallMm', dimension: 'length' }) {
+  function host(units: UnitSystem, initial?: number, field: { path: string; dimension: 'length' | 'mass' } = { path: 'members.0.wallMm', dimension: 'length' }, rules?: InputRules) {
     const value = ref<number | undefined>(initial);
     const Host = defineComponent({
       setup() {
@@ -96,6 +102,7 @@ describe('the input component', () => {
               label: 'Wall',
               dimension: field.dimension,
               modelValue: value.value,
+              ...(rules ? { rules } : {}),
               'onUpdate:modelValue': (v: number | undefined) => (value.value = v),
             }),
             h('output', Object.keys(inputs.parseErrors).join(',')),
@@ -132,6 +139,16 @@ describe('the input component', () => {
     expect(value.value).toBe(2.5);
     expect(wrapper.find('input').attributes('aria-invalid')).toBe('true');
     expect(wrapper.find('output').text()).toBe('members.0.wallMm');
+  });
+
+  test('emptying a node coordinate is refused at the input and the node keeps its place', async () => {
+    const rules = { min: -5000, max: 5000, required: 'A node needs all three coordinates: type 0 for one on the origin.' };
+    const { wrapper, value } = host('metric', 812, { path: 'model.nodes.0.zMm', dimension: 'length' }, rules);
+    await wrapper.find('input').setValue('');
+    expect(wrapper.find('.qty__msg--bad').text()).toBe('A node needs all three coordinates: type 0 for one on the origin.');
+    expect(value.value).toBe(812);
+    await wrapper.find('input').setValue('0');
+    expect(value.value).toBe(0);
   });
 
   // Issue 9 §1: weights as rulebooks print them, and the slips a range catches.
