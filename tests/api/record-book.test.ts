@@ -16,7 +16,7 @@ import { createLogger } from '../../backend/src/logger';
 import { createServices } from '../../backend/src/services';
 import { createJobs } from '../../backend/src/services/jobs';
 import { expiryReminderCron, expiryReminderQueue, registerExpiryReminders } from '../../backend/src/services/records/expiry-reminder-job';
-import { formatIsoDate } from '../../backend/src/domain/dates';
+import { calendarDateIn, formatIsoDate } from '../../backend/src/domain/dates';
 import { agentFor, errorOf, makeTestApp, testConfig, testPublicUrl, useTestDatabase } from './helpers';
 import { as, type SignedIn } from './garage-fixtures';
 import { act, reviewFixture, submitNew, type ReviewFixture } from './review-fixtures';
@@ -269,8 +269,8 @@ describe('the public check', () => {
       record: {
         recordNumber: r.record.number, clubName: 'Tarnwick Vale Motor Club', carName: 'Silver Saloon', make: 'Orlen', model: 'Vantor', raceNumber: '71',
         className: expect.any(String), rulebookTitle: expect.any(String), edition: expect.any(String), status: 'valid',
-        expiresAt: rec.expiresAt, expiresOn: String(rec.expiresAt).slice(0, 10),
-        lastInspection: { inspectedOn: new Date().toISOString().slice(0, 10), sealNumber: 'TV-S-0711' },
+        expiresAt: rec.expiresAt, expiresOn: calendarDateIn(new Date(rec.expiresAt), 'Europe/London'),
+        lastInspection: { inspectedOn: calendarDateIn(new Date(), 'Europe/London'), sealNumber: 'TV-S-0711' },
       },
     });
     const text = JSON.stringify(res.body).toLowerCase();
@@ -280,6 +280,30 @@ describe('the public check', () => {
       expect(text).not.toContain(p.display_name.toLowerCase());
     }
     expect(text).not.toMatch(/photo|steward|builder|owner|\.jpe?g|uploads/);
+  });
+
+  it('says one expiry date everywhere, the club’s: a record ending at 14:00 UTC is valid until the next day in Auckland', async () => {
+    const { steward, builder } = fx.who;
+    const r = await approved({ name: 'Antipodes Coupe' });
+    const [{ time_zone: was }] = await db.ds.query(`SELECT time_zone FROM clubs WHERE id = $1`, [fx.clubId]);
+    // Pacific/Auckland is UTC+13 in December (its summer time): 14:00 UTC on 2 Dec 2027 is 03:00 on 3 Dec there.
+    await db.ds.query(`UPDATE cage_records SET expires_at = '2027-12-02T14:00:00Z' WHERE id = $1`, [r.record.id]);
+    await db.ds.query(`UPDATE clubs SET time_zone = 'Pacific/Auckland' WHERE id = $1`, [fx.clubId]);
+    try {
+      const verify = (await agentFor(app).get(`/api/verify/${r.record.verificationCode}`).expect(200)).body.record;
+      const view = (await steward.agent.get(`/api/cage-records/${r.record.id}`).expect(200)).body.record;
+      const listed = (await list(steward, { q: r.record.number }).expect(200)).body.items[0];
+      const cars = (await builder.agent.get('/api/cars').expect(200)).body.cars as { id: string; buildSheets: { review: { record: { expiresOn: string } | null } | null }[] }[];
+      const garage = cars.find((c) => c.id === r.carId)!.buildSheets[0]!.review!.record!;
+      expect([verify.expiresOn, view.expiresOn, listed.expiresOn, garage.expiresOn]).toEqual(['2027-12-03', '2027-12-03', '2027-12-03', '2027-12-03']);
+      // The instant itself is unchanged.
+      expect(view.expiresAt).toBe('2027-12-02T14:00:00.000Z');
+      // The club back in London: the same instant is 2 Dec there.
+      await db.ds.query(`UPDATE clubs SET time_zone = 'Europe/London' WHERE id = $1`, [fx.clubId]);
+      expect((await agentFor(app).get(`/api/verify/${r.record.verificationCode}`).expect(200)).body.record.expiresOn).toBe('2027-12-02');
+    } finally {
+      await db.ds.query(`UPDATE clubs SET time_zone = $2 WHERE id = $1`, [fx.clubId, was]);
+    }
   });
 });
 
@@ -318,7 +342,7 @@ describe('the expiry reminder', () => {
     expect(mails.map((m) => m.record_id).sort()).toEqual([due, edge, later].map((r) => r.record.id).sort());
     const dueMail = mails.find((m) => m.record_id === due.record.id)!;
     expect(dueMail).toMatchObject({ to_address: 'builder@tarnwick.example', idempotency_key: `cage_record.expiring:${due.record.id}` });
-    expect(dueMail.subject).toBe(`Cage record ${due.record.number} expires on ${formatIsoDate(new Date(T.getTime() + 12 * DAY).toISOString().slice(0, 10))}`);
+    expect(dueMail.subject).toBe(`Cage record ${due.record.number} expires on ${formatIsoDate(calendarDateIn(new Date(T.getTime() + 12 * DAY), 'Europe/London'))}`);
     expect(dueMail.text_body).toContain('in 12 days');
     expect(dueMail.text_body).toContain(`${testPublicUrl}/cage-records/${due.record.id}`);
     const marks = await db.ds.query(`SELECT id, expiry_reminded_at FROM cage_records WHERE id = $1`, [due.record.id]);

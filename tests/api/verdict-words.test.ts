@@ -57,7 +57,7 @@ describe('approved with one waiver', () => {
     expect(res.status, JSON.stringify(res.body)).toBe(200);
     const s = res.body.submission;
     expect(s.overall).toEqual({ verdict: 'pass_with_waivers', blocking: [], waivedCount: 1 });
-    const record = s.record as { number: string; expiresAt: string };
+    const record = s.record as { number: string; expiresAt: string; expiresOn: string };
 
     // The queue: the state counts its waiver; the verdict is the one with the waiver counted.
     const queue = (await steward.agent.get(`/api/clubs/${fx.clubId}/submissions?state=approved`).expect(200)).body;
@@ -70,7 +70,7 @@ describe('approved with one waiver', () => {
     const sheet = cars.find((c) => c.id === carId)!.buildSheets.find((b) => b.id === sheetId)!;
     expect(sheet.review).toEqual({
       submissionId, state: 'approved', revisionNumber: 1, verdict: 'pass_with_waivers', waivedCount: 1, sentAt: expect.any(String), decidedAt: expect.any(String),
-      record: { id: expect.any(String), number: record.number, status: 'valid', expiresAt: record.expiresAt, submissionId, waivedCount: 1, revisionNumber: 1 },
+      record: { id: expect.any(String), number: record.number, status: 'valid', expiresAt: record.expiresAt, expiresOn: record.expiresOn, submissionId, waivedCount: 1, revisionNumber: 1 },
     });
     const car = (await builder.agent.get(`/api/cars/${carId}`).expect(200)).body.car;
     expect(car.buildSheets[0].review).toEqual(sheet.review);

@@ -28,6 +28,8 @@ export interface RecordListItemWire {
   className: string;
   issuedAt: string;
   expiresAt: string;
+  /** The date it is valid until, in the club's time zone (YYYY-MM-DD): what every screen shows. */
+  expiresOn: string;
   /** The latest track inspection, if any. */
   lastInspection: { inspectedAt: string; sealNumber: string } | null;
 }

@@ -74,6 +74,8 @@ export interface SheetReviewWire {
     number: string;
     status: 'valid' | 'expired' | 'superseded' | 'revoked';
     expiresAt: string;
+    /** The date it is valid until, in the club's time zone (YYYY-MM-DD). */
+    expiresOn: string;
     submissionId: string;
     waivedCount: number;
     /** The revision the approved check ran on. */

@@ -143,6 +143,8 @@ export interface CageRecordWire {
   steward: PersonWire | null;
   issuedAt: string;
   expiresAt: string;
+  /** The date it is valid until, in the club's time zone (YYYY-MM-DD): what every screen shows. */
+  expiresOn: string;
   revokedAt: string | null;
   revokedReason: string | null;
   supersededAt: string | null;
@@ -259,9 +261,9 @@ export interface VerificationWire {
   rulebookTitle: string;
   edition: string;
   status: RecordStatusWire;
-  /** The record's expiry instant (ISO 8601) and its UTC date (YYYY-MM-DD). */
+  /** The record's expiry instant (ISO 8601) and its date in the club's time zone (YYYY-MM-DD). */
   expiresAt: string;
   expiresOn: string;
-  /** The latest track inspection: its UTC date and seal number only (never who inspected). */
+  /** The latest track inspection: its date in the club's time zone and seal number only (never who inspected). */
   lastInspection: { inspectedOn: string; sealNumber: string } | null;
 }

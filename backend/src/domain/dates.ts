@@ -44,6 +44,21 @@ export function calendarDateIn(instant: Date, timeZone: string): string {
   return `${part('year')}-${part('month')}-${part('day')}`;
 }
 
+/**
+ * The date a cage record (or any instant-based expiry) is valid until, as the club reads it: the
+ * expiry instant's calendar date in the club's time zone. Every screen, mail and PDF says this one date.
+ */
+export function expiryDateIn(expiresAt: Date, timeZone: string): string {
+  return calendarDateIn(expiresAt, timeZone);
+}
+
+/** The wall-clock time of an instant in an IANA time zone, "HH:MM" (24-hour). */
+export function clockTimeIn(instant: Date, timeZone: string): string {
+  const parts = new Intl.DateTimeFormat('en-GB', { timeZone, hour: '2-digit', minute: '2-digit', hourCycle: 'h23' }).formatToParts(instant);
+  const part = (type: string) => parts.find((p) => p.type === type)?.value ?? '';
+  return `${part('hour')}:${part('minute')}`;
+}
+
 /** True for a time zone name Intl knows ("UTC", "Europe/London", "America/Chicago"). */
 export function isTimeZone(name: unknown): name is string {
   if (typeof name !== 'string' || name.length === 0 || name.length > 64) return false;

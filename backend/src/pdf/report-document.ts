@@ -11,7 +11,7 @@ import { referenceWords } from '../domain/rules/reference-words';
 import { findingKey, overallWithWaivers } from '../domain/review/waivers';
 import { approvedText, CHECK_VERDICT_WORDS, FINDING_VERDICT_WORDS } from '../contracts/verdict-words';
 import { formatQuantity, type Dimension, type UnitSystem } from '../domain/units';
-import { formatIsoDate } from '../domain/dates';
+import { calendarDateIn, clockTimeIn, formatIsoDate } from '../domain/dates';
 import { MEMBER_KIND_LABELS } from '../domain/vocabulary';
 import type { BuyingList } from '../domain/fabrication/nesting';
 import { LEGEND_MARKS } from '../domain/geometry/verdict-marks';
@@ -72,6 +72,8 @@ export interface ReportReview {
   stewardName: string;
   decidedAt: Date;
   expiresAt: Date;
+  /** The club's time zone: the dates and times printed are the club's. */
+  timeZone: string;
   note: string | null;
   /** findingKey of domain/review/waivers.ts → the steward's reason. */
   waivers: { findingKey: string; reason: string; stewardName: string }[];
@@ -353,7 +355,7 @@ function cageBlock(cage: NonNullable<ReportDocumentInput['cage']>): Content[] {
 /** The steward's decision: the record number, who approved it and when, waivers, and the QR to check it. */
 function reviewBlock(review: ReportReview, findings: readonly Finding[], units: UnitSystem): Content[] {
   const byKey = new Map(findings.map((f) => [findingKey(f), f]));
-  const day = (d: Date) => formatIsoDate(d.toISOString().slice(0, 10));
+  const day = (d: Date) => formatIsoDate(calendarDateIn(d, review.timeZone));
   const waivedCount = overallWithWaivers(findings, review.waivers.map((w) => ({ findingKey: w.findingKey, reason: w.reason, stewardId: w.stewardName }))).waivedCount;
   const out: Content[] = [
     heading('Steward review'),
@@ -395,7 +397,7 @@ function reviewBlock(review: ReportReview, findings: readonly Finding[], units: 
     });
   }
   for (const i of review.inspections ?? []) {
-    const when = `${day(i.inspectedAt)} ${i.inspectedAt.toISOString().slice(11, 16)} UTC`;
+    const when = `${day(i.inspectedAt)} ${clockTimeIn(i.inspectedAt, review.timeZone)} (${review.timeZone})`;
     const low = i.readings.filter((r) => r.belowMinimum).length;
     out.push({ text: pdfSafe(`Track inspection ${when}, seal ${i.sealNumber}, by ${i.stewardName}${low ? ` · ${low} reading${low === 1 ? '' : 's'} under the rulebook's minimum` : ''}`), style: 'h3' });
     out.push(i.readings.length

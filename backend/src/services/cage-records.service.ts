@@ -12,6 +12,7 @@ import {
 } from '../domain/review/cage-record';
 import { CODE_RANDOM_BYTES, newVerificationCode } from '../domain/review/verification-code';
 import { CageRecord, Car, Club, ClubRecordSettings, User, type ClubRole } from '../entities';
+import { expiryDateIn } from '../domain/dates';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import type { AuditService } from './audit.service';
 import { allows } from '../domain/access-policy';
@@ -46,13 +47,14 @@ export function createCageRecordService(ds: DataSource, deps: ReviewMailDeps & {
 
   async function view(em: EntityManager, r: CageRecord, viewer: { userId: string; roles: readonly ClubRole[] }, now = new Date()): Promise<CageRecordWire> {
     const car = await em.getRepository(Car).findOneByOrFail({ id: r.carId });
+    const club = await em.getRepository(Club).findOneByOrFail({ id: r.clubId });
     const steward = r.stewardId ? await em.getRepository(User).findOneBy({ id: r.stewardId }) : null;
     const status = recordStatus(toDomain(r), now);
     return {
       id: r.id, number: r.number, status, car: { id: car.id, name: car.name, raceNumber: car.raceNumber },
       classId: r.classId, className: r.className, rulebookTitle: r.rulebookTitle, edition: r.edition,
       steward: steward ? { id: steward.id, displayName: steward.displayName } : null,
-      issuedAt: r.issuedAt.toISOString(), expiresAt: r.expiresAt.toISOString(), revokedAt: r.revokedAt?.toISOString() ?? null,
+      issuedAt: r.issuedAt.toISOString(), expiresAt: r.expiresAt.toISOString(), expiresOn: expiryDateIn(r.expiresAt, club.timeZone), revokedAt: r.revokedAt?.toISOString() ?? null,
       revokedReason: r.revokedReason, supersededAt: r.supersededAt?.toISOString() ?? null, verificationCode: r.verificationCode,
       verificationUrl: verificationUrl(deps.publicUrl, r.verificationCode), submissionId: r.submissionId,
       canRevoke: !r.revokedAt && allows('record.revoke', { actorId: viewer.userId, ownerId: car.ownerId, roles: viewer.roles }),

@@ -4,15 +4,17 @@ import type { EntityManager } from 'typeorm';
 import type { MailService } from './mail';
 import { renderMail } from './mail';
 import { rolesListText } from '../contracts/roles';
+import { calendarDateIn, clockTimeIn, formatIsoDate } from '../domain/dates';
 
 
 /** Queues the mail; returns its outbox id, which the activity log reads to say whether it went out. */
 export async function mailInvitation(
   mail: MailService, em: EntityManager,
-  input: { to: string; clubId: string; clubName: string; inviterName: string; roles: string[]; url: string; expiresAt: Date },
+  input: { to: string; clubId: string; clubName: string; inviterName: string; roles: string[]; url: string; expiresAt: Date; timeZone: string },
 ): Promise<string> {
   const roles = rolesListText('and', input.roles);
-  const until = input.expiresAt.toISOString().slice(0, 10);
+  // The last day and time in the club's time zone, as the person invited reads it.
+  const until = `${formatIsoDate(calendarDateIn(input.expiresAt, input.timeZone))}, ${clockTimeIn(input.expiresAt, input.timeZone)} (${input.timeZone})`;
   const { id } = await mail.enqueue(
     {
       to: input.to,

@@ -112,7 +112,7 @@ export function createMemberService(ds: DataSource, options: { publicUrl: string
         const invitationUrl = `${options.publicUrl}/invitations/${token}`;
         const inviter = await tx.getRepository(User).findOneBy({ id: invitedById });
         const mailId = await mailInvitation(options.mail, tx, {
-          to: user.email, clubId, clubName: club.name, inviterName: inviter?.displayName ?? `An admin of ${club.name}`, roles: body.roles, url: invitationUrl, expiresAt,
+          to: user.email, clubId, clubName: club.name, inviterName: inviter?.displayName ?? `An admin of ${club.name}`, roles: body.roles, url: invitationUrl, expiresAt, timeZone: club.timeZone,
         });
         // The log reads the outbox row (mailId) to say "e-mailed" once it went out, "invited" until then.
         await audit.record(

@@ -19,7 +19,7 @@ import type { AuditService } from './audit.service';
 import type { MailService } from './mail';
 import { renderMail } from './mail';
 import { rolesOf } from './review-access';
-import { formatIsoDate } from '../domain/dates';
+import { expiryDateIn, formatIsoDate } from '../domain/dates';
 
 export type RecordBookService = ReturnType<typeof createRecordBookService>;
 
@@ -121,12 +121,13 @@ export function createRecordBookService(ds: DataSource, deps: { audit: AuditServ
          FROM (SELECT ${STATUS_SQL} AS status, ${SOON_SQL} AS soon FROM cage_records r WHERE r.club_id = $2) s`,
         [now, clubId],
       );
+      const [{ time_zone: timeZone }] = (await ds.query(`SELECT time_zone FROM clubs WHERE id = $1`, [clubId])) as [{ time_zone: string }];
       const items: RecordListItemWire[] = rows.map((row) => {
         const expiresAt = new Date(row.expires_at);
         return {
           id: row.id, number: row.number, status: row.status, expiringSoon: expiresSoon(row.status, expiresAt, now), daysLeft: daysLeft(expiresAt, now),
           car: { id: row.car_id, name: row.car_name, make: row.make, model: row.model, raceNumber: row.race_number }, className: row.class_name,
-          issuedAt: new Date(row.issued_at).toISOString(), expiresAt: expiresAt.toISOString(),
+          issuedAt: new Date(row.issued_at).toISOString(), expiresAt: expiresAt.toISOString(), expiresOn: expiryDateIn(expiresAt, timeZone),
           lastInspection: row.inspected_at ? { inspectedAt: new Date(row.inspected_at).toISOString(), sealNumber: row.seal_number ?? '' } : null,
         };
       });
@@ -202,7 +203,7 @@ export function createRecordBookService(ds: DataSource, deps: { audit: AuditServ
           const car = await tx.getRepository(Car).findOneByOrFail({ id: row.car_id });
           const builder = await tx.getRepository(User).findOneByOrFail({ id: car.ownerId });
           const club = await tx.getRepository(Club).findOneByOrFail({ id: row.club_id });
-          const expiresOn = formatIsoDate(new Date(row.expires_at).toISOString().slice(0, 10));
+          const expiresOn = formatIsoDate(expiryDateIn(new Date(row.expires_at), club.timeZone));
           const left = daysLeft(new Date(row.expires_at), now);
           await deps.mail.enqueue(
             {
@@ -223,7 +224,7 @@ export function createRecordBookService(ds: DataSource, deps: { audit: AuditServ
             { manager: tx, idempotencyKey: `cage_record.expiring:${row.id}` },
           );
           await deps.audit.record(
-            { clubId: club.id, actorId: null, action: 'cage_record.expiry_reminded', entity: { type: 'cage_record', id: row.id }, details: { number: row.number, carId: car.id, carName: car.name, expiresAt: new Date(row.expires_at).toISOString() } },
+            { clubId: club.id, actorId: null, action: 'cage_record.expiry_reminded', entity: { type: 'cage_record', id: row.id }, details: { number: row.number, carId: car.id, carName: car.name, expiresAt: new Date(row.expires_at).toISOString(), expiresOn: expiryDateIn(new Date(row.expires_at), club.timeZone) } },
             { manager: tx },
           );
         }

@@ -5,7 +5,7 @@ import QRCode from 'qrcode';
 import type { DataSource } from 'typeorm';
 import { recordStatus } from '../domain/review/cage-record';
 import type { UnitSystem } from '../domain/units';
-import { CageRecord, CageRecordInspection, User } from '../entities';
+import { CageRecord, CageRecordInspection, Club, User } from '../entities';
 import { isBelowMinimum } from '../domain/review/inspection';
 import { ConflictError } from '../errors';
 import type { ReportService } from './reports.service';
@@ -28,6 +28,7 @@ export async function approvedSubmissionPdf(
     stewardName: await name(record.stewardId),
     decidedAt: row.decidedAt ?? record.issuedAt,
     expiresAt: record.expiresAt,
+    timeZone: (await ds.getRepository(Club).findOneByOrFail({ id: record.clubId })).timeZone,
     note: row.decisionNote,
     waivers: await Promise.all(row.waivers.map(async (w) => ({ findingKey: w.findingKey, reason: w.reason, stewardName: await name(w.stewardId) }))),
     verificationUrl: url,

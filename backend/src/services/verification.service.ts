@@ -9,6 +9,7 @@
 import type { DataSource } from 'typeorm';
 import type { RulesetDocument } from '../contracts/ruleset';
 import type { CheckRunVerificationWire, RecordStatusWire, VerificationWire } from '../contracts/review';
+import { calendarDateIn, expiryDateIn } from '../domain/dates';
 import { recordStatus } from '../domain/review/cage-record';
 import { codeForLookup } from '../domain/review/verification-code';
 
@@ -42,6 +43,7 @@ interface Row {
   rulebook_title: string;
   edition: string;
   club_name: string;
+  time_zone: string;
   make: string | null;
   model: string | null;
   inspected_at: Date | null;
@@ -60,7 +62,7 @@ export function createVerificationService(ds: DataSource) {
       const rows: Row[] = await ds.query(
         `SELECT r.id, r.number, r.submission_id, r.verification_code, r.issued_at, r.expires_at, r.revoked_at, r.revoked_reason,
                 r.superseded_by_id, r.superseded_at, c.name AS car_name, c.race_number, c.make, c.model, r.class_name, r.rulebook_title, r.edition,
-                cl.name AS club_name, li.inspected_at, li.seal_number
+                cl.name AS club_name, cl.time_zone, li.inspected_at, li.seal_number
          FROM cage_records r JOIN cars c ON c.id = r.car_id JOIN clubs cl ON cl.id = r.club_id
          LEFT JOIN LATERAL (SELECT i.inspected_at, i.seal_number FROM cage_record_inspections i WHERE i.record_id = r.id
                             ORDER BY i.inspected_at DESC, i.created_at DESC LIMIT 1) li ON true
@@ -96,8 +98,8 @@ export function createVerificationService(ds: DataSource) {
           kind: 'cage_record',
           record: {
             recordNumber: row.number, clubName: row.club_name, carName: row.car_name, make: row.make, model: row.model, raceNumber: row.race_number,
-            className: row.class_name, rulebookTitle: row.rulebook_title, edition: row.edition, status, expiresAt, expiresOn: expiresAt.slice(0, 10),
-            lastInspection: row.inspected_at ? { inspectedOn: new Date(row.inspected_at).toISOString().slice(0, 10), sealNumber: row.seal_number ?? '' } : null,
+            className: row.class_name, rulebookTitle: row.rulebook_title, edition: row.edition, status, expiresAt, expiresOn: expiryDateIn(new Date(row.expires_at), row.time_zone),
+            lastInspection: row.inspected_at ? { inspectedOn: calendarDateIn(new Date(row.inspected_at), row.time_zone), sealNumber: row.seal_number ?? '' } : null,
           },
         };
       }

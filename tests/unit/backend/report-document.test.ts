@@ -133,9 +133,9 @@ describe('the cage’s approval and certificate on the report', () => {
 });
 
 describe('an approved submission’s report', () => {
-  const review = (waivers: { findingKey: string; reason: string; stewardName: string }[], recordStatus = 'valid') => ({
+  const review = (waivers: { findingKey: string; reason: string; stewardName: string }[], recordStatus = 'valid', timeZone = 'Europe/London') => ({
     recordNumber: 'TVMC-2026-0007', recordStatus, stewardName: 'Imogen Feld', decidedAt: new Date('2026-12-02T10:00:00Z'),
-    expiresAt: new Date('2027-12-02T10:00:00Z'), note: null, waivers, verificationUrl: 'https://cagewright.example/verify/X', qrSvg: '<svg xmlns="http://www.w3.org/2000/svg" width="10" height="10"/>',
+    expiresAt: new Date('2027-12-02T10:00:00Z'), timeZone, note: null, waivers, verificationUrl: 'https://cagewright.example/verify/X', qrSvg: '<svg xmlns="http://www.w3.org/2000/svg" width="10" height="10"/>',
   });
 
   it('reads "approved with 1 waiver" in the banner and the summary, and the finding as waived with its reason', async () => {
@@ -158,6 +158,21 @@ describe('an approved submission’s report', () => {
     expect(text).toContain('Sonic reading 0.095 in on the car.');
     // Without the review the same run reads as it is: not passed.
     expect(textsOf(buildReportDocument({ ...input, report }).content).join('\n')).toContain('DOES NOT PASS THE PRE-CHECK');
+  });
+
+  it('prints the dates in the club’s time zone: a record expiring at 14:00 UTC is valid until the next day in Auckland', async () => {
+    const input = await sampleReportInput('imperial', 0);
+    const late = {
+      ...review([], 'valid', 'Pacific/Auckland'), decidedAt: new Date('2026-12-02T14:00:00Z'), expiresAt: new Date('2027-12-02T14:00:00Z'),
+      inspections: [{ inspectedAt: new Date('2026-12-02T23:30:00Z'), sealNumber: 'S-1', stewardName: 'Imogen Feld', readings: [] }],
+    };
+    const text = textsOf(buildReportDocument({ ...input, review: late }).content).join('\n');
+    // Pacific/Auckland is UTC+13 in December (summer time): 14:00 UTC on 2 Dec is 03:00 on 3 Dec there.
+    expect(text).toContain('by Imogen Feld on 3 Dec 2026');
+    expect(text).toMatch(/Valid until\s*3 Dec 2027/);
+    expect(text).toContain('Track inspection 3 Dec 2026 12:30 (Pacific/Auckland)');
+    // The same record for a London club: the UTC dates.
+    expect(textsOf(buildReportDocument({ ...input, review: { ...late, timeZone: 'Europe/London' } }).content).join('\n')).toMatch(/Valid until\s*2 Dec 2027/);
   });
 
   it('says "approved" without waivers, and names a record that is no longer valid', async () => {

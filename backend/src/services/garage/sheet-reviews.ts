@@ -4,6 +4,7 @@
 import type { EntityManager } from 'typeorm';
 import type { SheetReviewWire } from '../../contracts/garage';
 import type { Finding } from '../../contracts/report';
+import { expiryDateIn } from '../../domain/dates';
 import { recordStatus } from '../../domain/review/cage-record';
 import { overallWithWaivers, type Waiver } from '../../domain/review/waivers';
 
@@ -20,6 +21,7 @@ interface SubmissionRow {
 
 interface RecordRow {
   build_sheet_id: string;
+  time_zone: string;
   id: string;
   number: string;
   submission_id: string;
@@ -49,8 +51,9 @@ export async function sheetReviews(em: EntityManager, sheetIds: readonly string[
   );
   const records: RecordRow[] = await em.query(
     `SELECT DISTINCT ON (s.build_sheet_id) s.build_sheet_id, c.id, c.number, c.submission_id, c.verification_code, c.issued_at, c.expires_at,
-            c.revoked_at, c.revoked_reason, c.superseded_by_id, c.superseded_at, s.waivers, cr.report->'findings' AS findings, r.number AS revision_number
-     FROM cage_records c JOIN submissions s ON s.id = c.submission_id JOIN check_runs cr ON cr.id = s.check_run_id
+            c.revoked_at, c.revoked_reason, c.superseded_by_id, c.superseded_at, s.waivers, cr.report->'findings' AS findings, r.number AS revision_number,
+            cl.time_zone
+     FROM cage_records c JOIN clubs cl ON cl.id = c.club_id JOIN submissions s ON s.id = c.submission_id JOIN check_runs cr ON cr.id = s.check_run_id
      LEFT JOIN build_sheet_revisions r ON r.id = cr.build_sheet_revision_id
      WHERE s.build_sheet_id = ANY($1::uuid[]) ORDER BY s.build_sheet_id, c.issued_at DESC, c.id DESC`,
     [sheetIds],
@@ -77,6 +80,7 @@ export async function sheetReviews(em: EntityManager, sheetIds: readonly string[
               now,
             ),
             expiresAt: rec.expires_at.toISOString(),
+            expiresOn: expiryDateIn(rec.expires_at, rec.time_zone),
             submissionId: rec.submission_id,
             waivedCount: waived(rec.findings ?? [], rec.waivers ?? []).waivedCount,
             revisionNumber: rec.revision_number,

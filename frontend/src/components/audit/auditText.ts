@@ -7,6 +7,7 @@ import type { RouteLocationRaw } from 'vue-router';
 import type { AuditEntry } from '@/api/audit';
 import type { AuditRefWire } from '@contracts/audit';
 import { SUBMISSION_STATE_SHORT } from '@contracts/verdict-words';
+import { formatIsoDate, isIsoDate } from '@domain/dates';
 import { roleLabels } from '@/components/common/roles';
 import type { Role } from '@/api/types';
 import { JOURNAL_STAGE_LABELS, type JournalStage } from '@/api/journal';
@@ -414,7 +415,10 @@ export function auditSentence(entry: AuditEntry, clubId: string): SentencePart[]
     }
     case 'cage_record.expiry_reminded':
       s.say('The builder of ').car(car).say(' was e-mailed that cage record ').record(record, d.number).say(
-        typeof d.expiresAt === 'string' ? ` expires on ${new Date(d.expiresAt).toLocaleDateString(undefined, { dateStyle: 'medium' })}` : ' expires soon',
+        // The club's date (entries from before it was stored give the instant in this browser's zone).
+        typeof d.expiresOn === 'string' && isIsoDate(d.expiresOn)
+          ? ` expires on ${formatIsoDate(d.expiresOn)}`
+          : typeof d.expiresAt === 'string' ? ` expires on ${new Date(d.expiresAt).toLocaleDateString(undefined, { dateStyle: 'medium' })}` : ' expires soon',
       );
       break;
     case 'club.record_settings_changed':
