@@ -3,15 +3,19 @@
 // code (issue 9 §5) says it is a pre-check of its date, not a cage record, with its result, and older
 // 24-character check-run codes still verify. Stewards look a check run up by its code. An unknown and
 // a malformed code get the very same 404; 30 look-ups a minute per IP, then 429.
+import { execFileSync } from 'node:child_process';
 import { randomBytes } from 'node:crypto';
 import request from 'supertest';
 import { beforeAll, describe, expect, it } from 'vitest';
+import { calendarDateIn } from '../../backend/src/domain/dates';
 import { CODE_RANDOM_BYTES, newVerificationCode } from '../../backend/src/domain/review/verification-code';
 import { clearLimits, errorBody, hasErrorBody, makeTestApp, useTestDatabase } from './helpers';
 import { act, failingSpec, reviewFixture, savedRun, submitNew, type ReviewFixture } from './review-fixtures';
 import { carWithSheet } from './garage-fixtures';
 
 const db = useTestDatabase();
+/** pdftotext of the whole PDF, line breaks folded so sentences match whole. */
+const pdfText = (pdf: Buffer) => execFileSync('pdftotext', ['-', '-'], { input: pdf, encoding: 'utf8' }).replace(/\s+/g, ' ');
 let app: ReturnType<typeof makeTestApp>;
 let fx: ReviewFixture;
 
@@ -106,13 +110,13 @@ async function legacyCopyOf(runId: string, legacyCode: string): Promise<string> 
 describe('check-run codes (issue 9 §5)', () => {
   let runId: string;
   let code: string;
-  let createdOn: string;
+  let createdAt: Date;
   beforeAll(async () => {
     const { sheetId } = await carWithSheet(fx.who.builder, fx, failingSpec());
     runId = await savedRun(fx.who.builder, sheetId);
     const run = (await fx.who.builder.agent.get(`/api/check-runs/${runId}`).expect(200)).body.checkRun;
     code = run.verificationCode;
-    createdOn = (run.createdAt as string).slice(0, 10);
+    createdAt = new Date(run.createdAt as string);
   });
 
   it('new runs get the one current form: grouped, with a check character', () => {
@@ -124,7 +128,8 @@ describe('check-run codes (issue 9 §5)', () => {
     expect(res.body).toEqual({
       kind: 'check_run',
       checkRun: {
-        checkedOn: createdOn, verdict: 'fail', className: 'Club Saloon (full cage)', rulebookTitle: 'Tarnwick Vale MC Cage Regulations', edition: '2027',
+        // The demo club's date (its time zone, a club setting), as the run's PDF prints it.
+        checkedOn: calendarDateIn(createdAt, 'Europe/London'), timeZone: 'Europe/London', verdict: 'fail', className: 'Club Saloon (full cage)', rulebookTitle: 'Tarnwick Vale MC Cage Regulations', edition: '2027',
         carName: 'Grey Saloon', raceNumber: '47',
       },
     });
@@ -133,6 +138,30 @@ describe('check-run codes (issue 9 §5)', () => {
     expect(res.headers['cache-control']).toBe('no-store');
     // Typed loosely, as from paper.
     expect((await verify(code.replace(/-/g, ' ').toLowerCase()).expect(200)).body.kind).toBe('check_run');
+  });
+
+  it("the run's date is the club's calendar date: a club far from UTC reads its own day, on the page and in the PDF", async () => {
+    const [{ time_zone: was }] = await db.ds.query(`SELECT time_zone FROM clubs WHERE id = $1`, [fx.clubId]);
+    // A zone whose date differs from UTC's at the moment the run was made, whatever the hour: 12 hours
+    // behind in the UTC morning, 14 ahead from 10:00 UTC on (so the check can fail at any hour).
+    const zone = createdAt.getUTCHours() < 12 ? 'Etc/GMT+12' : 'Pacific/Kiritimati';
+    expect(calendarDateIn(createdAt, zone)).not.toBe(createdAt.toISOString().slice(0, 10));
+    await db.ds.query(`UPDATE clubs SET time_zone = $2 WHERE id = $1`, [fx.clubId, zone]);
+    try {
+      const page = (await verify(code).expect(200)).body.checkRun;
+      expect(page).toMatchObject({ checkedOn: calendarDateIn(createdAt, zone), timeZone: zone });
+      const pdf = await fx.who.builder.agent.get(`/api/check-runs/${runId}/report.pdf`).buffer(true)
+        .parse((res, done) => {
+          // The body as bytes (supertest buffers only text by default).
+          const chunks: Buffer[] = [];
+          res.on('data', (c: Buffer) => chunks.push(c));
+          res.on('end', () => done(null, Buffer.concat(chunks)));
+        })
+        .expect(200);
+      expect(pdfText(pdf.body as Buffer)).toContain(`pre-check made on ${page.checkedOn}`);
+    } finally {
+      await db.ds.query(`UPDATE clubs SET time_zone = $2 WHERE id = $1`, [fx.clubId, was]);
+    }
   });
 
   it('an older 24-character check-run code still verifies, typed as printed or in groups', async () => {

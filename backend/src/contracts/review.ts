@@ -236,11 +236,14 @@ export interface RecordSettingsWire {
 }
 
 /**
- * What anyone may see for a check run's code: a pre-check of that date (UTC), not a cage record.
+ * What anyone may see for a check run's code: a pre-check of that date (the club's calendar date, in
+ * `timeZone`: the club whose rulebook it was checked against), not a cage record.
  * No people, no photos; the car only when the run came from a build sheet.
  */
 export interface CheckRunVerificationWire {
   checkedOn: string;
+  /** The club's IANA time zone, which `checkedOn` is a date in. */
+  timeZone: string;
   verdict: 'pass' | 'fail' | 'needs_information';
   className: string;
   rulebookTitle: string;

@@ -42,6 +42,8 @@ export interface ReportDocumentInput {
   /** Where anyone may look the code up (the public /verify page), printed beside the code. */
   lookUpUrl?: string;
   checkedAt: Date;
+  /** The time zone of the club whose rulebook the run was checked against: "Checked on" is that club's date (UTC when omitted). */
+  checkedTimeZone?: string;
   /** Tube data with the cut list, computed from the specification that was checked. */
   tubeData: TubeDataWire;
   photos: ReportPhoto[];
@@ -456,7 +458,8 @@ export function buildReportDocument(input: ReportDocumentInput): TDocumentDefini
   const { report, units, car } = input;
   const q = (v: number, d: Dimension) => formatQuantity(v, d, units).text;
   const banner = reportBanner(report, input.review);
-  const dateText = input.checkedAt.toISOString().slice(0, 10);
+  // The club's calendar date, as on the public page for the code (services/verification.service.ts).
+  const dateText = calendarDateIn(input.checkedAt, input.checkedTimeZone ?? 'UTC');
   const makeModel = [car?.make, car?.model].filter(Boolean).join(' ');
 
   const content: Content[] = [

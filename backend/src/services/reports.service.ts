@@ -107,6 +107,11 @@ export function createReportService(
         context = { car: null, builderName: wire.createdBy?.displayName ?? null, sheetName: null, photos: [], builderId: run.createdById };
       }
       const shownUnits = units ?? (await unitsOf(context.builderId));
+      // "Checked on" is the date in the time zone of the club whose rulebook the run was checked against.
+      const zone: { time_zone: string }[] = await ds.query(
+        `SELECT cl.time_zone FROM ruleset_versions v JOIN rulebooks rb ON rb.id = v.rulebook_id JOIN clubs cl ON cl.id = rb.club_id WHERE v.id = $1`,
+        [run.rulesetVersionId],
+      );
       const doc = buildReportDocument({
         report: run.report,
         units: shownUnits,
@@ -117,6 +122,7 @@ export function createReportService(
         verificationCode: run.verificationCode,
         lookUpUrl: verificationUrl(deps.publicUrl, run.verificationCode),
         checkedAt: run.createdAt,
+        checkedTimeZone: zone[0]?.time_zone ?? 'UTC',
         tubeData: tubeDataFor(run.specification),
         photos: context.photos,
         ...(run.specification.cage ? { cageHistory: run.specification.cage } : {}),

@@ -22,6 +22,7 @@ interface RunRow {
   edition: string;
   car_name: string | null;
   race_number: string | null;
+  time_zone: string;
 }
 
 export type CodeLookup = { kind: 'cage_record'; record: VerificationWire } | { kind: 'check_run'; checkRun: CheckRunVerificationWire };
@@ -71,10 +72,11 @@ export function createVerificationService(ds: DataSource) {
       );
       const runs: RunRow[] = await ds.query(
         `SELECT cr.created_at, cr.overall_verdict, cr.class_id, v.document->'classes' AS classes, rb.title AS rulebook_title, v.edition,
-                car.name AS car_name, car.race_number
+                car.name AS car_name, car.race_number, cl.time_zone
          FROM check_runs cr
          JOIN ruleset_versions v ON v.id = cr.ruleset_version_id
          JOIN rulebooks rb ON rb.id = v.rulebook_id
+         JOIN clubs cl ON cl.id = rb.club_id
          LEFT JOIN build_sheet_revisions rev ON rev.id = cr.build_sheet_revision_id
          LEFT JOIN build_sheets s ON s.id = rev.build_sheet_id
          LEFT JOIN cars car ON car.id = s.car_id
@@ -107,7 +109,9 @@ export function createVerificationService(ds: DataSource) {
       return {
         kind: 'check_run',
         checkRun: {
-          checkedOn: new Date(run.created_at).toISOString().slice(0, 10),
+          // The club's calendar date, as the run's PDF prints it.
+          checkedOn: calendarDateIn(new Date(run.created_at), run.time_zone),
+          timeZone: run.time_zone,
           verdict: run.overall_verdict,
           className: run.classes?.find((c) => c.id === run.class_id)?.name ?? run.class_id,
           rulebookTitle: run.rulebook_title,

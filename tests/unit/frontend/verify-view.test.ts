@@ -19,13 +19,15 @@ afterEach(() => {
 test('a check-run code is answered as a pre-check of its date, not a cage record', async () => {
   mock.on('GET', /^\/api\/verify\//, json(200, {
     kind: 'check_run',
-    checkRun: { checkedOn: '2026-12-02', verdict: 'fail', className: 'Open Sprint (roll bar)', rulebookTitle: 'Tarnwick Vale MC Cage Regulations', edition: '2027', carName: 'Grey hatch', raceNumber: '27' },
+    checkRun: { checkedOn: '2026-12-02', timeZone: 'Pacific/Auckland', verdict: 'fail', className: 'Open Sprint (roll bar)', rulebookTitle: 'Tarnwick Vale MC Cage Regulations', edition: '2027', carName: 'Grey hatch', raceNumber: '27' },
   }));
   await mountAt('/verify/7K2Q-MX9D-4HBT-0ZRS-5WNC-8EPA-QQQQ', VerifyView);
   await settle();
   expect(document.querySelector('[data-test="verify-kind"]')!.textContent!.trim()).toBe('Pre-check of 2026-12-02');
   const text = document.querySelector('.vc')!.textContent!;
   expect(text).toContain('not a cage record');
+  // The date is the club's, and the page says whose.
+  expect(text).toContain("made on 2026-12-02 (the club's date, Pacific/Auckland)");
   expect(document.querySelector('[data-test="verify-run-result"]')!.textContent).toBe('Does not pass the pre-check');
   expect(document.querySelector('[data-test="verify-status"]')).toBeNull();
 });
