@@ -33,6 +33,7 @@ export default defineConfig({
           include: ['tests/api/**/*.test.ts'],
           fileParallelism: false,
           globalSetup: ['tests/api/global-setup.ts'],
+          setupFiles: ['tests/api/no-overlapping-queries.ts'],
           testTimeout: 20000,
           hookTimeout: 60000,
         },

@@ -79,12 +79,11 @@ export function createBuildSheetService(ds: DataSource) {
   }
 
   async function sheetView(em: EntityManager, { sheet, car }: Pick<SheetAccessResult, 'sheet' | 'car'>): Promise<BuildSheetWire> {
-    const [owner, club, rulebook, version] = await Promise.all([
-      em.getRepository(User).findOneByOrFail({ id: car.ownerId }),
-      em.getRepository(Club).findOneByOrFail({ id: sheet.clubId }),
-      em.getRepository(Rulebook).findOneByOrFail({ id: sheet.rulebookId }),
-      em.getRepository(RulesetVersion).findOneOrFail({ where: { id: sheet.rulesetVersionId }, select: { id: true, edition: true } }),
-    ]);
+    // One after the other: `em` may be a transaction's, whose one connection runs one query at a time.
+    const owner = await em.getRepository(User).findOneByOrFail({ id: car.ownerId });
+    const club = await em.getRepository(Club).findOneByOrFail({ id: sheet.clubId });
+    const rulebook = await em.getRepository(Rulebook).findOneByOrFail({ id: sheet.rulebookId });
+    const version = await em.getRepository(RulesetVersion).findOneOrFail({ where: { id: sheet.rulesetVersionId }, select: { id: true, edition: true } });
     return {
       id: sheet.id,
       name: sheet.name,

@@ -213,7 +213,9 @@ export function createJournalService(ds: DataSource, deps: { storage: PhotoStora
           // The sheet's row lock serialises uploads, so two at once cannot both pass the limits.
           await tx.getRepository(BuildSheet).findOne({ where: { id: entry.buildSheetId }, lock: { mode: 'pessimistic_write' } });
           const repo = tx.getRepository(JournalPhoto);
-          const [sheetCount, entryCount] = await Promise.all([repo.countBy({ buildSheetId: entry.buildSheetId }), repo.countBy({ entryId: entry.id })]);
+          // One after the other: a transaction is one connection, which runs one query at a time.
+          const sheetCount = await repo.countBy({ buildSheetId: entry.buildSheetId });
+          const entryCount = await repo.countBy({ entryId: entry.id });
           refuseOverLimits(sheetCount, entryCount, rows.length);
           await repo.insert(rows.map(({ img: _img, ...row }) => row));
           await audit.record({

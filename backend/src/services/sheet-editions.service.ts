@@ -95,10 +95,9 @@ export function createSheetEditionService(ds: DataSource, deps: { rulesets: Rule
             { currentRevision: sheet.currentRevision },
           );
         }
-        const [pinned, target] = await Promise.all([
-          tx.getRepository(RulesetVersion).findOneByOrFail({ id: sheet.rulesetVersionId }),
-          tx.getRepository(RulesetVersion).findOneBy({ id: body.rulesetVersionId }),
-        ]);
+        // One after the other: the transaction's one connection runs one query at a time.
+        const pinned = await tx.getRepository(RulesetVersion).findOneByOrFail({ id: sheet.rulesetVersionId });
+        const target = await tx.getRepository(RulesetVersion).findOneBy({ id: body.rulesetVersionId });
         if (!target || target.rulebookId !== sheet.rulebookId || target.status === 'draft') {
           throw new NotFoundError('That edition is not one of this sheet’s rulebook.');
         }
