@@ -217,7 +217,7 @@ test('a builder starts a cage from a shape, fixes the failing backstay, and the 
       if (execFileSync('pdftotext', ['-f', String(p), '-l', String(p), pdf, '-'], { encoding: 'utf8' }).includes('The cage, drawn from its model')) cagePage = p;
     }
     expect(cagePage).toBeGreaterThan(0);
-    execFileSync('pdftoppm', ['-png', '-r', '60', '-f', String(cagePage), '-l', String(cagePage), pdf, join(dir, 'cage')]);
+    execFileSync('pdftoppm', ['-png', '-r', '100', '-f', String(cagePage), '-l', String(cagePage), pdf, join(dir, 'cage')]);
     mkdirSync(screensDir, { recursive: true });
     for (const f of readdirSync(dir).filter((f) => f.startsWith('cage') && f.endsWith('.png'))) copyFileSync(join(dir, f), join(screensDir, 'cage-pdf-page.png'));
     const { data: png, info: pngInfo } = await sharp(join(screensDir, 'cage-pdf-page.png')).raw().toBuffer({ resolveWithObject: true });

@@ -4,7 +4,8 @@
 // measured geometry is drawn over it. Presentation attributes only, text in Noto Sans: pdfmake's SVG
 // converter ignores classes, and this way the PDF and the screen draw the same thing.
 import { formatQuantity, type UnitSystem } from '../units.js';
-import { geometryMarkSvg, markBounds, type GeometryMark } from './geometry-marks.js';
+import { geometryMarkLabelBox, geometryMarkSvg, markBounds, type GeometryMark } from './geometry-marks.js';
+import { discBox, placeBesideSymbol, type Box, type PageTube } from './label-layout.js';
 import { pageMidpoint, VIEW_TITLES, type Bounds, type Point2, type ProjectedView } from './projection.js';
 import { attrs, escapeXml, INK, MUTED, n, pathData, symbol, text } from './svg-parts.js';
 import { dashArrayMm, VERDICT_MARKS, type MarkVerdict } from './verdict-marks.js';
@@ -133,11 +134,25 @@ export function cageViewParts(view: ProjectedView, options: CageSvgOptions): Cag
   parts.push({ key: 'marks', svg: marks.map((mark) => geometryMarkSvg(mark, view.view, fontMm)).join('') });
   // Symbols and names last, so no tube hides them. Members whose marks would land on one another (the
   // left and right backstays in the side view) share one symbol, the worst, and one label naming them all.
+  // Each name goes where it covers no other name, no symbol and no words of the measured geometry
+  // (label-layout.ts), beside its symbol.
   let symbols = '';
-  for (const group of markGroups(view, options.members, fontMm)) {
-    const r = Math.max(group.odMm * 0.9, fontMm * 0.65);
-    symbols += `<g${attrs({ 'data-member-id': group.ids[0], cursor: 'pointer' })}>${symbol(group.verdict, group.at, r)}</g>`;
-    if (options.labels) symbols += text({ u: group.at.u + r * 1.3, v: group.at.v - r * 0.35 }, group.names.join(' / '), fontMm * 0.8, { fill: INK });
+  const groups = markGroups(view, options.members, fontMm).map((g) => ({ ...g, r: Math.max(g.odMm * 0.9, fontMm * 0.65) }));
+  const taken: Box[] = options.labels
+    ? [
+        ...marks.map((mark) => geometryMarkLabelBox(mark, view.view, fontMm)).filter((b): b is Box => b !== null),
+        ...groups.map((g) => discBox(g.at, g.r)),
+      ]
+    : [];
+  const tubes: PageTube[] = options.labels ? view.members.map((m) => ({ points: m.points, halfWidthMm: m.odMm * 0.58 })) : [];
+  for (const group of groups) {
+    symbols += `<g${attrs({ 'data-member-id': group.ids[0], cursor: 'pointer' })}>${symbol(group.verdict, group.at, group.r)}</g>`;
+    if (options.labels) {
+      const words = group.names.join(' / ');
+      const placed = placeBesideSymbol(group.at, group.r, words, fontMm * 0.8, taken, tubes);
+      taken.push(placed.box);
+      symbols += text(placed.at, words, fontMm * 0.8, { fill: INK, ...(placed.anchor === 'start' ? {} : { 'text-anchor': placed.anchor }) });
+    }
   }
   parts.push({ key: 'symbols', svg: symbols });
   const bar = scaleBar(width, options.units);
