@@ -1,7 +1,8 @@
 // Poor signal at the track (issue 13 §6), in a production build with its service worker: a builder edits
 // a sheet, the signal drops (context.setOffline), they type on, including a number with its raw text,
 // see the offline banner, try to save (not saved, kept), reload with no signal (the app shell and the
-// sheet come from this device, the kept draft is offered and put back as typed), the signal returns
+// sheet come from this device, the kept draft is offered and put back as typed, the class list and the
+// live pre-check work from the kept edition), the signal returns
 // (the banner goes), they save and the server has the values; then a save that meets a newer revision
 // goes through the conflict view. A second journey opens the public verification page and the
 // builder's own cage record with no signal once seen. Screens: .artifacts/screens/signal-*.png.
@@ -110,6 +111,12 @@ test('editing offline, then reconnecting, with nothing lost', { timeout: 180_000
   await page.locator('[data-test="kept-restore"]').click();
   await expect.poll(() => page.locator('#in-members-5-wallMm').inputValue()).toBe(typedWall);
   expect(await page.locator('#in-vehicle-weightWithDriverKg').inputValue()).toBe(imperial ? '2,700' : '1225');
+  // The class list and the live pre-check work with no signal too: the edition the sheet names was kept
+  // on this device when it was first read, and the check runs in the browser.
+  // (After the GET's own retries: about 3 s with no signal.)
+  await expect.poll(() => page.locator('#sheet-class-select option').allInnerTexts(), { timeout: 20_000 }).toContain('Club Saloon (full cage)');
+  const live = page.locator('aside[aria-labelledby="live-findings-heading"] [role="status"]');
+  await expect.poll(() => live.innerText(), { timeout: 20_000 }).toBe('Up to date');
   await screenshot(page, 'signal-offline-restored-1280');
   await page.setViewportSize({ width: 390, height: 844 });
   await screenshot(page, 'signal-offline-restored-390');

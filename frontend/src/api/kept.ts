@@ -1,12 +1,13 @@
 // What this device keeps for poor signal, in localStorage: build sheet drafts until they are saved,
 // and the last answer seen for a few things worth opening with no signal (the sheet being edited, a
-// builder's own cage records, public verification answers, who was signed in). Everything but the
-// public answers is keyed by user id and forgotten at sign-out, because laptops at the track are
-// shared. Why localStorage and not IndexedDB: docs/decisions/0018-kept-on-this-device.md.
+// builder's own cage records, public verification answers, the rulebook editions the live pre-check
+// and the class list read, who was signed in). Everything but the public answers and the published
+// editions (the same document for every reader) is keyed by user id and forgotten at sign-out,
+// because laptops at the track are shared. Why localStorage and not IndexedDB: docs/decisions/0018-kept-on-this-device.md.
 const PREFIX = 'cagewright.kept.';
 
 /** What is kept: drafts and last-seen answers per user; verification answers are public. */
-export type KeptKind = 'draft' | 'sheet' | 'record' | 'verify';
+export type KeptKind = 'draft' | 'sheet' | 'record' | 'verify' | 'edition';
 
 export interface Kept<T> {
   /** When it was kept (ms since the epoch). */
@@ -50,6 +51,25 @@ export function recall<T>(kind: KeptKind, userId: string | null, id: string): Ke
 export function forget(kind: KeptKind, userId: string | null, id: string): void {
   try {
     storage()?.removeItem(keptKey(kind, userId, id));
+  } catch {
+    // nothing to do
+  }
+}
+
+/**
+ * Keeps at most `max` entries of a kind for this reader: the ones kept longest ago go first (a
+ * rulebook edition is tens of kilobytes, and localStorage holds a few megabytes in all).
+ */
+export function keepNewest(kind: KeptKind, userId: string | null, max: number): void {
+  const s = storage();
+  if (!s) return;
+  const prefix = keptKey(kind, userId, '');
+  try {
+    const entries = Array.from({ length: s.length }, (_, i) => s.key(i))
+      .filter((k): k is string => k !== null && k.startsWith(prefix))
+      .map((key) => ({ key, at: recall(kind, userId, key.slice(prefix.length))?.at ?? 0 }))
+      .sort((a, b) => b.at - a.at);
+    for (const { key } of entries.slice(max)) s.removeItem(key);
   } catch {
     // nothing to do
   }
