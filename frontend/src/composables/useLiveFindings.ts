@@ -40,7 +40,12 @@ export function useLiveFindings(
       compiledFor = id;
       compiled = Promise.all([getRulesetVersion(id), import('./liveEngine')])
         .then(([version, engine]) => engine.compileRuleset(engine.rulesetDocumentSchema.parse(version.document)))
-        .catch(() => null); // fall back to the server for this version
+        .catch(() => {
+          // The server answers this check instead; the next check tries the browser again (the
+          // signal may be back by then).
+          if (compiledFor === id) compiledFor = null;
+          return null;
+        });
     }
     return compiled;
   }

@@ -28,6 +28,7 @@ beforeEach(() => {
   vi.useFakeTimers();
   http.resetCsrfToken();
   forgetRulesetVersions();
+  localStorage.clear(); // no edition kept on the device from an earlier test (api/rulesets.ts)
   mock = createFetchMock();
   vi.stubGlobal('fetch', mock.fetch);
   mock.on('GET', '/api/auth/csrf', csrfToken('csrf-live'));
@@ -140,6 +141,15 @@ describe('debounce and fallback', () => {
     expect(body.specification.members[0].wallMm).toBeCloseTo(0.09 * IN, 9);
     expect(live.source.value).toBe('server');
     expect(live.report.value).toEqual(report);
+
+    // The document can be had again (the signal is back): the next check runs in the browser.
+    mock.on('GET', `/api/ruleset-versions/${versionId}`, json(200, { version: { id: versionId, classes: [], document } }));
+    draftRef.value!.members[0].wallMm = 0.065 * IN;
+    await nextTick();
+    await pause();
+    expect(live.source.value).toBe('browser');
+    expect(mock.calls.filter((c) => c.method === 'POST')).toHaveLength(1);
+    expect(tubeFinding(live.report.value)?.verdict).toBe('fail');
     stop();
   });
 });
