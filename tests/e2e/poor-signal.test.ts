@@ -117,6 +117,9 @@ test('editing offline, then reconnecting, with nothing lost', { timeout: 180_000
   await expect.poll(() => page.locator('#sheet-class-select option').allInnerTexts(), { timeout: 20_000 }).toContain('Club Saloon (full cage)');
   const live = page.locator('aside[aria-labelledby="live-findings-heading"] [role="status"]');
   await expect.poll(() => live.innerText(), { timeout: 20_000 }).toBe('Up to date');
+  // Whether a newer edition applies waits for the signal, said quietly (no error in red).
+  await page.locator('[data-test="edition-no-signal"]').waitFor();
+  expect(await page.locator('.edition-banner__error').count()).toBe(0);
   await screenshot(page, 'signal-offline-restored-1280');
   await page.setViewportSize({ width: 390, height: 844 });
   await screenshot(page, 'signal-offline-restored-390');
@@ -127,6 +130,7 @@ test('editing offline, then reconnecting, with nothing lost', { timeout: 180_000
   await context.setOffline(false);
   await page.evaluate(() => window.dispatchEvent(new Event('online')));
   await banner(page).waitFor({ state: 'hidden', timeout: 20_000 });
+  await page.locator('[data-test="edition-no-signal"]').waitFor({ state: 'detached' }); // looked up again
   await page.getByRole('button', { name: 'Save', exact: true }).click();
   await page.getByText('Saved as revision 2').waitFor();
   const saved = await api<{ revision: { number: number; specification: { members: { wallMm: number }[]; vehicle: { weightWithDriverKg: number } } } }>(page, 'GET', `/build-sheets/${sheetId}`);

@@ -11,7 +11,8 @@ import { afterEach, beforeEach, describe, expect, test, vi } from 'vitest';
 import RulebookPublishDialog from '@/components/rulebook/RulebookPublishDialog.vue';
 import ReviewQueueList from '@/components/review/ReviewQueueList.vue';
 import SheetEditionBanner from '@/components/sheet/SheetEditionBanner.vue';
-import { http } from '@/api/http';
+import { http, RETRY_DELAYS_MS } from '@/api/http';
+import { reportReachable } from '@/api/connection';
 import type { QueueItem } from '@/api/review';
 import type { SheetEditions } from '@/api/garage';
 import type { AuditEntry } from '@/api/audit';
@@ -181,6 +182,32 @@ describe('the newer-edition banner on a build sheet', () => {
     await render({ canEdit: false });
     expect(document.querySelector('[data-test="edition-banner"]')).not.toBeNull();
     expect(document.querySelector('[data-test="move-edition"]')).toBeNull();
+  });
+
+  test('with no signal it says so quietly, and looks again once the server answers', async () => {
+    vi.useFakeTimers();
+    try {
+      mock.on('GET', `/api/build-sheets/${sheetId}/editions`, () => {
+        throw new TypeError('Failed to fetch');
+      });
+      const Host = defineComponent({ render: () => h(SheetEditionBanner, { sheetId, versionId, revision: 3, dirty: false, canEdit: true }) });
+      const rendering = mountAt('/', Host);
+      // The GET's own retries (api/http.ts) run out first.
+      await vi.advanceTimersByTimeAsync(RETRY_DELAYS_MS.reduce((a, b) => a + b, 0) + 100);
+      mounted.push((await rendering).wrapper);
+      await vi.advanceTimersByTimeAsync(0);
+      expect(document.querySelector('[data-test="edition-no-signal"]')!.textContent).toContain('looked up once the server can be reached');
+      expect(document.querySelector('.edition-banner__error')).toBeNull();
+      // The signal is back.
+      mock.on('GET', `/api/build-sheets/${sheetId}/editions`, json(200, { editions }));
+      reportReachable();
+      for (let i = 0; i < 5; i += 1) await vi.advanceTimersByTimeAsync(0);
+      expect(document.querySelector('[data-test="edition-no-signal"]')).toBeNull();
+      expect(document.querySelector('[data-test="edition-banner"]')).not.toBeNull();
+    } finally {
+      vi.useRealTimers();
+      reportReachable();
+    }
   });
 
   test('shows nothing when the sheet is on the newest edition', async () => {
