@@ -14,19 +14,12 @@ import sharp from 'sharp';
 import { expect, inject } from 'vitest';
 import type { Page, Response } from 'playwright-core';
 import { browserTest as test, openBrowser, screenshot as fullPageShot, type BrowserSession } from './browser';
-import { demoUsers, signIn } from './demo';
+import { api, demoUsers, signIn } from './demo';
 
 const baseUrl = inject('e2eBaseUrl');
 const screensDir = fileURLToPath(new URL('../../.artifacts/screens', import.meta.url));
 const carName = 'Green hill roadster';
 const DEMO_CAR = 'Heron grey hillclimb saloon'; // backend/src/db/seed-garage.ts
-
-async function api<T>(page: Page, method: 'GET' | 'POST', path: string, data?: unknown): Promise<T> {
-  const token = ((await (await page.request.get(`${baseUrl}/api/auth/csrf`)).json()) as { token: string }).token;
-  const res = await page.request.fetch(`${baseUrl}/api${path}`, { method, data, headers: { 'X-CSRF-Token': token } });
-  if (!res.ok()) throw new Error(`${method} ${path}: ${res.status()} ${await res.text()}`);
-  return (await res.json()) as T;
-}
 
 /** A full-page shot from the top, so the sticky bars are drawn where a person sees them. */
 async function screenshot(page: Page, name: string): Promise<void> {

@@ -8,41 +8,17 @@ import type { Page } from 'playwright-core';
 import { createTransport } from 'nodemailer';
 import { expect, inject } from 'vitest';
 import { browserTest as test, openBrowser, screenshot, type BrowserSession } from './browser';
-import { demoUsers, mainNavLabels, signIn } from './demo';
+import { api, demoSaloon, demoUsers, mainNavLabels, signIn } from './demo';
 
 const baseUrl = inject('e2eBaseUrl');
 const smtpPort = inject('e2eSmtpPort');
-
-async function api<T>(page: Page, method: 'GET' | 'POST', path: string, data?: unknown): Promise<T> {
-  const token = ((await (await page.request.get(`${baseUrl}/api/auth/csrf`)).json()) as { token: string }).token;
-  const res = await page.request.fetch(`${baseUrl}/api${path}`, { method, data, headers: { 'X-CSRF-Token': token } });
-  if (!res.ok()) throw new Error(`${method} ${path}: ${res.status()} ${await res.text()}`);
-  return (await res.json()) as T;
-}
 
 /**
  * A demo club-saloon cage that passes: 1,200 kg with driver on 1.750 in hoops, every wall 0.120 in
  * (3.048 mm; F-UNIT-1: 1 in = 25.4 mm), so it passes whichever edition another journey put in force.
  */
 function passingSaloon() {
-  const hoop = { odMm: 44.45, wallMm: 3.048, material: 'mild_steel', process: 'dom', bends: [] };
-  const bar = { odMm: 38.1, wallMm: 3.048, material: 'mild_steel', process: 'dom', bends: [] };
-  return {
-    vehicle: { classId: 'club-saloon', weightWithDriverKg: 1200, chassis: 'unibody', cockpit: 'closed' },
-    members: [
-      { id: 'mh', kind: 'main_hoop', ...hoop, lengthMm: 3350, continuousPiece: true },
-      { id: 'fh', kind: 'front_hoop', ...hoop, lengthMm: 3900 },
-      { id: 'rb-l', kind: 'rear_brace', ...hoop, lengthMm: 1150 },
-      { id: 'rb-r', kind: 'rear_brace', ...hoop, lengthMm: 1150 },
-      { id: 'hb', kind: 'harness_bar', ...bar, lengthMm: 1180 },
-      { id: 'db-l', kind: 'door_bar', ...bar, lengthMm: 1020 },
-      { id: 'db-r', kind: 'door_bar', ...bar, lengthMm: 1020 },
-      { id: 'dg', kind: 'diagonal', ...bar },
-    ],
-    geometry: { rearBraceAttachBelowTopMm: 100, rearBraceAngleFromVerticalDeg: 38, helmetBelowHoopLineMm: 50, harnessBarBelowShouldersMm: 40 },
-    padding: { nearHelmet: true, standard: 'sfi_45_1' },
-    welding: { process: 'mig' },
-  };
+  return demoSaloon();
 }
 
 /** Picks an option of a PrimeVue Select by its label, typing into its search box first. */

@@ -9,18 +9,11 @@ import type { Page } from 'playwright-core';
 import { expect, inject } from 'vitest';
 import { demoSpecification } from '../../backend/src/db/seed-garage';
 import { browserTest as test, openBrowser, screenshot as fullPageShot, type BrowserSession } from './browser';
-import { demoPassword, demoUsers, signIn } from './demo';
+import { api, demoPassword, demoUsers, signIn } from './demo';
 
 const baseUrl = inject('e2eBaseUrl');
 const carName = 'Slate Hillclimber';
 const HOOPS = ['main_hoop', 'front_hoop', 'lateral_hoop', 'rear_brace'];
-
-async function api<T>(page: Page, method: 'GET' | 'POST' | 'PUT' | 'DELETE', path: string, data?: unknown): Promise<T> {
-  const token = ((await (await page.request.get(`${baseUrl}/api/auth/csrf`)).json()) as { token: string }).token;
-  const res = await page.request.fetch(`${baseUrl}/api${path}`, { method, data, headers: { 'X-CSRF-Token': token } });
-  if (!res.ok()) throw new Error(`${method} ${path}: ${res.status()} ${await res.text()}`);
-  return (res.status() === 204 ? undefined : await res.json()) as T;
-}
 
 async function screenshot(page: Page, name: string): Promise<void> {
   await page.evaluate(() => window.scrollTo(0, 0));

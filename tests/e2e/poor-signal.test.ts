@@ -9,17 +9,10 @@
 import type { BrowserContext, Page } from 'playwright-core';
 import { expect, inject } from 'vitest';
 import { browserTest as test, screenshot as fullPageShot } from './browser';
-import { demoPassword, demoUsers } from './demo';
+import { api, demoSaloon, demoPassword, demoUsers } from './demo';
 
 const baseUrl = inject('e2eBaseUrl');
 const IN = 25.4; // F-UNIT-1: 1 in = 25.4 mm
-
-async function api<T>(page: Page, method: 'GET' | 'POST' | 'PUT', path: string, data?: unknown): Promise<T> {
-  const token = ((await (await page.request.get(`${baseUrl}/api/auth/csrf`)).json()) as { token: string }).token;
-  const res = await page.request.fetch(`${baseUrl}/api${path}`, { method, data, headers: { 'X-CSRF-Token': token } });
-  if (!res.ok()) throw new Error(`${method} ${path}: ${res.status()} ${await res.text()}`);
-  return (res.status() === 204 ? undefined : await res.json()) as T;
-}
 
 async function screenshot(page: Page, name: string): Promise<void> {
   await page.evaluate(() => window.scrollTo(0, 0));
@@ -28,24 +21,7 @@ async function screenshot(page: Page, name: string): Promise<void> {
 
 /** A club-saloon cage, every wall 0.120 in, that passes under the demo rulebook. */
 function saloonCage() {
-  const hoop = { odMm: 44.45, wallMm: 0.12 * IN, material: 'mild_steel', process: 'dom', bends: [] };
-  const bar = { odMm: 38.1, wallMm: 0.12 * IN, material: 'mild_steel', process: 'dom', bends: [] };
-  return {
-    vehicle: { classId: 'club-saloon', weightWithDriverKg: 1200, chassis: 'unibody', cockpit: 'closed' },
-    members: [
-      { id: 'mh', kind: 'main_hoop', ...hoop, lengthMm: 3350, continuousPiece: true },
-      { id: 'fh', kind: 'front_hoop', ...hoop, lengthMm: 3900 },
-      { id: 'rb-l', kind: 'rear_brace', ...hoop, lengthMm: 1150 },
-      { id: 'rb-r', kind: 'rear_brace', ...hoop, lengthMm: 1150 },
-      { id: 'hb', kind: 'harness_bar', ...bar, lengthMm: 1180 },
-      { id: 'db-l', kind: 'door_bar', ...bar, lengthMm: 1020 },
-      { id: 'db-r', kind: 'door_bar', ...bar, lengthMm: 1020 },
-      { id: 'dg', kind: 'diagonal', ...bar },
-    ],
-    geometry: { rearBraceAttachBelowTopMm: 100, rearBraceAngleFromVerticalDeg: 38, helmetBelowHoopLineMm: 50, harnessBarBelowShouldersMm: 40 },
-    padding: { nearHelmet: true, standard: 'sfi_45_1' },
-    welding: { process: 'mig' },
-  };
+  return demoSaloon(0.12 * IN);
 }
 
 async function newSheet(page: Page, carName: string) {

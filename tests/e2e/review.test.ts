@@ -7,17 +7,10 @@
 import type { Page } from 'playwright-core';
 import { expect, inject } from 'vitest';
 import { browserTest as test, openBrowser, screenshot as fullPageShot, type BrowserSession } from './browser';
-import { demoPassword, demoUsers, signIn } from './demo';
+import { api, demoSaloon, demoPassword, demoUsers, signIn } from './demo';
 
 const baseUrl = inject('e2eBaseUrl');
 const carName = 'Blue Saloon';
-
-async function api<T>(page: Page, method: 'GET' | 'POST' | 'PUT', path: string, data?: unknown): Promise<T> {
-  const token = ((await (await page.request.get(`${baseUrl}/api/auth/csrf`)).json()) as { token: string }).token;
-  const res = await page.request.fetch(`${baseUrl}/api${path}`, { method, data, headers: { 'X-CSRF-Token': token } });
-  if (!res.ok()) throw new Error(`${method} ${path}: ${res.status()} ${await res.text()}`);
-  return (res.status() === 204 ? undefined : await res.json()) as T;
-}
 
 /**
  * A demo club-saloon cage that passes: 1,200 kg with driver (2,646 lb, the 2,201–3,000 lb band) on
@@ -25,24 +18,8 @@ async function api<T>(page: Page, method: 'GET' | 'POST' | 'PUT', path: string, 
  * if the rulebook journey has already raised that band's minimum to 0.120 in.
  */
 function passingSaloon(harnessBarBelowShouldersMm = 40) {
-  const hoop = { odMm: 44.45, wallMm: 3.048, material: 'mild_steel', process: 'dom', bends: [] };
-  const bar = { odMm: 38.1, wallMm: 3.048, material: 'mild_steel', process: 'dom', bends: [] };
-  return {
-    vehicle: { classId: 'club-saloon', weightWithDriverKg: 1200, chassis: 'unibody', cockpit: 'closed' },
-    members: [
-      { id: 'mh', kind: 'main_hoop', ...hoop, lengthMm: 3350, continuousPiece: true },
-      { id: 'fh', kind: 'front_hoop', ...hoop, lengthMm: 3900 },
-      { id: 'rb-l', kind: 'rear_brace', ...hoop, lengthMm: 1150 },
-      { id: 'rb-r', kind: 'rear_brace', ...hoop, lengthMm: 1150 },
-      { id: 'hb', kind: 'harness_bar', ...bar, lengthMm: 1180 },
-      { id: 'db-l', kind: 'door_bar', ...bar, lengthMm: 1020 },
-      { id: 'db-r', kind: 'door_bar', ...bar, lengthMm: 1020 },
-      { id: 'dg', kind: 'diagonal', ...bar },
-    ],
-    geometry: { rearBraceAttachBelowTopMm: 100, rearBraceAngleFromVerticalDeg: 38, helmetBelowHoopLineMm: 50, harnessBarBelowShouldersMm },
-    padding: { nearHelmet: true, standard: 'sfi_45_1' },
-    welding: { process: 'mig' },
-  };
+  const cage = demoSaloon();
+  return { ...cage, geometry: { ...cage.geometry, harnessBarBelowShouldersMm } };
 }
 
 /** A full-page shot from the top, so the sticky app bar is drawn where a person sees it. */

@@ -7,7 +7,7 @@
 import type { Page } from 'playwright-core';
 import { expect, inject } from 'vitest';
 import { browserTest as test, screenshot } from './browser';
-import { demoPassword, demoUsers, signIn } from './demo';
+import { api, demoSaloon, demoPassword, demoUsers, signIn } from './demo';
 
 const baseUrl = inject('e2eBaseUrl');
 
@@ -20,33 +20,9 @@ async function shots(page: Page, name: string): Promise<void> {
   await page.waitForTimeout(100);
 }
 
-async function api<T>(page: Page, method: 'GET' | 'POST' | 'PUT', path: string, data?: unknown): Promise<T> {
-  const token = ((await (await page.request.get(`${baseUrl}/api/auth/csrf`)).json()) as { token: string }).token;
-  const res = await page.request.fetch(`${baseUrl}/api${path}`, { method, data, headers: { 'X-CSRF-Token': token } });
-  if (!res.ok()) throw new Error(`${method} ${path}: ${res.status()} ${await res.text()}`);
-  return (res.status() === 204 ? undefined : await res.json()) as T;
-}
-
 /** The demo saloon (1.750 × 0.095 in hoops; F-UNIT-1: 1 in = 25.4 mm), complete enough to pass. */
 function passingSaloon() {
-  const hoop = { odMm: 44.45, wallMm: 2.413, material: 'mild_steel', process: 'dom', bends: [] };
-  const bar = { odMm: 38.1, wallMm: 2.413, material: 'mild_steel', process: 'dom', bends: [] };
-  return {
-    vehicle: { classId: 'club-saloon', weightWithDriverKg: 1200, chassis: 'unibody', cockpit: 'closed' },
-    members: [
-      { id: 'mh', kind: 'main_hoop', ...hoop, lengthMm: 3350, continuousPiece: true },
-      { id: 'fh', kind: 'front_hoop', ...hoop, lengthMm: 3900 },
-      { id: 'rb-l', kind: 'rear_brace', ...hoop, lengthMm: 1150 },
-      { id: 'rb-r', kind: 'rear_brace', ...hoop, lengthMm: 1150 },
-      { id: 'hb', kind: 'harness_bar', ...bar, lengthMm: 1180 },
-      { id: 'db-l', kind: 'door_bar', ...bar, lengthMm: 1020 },
-      { id: 'db-r', kind: 'door_bar', ...bar, lengthMm: 1020 },
-      { id: 'dg', kind: 'diagonal', ...bar },
-    ],
-    geometry: { rearBraceAttachBelowTopMm: 100, rearBraceAngleFromVerticalDeg: 38, helmetBelowHoopLineMm: 50, harnessBarBelowShouldersMm: 40 },
-    padding: { nearHelmet: true, standard: 'sfi_45_1' },
-    welding: { process: 'mig' },
-  };
+  return demoSaloon(2.413);
 }
 
 test('the demo admin raises a minimum wall, sees the impact, puts it in force, and the builder is told', async ({ browser }) => {

@@ -8,17 +8,10 @@
 import type { Page } from 'playwright-core';
 import { expect, inject } from 'vitest';
 import { browserTest as test, openBrowser, screenshot as fullPageShot, type BrowserSession } from './browser';
-import { demoPassword, demoUsers, signIn } from './demo';
+import { api, demoSaloon, demoPassword, demoUsers, signIn } from './demo';
 
 const baseUrl = inject('e2eBaseUrl');
 const carName = 'Copper Estate';
-
-async function api<T>(page: Page, method: 'GET' | 'POST' | 'PUT', path: string, data?: unknown): Promise<T> {
-  const token = ((await (await page.request.get(`${baseUrl}/api/auth/csrf`)).json()) as { token: string }).token;
-  const res = await page.request.fetch(`${baseUrl}/api${path}`, { method, data, headers: { 'X-CSRF-Token': token } });
-  if (!res.ok()) throw new Error(`${method} ${path}: ${res.status()} ${await res.text()}`);
-  return (res.status() === 204 ? undefined : await res.json()) as T;
-}
 
 /**
  * A demo club-saloon cage that passes: 1,200 kg with driver (2,646 lb, the 2,201–3,000 lb band) on
@@ -27,24 +20,9 @@ async function api<T>(page: Page, method: 'GET' | 'POST' | 'PUT', path: string, 
  * at 43.2–45.2 mm across (as tests/api/review-fixtures.ts measures its hoops).
  */
 function passingSaloon() {
-  const hoop = { odMm: 44.45, wallMm: 3.048, material: 'mild_steel', process: 'dom' };
-  const bar = { odMm: 38.1, wallMm: 3.048, material: 'mild_steel', process: 'dom', bends: [] };
-  return {
-    vehicle: { classId: 'club-saloon', weightWithDriverKg: 1200, chassis: 'unibody', cockpit: 'closed' },
-    members: [
-      { id: 'mh', kind: 'main_hoop', ...hoop, lengthMm: 3350, continuousPiece: true, bends: [{ clrMm: 152.4, minOdMm: 43.2, maxOdMm: 45.2 }, { clrMm: 152.4, minOdMm: 43.2, maxOdMm: 45.2 }] },
-      { id: 'fh', kind: 'front_hoop', ...hoop, lengthMm: 3900, bends: [] },
-      { id: 'rb-l', kind: 'rear_brace', ...hoop, lengthMm: 1150, bends: [] },
-      { id: 'rb-r', kind: 'rear_brace', ...hoop, lengthMm: 1150, bends: [] },
-      { id: 'hb', kind: 'harness_bar', ...bar, lengthMm: 1180 },
-      { id: 'db-l', kind: 'door_bar', ...bar, lengthMm: 1020 },
-      { id: 'db-r', kind: 'door_bar', ...bar, lengthMm: 1020 },
-      { id: 'dg', kind: 'diagonal', ...bar },
-    ],
-    geometry: { rearBraceAttachBelowTopMm: 100, rearBraceAngleFromVerticalDeg: 38, helmetBelowHoopLineMm: 50, harnessBarBelowShouldersMm: 40 },
-    padding: { nearHelmet: true, standard: 'sfi_45_1' },
-    welding: { process: 'mig' },
-  };
+  const cage = demoSaloon();
+  cage.members[0]!.bends = [{ clrMm: 152.4, minOdMm: 43.2, maxOdMm: 45.2 }, { clrMm: 152.4, minOdMm: 43.2, maxOdMm: 45.2 }];
+  return cage;
 }
 
 async function shot(page: Page, name: string): Promise<void> {

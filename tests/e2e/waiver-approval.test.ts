@@ -9,18 +9,11 @@ import { fileURLToPath } from 'node:url';
 import type { Page } from 'playwright-core';
 import { expect, inject } from 'vitest';
 import { browserTest as test, openBrowser, screenshot as fullPageShot, type BrowserSession } from './browser';
-import { demoPassword, demoUsers, signIn } from './demo';
+import { api, demoSaloon, demoPassword, demoUsers, signIn } from './demo';
 
 const baseUrl = inject('e2eBaseUrl');
 const carName = 'Amber Coupé';
 const screens = fileURLToPath(new URL('../../.artifacts/screens', import.meta.url));
-
-async function api<T>(page: Page, method: 'GET' | 'POST' | 'PUT', path: string, data?: unknown): Promise<T> {
-  const token = ((await (await page.request.get(`${baseUrl}/api/auth/csrf`)).json()) as { token: string }).token;
-  const res = await page.request.fetch(`${baseUrl}/api${path}`, { method, data, headers: { 'X-CSRF-Token': token } });
-  if (!res.ok()) throw new Error(`${method} ${path}: ${res.status()} ${await res.text()}`);
-  return (res.status() === 204 ? undefined : await res.json()) as T;
-}
 
 async function screenshot(page: Page, name: string): Promise<void> {
   await page.evaluate(() => window.scrollTo(0, 0));
@@ -33,24 +26,9 @@ async function screenshot(page: Page, name: string): Promise<void> {
  * raised that band's minimum, except the left door bar at 0.049 in, under any listed wall.
  */
 function oneThinDoorBar() {
-  const hoop = { odMm: 44.45, wallMm: 3.048, material: 'mild_steel', process: 'dom', bends: [] };
-  const bar = { odMm: 38.1, wallMm: 3.048, material: 'mild_steel', process: 'dom', bends: [] };
-  return {
-    vehicle: { classId: 'club-saloon', weightWithDriverKg: 1200, chassis: 'unibody', cockpit: 'closed' },
-    members: [
-      { id: 'mh', kind: 'main_hoop', ...hoop, lengthMm: 3350, continuousPiece: true },
-      { id: 'fh', kind: 'front_hoop', ...hoop, lengthMm: 3900 },
-      { id: 'rb-l', kind: 'rear_brace', ...hoop, lengthMm: 1150 },
-      { id: 'rb-r', kind: 'rear_brace', ...hoop, lengthMm: 1150 },
-      { id: 'hb', kind: 'harness_bar', ...bar, lengthMm: 1180 },
-      { id: 'db-l', kind: 'door_bar', ...bar, wallMm: 0.049 * 25.4, lengthMm: 1020 },
-      { id: 'db-r', kind: 'door_bar', ...bar, lengthMm: 1020 },
-      { id: 'dg', kind: 'diagonal', ...bar },
-    ],
-    geometry: { rearBraceAttachBelowTopMm: 100, rearBraceAngleFromVerticalDeg: 38, helmetBelowHoopLineMm: 50, harnessBarBelowShouldersMm: 40 },
-    padding: { nearHelmet: true, standard: 'sfi_45_1' },
-    welding: { process: 'mig' },
-  };
+  const cage = demoSaloon();
+  cage.members.find((m) => m.id === 'db-l')!.wallMm = 0.049 * 25.4;
+  return cage;
 }
 
 test('a waived finding, an approval, and every screen, the mail and the PDF say "approved with 1 waiver"', async ({ browser }) => {
