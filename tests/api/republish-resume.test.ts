@@ -8,32 +8,14 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { demoPassword } from '../../backend/src/db/seed-data';
 import { demo, testDatabaseUrl, useTestDatabase } from './helpers';
 import { signedInClient, startServer, type ServerProcess } from './support/processes';
+import { demoSaloon } from '../fixtures/demo-saloon';
 
 const db = useTestDatabase();
 const servers: ServerProcess[] = [];
 const builders = 120;
 
-const hoop = (wallMm: number) => ({ odMm: 44.45, wallMm, material: 'mild_steel', process: 'dom', bends: [] });
-/** The demo saloon (1.750 in hoops; 1 in = 25.4 mm, F-UNIT-1) with hoop walls of `wallMm`. */
-function saloon(wallMm: number) {
-  const bar = { odMm: 38.1, wallMm: 2.413, material: 'mild_steel', process: 'dom', bends: [] };
-  return {
-    vehicle: { classId: 'club-saloon', weightWithDriverKg: 1200, chassis: 'unibody', cockpit: 'closed' },
-    members: [
-      { id: 'mh', kind: 'main_hoop', ...hoop(wallMm), lengthMm: 3350, continuousPiece: true },
-      { id: 'fh', kind: 'front_hoop', ...hoop(wallMm), lengthMm: 3900 },
-      { id: 'rb-l', kind: 'rear_brace', ...hoop(wallMm), lengthMm: 1150 },
-      { id: 'rb-r', kind: 'rear_brace', ...hoop(wallMm), lengthMm: 1150 },
-      { id: 'hb', kind: 'harness_bar', ...bar, lengthMm: 1180 },
-      { id: 'db-l', kind: 'door_bar', ...bar, lengthMm: 1020 },
-      { id: 'db-r', kind: 'door_bar', ...bar, lengthMm: 1020 },
-      { id: 'dg', kind: 'diagonal', ...bar },
-    ],
-    geometry: { rearBraceAttachBelowTopMm: 100, rearBraceAngleFromVerticalDeg: 38, helmetBelowHoopLineMm: 50, harnessBarBelowShouldersMm: 40 },
-    padding: { nearHelmet: true, standard: 'sfi_45_1' },
-    welding: { process: 'mig' },
-  };
-}
+/** The demo saloon with hoop walls of `wallMm` and 0.095 in bars (tests/fixtures/demo-saloon.ts). */
+const saloon = (wallMm: number) => demoSaloon(wallMm, 2.413);
 
 interface TubeReq {
   id: string;

@@ -51,29 +51,4 @@ export async function api<T>(page: Page, method: 'GET' | 'POST' | 'PUT' | 'PATCH
   return (res.status() === 204 ? undefined : await res.json()) as T;
 }
 
-/**
- * The demo club-saloon cage the journeys build on: 1,200 kg with driver (2,646 lb, the 2,201–3,000 lb
- * band) on 1.750 in hoops and 1.500 in bars, every wall `wallMm` (3.048 mm is 0.120 in, above any band's
- * minimum whichever edition a journey put in force; F-UNIT-1: 1 in = 25.4 mm), complete enough to pass
- * the demo rulebook. A journey that needs a variant changes the copy it gets.
- */
-export function demoSaloon(wallMm = 3.048) {
-  const hoop = { odMm: 44.45, wallMm, material: 'mild_steel', process: 'dom', bends: [] as { clrMm: number; minOdMm: number; maxOdMm: number }[] };
-  const bar = { odMm: 38.1, wallMm, material: 'mild_steel', process: 'dom', bends: [] as { clrMm: number; minOdMm: number; maxOdMm: number }[] };
-  return {
-    vehicle: { classId: 'club-saloon', weightWithDriverKg: 1200, chassis: 'unibody', cockpit: 'closed' },
-    members: [
-      { id: 'mh', kind: 'main_hoop', ...hoop, lengthMm: 3350, continuousPiece: true },
-      { id: 'fh', kind: 'front_hoop', ...hoop, lengthMm: 3900 },
-      { id: 'rb-l', kind: 'rear_brace', ...hoop, lengthMm: 1150 },
-      { id: 'rb-r', kind: 'rear_brace', ...hoop, lengthMm: 1150 },
-      { id: 'hb', kind: 'harness_bar', ...bar, lengthMm: 1180 },
-      { id: 'db-l', kind: 'door_bar', ...bar, lengthMm: 1020 },
-      { id: 'db-r', kind: 'door_bar', ...bar, lengthMm: 1020 },
-      { id: 'dg', kind: 'diagonal', ...bar },
-    ] as { id: string; kind: string; odMm: number; wallMm: number; material: string; process: string; bends: { clrMm: number; minOdMm: number; maxOdMm: number }[]; lengthMm?: number; continuousPiece?: boolean }[],
-    geometry: { rearBraceAttachBelowTopMm: 100, rearBraceAngleFromVerticalDeg: 38, helmetBelowHoopLineMm: 50, harnessBarBelowShouldersMm: 40 },
-    padding: { nearHelmet: true, standard: 'sfi_45_1' },
-    welding: { process: 'mig' },
-  };
-}
+export { demoSaloon } from '../fixtures/demo-saloon';
