@@ -145,6 +145,9 @@ export function cageViewParts(view: ProjectedView, options: CageSvgOptions): Cag
       ]
     : [];
   const tubes: PageTube[] = options.labels ? view.members.map((m) => ({ points: m.points, halfWidthMm: m.odMm * 0.58 })) : [];
+  // The car's centreline too, where the view draws it: a name across it is hard to read.
+  if (options.labels && view.view === 'top') tubes.push({ points: [{ u: f.minU, v: 0 }, { u: f.maxU, v: 0 }], halfWidthMm: fontMm * 0.1 });
+  if (options.labels && view.view === 'front') tubes.push({ points: [{ u: 0, v: f.minV }, { u: 0, v: f.maxV }], halfWidthMm: fontMm * 0.1 });
   for (const group of groups) {
     symbols += `<g${attrs({ 'data-member-id': group.ids[0], cursor: 'pointer' })}>${symbol(group.verdict, group.at, group.r)}</g>`;
     if (options.labels) {

@@ -75,4 +75,14 @@ describe('names on a labelled view', () => {
       }
     }
   });
+
+  it("the top view: no name lies across the car's centreline, though the hoop and harness bar share a symbol on it", () => {
+    const doc = new XmlDocument(cageViewSvg(projectView(SAMPLE_CAGE, 'top'), { members, units: 'metric', marks: [], labels: true }));
+    const names = texts(doc).filter((t) => [...members.values()].some((m) => t.val.includes(m.name)));
+    expect(names.map((t) => t.val).sort()).toEqual(['backstay left', 'backstay right', 'main hoop / harness bar']);
+    for (const t of names) {
+      const box = textBox({ u: Number(t.attr.x), v: -Number(t.attr.y) }, t.val, Number(t.attr['font-size']), (t.attr['text-anchor'] ?? 'start') as Anchor);
+      expect(box.minV > 0 || box.maxV < 0, `"${t.val}" spans v ${box.minV.toFixed(0)}…${box.maxV.toFixed(0)}`).toBe(true);
+    }
+  });
 });
