@@ -36,20 +36,13 @@ export function formatIsoDate(date: string): string {
 
 /**
  * The calendar date of an instant in an IANA time zone ("Europe/London"), YYYY-MM-DD: the club's
- * "today". Intl does the zone arithmetic (summer time included); an unknown zone throws RangeError.
+ * "today", and the one date every screen, mail and PDF gives for a record's expiry or a check's day.
+ * Intl does the zone arithmetic (summer time included); an unknown zone throws RangeError.
  */
 export function calendarDateIn(instant: Date, timeZone: string): string {
   const parts = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(instant);
   const part = (type: string) => parts.find((p) => p.type === type)?.value ?? '';
   return `${part('year')}-${part('month')}-${part('day')}`;
-}
-
-/**
- * The date a cage record (or any instant-based expiry) is valid until, as the club reads it: the
- * expiry instant's calendar date in the club's time zone. Every screen, mail and PDF says this one date.
- */
-export function expiryDateIn(expiresAt: Date, timeZone: string): string {
-  return calendarDateIn(expiresAt, timeZone);
 }
 
 /** The wall-clock time of an instant in an IANA time zone, "HH:MM" (24-hour). */

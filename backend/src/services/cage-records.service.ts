@@ -12,7 +12,7 @@ import {
 } from '../domain/review/cage-record';
 import { CODE_RANDOM_BYTES, newVerificationCode } from '../domain/review/verification-code';
 import { CageRecord, Car, Club, ClubRecordSettings, User, type ClubRole } from '../entities';
-import { expiryDateIn } from '../domain/dates';
+import { calendarDateIn } from '../domain/dates';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
 import type { AuditService } from './audit.service';
 import { allows } from '../domain/access-policy';
@@ -54,7 +54,7 @@ export function createCageRecordService(ds: DataSource, deps: ReviewMailDeps & {
       id: r.id, number: r.number, status, car: { id: car.id, name: car.name, raceNumber: car.raceNumber },
       classId: r.classId, className: r.className, rulebookTitle: r.rulebookTitle, edition: r.edition,
       steward: steward ? { id: steward.id, displayName: steward.displayName } : null,
-      issuedAt: r.issuedAt.toISOString(), expiresAt: r.expiresAt.toISOString(), expiresOn: expiryDateIn(r.expiresAt, club.timeZone), revokedAt: r.revokedAt?.toISOString() ?? null,
+      issuedAt: r.issuedAt.toISOString(), expiresAt: r.expiresAt.toISOString(), expiresOn: calendarDateIn(r.expiresAt, club.timeZone), revokedAt: r.revokedAt?.toISOString() ?? null,
       revokedReason: r.revokedReason, supersededAt: r.supersededAt?.toISOString() ?? null, verificationCode: r.verificationCode,
       verificationUrl: verificationUrl(deps.publicUrl, r.verificationCode), submissionId: r.submissionId,
       canRevoke: !r.revokedAt && allows('record.revoke', { actorId: viewer.userId, ownerId: car.ownerId, roles: viewer.roles }),

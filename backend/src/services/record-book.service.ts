@@ -19,7 +19,7 @@ import type { AuditService } from './audit.service';
 import type { MailService } from './mail';
 import { renderMail } from './mail';
 import { rolesOf } from './review-access';
-import { expiryDateIn, formatIsoDate } from '../domain/dates';
+import { calendarDateIn, formatIsoDate } from '../domain/dates';
 
 export type RecordBookService = ReturnType<typeof createRecordBookService>;
 
@@ -127,7 +127,7 @@ export function createRecordBookService(ds: DataSource, deps: { audit: AuditServ
         return {
           id: row.id, number: row.number, status: row.status, expiringSoon: expiresSoon(row.status, expiresAt, now), daysLeft: daysLeft(expiresAt, now),
           car: { id: row.car_id, name: row.car_name, make: row.make, model: row.model, raceNumber: row.race_number }, className: row.class_name,
-          issuedAt: new Date(row.issued_at).toISOString(), expiresAt: expiresAt.toISOString(), expiresOn: expiryDateIn(expiresAt, timeZone),
+          issuedAt: new Date(row.issued_at).toISOString(), expiresAt: expiresAt.toISOString(), expiresOn: calendarDateIn(expiresAt, timeZone),
           lastInspection: row.inspected_at ? { inspectedAt: new Date(row.inspected_at).toISOString(), sealNumber: row.seal_number ?? '' } : null,
         };
       });
@@ -203,7 +203,7 @@ export function createRecordBookService(ds: DataSource, deps: { audit: AuditServ
           const car = await tx.getRepository(Car).findOneByOrFail({ id: row.car_id });
           const builder = await tx.getRepository(User).findOneByOrFail({ id: car.ownerId });
           const club = await tx.getRepository(Club).findOneByOrFail({ id: row.club_id });
-          const expiresOn = formatIsoDate(expiryDateIn(new Date(row.expires_at), club.timeZone));
+          const expiresOn = formatIsoDate(calendarDateIn(new Date(row.expires_at), club.timeZone));
           const left = daysLeft(new Date(row.expires_at), now);
           await deps.mail.enqueue(
             {
@@ -224,7 +224,7 @@ export function createRecordBookService(ds: DataSource, deps: { audit: AuditServ
             { manager: tx, idempotencyKey: `cage_record.expiring:${row.id}` },
           );
           await deps.audit.record(
-            { clubId: club.id, actorId: null, action: 'cage_record.expiry_reminded', entity: { type: 'cage_record', id: row.id }, details: { number: row.number, carId: car.id, carName: car.name, expiresAt: new Date(row.expires_at).toISOString(), expiresOn: expiryDateIn(new Date(row.expires_at), club.timeZone) } },
+            { clubId: club.id, actorId: null, action: 'cage_record.expiry_reminded', entity: { type: 'cage_record', id: row.id }, details: { number: row.number, carId: car.id, carName: car.name, expiresAt: new Date(row.expires_at).toISOString(), expiresOn: calendarDateIn(new Date(row.expires_at), club.timeZone) } },
             { manager: tx },
           );
         }

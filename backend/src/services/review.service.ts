@@ -7,7 +7,7 @@ import { IsNull, type DataSource, type EntityManager } from 'typeorm';
 import type { ActionBody, AnnotationBody, MySubmissionWire, ResubmitBody, SubmitBody } from '../contracts/review';
 import { resubmit, submitForReview, applyReviewAction, FINAL_STATES, type AuditEvent, type ReviewAction } from '../domain/review/workflow';
 import { findingKey, overallWithWaivers } from '../domain/review/waivers';
-import { expiryDateIn, formatIsoDate } from '../domain/dates';
+import { calendarDateIn, formatIsoDate } from '../domain/dates';
 import { MEMBER_KIND_LABELS } from '../domain/vocabulary';
 import { BuildSheet, BuildSheetRevision, Car, CheckRun, Club, FindingAnnotation, Photo, StewardMailOptIn, Submission, SubmissionEvent, User } from '../entities';
 import { ConflictError, NotFoundError, ValidationError } from '../errors';
@@ -185,7 +185,7 @@ export function createReviewService(ds: DataSource, deps: ReviewDeps) {
           await mailDecision(deps, tx, {
             builder, steward: steward.displayName, clubId: club.id, clubName: club.name, carName: car.name, submissionId: row.id,
             decision: body.type as DecisionKind, note: next.decisionNote, waived,
-            ...(record ? { recordNumber: record.number, expiresOn: formatIsoDate(expiryDateIn(record.expiresAt, club.timeZone)) } : {}),
+            ...(record ? { recordNumber: record.number, expiresOn: formatIsoDate(calendarDateIn(record.expiresAt, club.timeZone)) } : {}),
           });
         }
       });

@@ -9,7 +9,7 @@
 import type { DataSource } from 'typeorm';
 import type { RulesetDocument } from '../contracts/ruleset';
 import type { CheckRunVerificationWire, RecordStatusWire, VerificationWire } from '../contracts/review';
-import { calendarDateIn, expiryDateIn } from '../domain/dates';
+import { calendarDateIn } from '../domain/dates';
 import { recordStatus } from '../domain/review/cage-record';
 import { codeForLookup } from '../domain/review/verification-code';
 
@@ -100,7 +100,7 @@ export function createVerificationService(ds: DataSource) {
           kind: 'cage_record',
           record: {
             recordNumber: row.number, clubName: row.club_name, carName: row.car_name, make: row.make, model: row.model, raceNumber: row.race_number,
-            className: row.class_name, rulebookTitle: row.rulebook_title, edition: row.edition, status, expiresAt, expiresOn: expiryDateIn(new Date(row.expires_at), row.time_zone),
+            className: row.class_name, rulebookTitle: row.rulebook_title, edition: row.edition, status, expiresAt, expiresOn: calendarDateIn(new Date(row.expires_at), row.time_zone),
             lastInspection: row.inspected_at ? { inspectedOn: calendarDateIn(new Date(row.inspected_at), row.time_zone), sealNumber: row.seal_number ?? '' } : null,
           },
         };

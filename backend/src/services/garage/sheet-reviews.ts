@@ -4,7 +4,7 @@
 import type { EntityManager } from 'typeorm';
 import type { SheetReviewWire } from '../../contracts/garage';
 import type { Finding } from '../../contracts/report';
-import { expiryDateIn } from '../../domain/dates';
+import { calendarDateIn } from '../../domain/dates';
 import { recordStatus } from '../../domain/review/cage-record';
 import { overallWithWaivers, type Waiver } from '../../domain/review/waivers';
 
@@ -80,7 +80,7 @@ export async function sheetReviews(em: EntityManager, sheetIds: readonly string[
               now,
             ),
             expiresAt: rec.expires_at.toISOString(),
-            expiresOn: expiryDateIn(rec.expires_at, rec.time_zone),
+            expiresOn: calendarDateIn(rec.expires_at, rec.time_zone),
             submissionId: rec.submission_id,
             waivedCount: waived(rec.findings ?? [], rec.waivers ?? []).waivedCount,
             revisionNumber: rec.revision_number,
